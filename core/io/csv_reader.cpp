@@ -308,7 +308,9 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
         std::string why = "no data rows after the header (expected at least one)";
         if (!report.skipped_lines.empty())
             why = "no data rows left after skipping " + std::to_string(report.skipped_lines.size()) + " ragged rows";
-        return err(why, body_first_line);
+        // The line where a first row was expected (after the header's own line end).
+        const bool header_closed = body_start > start && text[body_start - 1] == '\n';
+        return err(why, header_closed ? body_first_line : body_first_line + 1);
     }
 
     // Column types: categorical if any chunk found a non-number.
