@@ -300,7 +300,18 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
                 if (k >= flagged.size() || work.cancelled()) return;
                 auto& f = result.rate_findings[flagged[k]];
                 const std::uint64_t seed = fnv1a(f.label() + "\x1f" + f.focal, opt.seed * 0x9E3779B97F4A7C15ull + 1);
-                f.stability = class_stability(kept_strata[flagged[k]], f.cls, opt.alpha, opt.bootstrap, seed);
+                // Resample in a canonical stratum order (by label), so the draws do not depend on the
+                // order in which levels first appeared in the file.
+                const auto& st = kept_strata[flagged[k]];
+                std::vector<std::size_t> order(st.size());
+                for (std::size_t z = 0; z < order.size(); ++z) order[z] = z;
+                std::sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
+                    return f.strata_table[x].levels < f.strata_table[y].levels;
+                });
+                stats::Strata canonical;
+                canonical.reserve(st.size());
+                for (auto z : order) canonical.push_back(st[z]);
+                f.stability = class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed);
                 work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
             }
         };
