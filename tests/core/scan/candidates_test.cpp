@@ -7,6 +7,7 @@
 #include "tests/core/scan/synthetic_table.h"
 
 using namespace foldline;
+using foldline::testing::numbered;
 using foldline::testing::cat_column;
 
 TEST(Candidates, ReasonsForEveryLeftOutColumn) {
@@ -16,12 +17,12 @@ TEST(Candidates, ReasonsForEveryLeftOutColumn) {
     for (int i = 0; i < n; ++i) {
         g.push_back(i % 3 ? "A" : "B");
         y.push_back(i % 2 ? "1" : "0");
-        site.push_back(std::string("s") + std::to_string(i % 4));
+        site.push_back(numbered("s", i % 4));
         constant.push_back("same");
-        id.push_back(std::string("row") + std::to_string(i));
-        mostly_missing.push_back(i < 100 ? "" : std::string("x") + std::to_string(i % 2));
+        id.push_back(numbered("row", i));
+        mostly_missing.push_back(i < 100 ? "" : numbered("x", i % 2));
         copy.push_back(i % 3 ? "grp1" : "grp2");  // same partition as g
-        many.push_back(std::string("v") + std::to_string(i % 60));
+        many.push_back(numbered("v", i % 60));
         score.push_back(0.5 * i + 0.25);
         count.push_back(i % 5);
     }

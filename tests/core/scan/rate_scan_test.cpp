@@ -10,6 +10,7 @@
 #include "tests/core/scan/synthetic_table.h"
 
 using namespace foldline;
+using foldline::testing::numbered;
 
 namespace {
 
@@ -226,10 +227,10 @@ TEST(RateScan, SimulatedFalseReversalRateAndPower) {
             const bool z = u(rng) < (is_b ? 0.7 : 0.3);
             const double rate = z ? 0.6 : 0.2;  // no group effect within strata
             b.add_row({is_b ? "B" : "A", u(rng) < rate ? "1" : "0", z ? "z1" : "z0",
-                       std::string("a") + std::to_string(static_cast<int>(u(rng) * 2)),
-                       std::string("b") + std::to_string(static_cast<int>(u(rng) * 3)),
-                       std::string("c") + std::to_string(static_cast<int>(u(rng) * 4)),
-                       std::string("d") + std::to_string(static_cast<int>(u(rng) * 5))});
+                       numbered("a", static_cast<int>(u(rng) * 2)),
+                       numbered("b", static_cast<int>(u(rng) * 3)),
+                       numbered("c", static_cast<int>(u(rng) * 4)),
+                       numbered("d", static_cast<int>(u(rng) * 5))});
         }
         auto p = prepare(b.build());
         RateScanOptions o;
