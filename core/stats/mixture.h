@@ -7,7 +7,7 @@
 // back; log-likelihoods and BIC are reported on the original scale. A ridge of
 // `regularisation` (in standardised units) is added to every covariance diagonal. Inputs larger
 // than `max_points` are replaced by a seeded simple random sample of that size (default
-// 20,000), so the cost is bounded and the result deterministic for a seed.
+// 10,000), so the cost is bounded and the result deterministic for a seed.
 #include "core/common/error.h"
 #include "core/common/progress.h"
 
@@ -36,10 +36,10 @@ struct MixtureFit {
 struct MixtureOptions {
     int k_max = 6;
     int starts = 5;
-    int max_iterations = 500;
-    double tolerance = 1e-7;     ///< stop when mean log-likelihood per point improves less
+    int max_iterations = 300;
+    double tolerance = 1e-5;     ///< stop when the log-likelihood per point improves less
     double regularisation = 1e-6;
-    std::size_t max_points = 20000;
+    std::size_t max_points = 10000;
     std::uint64_t seed = 1;
 };
 
