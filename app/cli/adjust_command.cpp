@@ -1,4 +1,5 @@
 // foldline adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-]
+//                              [--dot FILE|-]
 // Prints the roles of the diagram's variables for the total effect of X on Y, whether the
 // pooled comparison is valid, all minimal adjustment sets, the smallest, and identifiability.
 #include <filesystem>
@@ -24,7 +25,7 @@ std::string braces(const std::vector<std::string>& set) {
 }
 
 bool write_atomically(const std::string& path, const std::string& text, std::string& why) {
-    const std::string tmp = path + ".tmp-adjust";
+    const std::string tmp = path + ".tmp-foldline";
     {
         std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
         if (!out) {
@@ -84,12 +85,21 @@ int run_adjust(int argc, char** argv) {
         {"outcome", true, "outcome column (overrides the file)"},
         {"stratify", true, "also give the verdict for a finding stratified by this column"},
         {"json", true, "write JSON to FILE, or to standard output with -"},
+        {"dot", true, "write the diagram as Graphviz DOT to FILE, or to standard output with -"},
     };
     Args args;
     if (auto err = Args::parse(argc, argv, 1, specs, args)) return fail(name, kUsage, *err);
+    if (args.get_or("json", "") == "-" && args.get_or("dot", "") == "-")
+        return fail(name, kUsage, "--json - and --dot - cannot both write to standard output");
     if (args.positional().size() != 1)
         return fail(name, kUsage, "expected one diagram file: foldline adjust DIAGRAM.json [--exposure X --outcome Y]");
     const std::string path = args.positional()[0];
+    for (const char* opt : {"json", "dot"}) {
+        std::error_code ec;
+        const std::string target = args.get_or(opt, "");
+        if (!target.empty() && target != "-" && std::filesystem::equivalent(target, path, ec))
+            return fail(name, kUsage, std::string("--") + opt + " would overwrite the diagram file " + path);
+    }
     auto diagram = read_diagram(path);
     if (!diagram) return fail(name, kInput, diagram.error().to_string());
     if (auto x = args.get("exposure")) diagram->exposure = *x;
@@ -112,6 +122,13 @@ int run_adjust(int argc, char** argv) {
         if (!v) return fail(name, kInput, path + ": " + v.error().message);
         verdict = std::move(*v);
     }
+    const std::string dot_target = args.get_or("dot", "");
+    if (dot_target == "-") {
+        std::cout << diagram_to_dot(*diagram);
+    } else if (!dot_target.empty()) {
+        std::string why;
+        if (!write_atomically(dot_target, diagram_to_dot(*diagram), why)) return fail(name, kInput, dot_target + ": " + why);
+    }
     const std::string json_target = args.get_or("json", "");
     if (!json_target.empty()) {
         nlohmann::json doc = report::to_json(*report);
@@ -125,13 +142,13 @@ int run_adjust(int argc, char** argv) {
         std::string why;
         if (!write_atomically(json_target, text, why)) return fail(name, kInput, json_target + ": " + why);
     }
-    print_text(std::cout, path, *cg, *report, verdict ? &*verdict : nullptr);
+    if (dot_target != "-") print_text(std::cout, path, *cg, *report, verdict ? &*verdict : nullptr);
     return kOk;
 }
 
 const CommandRegistration registration{Command{
     "adjust",
-    "adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-]",
+    "adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-] [--dot FILE|-]",
     "Roles, valid and minimal adjustment sets, and identifiability for the total effect in a causal diagram.",
     run_adjust,
 }};
