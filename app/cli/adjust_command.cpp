@@ -3,14 +3,13 @@
 // Prints the roles of the diagram's variables for the total effect of X on Y, whether the
 // pooled comparison is valid, all minimal adjustment sets, the smallest, and identifiability.
 #include <filesystem>
-#include <fstream>
 #include <iostream>
-#include <sstream>
 
 #include "app/cli/args.h"
 #include "app/cli/command.h"
 #include "core/causal/diagram_file.h"
 #include "core/causal/verdict.h"
+#include "core/common/atomic_file.h"
 #include "core/report/causal_json.h"
 
 namespace foldline::cli {
@@ -22,31 +21,6 @@ std::string braces(const std::vector<std::string>& set) {
     std::string out = "{";
     for (std::size_t i = 0; i < set.size(); ++i) out += (i ? ", " : "") + quote_name(set[i]);
     return out + "}";
-}
-
-bool write_atomically(const std::string& path, const std::string& text, std::string& why) {
-    const std::string tmp = path + ".tmp-foldline";
-    {
-        std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-        if (!out) {
-            why = "cannot create " + tmp;
-            return false;
-        }
-        out << text;
-        out.flush();
-        if (!out) {
-            why = "writing failed";
-            return false;
-        }
-    }
-    std::error_code ec;
-    std::filesystem::rename(tmp, path, ec);
-    if (ec) {
-        std::filesystem::remove(tmp, ec);
-        why = "cannot replace the file";
-        return false;
-    }
-    return true;
 }
 
 void print_text(std::ostream& os, const std::string& path, const CausalGraph& cg, const AdjustmentReport& r,
@@ -126,8 +100,8 @@ int run_adjust(int argc, char** argv) {
     if (dot_target == "-") {
         std::cout << diagram_to_dot(*diagram);
     } else if (!dot_target.empty()) {
-        std::string why;
-        if (!write_atomically(dot_target, diagram_to_dot(*diagram), why)) return fail(name, kInput, dot_target + ": " + why);
+        if (auto st = write_file_atomically(dot_target, diagram_to_dot(*diagram)); !st)
+            return fail(name, kInput, st.error().to_string());
     }
     const std::string json_target = args.get_or("json", "");
     if (!json_target.empty()) {
@@ -139,8 +113,7 @@ int run_adjust(int argc, char** argv) {
             std::cout << text;
             return kOk;
         }
-        std::string why;
-        if (!write_atomically(json_target, text, why)) return fail(name, kInput, json_target + ": " + why);
+        if (auto st = write_file_atomically(json_target, text); !st) return fail(name, kInput, st.error().to_string());
     }
     if (dot_target != "-") print_text(std::cout, path, *cg, *report, verdict ? &*verdict : nullptr);
     return kOk;

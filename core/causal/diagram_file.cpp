@@ -1,12 +1,11 @@
 #include "core/causal/diagram_file.h"
 
-#include <atomic>
-#include <chrono>
-#include <filesystem>
 #include <fstream>
 #include <sstream>
 
 #include <nlohmann/json.hpp>
+
+#include "core/common/atomic_file.h"
 
 namespace foldline::causal {
 
@@ -130,30 +129,7 @@ std::string diagram_to_json_text(const Diagram& d) {
 }
 
 Status write_diagram(const Diagram& d, const std::string& path) {
-    namespace fs = std::filesystem;
-    static std::atomic<unsigned> counter{0};
-    const auto stamp = std::chrono::steady_clock::now().time_since_epoch().count();
-    const std::string tmp = path + ".tmp-" + std::to_string(stamp) + "-" + std::to_string(counter++);
-    {
-        std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-        if (!out) return make_error("cannot create a temporary file next to the diagram file", path);
-        out << diagram_to_json_text(d);
-        out.flush();
-        if (!out) {
-            out.close();
-            std::error_code ec;
-            fs::remove(tmp, ec);
-            return make_error("writing the diagram failed (disk full?)", path);
-        }
-    }
-    std::error_code ec;
-    fs::rename(tmp, path, ec);
-    if (ec) {
-        std::error_code ignored;
-        fs::remove(tmp, ignored);
-        return make_error("cannot replace the diagram file: " + ec.message(), path);
-    }
-    return Ok{};
+    return write_file_atomically(path, diagram_to_json_text(d));
 }
 
 std::string dot_quoted(std::string_view s) {
