@@ -8,6 +8,11 @@
 // effects", the mediator-outcome confounder case) [from memory].
 #include "core/causal/verdict.h"
 
+#include <algorithm>
+#include <chrono>
+#include <cstdio>
+#include <random>
+
 #include <gtest/gtest.h>
 
 #include "core/causal/diagram_file.h"
@@ -160,4 +165,51 @@ TEST(Verdict, AdjustmentReportForTheSamples) {
     ASSERT_TRUE(lender.ok());
     EXPECT_TRUE(lender->empty_set_valid);
     EXPECT_EQ(lender->minimal_sets, (std::vector<std::vector<std::string>>{{}}));
+}
+
+TEST(Verdict, SixtyNodeVerdictIsInteractive) {
+    // Timing, not a reference value: the whole verdict (roles, all minimal sets, smallest set,
+    // identifiability, direct-effect sets) on a 60-node DAG with about two parents per node.
+    // Generous bound; the strict figure is printed.
+    std::mt19937 rng(61);
+    const int n = 60;
+    Graph g = fixtures::random_dag(rng, n, 4.0 / n);
+    Diagram d;
+    for (int v = 0; v < n; ++v) d.nodes.push_back({"column " + std::to_string(v), v % 9 != 4, {}, {}});
+    for (int v = 0; v < n; ++v)
+        for (int c : g.children(v)) d.edges.push_back({d.nodes[static_cast<std::size_t>(v)].name, d.nodes[static_cast<std::size_t>(c)].name});
+    auto cg = must_build(d);
+    // Exposure: the observed node with most ancestors among those with a mediated path to a
+    // descendant; outcome: that descendant. Stratifier: one of the mediators.
+    int x = -1, y = -1, m = -1;
+    std::size_t best = 0;
+    for (int a = 0; a < n; ++a) {
+        if (!cg.observed(a)) continue;
+        auto anc = ancestors(g, {a});
+        auto size = static_cast<std::size_t>(std::count(anc.begin(), anc.end(), 1));
+        for (int c : g.children(a))
+            for (int gc : g.children(c))
+                if (cg.observed(c) && cg.observed(gc) && size > best) {
+                    best = size;
+                    x = a;
+                    m = c;
+                    y = gc;
+                }
+    }
+    ASSERT_GE(x, 0);
+    std::vector<double> ms;
+    Verdict v;
+    for (int rep = 0; rep < 21; ++rep) {
+        auto t0 = std::chrono::steady_clock::now();
+        v = must_decide(cg, cg.name(x).c_str(), cg.name(y).c_str(), {cg.name(m)});
+        auto t1 = std::chrono::steady_clock::now();
+        ms.push_back(std::chrono::duration<double, std::milli>(t1 - t0).count());
+    }
+    std::sort(ms.begin(), ms.end());
+    std::printf("60-node verdict (%zu edges): answer %s, %zu minimal sets, %zu direct-effect sets; median %.3f ms, "
+                "max %.3f ms\n",
+                g.edge_count(), std::string(to_string(v.answer)).c_str(), v.valid_sets.size(),
+                v.direct_effect.extra_sets.size(), ms[ms.size() / 2], ms.back());
+    EXPECT_EQ(v.stratifier_roles[0].role, Role::Mediator);
+    EXPECT_LT(ms[ms.size() / 2], 500.0);
 }
