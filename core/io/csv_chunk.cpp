@@ -27,7 +27,8 @@ inline void encode_level(const ChunkPlan& plan, ChunkColumn& col, const CsvField
         ++col.missing;
         return;
     }
-    col.codes.push(col.dict.intern(v, !f.escaped));
+    if (!f.escaped && f.data + 16 <= plan.data + plan.size) col.codes.push(col.dict.intern_padded(v));
+    else col.codes.push(col.dict.intern(v, !f.escaped));
 }
 
 // Position of the first invalid UTF-8 byte of a level just added, or npos.

@@ -337,19 +337,23 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
         if (map) map->release(chunks[i].begin, chunks[i].end);
     });
 
+    // Assemble columns (independent of each other, so in parallel).
+    std::vector<Column> assembled(ncols);
+    run_tasks(ncols, threads, [&](std::size_t c) {
+        assembled[c] = categorical[c] ? assemble_categorical(names[c], chunks, c, rows)
+                                      : assemble_numeric(names[c], chunks, c, rows);
+    });
     Table table;
     table.source = name;
     table.rows = rows;
     table.columns.reserve(ncols);
     for (std::size_t c = 0; c < ncols; ++c) {
         if (c == count_index) {
-            Column w = assemble_numeric(names[c], chunks, c, rows);
-            table.weights = std::move(w.values);
+            table.weights = std::move(assembled[c].values);
             table.weight_column = names[c];
             continue;
         }
-        table.columns.push_back(categorical[c] ? assemble_categorical(names[c], chunks, c, rows)
-                                               : assemble_numeric(names[c], chunks, c, rows));
+        table.columns.push_back(std::move(assembled[c]));
     }
     progress.add(0, "done");
     if (report_out) *report_out = std::move(report);

@@ -6,6 +6,10 @@
 #include <cstring>
 #include <limits>
 
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
+
 namespace foldline {
 
 std::string_view unescape_field(const CsvField& f, std::string& scratch) {
@@ -45,18 +49,46 @@ inline std::uint64_t zero_bytes(std::uint64_t x) {
 
 }  // namespace
 
-const char* CsvTokenizer::find_stop(const char* p) const {
-    // Eight bytes at a time while a full word remains (little-endian: lowest byte first).
+std::uint64_t CsvTokenizer::stops_in_block(const char* p) const {
+#if defined(__SSE2__)
+    const __m128i d = _mm_set1_epi8(delim_);
+    const __m128i n = _mm_set1_epi8('\n');
+    const __m128i q = _mm_set1_epi8('"');
+    std::uint64_t bits = 0;
+    for (int k = 0; k < 4; ++k) {
+        const __m128i v = _mm_loadu_si128(reinterpret_cast<const __m128i*>(p + 16 * k));
+        const __m128i hit = _mm_or_si128(_mm_or_si128(_mm_cmpeq_epi8(v, d), _mm_cmpeq_epi8(v, n)), _mm_cmpeq_epi8(v, q));
+        bits |= static_cast<std::uint64_t>(static_cast<std::uint32_t>(_mm_movemask_epi8(hit)) & 0xFFFFu) << (16 * k);
+    }
+    return bits;
+#else
     constexpr std::uint64_t ones = 0x0101010101010101ull;
     const std::uint64_t kd = ones * static_cast<unsigned char>(delim_);
     const std::uint64_t kn = ones * static_cast<unsigned char>('\n');
     const std::uint64_t kq = ones * static_cast<unsigned char>('"');
-    while (end_ - p >= 8) {
+    std::uint64_t bits = 0;
+    for (int k = 0; k < 8; ++k) {
         std::uint64_t w;
-        std::memcpy(&w, p, 8);
-        const std::uint64_t m = zero_bytes(w ^ kd) | zero_bytes(w ^ kn) | zero_bytes(w ^ kq);
-        if (m) return p + (std::countr_zero(m) >> 3);
-        p += 8;
+        std::memcpy(&w, p + 8 * k, 8);
+        std::uint64_t m = zero_bytes(w ^ kd) | zero_bytes(w ^ kn) | zero_bytes(w ^ kq);
+        // gather the high bit of each byte into 8 bits (little-endian byte order)
+        m = ((m >> 7) * 0x0102040810204080ull) >> 56;
+        bits |= m << (8 * k);
+    }
+    return bits;
+#endif
+}
+
+const char* CsvTokenizer::find_stop(const char* p) {
+    for (;;) {
+        if (!block_ || p < block_ || p >= block_ + 64) {
+            if (end_ - p < 64) break;
+            block_ = p;
+            block_stops_ = stops_in_block(p);
+        }
+        const std::uint64_t m = block_stops_ >> (p - block_);
+        if (m) return p + std::countr_zero(m);
+        p = block_ + 64;
     }
     while (p < end_ && !stop_[static_cast<unsigned char>(*p)]) ++p;
     return p;

@@ -54,7 +54,8 @@ public:
     const TokenError& error() const { return error_; }
 
 private:
-    const char* find_stop(const char* p) const;  ///< first delimiter, '\n' or '"' at or after p, or end
+    const char* find_stop(const char* p);  ///< first delimiter, '\n' or '"' at or after p, or end
+    std::uint64_t stops_in_block(const char* p) const;  ///< bit i: p[i] is a stop byte (64 bytes)
     RecordStatus fail(std::size_t line, std::size_t column, std::string message);
 
     const char* p_;
@@ -66,6 +67,10 @@ private:
     std::size_t record_line_ = 0;
     TokenError error_;
     unsigned char stop_[256] = {};
+    // Stop bytes of the 64-byte block at block_ (a pure function of the bytes, so any position
+    // inside the block can reuse it).
+    const char* block_ = nullptr;
+    std::uint64_t block_stops_ = 0;
 };
 
 /// Printable name of a delimiter for messages: ",", ";", "tab", "|".

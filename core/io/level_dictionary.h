@@ -20,6 +20,10 @@ public:
     /// is copied on insertion; otherwise the caller keeps it alive as long as the dictionary.
     std::uint32_t intern(std::string_view text, bool stable = true);
 
+    /// Same as intern(text, true), for text followed by at least 16 readable bytes (the caller
+    /// guarantees it): the key is then read in two unconditional loads.
+    std::uint32_t intern_padded(std::string_view text);
+
     /// Number of levels; 0 for a new dictionary.
     std::size_t size() const { return levels_.size(); }
     /// Levels in order of first appearance.
@@ -27,11 +31,14 @@ public:
 
 private:
     struct Slot {
-        std::uint64_t a = 0, b = 0;  ///< the text's words (see key_words)
+        std::uint64_t a = 0, b = 0;  ///< the text's first 16 bytes, zero-padded
         std::uint32_t size = 0;
         std::uint32_t code1 = 0;  ///< code + 1; 0 = empty slot
+        std::uint64_t hash = 0;
     };
     void grow();
+    std::uint32_t find_or_add(std::string_view text, bool stable, std::uint64_t a, std::uint64_t b,
+                              std::uint64_t tail);
 
     std::vector<std::string_view> levels_;
     std::vector<Slot> slots_;
