@@ -117,8 +117,12 @@ void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work) {
         const RecordStatus st = tok.next(fields);
         if (st == RecordStatus::End) break;
         if (st == RecordStatus::Error) {
-            if (tok.error().unclosed_quote && chunk.end != plan.size) chunk.overran = true;
-            else chunk.failed = true;
+            if (tok.error().unclosed_quote && chunk.end != plan.size) {
+                chunk.overran = true;
+                chunk.overrun_from = static_cast<std::size_t>(tok.error().open_quote - plan.data);
+            } else {
+                chunk.failed = true;
+            }
             chunk.error = tok.error();
             return;
         }

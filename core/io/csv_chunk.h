@@ -70,6 +70,7 @@ struct Chunk {
     std::vector<std::size_t> skipped;  ///< 0-based lines, relative to the chunk start
     bool parsed = false;
     bool overran = false;  ///< a quoted field runs past `end`: the split was inside quotes
+    std::size_t overrun_from = 0;  ///< offset of that field's opening quote
     bool failed = false;
     TokenError error;  ///< line relative to the chunk start
 };

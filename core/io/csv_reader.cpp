@@ -91,6 +91,18 @@ std::vector<std::string> unique_names(std::vector<std::string> names, std::vecto
     return names;
 }
 
+// Offset just past the first newline outside quotes at or after `from` (which is outside
+// quotes); the end of text when there is none. Every '"' toggles quoting, as in RFC 4180.
+std::size_t next_record_start(std::string_view text, std::size_t from) {
+    bool in_quotes = false;
+    for (std::size_t i = from; i < text.size(); ++i) {
+        const char c = text[i];
+        if (c == '"') in_quotes = !in_quotes;
+        else if (c == '\n' && !in_quotes) return i + 1;
+    }
+    return text.size();
+}
+
 template <typename T>
 void release_vector(std::vector<T>& v) {
     std::vector<T>().swap(v);
@@ -283,8 +295,16 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     for (std::size_t i = 0; i < chunks.size(); ++i) {
         if (!chunks[i].parsed) parse_chunk(plan, chunks[i], work);  // skipped after an earlier failure
         while (chunks[i].overran) {
-            chunks[i].end = chunks[i + 1].end;
-            chunks.erase(chunks.begin() + static_cast<std::ptrdiff_t>(i) + 1);
+            // The record holding the open quote ends at the first newline outside quotes after
+            // it; the next chunk starts there instead (and is read again), so no cascade.
+            const std::size_t t = next_record_start(text, chunks[i].overrun_from);
+            chunks[i].end = t;
+            while (i + 1 < chunks.size() && chunks[i + 1].end <= t)
+                chunks.erase(chunks.begin() + static_cast<std::ptrdiff_t>(i) + 1);
+            if (i + 1 < chunks.size()) {
+                chunks[i + 1].begin = t;
+                chunks[i + 1].parsed = false;
+            }
             parse_chunk(plan, chunks[i], work);
             if (map) map->release(chunks[i].begin, chunks[i].end);
         }

@@ -127,13 +127,22 @@ RecordStatus CsvTokenizer::next(std::vector<CsvField>& fields) {
             const char* start = ++p_;
             bool escaped = false;
             const char* close = nullptr;
+            // Look for the closing quote no further than the field-size cap allows, so a
+            // hostile or broken file fails early instead of being scanned to its end.
+            const std::size_t room = static_cast<std::size_t>(end_ - start);
+            const char* window_end = room > max_field_ + 1 ? start + max_field_ + 1 : end_;
             while (!close) {
-                const void* q = std::memchr(p_, '"', static_cast<std::size_t>(end_ - p_));
-                const char* qq = q ? static_cast<const char*>(q) : end_;
+                const void* q = std::memchr(p_, '"', static_cast<std::size_t>(window_end - p_));
+                const char* qq = q ? static_cast<const char*>(q) : window_end;
                 line_ += static_cast<std::size_t>(std::count(p_, qq, '\n'));
+                if (!q && window_end != end_)
+                    return fail(open_line, column,
+                                "field longer than " + std::to_string(max_field_) +
+                                    " bytes (limit max_field_bytes)");
                 if (!q) {
                     fail(open_line, column, "quoted field opened here is never closed (expected a closing '\"')");
                     error_.unclosed_quote = true;
+                    error_.open_quote = start - 1;
                     return RecordStatus::Error;
                 }
                 if (qq + 1 < end_ && qq[1] == '"') {

@@ -34,7 +34,8 @@ struct TokenError {
     std::size_t line = 0;
     std::size_t column = 0;  ///< 1-based field number
     std::string message;
-    bool unclosed_quote = false;  ///< a quoted field ran to the end of the range
+    bool unclosed_quote = false;        ///< a quoted field ran to the end of the range
+    const char* open_quote = nullptr;   ///< where that field's opening quote is
 };
 
 class CsvTokenizer {

@@ -494,4 +494,76 @@ TEST(CsvReaderParallel, ErrorsAreTheSameWhateverTheChunking) {
     EXPECT_EQ(a.error().line, 1u + static_cast<std::size_t>(std::count(g.text.begin(), g.text.begin() + at, '\n')));
 }
 
+std::string outcome(const Result<Table>& t) {
+    std::string out;
+    if (!t.ok()) {
+        out = "error: ";
+        out += t.error().to_string();
+        return out;
+    }
+    out = std::to_string(t->rows);
+    out += " rows:";
+    for (const auto& c : t->columns) {
+        out += ' ';
+        out += c.name;
+        out += c.is_numeric() ? "/N" : "/C";
+        for (std::size_t i = 0; i < t->rows; ++i) {
+            out += '|';
+            out += cell(c, i);
+        }
+    }
+    return out;
+}
+
+TEST(CsvReaderParallel, FieldsSpanningManySplitsAreJoinedOnce) {
+    // Most newlines are inside quotes: nearly every split point falls inside a field.
+    std::string text = "id,story\n";
+    for (int i = 0; i < 400; ++i) {
+        text += std::to_string(i) + ",\"";
+        for (int k = 0; k < 30; ++k) text += "line " + std::to_string(k) + " of \"\"story\"\"\n";
+        text += "\"\n";
+    }
+    CsvOptions one;
+    one.threads = 1;
+    one.chunk_bytes = text.size() + 1;
+    CsvOptions many;
+    many.threads = 4;
+    many.chunk_bytes = 100;
+    auto a = read_csv_text(text, "s.csv", one);
+    auto b = read_csv_text(text, "s.csv", many);
+    ASSERT_TRUE(a.ok()) << a.error().to_string();
+    EXPECT_EQ(a->rows, 400u);
+    EXPECT_EQ(outcome(a), outcome(b));
+}
+
+TEST(CsvReaderParallel, DamagedInputsGiveTheSameOutcomeWhateverTheChunking) {
+    // Random byte damage (quotes, delimiters, newlines, invalid bytes, NULs) must never crash
+    // and must give the same table or the same error in one chunk as in many small ones.
+    const Generated g = generate(300);
+    std::mt19937_64 rng(7);
+    const char damage[] = {'"', ',', '\n', '\r', '\xFF', '\xC3', '\0', ';', 'x', '1', 'e'};
+    for (int round = 0; round < 300; ++round) {
+        std::string text = g.text;
+        const int edits = 1 + static_cast<int>(rng() % 4);
+        for (int e = 0; e < edits; ++e) {
+            const std::size_t at = rng() % text.size();
+            const char c = damage[rng() % sizeof damage];
+            switch (rng() % 3) {
+                case 0: text[at] = c; break;
+                case 1: text.insert(text.begin() + static_cast<std::ptrdiff_t>(at), c); break;
+                default: text.erase(at, 1 + rng() % 3); break;
+            }
+        }
+        CsvOptions one;
+        one.threads = 1;
+        one.chunk_bytes = text.size() + 1;
+        CsvOptions many;
+        many.threads = 3;
+        many.chunk_bytes = 64 + rng() % 512;
+        const std::string a = outcome(read_csv_text(text, "d.csv", one));
+        const std::string b = outcome(read_csv_text(text, "d.csv", many));
+        ASSERT_EQ(a, b) << "round " << round;
+    }
+}
+
 }  // namespace
