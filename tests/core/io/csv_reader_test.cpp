@@ -17,6 +17,8 @@
 #include <random>
 #include <sstream>
 
+#include <nlohmann/json.hpp>
+
 using namespace foldline;
 
 namespace {
@@ -563,6 +565,41 @@ TEST(CsvReaderParallel, DamagedInputsGiveTheSameOutcomeWhateverTheChunking) {
         const std::string a = outcome(read_csv_text(text, "d.csv", one));
         const std::string b = outcome(read_csv_text(text, "d.csv", many));
         ASSERT_EQ(a, b) << "round " << round;
+    }
+}
+
+// Cross-check with pandas.read_csv: tests/core/io/data/clinic_visits.golden.json holds pandas
+// 1.5's reading of the fixture (tests/reference/csv_reader_reference.py writes and re-checks it).
+TEST(CsvReaderReference, AgreesWithPandasOnTheClinicFixture) {
+    const std::string dir = std::string(FOLDLINE_TEST_DATA_DIR) + "/data/";
+    std::ifstream gf(dir + "clinic_visits.golden.json");
+    ASSERT_TRUE(gf) << "golden file missing";
+    const nlohmann::json golden = nlohmann::json::parse(gf);
+    for (unsigned threads : {1u, 2u}) {
+        CsvOptions o;
+        o.threads = threads;
+        o.chunk_bytes = threads == 1 ? 0 : 5000;
+        auto t = read_csv(dir + "clinic_visits.csv", o);
+        ASSERT_TRUE(t.ok()) << t.error().to_string();
+        ASSERT_EQ(t->rows, golden["rows"].get<std::size_t>());
+        ASSERT_EQ(t->columns.size(), golden["columns"].size());
+        for (std::size_t i = 0; i < t->columns.size(); ++i) {
+            const Column& c = t->columns[i];
+            const auto& g = golden["columns"][i];
+            SCOPED_TRACE(c.name);
+            EXPECT_EQ(c.name, g["name"].get<std::string>());
+            EXPECT_EQ(c.is_numeric() ? "numeric" : "categorical", g["type"].get<std::string>());
+            EXPECT_EQ(c.missing_count, g["missing"].get<std::size_t>());
+            EXPECT_EQ(c.distinct_count(), g["distinct"].get<std::size_t>());
+            if (c.is_categorical()) {
+                EXPECT_EQ(c.levels, g["levels"].get<std::vector<std::string>>());
+            } else {
+                double sum = 0;
+                for (double x : c.values)
+                    if (!std::isnan(x)) sum += x;
+                EXPECT_NEAR(sum, g["sum"].get<double>(), 1e-9 * std::max(1.0, std::abs(sum)));
+            }
+        }
     }
 }
 
