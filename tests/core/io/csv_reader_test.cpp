@@ -59,6 +59,9 @@ struct Case {
     }
 };
 
+// Keeps test names and failure messages readable (no byte dump of the case).
+void PrintTo(const Case& c, std::ostream* os) { *os << c.name; }
+
 Case ok(std::string name, std::string input, std::vector<std::string> header, std::string types,
         std::vector<std::vector<std::string>> rows) {
     Case c;
