@@ -293,7 +293,10 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     if (work.cancelled()) return err("cancelled");
     std::vector<std::size_t> first_line(1, body_first_line);
     for (std::size_t i = 0; i < chunks.size(); ++i) {
-        if (!chunks[i].parsed) parse_chunk(plan, chunks[i], work);  // skipped after an earlier failure
+        if (!chunks[i].parsed) {  // skipped after an earlier (guessed) failure, or moved
+            parse_chunk(plan, chunks[i], work);
+            if (map) map->release(chunks[i].begin, chunks[i].end);
+        }
         while (chunks[i].overran) {
             // The record holding the open quote ends at the first newline outside quotes after
             // it; the next chunk starts there instead (and is read again), so no cascade.
