@@ -83,7 +83,8 @@ struct Chunk {
 void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work);
 
 /// Re-reads the chunk's first `row_limit` rows and dictionary-encodes columns `cols` of them,
-/// replacing whatever those columns held. Used when a column turns out not to be numeric.
+/// replacing whatever those columns held (row_limit 0 leaves them empty). Used when a column
+/// turns out not to be numeric.
 void encode_as_categorical(const ChunkPlan& plan, Chunk& chunk, const std::vector<std::size_t>& cols,
                            std::size_t row_limit);
 

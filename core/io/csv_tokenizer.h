@@ -25,7 +25,7 @@ struct CsvField {
     std::string_view raw() const { return {data, size}; }
 };
 
-/// The field's text with doubled quotes collapsed, written into `scratch`.
+/// The field's text with doubled quotes collapsed, written into `scratch` (empty field → "").
 std::string_view unescape_field(const CsvField& f, std::string& scratch);
 
 /// The field's text: the raw view, or `scratch` filled with doubled quotes collapsed.
@@ -162,7 +162,7 @@ private:
     std::uint64_t block_stops_ = 0;
 };
 
-/// Printable name of a delimiter for messages: ",", ";", "tab", "|".
+/// Printable name of a delimiter for messages: "','", "';'", "tab", "'|'" (any other byte quoted).
 std::string delimiter_name(char delimiter);
 
 }  // namespace foldline

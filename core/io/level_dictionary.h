@@ -17,8 +17,9 @@ class LevelDictionary {
 public:
     LevelDictionary();
 
-    /// Code of `text`, adding it as level size() when unseen. When `stable` is false the text
-    /// is copied on insertion; otherwise the caller keeps it alive as long as the dictionary.
+    /// Code of `text`, adding it as level size() when unseen (empty text is a level like any
+    /// other). When `stable` is false the text is copied on insertion; otherwise the caller
+    /// keeps it alive as long as the dictionary.
     std::uint32_t intern(std::string_view text, bool stable = true);
 
     /// Same as intern(text, true), for text followed by at least 16 readable bytes (the caller
