@@ -163,7 +163,7 @@ SlopeFinding figures(const std::vector<BivariateMoments>& strata,
         grp.r = g.r;
         grp.informative = g.informative;
         grp.reason = g.reason;
-        grp.level = std::to_string(k);  // replaced by the caller's label
+        grp.code = k;  // the caller adds the labels
         f.groups.push_back(std::move(grp));
     }
     f.within = WithinSlope{wf.slope.slope, wf.slope.ci_low, wf.slope.ci_high, wf.slope.se,
@@ -215,7 +215,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
     int same = 0, draws = 0;
     for (int b = 0; b < q.bootstrap; ++b) {
         if (work.cancelled()) break;
-        std::vector<BivariateMoments> ms(strata);
+        StratumMoments acc(strata);
         std::vector<MomentMatrix> mm;
         if (d.p > 0) mm.assign(strata, MomentMatrix(dim));
         auto add_row = [&](std::size_t k, std::size_t i, double weight) {
@@ -225,7 +225,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 z[d.p + 1] = d.y[i];
                 mm[k].add(z.data(), weight);
             }
-            ms[k].add(d.x[i], d.y[i], weight);
+            acc.add(k, d.x[i], d.y[i], weight);
         };
         for (std::size_t k = 0; k < strata; ++k) {
             const std::size_t lo = offset[k], m = offset[k + 1] - lo;
@@ -250,6 +250,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 }
             }
         }
+        const std::vector<BivariateMoments> ms = acc.finish();
         BivariateMoments pooled = merge_all(ms);
         MomentMatrix pm;
         if (d.p > 0) {
@@ -319,7 +320,7 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
         return code < c->levels.size() ? c->levels[code] : kMissingLabel;
     };
     for (auto& g : f.groups) {
-        const std::size_t k = std::stoul(g.level);
+        const std::size_t k = g.code;
         g.levels.push_back(label(ca, k / kb));
         if (cb) g.levels.push_back(label(cb, k % kb));
         g.level = g.levels[0];
