@@ -151,7 +151,7 @@ DiagramPage::DiagramPage(QWidget* parent)
     refresh_verdict();
 }
 
-QString DiagramPage::message() const { return message_->isVisible() ? message_->text() : QString(); }
+QString DiagramPage::message() const { return message_->isHidden() ? QString() : message_->text(); }
 
 void DiagramPage::show_message(const QString& text) {
     message_->setText(text.isEmpty() ? QString() : QStringLiteral("⚠ ") + text);
