@@ -1,5 +1,6 @@
 #include "ui/caution_band.h"
 
+#include <QApplication>
 #include <QEvent>
 
 #include "ui/palette.h"
@@ -26,8 +27,9 @@ void CautionBand::changeEvent(QEvent* e) {
 }
 
 void CautionBand::restyle() {
+    // Tint the application's window colour (not our own, which already carries the tint).
     QPalette p = palette();
-    const QColor bg = colors::caution_background(p);
+    const QColor bg = colors::caution_background(QApplication::palette());
     if (p.color(QPalette::Window) != bg) {
         p.setColor(QPalette::Window, bg);
         setPalette(p);

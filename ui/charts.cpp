@@ -101,19 +101,16 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     const int n = int(f.rows.size());
     auto strata = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, colors::reference(), 7,
                                 QObject::tr("stratum (95% CI)"));
-    auto grey = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, colors::muted(pal), 7,
-                              QObject::tr("uninformative stratum"));
-    QVector<double> k, v, e_lo, e_hi, gk, gv;
+    QVector<double> k, v, e_lo, e_hi;
     double lo = 0, hi = 0;
     for (int i = 0; i < n; ++i) {
         const GroupRow& r = f.rows[std::size_t(i)];
         const double y = n + 2 - i;
-        ticker->addTick(y, r.level + QStringLiteral("  (n=%1)").arg(r.n_focal + r.n_reference, 0, 'f', 0));
         if (!r.informative || !std::isfinite(r.rd.value)) {
-            gk << y;
-            gv << 0;
+            ticker->addTick(y, r.level + QObject::tr("  (left out)"));
             continue;
         }
+        ticker->addTick(y, r.level + QStringLiteral("  (n=%1)").arg(r.n_focal + r.n_reference, 0, 'f', 0));
         k << y;
         v << r.rd.value;
         e_lo << (r.rd.has_ci() ? r.rd.value - r.rd.lo : 0);
@@ -123,8 +120,6 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     }
     strata->setData(k, v);
     error_bars(plot, strata, colors::reference())->setData(e_lo, e_hi);
-    if (gk.isEmpty()) plot->removeGraph(grey);
-    else grey->setData(gk, gv);
 
     auto add_summary = [&](double y, const Estimate& e, QCPScatterStyle::ScatterShape shape, const QColor& c,
                            const QString& name) {
@@ -236,7 +231,7 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
     zero->setPen(QPen(fg, 1));
     plot->xAxis->setTicker(ticker);
     plot->xAxis->setRange(0.4, 3.6);
-    const double pad = std::max(0.01, (hi - lo) * 0.15);
+    const double pad = std::max(0.01, (hi - lo) * 0.25);
     plot->yAxis->setRange(lo - pad, hi + pad);
     plot->yAxis->setLabel(f.effect_name);
     title(plot, QObject::tr("Where the pooled gap comes from"),

@@ -114,8 +114,8 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
         switch (index.column()) {
             case Class: return class_glyph(f->cls) + QStringLiteral("  ") + class_title(f->cls);
             case Strata: return f->strata_label() + (f->slope ? tr("  (slope)") : QString());
-            case Crude: return format_estimate(f->crude);
-            case Adjusted: return format_estimate(f->adjusted);
+            case Crude: return format_estimate({f->crude.value, kNaN, kNaN});
+            case Adjusted: return format_estimate({f->adjusted.value, kNaN, kNaN});
             case QValue: return std::isfinite(f->q_value) ? QString::number(f->q_value, 'g', 3) : QStringLiteral("—");
             case Stability:
                 return std::isfinite(f->stability) ? QStringLiteral("%1%").arg(100 * f->stability, 0, 'f', 0) : QStringLiteral("—");
@@ -125,8 +125,11 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
     if (role == Qt::ToolTipRole) {
         switch (index.column()) {
             case Class: return class_meaning(f->cls);
-            case Crude: return tr("Pooled %1 of focal minus reference, with its 95% confidence interval").arg(f->effect_name);
-            case Adjusted: return tr("%1 after stratifying, with its 95% confidence interval").arg(f->adjusted_name);
+            case Crude:
+                return tr("Pooled %1, %2 minus %3: %4 (95% confidence interval)")
+                    .arg(f->effect_name, f->focal, f->reference, format_estimate(f->crude));
+            case Adjusted:
+                return tr("%1 after stratifying: %2 (95% confidence interval)").arg(f->adjusted_name, format_estimate(f->adjusted));
             case Decided: return f->note;
         }
     }

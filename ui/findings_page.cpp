@@ -147,7 +147,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     connect(decision_, &QButtonGroup::idClicked, this, [this](int id) { decide(Decision(id)); });
     note_ = new QPlainTextEdit;
     note_->setPlaceholderText(tr("Reviewer's note on this finding…"));
-    note_->setMaximumHeight(64);
+    note_->setMaximumHeight(52);
     note_->setObjectName(QStringLiteral("finding_note"));
     connect(note_, &QPlainTextEdit::textChanged, this, [this] {
         if (showing_) return;
@@ -169,7 +169,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     sl->setContentsMargins(0, 0, 0, 0);
     sl->addWidget(new QLabel(tr("<b>Within each stratum</b>")));
     sl->addWidget(strata_);
-    auto* tables = new QSplitter(Qt::Horizontal);
+    auto* tables = tables_split_ = new QSplitter(Qt::Horizontal);
     tables->setObjectName(QStringLiteral("tables_splitter"));
     tables->addWidget(pooled_box);
     tables->addWidget(strata_box);
@@ -236,8 +236,10 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     split_->setObjectName(QStringLiteral("findings_splitter"));
     split_->addWidget(left);
     split_->addWidget(right);
-    split_->setStretchFactor(0, 2);
+    split_->setStretchFactor(0, 1);
     split_->setStretchFactor(1, 3);
+    split_->setSizes({380, 1000});
+    tables->setSizes({330, 600});
 
     auto* lay = new QVBoxLayout(this);
     lay->addWidget(new CautionBand);
@@ -317,6 +319,7 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
     put(pooled_, 4, 2, format_estimate(f.adjusted), false,
         tr("The gap after comparing like with like within strata, with its 95% interval"));
     pooled_->resizeColumnsToContents();
+    fit_pooled();
 
     strata_->clear();
     set_headers(strata_,
@@ -382,6 +385,19 @@ void FindingsPage::draw_charts(const FindingView& f) {
         mix_->replot();
         decomp_->replot();
         if (charts_->currentIndex() >= 3) charts_->setCurrentIndex(0);
+    }
+}
+
+void FindingsPage::fit_pooled() {
+    // The first time a finding is shown, give the pooled table the width it needs and the
+    // per-stratum table the rest; later the reviewer's own sizes (remembered) win.
+    if (fitted_) return;
+    int need = 2 * pooled_->frameWidth() + 4;
+    for (int c = 0; c < pooled_->columnCount(); ++c) need += pooled_->columnWidth(c);
+    const int total = tables_split_->width() > 100 ? tables_split_->width() : 900;
+    if (need < total * 2 / 3) {
+        tables_split_->setSizes({need, total - need});
+        fitted_ = true;
     }
 }
 

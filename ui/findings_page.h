@@ -59,6 +59,7 @@ private:
     void fill_rate_tables(const FindingView& f);
     void fill_slope_tables(const FindingView& f);
     void draw_charts(const FindingView& f);
+    void fit_pooled();
 
     FindingsModel* model_;
     FindingsFilter* filter_;
@@ -70,7 +71,8 @@ private:
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;
     QButtonGroup* decision_;
     QPlainTextEdit* note_;
-    QSplitter *split_, *detail_split_;
+    QSplitter *split_, *detail_split_, *tables_split_;
+    bool fitted_ = false;
     QWidget* detail_;
     bool showing_ = false;
 };
