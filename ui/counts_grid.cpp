@@ -1,5 +1,7 @@
 #include "ui/counts_grid.h"
 
+#include "core/table/typed_table.h"
+
 #include <QApplication>
 #include <QClipboard>
 #include <QFormLayout>
@@ -146,9 +148,7 @@ Result<Table> CountsGrid::to_table() const {
     if (focal_name() == reference_name())
         return make_error(tr("the focal and reference groups need different labels").toStdString(), source.toStdString());
 
-    std::vector<std::string> strata;
-    std::vector<std::uint32_t> s_codes, g_codes, o_codes;
-    std::vector<double> weights;
+    std::vector<TypedStratum> strata;
     for (int r = 0; r < grid_->rowCount(); ++r) {
         auto text = [&](int c) { return grid_->item(r, c) ? grid_->item(r, c)->text().trimmed() : QString(); };
         bool blank = true;
@@ -167,33 +167,21 @@ Result<Table> CountsGrid::to_table() const {
                               std::size_t(r + 1), std::size_t(kPosR + 1));
         QString label = text(kStratum);
         if (label.isEmpty()) label = tr("stratum %1").arg(r + 1);
-        const std::string l = label.toStdString();
-        if (std::find(strata.begin(), strata.end(), l) != strata.end())
-            return make_error(tr("stratum \"%1\" appears twice").arg(label).toStdString(), source.toStdString(),
-                              std::size_t(r + 1), std::size_t(kStratum + 1));
-        const auto s = std::uint32_t(strata.size());
-        strata.push_back(l);
-        // Four weighted rows per stratum: each group × (positive, negative).
-        const double cells[4][3] = {{0, 0, v[kPosF]}, {0, 1, v[kNF] - v[kPosF]},
-                                    {1, 0, v[kPosR]}, {1, 1, v[kNR] - v[kPosR]}};
-        for (const auto& cell : cells) {
-            if (cell[2] <= 0) continue;
-            s_codes.push_back(s);
-            g_codes.push_back(std::uint32_t(cell[0]));
-            o_codes.push_back(std::uint32_t(cell[1]));
-            weights.push_back(cell[2]);
-        }
+        for (const TypedStratum& s : strata)
+            if (s.level == label.toStdString())
+                return make_error(tr("stratum \"%1\" appears twice").arg(label).toStdString(), source.toStdString(),
+                                  std::size_t(r + 1), std::size_t(kStratum + 1));
+        strata.push_back({label.toStdString(), v[kPosF], v[kNF], v[kPosR], v[kNR]});
     }
     if (strata.empty()) return make_error(tr("the table has no strata yet").toStdString(), source.toStdString());
-    Table t;
-    t.columns.push_back(Column::categorical(stratum_name().toStdString(), strata, s_codes));
-    t.columns.push_back(Column::categorical(tr("group").toStdString(),
-                                            {focal_name().toStdString(), reference_name().toStdString()}, g_codes));
-    t.columns.push_back(Column::categorical(outcome_name().toStdString(), {"yes", "no"}, o_codes));
-    t.rows = weights.size();
-    t.weights = std::move(weights);
-    t.weight_column = "count";
-    t.source = source.toStdString();
+    auto t = table_from_counts(strata, stratum_name().toStdString(), tr("group").toStdString(),
+                               outcome_name().toStdString(), focal_name().toStdString(), reference_name().toStdString());
+    if (!t) {
+        Error e = t.error();
+        if (e.file.empty()) e.file = source.toStdString();
+        return e;
+    }
+    t->source = source.toStdString();
     return t;
 }
 

@@ -143,12 +143,21 @@ QHash<QString, QPointF> DiagramDoc::layout() const {
     }
     QHash<int, QStringList> by_layer;
     for (const auto& n : nodes_) by_layer[layer[n.name]] << n.name;
+    // Exposure and outcome sit on one line; every other node goes above or below it in turn,
+    // so arrows from a common cause to the outcome pass clear of the exposure.
     QHash<QString, QPointF> pos;
     for (auto it = by_layer.begin(); it != by_layer.end(); ++it) {
         QStringList names = it.value();
         std::sort(names.begin(), names.end());
-        for (int i = 0; i < names.size(); ++i)
-            pos[names[i]] = QPointF(it.key() * 200.0, (i - (names.size() - 1) / 2.0) * 120.0);
+        int k = 0;
+        for (const QString& name : names) {
+            double y = 0;
+            if (name != exposure_ && name != outcome_) {
+                y = (k % 2 == 0 ? -1.0 : 1.0) * (k / 2 + 1) * 120.0;
+                ++k;
+            }
+            pos[name] = QPointF(it.key() * 220.0, y);
+        }
     }
     return pos;
 }

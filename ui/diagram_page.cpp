@@ -168,7 +168,21 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
     show_message({});
     auto_layout();
     undo_->clear();
-    view_->fitInView(scene_->itemsBoundingRect().adjusted(-40, -40, 40, 40), Qt::KeepAspectRatio);
+    fit_view();
+}
+
+void DiagramPage::fit_view() {
+    // Natural size when the diagram fits; shrink (never enlarge) when it does not.
+    const QRectF r = scene_->itemsBoundingRect().adjusted(-40, -40, 40, 40);
+    view_->resetTransform();
+    const QSize vp = view_->viewport()->size();
+    if (r.width() > vp.width() || r.height() > vp.height()) view_->fitInView(r, Qt::KeepAspectRatio);
+    view_->centerOn(r.center());
+}
+
+void DiagramPage::showEvent(QShowEvent* e) {
+    QWidget::showEvent(e);
+    fit_view();
 }
 
 QPointF DiagramPage::free_spot() const {

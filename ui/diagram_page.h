@@ -45,6 +45,11 @@ public slots:
     void delete_selected();
     void auto_layout();
     void set_connect_mode(bool on);
+    /// Shows the whole diagram at natural size, shrinking only when it does not fit.
+    void fit_view();
+
+protected:
+    void showEvent(QShowEvent* e) override;
 
 signals:
     void verdict_changed(const foldline::ui::DiagramVerdict& v);

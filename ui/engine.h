@@ -54,9 +54,18 @@ QStringList check_question(const Table& t, const QuestionSpec& q);
 
 /// True when this build has the rate scan.
 bool scan_available();
-/// Runs the scan; each finding is handed to `on_finding` as soon as it is ready (from the
-/// calling thread). Returns the number of findings, or an Error. Honours work.stop.
-Result<int> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
-                     const std::function<void(FindingView)>& on_finding);
+
+/// A finished scan as the workbench shows it.
+struct ScanOutcome {
+    std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
+    QStringList excluded;               ///< "column: reason"
+    bool cancelled = false;
+};
+
+/// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
+/// the calling thread; class still decided on the raw p, before the FDR step and the
+/// bootstrap); the result holds the final, ranked findings. Honours work.stop (cancelled set).
+Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
+                             const std::function<void(FindingView)>& on_provisional);
 
 }  // namespace foldline::ui

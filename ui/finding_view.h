@@ -39,6 +39,11 @@ struct SlopeRow {
     double intercept = kNaN;
 };
 
+/// A further statistic of a finding, as the pooled table lists it.
+struct StatLine {
+    QString name, value, tip;
+};
+
 struct FindingView {
     int id = 0;                    ///< position in arrival order
     bool slope = false;            ///< false: rate finding; true: slope finding
@@ -51,6 +56,7 @@ struct FindingView {
     double p_value = kNaN, q_value = kNaN, stability = kNaN;
     double within = kNaN, composition = kNaN;  ///< decomposition of the crude gap
     GroupRow pooled;
+    std::vector<StatLine> more;    ///< MH figures, tests, E-value: shown under the pooled table
     std::vector<GroupRow> rows;    ///< per stratum (rates)
     // Slopes.
     std::vector<SlopeRow> slope_rows;

@@ -11,6 +11,7 @@
 #include <QMessageBox>
 #include <QPlainTextEdit>
 #include <QPushButton>
+#include <QScrollArea>
 #include <QSettings>
 #include <QSplitter>
 #include <QTabWidget>
@@ -190,7 +191,11 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     decomp_ = make_plot(QStringLiteral("chart_decomposition"), tr("The pooled gap split into a within-stratum part and a part due to different stratum mixes"));
     scatter_ = make_plot(QStringLiteral("chart_scatter"), tr("Points with the pooled line (dashed) and one line per stratum"));
     multiples_ = make_plot(QStringLiteral("chart_multiples"), tr("One small panel per stratum"));
-    charts_->addTab(forest_, tr("Gaps by stratum"));
+    forest_scroll_ = new QScrollArea;
+    forest_scroll_->setWidget(forest_);
+    forest_scroll_->setWidgetResizable(true);
+    forest_scroll_->setFrameShape(QFrame::NoFrame);
+    charts_->addTab(forest_scroll_, tr("Gaps by stratum"));
     charts_->addTab(mix_, tr("Stratum mix"));
     charts_->addTab(decomp_, tr("Decomposition"));
     charts_->addTab(scatter_, tr("Scatter"));
@@ -304,7 +309,7 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
     set_headers(pooled_, {tr("Group"), tr("Positives / total"), tr("Rate [95% CI]")},
                 {QString(), kTipCounts, kTipRate});
     const GroupRow& p = f.pooled;
-    pooled_->setRowCount(5);
+    pooled_->setRowCount(5 + int(f.more.size()));
     put(pooled_, 0, 0, f.focal + tr(" (focal)"));
     put(pooled_, 0, 1, count_text(p.pos_focal, p.n_focal), false, kTipCounts);
     put(pooled_, 0, 2, format_estimate(p.rate_focal), false, kTipRate);
@@ -317,7 +322,11 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
     put(pooled_, 3, 2, ratio_text(p.selection_ratio), false, kTipRatio);
     put(pooled_, 4, 0, f.adjusted_name.isEmpty() ? tr("Adjusted difference") : f.adjusted_name);
     put(pooled_, 4, 2, format_estimate(f.adjusted), false,
-        tr("The gap after comparing like with like within strata, with its 95% interval"));
+        tr("The gap after comparing like with like within strata (standard = the whole population's stratum mix), with its 95% interval"));
+    for (int i = 0; i < int(f.more.size()); ++i) {
+        put(pooled_, 5 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
+        put(pooled_, 5 + i, 2, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
+    }
     pooled_->resizeColumnsToContents();
     fit_pooled();
 
@@ -378,6 +387,8 @@ void FindingsPage::draw_charts(const FindingView& f) {
         multiples_->replot();
         if (charts_->currentIndex() < 3) charts_->setCurrentIndex(3);
     } else {
+        // One readable row per stratum: many strata make the chart tall and the tab scrolls.
+        forest_->setMinimumHeight(std::max(220, 110 + 17 * (int(f.rows.size()) + 3)));
         charts::draw_forest(forest_, f);
         charts::draw_mix(mix_, f);
         charts::draw_decomposition(decomp_, f);
@@ -401,7 +412,10 @@ void FindingsPage::fit_pooled() {
     }
 }
 
-QCustomPlot* FindingsPage::current_chart() const { return qobject_cast<QCustomPlot*>(charts_->currentWidget()); }
+QCustomPlot* FindingsPage::current_chart() const {
+    if (charts_->currentWidget() == forest_scroll_) return forest_;
+    return qobject_cast<QCustomPlot*>(charts_->currentWidget());
+}
 
 void FindingsPage::copy_table() {
     QTableWidget* t = pooled_->hasFocus() ? pooled_ : strata_;

@@ -10,6 +10,7 @@ class QCustomPlot;
 class QLabel;
 class QLineEdit;
 class QPlainTextEdit;
+class QScrollArea;
 class QSplitter;
 class QTabWidget;
 class QTableView;
@@ -69,6 +70,7 @@ private:
     QTableWidget *pooled_, *strata_;
     QTabWidget* charts_;
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;
+    QScrollArea* forest_scroll_;
     QButtonGroup* decision_;
     QPlainTextEdit* note_;
     QSplitter *split_, *detail_split_, *tables_split_;

@@ -62,8 +62,14 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
         flush();
         seconds_ = double(clock_.elapsed()) / 1000.0;
         cancel_->setEnabled(false);
-        const bool stopped = job_->cancelled();
         auto result = std::move(result_);
+        const bool stopped = job_->cancelled() || (result && result->ok() && (*result)->cancelled);
+        if (result && result->ok() && !stopped) {
+            // The final findings carry q-values, stabilities and the ranking: they replace
+            // the provisional ones shown while the scan ran.
+            model_->clear();
+            for (FindingView& f : (*result)->findings) model_->add(std::move(f));
+        }
         if (stopped) {
             status_->setText(tr("Stopped after %1 s; %2 finding(s) kept.").arg(seconds_, 0, 'f', 2).arg(model_->size()));
             progress_->setFormat(tr("stopped"));
@@ -77,7 +83,10 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
             progress_->setRange(0, 1);
             progress_->setValue(1);
             progress_->setFormat(tr("done"));
-            status_->setText(tr("Done in %1 s: %2 finding(s).").arg(seconds_, 0, 'f', 2).arg(model_->size()));
+            QString text = tr("Done in %1 s: %2 finding(s).").arg(seconds_, 0, 'f', 2).arg(model_->size());
+            if (!(*result)->excluded.isEmpty())
+                text += tr(" Left out: %1.").arg((*result)->excluded.join(QStringLiteral("; ")));
+            status_->setText(text);
             emit scan_finished(true, model_->size());
         }
     });
@@ -112,7 +121,7 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q) 
     status_->setText(tr("Scanning…"));
     cancel_->setEnabled(true);
     clock_.start();
-    result_ = std::make_shared<Result<int>>(make_error("not run"));
+    result_ = std::make_shared<Result<ScanOutcome>>(make_error("not run"));
     auto result = result_;
     auto table_ref = table_;
     flush_timer_->start();

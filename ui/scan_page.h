@@ -51,7 +51,7 @@ private:
     QTimer* flush_timer_;
     std::mutex mutex_;
     std::vector<FindingView> inbox_;
-    std::shared_ptr<Result<int>> result_;
+    std::shared_ptr<Result<ScanOutcome>> result_;
     std::shared_ptr<const Table> table_;
     QElapsedTimer clock_;
     double seconds_ = 0;

@@ -18,12 +18,13 @@ private slots:
         QVERIFY2(t.ok(), t.ok() ? "" : t.error().to_string().c_str());
         QCOMPARE(t->columns.size(), std::size_t(3));
         QCOMPARE(t->columns[0].levels, (std::vector<std::string>{"north", "south"}));
-        // Positive and negative cells per group; the zero cell (south focal positives) is dropped.
-        QCOMPARE(t->rows, std::size_t(7));
+        // Four weighted rows per stratum (positives and the rest, per group), zero cells kept.
+        QCOMPARE(t->rows, std::size_t(8));
         QCOMPARE(t->total_weight(), 200.0);
         double focal_pos = 0;
         for (std::size_t i = 0; i < t->rows; ++i)
-            if (t->columns[1].code(i) == 0 && t->columns[2].code(i) == 0) focal_pos += t->weight(i);
+            if (t->columns[1].levels[t->columns[1].code(i)] == "focal" && t->columns[2].levels[t->columns[2].code(i)] == "1")
+                focal_pos += t->weight(i);
         QCOMPARE(focal_pos, 30.0);
     }
 

@@ -59,7 +59,7 @@ private slots:
         QCOMPARE(w.step_bar()->state(MainWindow::Source), StepBar::State::Done);
         const QuestionSpec q = w.question_page()->spec();
         QCOMPARE(q.outcome, QStringLiteral("positive"));
-        QCOMPARE(q.positive, QStringLiteral("yes"));
+        QCOMPARE(q.positive, QStringLiteral("1"));
         QCOMPARE(q.exposure, QStringLiteral("group"));
         QCOMPARE(q.candidates, QStringList{"stratum"});
         // An invalid choice is explained inline.
@@ -106,7 +106,7 @@ private slots:
         QVERIFY(!w.source_page()->table());
     }
 
-    void the_whole_path_on_the_sample_data() {
+    void whole_path_on_the_lender_sample() {
         if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
         if (find_sample("lender_approvals.csv").isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
         MainWindow w;
