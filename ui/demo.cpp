@@ -6,6 +6,7 @@
 #include <QFileInfo>
 #include <QPixmap>
 #include <QTabWidget>
+#include <QTableView>
 #include <QThread>
 
 #include "ui/counts_grid.h"
@@ -83,7 +84,16 @@ QString prepare_demo(MainWindow& w, int timeout_ms) {
     QApplication::processEvents();
     if (w.findings_model()->size() == 0) return QObject::tr("the demo scan found nothing: %1").arg(w.scan_page()->status());
     w.go_to(MainWindow::Findings);
-    w.findings_page()->select_top();
+    // Open on the highest-ranked finding with a single stratifier: its story is the easiest to read.
+    FindingsPage* page = w.findings_page();
+    page->select_top();
+    for (int r = 0; r < page->list()->model()->rowCount(); ++r) {
+        const int row = page->filter()->mapToSource(page->list()->model()->index(r, 0)).row();
+        if (w.findings_model()->at(row)->strata.size() == 1) {
+            page->select(row);
+            break;
+        }
+    }
     return {};
 }
 

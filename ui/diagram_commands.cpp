@@ -11,7 +11,7 @@ void AddNodeCommand::redo() { doc_->add_node(node_); }
 void AddNodeCommand::undo() { doc_->remove_node(node_.name); }
 
 RemoveNodeCommand::RemoveNodeCommand(DiagramDoc* doc, const QString& name) : doc_(doc) {
-    if (const DiagramNode* n = doc->node(name)) node_ = *n;
+    if (auto n = doc->node(name)) node_ = *n;
     for (const auto& e : doc->edges())
         if (e.from == name || e.to == name) edges_.push_back(e);
     setText(QObject::tr("delete %1").arg(name));

@@ -10,6 +10,8 @@
 #include <optional>
 #include <vector>
 
+#include "core/causal/diagram.h"
+
 namespace foldline::ui {
 
 struct DiagramNode {
@@ -32,6 +34,7 @@ struct DiagramVerdict {
     QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
     QList<QStringList> valid_sets;///< minimal valid adjustment sets
     QString adjusted;             ///< adjusted estimate text, when the engine computed one
+    QString direct_effect;        ///< what the direct effect "not through the mediators" needs
     QString problem;              ///< why no verdict (invalid diagram), empty otherwise
 };
 
@@ -45,16 +48,19 @@ public:
     /// The finding's stratifiers the verdict is about.
     void set_strata(const QStringList& strata);
 
-    const std::vector<DiagramNode>& nodes() const { return nodes_; }
-    const std::vector<DiagramEdge>& edges() const { return edges_; }
-    const DiagramNode* node(const QString& name) const;
+    /// Nodes and arrows in diagram order (copies of the engine's diagram).
+    std::vector<DiagramNode> nodes() const;
+    std::vector<DiagramEdge> edges() const;
+    std::optional<DiagramNode> node(const QString& name) const;
+    /// The diagram as the engine holds it (for saving and export).
+    const causal::Diagram& diagram() const { return d_; }
     bool has_edge(const QString& from, const QString& to) const;
     QString exposure() const { return exposure_; }
     QString outcome() const { return outcome_; }
     QStringList strata() const { return strata_; }
 
-    /// Why the edit cannot be made (empty when it can): unknown node, self-loop, duplicate, or
-    /// a cycle (named as a path).
+    /// Why the edit cannot be made (empty when it can), in the engine's words: unknown node,
+    /// self-loop, duplicate, or a cycle (named by its nodes).
     QString check_edge(const QString& from, const QString& to) const;
     QString check_node(const QString& name) const;
 
@@ -75,9 +81,7 @@ signals:
     void node_moved(const QString& name, QPointF pos);
 
 private:
-    std::optional<QStringList> path_between(const QString& from, const QString& to) const;
-    std::vector<DiagramNode> nodes_;
-    std::vector<DiagramEdge> edges_;
+    causal::Diagram d_;
     QString exposure_, outcome_;
     QStringList strata_;
 };

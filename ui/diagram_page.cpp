@@ -32,7 +32,7 @@ public:
         setToolTip(tr("Shapes of the roles; dashed outlines are unobserved variables"));
     }
     static std::vector<QString> roles() {
-        return {"exposure", "outcome", "confounder", "mediator", "collider", "outcome_descendant", "unrelated"};
+        return {"exposure", "outcome", "confounder", "mediator", "collider", "outcome_descendant", "exposure_cause"};
     }
 
 protected:
@@ -242,7 +242,7 @@ void DiagramPage::delete_selected() {
         if (!nodes.contains(e.first) && !nodes.contains(e.second)) undo_->push(new RemoveEdgeCommand(doc_, e.first, e.second));
     for (const QString& n : nodes) {
         undo_->push(new RemoveNodeCommand(doc_, n));
-        if (doc_->node(n) == nullptr && n != doc_->exposure()) columns_->addItem(n);
+        if (!doc_->node(n) && n != doc_->exposure()) columns_->addItem(n);
     }
     undo_->endMacro();
     show_message({});
@@ -283,6 +283,8 @@ void DiagramPage::refresh_verdict() {
             if (!r.isEmpty()) html += QStringLiteral("<li>%1: %2</li>").arg(n.name.toHtmlEscaped(), role_title(r).toHtmlEscaped());
         }
         html += QStringLiteral("</ul>");
+        if (!verdict_.direct_effect.isEmpty())
+            html += tr("<p><b>Effect not through the mediators:</b> %1</p>").arg(verdict_.direct_effect.toHtmlEscaped());
     }
     verdict_label_->setText(html);
     scene_->set_roles(verdict_.roles);

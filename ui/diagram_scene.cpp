@@ -18,7 +18,7 @@ QColor role_colour(const QString& role) {
     if (role == QLatin1String("exposure")) return colors::okabe_ito(5);      // vermillion
     if (role == QLatin1String("outcome")) return colors::okabe_ito(4);       // blue
     if (role == QLatin1String("confounder")) return colors::okabe_ito(0);    // orange
-    if (role == QLatin1String("mediator")) return colors::okabe_ito(2);      // bluish green
+    if (role.startsWith(QLatin1String("mediator"))) return colors::okabe_ito(2);  // bluish green
     if (role.startsWith(QLatin1String("collider"))) return colors::okabe_ito(6);  // reddish purple
     if (role == QLatin1String("outcome_descendant")) return colors::okabe_ito(1);
     return colors::okabe_ito(7);
@@ -49,13 +49,20 @@ QPainterPath NodeItem::role_path(const QString& role, const QRectF& r) {
         p.lineTo(r.left() + c, r.bottom());
         p.lineTo(r.left(), r.center().y());
         p.closeSubpath();
-    } else if (role == QLatin1String("mediator")) {  // capsule: something passed along
+    } else if (role.startsWith(QLatin1String("mediator"))) {  // capsule: something passed along
         p.addRoundedRect(r, r.height() / 2, r.height() / 2);
     } else if (role.startsWith(QLatin1String("collider"))) {  // funnel: arrows collide into it
         p.moveTo(r.topLeft());
         p.lineTo(r.topRight());
         p.lineTo(r.right() - c, r.bottom());
         p.lineTo(r.left() + c, r.bottom());
+        p.closeSubpath();
+    } else if (role == QLatin1String("exposure_cause")) {  // pointer: it only pushes the exposure
+        p.moveTo(r.topLeft());
+        p.lineTo(r.right() - c, r.top());
+        p.lineTo(r.right(), r.center().y());
+        p.lineTo(r.right() - c, r.bottom());
+        p.lineTo(r.bottomLeft());
         p.closeSubpath();
     } else if (role == QLatin1String("exposure") || role == QLatin1String("outcome")) {
         p.addRoundedRect(r, 4, 4);

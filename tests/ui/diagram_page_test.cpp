@@ -29,13 +29,13 @@ private slots:
         page.seed("X", "Y", {"S"}, {});
         // S → Y exists (and S → X → Y), so Y → S would close a loop back to S.
         QVERIFY(!page.request_edge("Y", "S"));
-        QVERIFY(page.message().contains("cycle"));
-        QVERIFY(page.message().endsWith("Y → S. A causal diagram cannot loop back on itself."));
+        QVERIFY2(page.message().contains("cycle"), qPrintable(page.message()));
+        QVERIFY(page.message().contains("\"S\"") && page.message().contains("\"Y\""));
         QVERIFY(!page.doc()->has_edge("Y", "S"));
         QVERIFY(!page.request_edge("X", "X"));
-        QVERIFY(page.message().contains("itself"));
+        QVERIFY2(page.message().contains("itself"), qPrintable(page.message()));
         QVERIFY(!page.request_edge("X", "Y"));
-        QVERIFY(page.message().contains("already"));
+        QVERIFY2(page.message().contains("already drawn"), qPrintable(page.message()));
         QCOMPARE(page.undo_stack()->count(), 0);
     }
 

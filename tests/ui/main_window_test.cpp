@@ -10,6 +10,7 @@
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
 #include "ui/demo.h"
+#include "ui/diagram_commands.h"
 #include "ui/diagram_page.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
@@ -130,16 +131,27 @@ private slots:
         DiagramPage* d = w.diagram_page();
         if (!d->verdict().computed) QSKIP("this build has no causal engine");
         const QString before = d->verdict().answer;
+        const QString exposure = w.question_page()->spec().exposure;
         const QString stratum = f->strata.first();
-        // Turning the stratifier into a consequence of the exposure (a mediator) changes the answer.
-        QVERIFY(d->doc()->remove_edge(stratum, w.question_page()->spec().exposure) || true);
-        d->undo_stack()->clear();
-        QVERIFY(d->request_edge(w.question_page()->spec().exposure, stratum));
-        const QString after = d->verdict().answer;
-        QVERIFY2(after != before, qPrintable(before + " -> " + after));
+        // Seeded as a confounder (stratum → exposure, stratum → outcome). Reversing the first arrow
+        // makes the stratum a mediator (exposure → stratum → outcome), so the answer must change:
+        // the back-door criterion (Pearl 2009, Causality, sec. 3.3.1) admits a confounder and
+        // excludes a descendant of the exposure.
+        QCOMPARE(d->verdict().roles.value(stratum), QStringLiteral("confounder"));
+        QCOMPARE(before, QStringLiteral("stratified"));
+        d->undo_stack()->beginMacro("reverse");
+        d->undo_stack()->push(new RemoveEdgeCommand(d->doc(), stratum, exposure));
+        QVERIFY(d->request_edge(exposure, stratum));
+        d->undo_stack()->endMacro();
+        QCOMPARE(d->verdict().roles.value(stratum), QStringLiteral("mediator"));
+        QCOMPARE(d->verdict().answer, QStringLiteral("pooled"));
+        // Drawing the reverse arrow back closes a cycle and is refused.
+        QVERIFY(!d->request_edge(stratum, exposure));
+        QVERIFY(d->message().contains("cycle"));
         d->undo_stack()->undo();
-        QVERIFY(!d->doc()->has_edge(w.question_page()->spec().exposure, stratum));
-        QCOMPARE(d->verdict().answer, d->verdict().answer);
+        QVERIFY(!d->doc()->has_edge(exposure, stratum));
+        QVERIFY(d->doc()->has_edge(stratum, exposure));
+        QCOMPARE(d->verdict().answer, before);
     }
 };
 
