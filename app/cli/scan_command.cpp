@@ -1,0 +1,223 @@
+// foldline scan: the rate-reversal scan from the command line. Prints a ranked summary and
+// writes the JSON document (core/report/scan_json.h).
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <iostream>
+#include <sstream>
+#include <string>
+#include <thread>
+
+#include "app/cli/args.h"
+#include "app/cli/command.h"
+#include "core/common/atomic_file.h"
+#include "core/common/sha256.h"
+#include "core/io/csv_reader.h"
+#include "core/report/scan_json.h"
+#include "core/scan/candidates.h"
+#include "core/scan/question.h"
+#include "core/scan/rate_scan.h"
+
+namespace foldline::cli {
+namespace {
+
+const char* kName = "scan";
+
+std::vector<std::string> split_list(const std::string& s) {
+    std::vector<std::string> out;
+    std::stringstream ss(s);
+    std::string item;
+    while (std::getline(ss, item, ','))
+        if (!item.empty()) out.push_back(item);
+    return out;
+}
+
+bool parse_number(const std::string& s, double& out) {
+    char* end = nullptr;
+    out = std::strtod(s.c_str(), &end);
+    return end != s.c_str() && !*end && std::isfinite(out);
+}
+
+std::string fmt(double x, const char* f = "%.3f") {
+    if (!std::isfinite(x)) return "-";
+    char buf[64];
+    std::snprintf(buf, sizeof buf, f, x);
+    return buf;
+}
+
+std::string pct(double x) { return std::isfinite(x) ? fmt(100 * x, "%.1f%%") : "-"; }
+
+void print_summary(std::ostream& os, const ScanResult& r, const std::string& path, std::size_t top) {
+    const auto& q = r.question;
+    os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows\n";
+    os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
+    for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
+    os << " against " << q.reference << "\n";
+    os << "Stratifiers (" << r.candidates.size() << "):";
+    for (std::size_t i = 0; i < r.candidates.size(); ++i) os << (i ? ", " : " ") << r.candidates[i];
+    os << "\n";
+    if (!r.excluded.empty()) {
+        os << "Left out:";
+        for (std::size_t i = 0; i < r.excluded.size(); ++i)
+            os << (i ? ";" : "") << " " << r.excluded[i].column << " (" << r.excluded[i].reason << ")";
+        os << "\n";
+    }
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
+    os << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
+       << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable"
+       << " (FDR " << r.alpha << ")\n";
+    if (!r.rate_findings.empty()) {
+        const auto& f0 = r.rate_findings.front();
+        os << "Pooled rates: " << f0.focal << " " << pct(f0.crude.rate_focal) << ", " << f0.reference << " "
+           << pct(f0.crude.rate_reference) << " (on the rows of the first finding)\n";
+    }
+    os << "\n";
+    char line[512];
+    std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n", "class", "strata", "crude RD",
+                  "MH RD", "std RD", "MH OR (CI)", "q", "stab.");
+    os << line;
+    std::size_t shown = 0;
+    for (const auto& f : r.rate_findings) {
+        if (f.cls == FindingClass::Stable || shown >= top) continue;
+        ++shown;
+        std::string label = f.label();
+        if (q.focal.size() > 1) label += " [" + f.focal + "]";
+        if (label.size() > 40) label = label.substr(0, 37) + "...";
+        const auto& a = f.adjusted;
+        const std::string orci = fmt(a.mh_or.estimate, "%.2f") + " (" + fmt(a.mh_or.ci.lo, "%.2f") + "-" +
+                                 fmt(a.mh_or.ci.hi, "%.2f") + ")";
+        std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n",
+                      std::string(to_string(f.cls)).c_str(), label.c_str(), fmt(f.crude.rd, "%+.4f").c_str(),
+                      fmt(a.mh_rd.greenland_robins.estimate, "%+.4f").c_str(),
+                      fmt(a.standardized.rd, "%+.4f").c_str(), orci.c_str(), fmt(f.q_value, "%.2g").c_str(),
+                      fmt(f.stability, "%.2f").c_str());
+        os << line;
+    }
+    if (shown == 0) os << "(no comparison changes under stratification)\n";
+    const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
+    if (flagged > shown) os << "... " << flagged - shown << " more flagged (see the JSON)\n";
+    if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
+    os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
+          "counsel and licensed practice.\n";
+}
+
+int run(int argc, char** argv) {
+    const std::vector<OptionSpec> specs = {
+        {"outcome", true, "C[=LEVEL]"},      {"exposure", true, "C[=FOCAL[,REF]]"},
+        {"strata", true, "auto|C1,C2"},      {"pairs", false, ""},
+        {"bins", true, "N"},                 {"max-levels", true, "N"},
+        {"count-column", true, "C"},         {"alpha", true, "A"},
+        {"bootstrap", true, "B"},            {"seed", true, "S"},
+        {"json", true, "FILE|-"},            {"threads", true, "N"},
+        {"top", true, "N"},                  {"delimiter", true, "CHAR"},
+        {"timings", false, ""},              {"help", false, ""},
+    };
+    Args a;
+    if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
+    if (a.flag("help", false)) {
+        std::cout << "foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
+                     "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
+                     "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n";
+        return kOk;
+    }
+    if (a.positional().size() != 1) return fail(kName, kUsage, "expected one DATA file (CSV or TSV)");
+    const std::string path = a.positional()[0];
+    if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
+    if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
+
+    QuestionSpec spec;
+    parse_outcome_arg(*a.get("outcome"), spec);
+    parse_exposure_arg(*a.get("exposure"), spec);
+    CandidateOptions copt;
+    const std::string strata = a.get_or("strata", "auto");
+    if (strata != "auto") copt.columns = split_list(strata);
+    RateScanOptions sopt;
+    sopt.pairs = a.flag("pairs", true);
+    double v;
+    auto number = [&](const char* name, double lo, double hi, double& out) -> bool {
+        if (!a.has(name)) return true;
+        if (!parse_number(*a.get(name), v) || v < lo || v > hi) return false;
+        out = v;
+        return true;
+    };
+    double bins = copt.bins, max_levels = static_cast<double>(copt.max_levels), boot = sopt.bootstrap,
+           seed = static_cast<double>(sopt.seed), threads = 2, top = 20;
+    if (!number("bins", 0, 1000, bins)) return fail(kName, kUsage, "--bins needs a whole number 0..1000 (0 = off)");
+    if (!number("max-levels", 2, 100000, max_levels)) return fail(kName, kUsage, "--max-levels needs a number >= 2");
+    if (!number("alpha", 1e-12, 0.5, sopt.alpha)) return fail(kName, kUsage, "--alpha needs a number in (0, 0.5]");
+    if (!number("bootstrap", 0, 1e6, boot)) return fail(kName, kUsage, "--bootstrap needs a whole number >= 0");
+    if (!number("seed", 0, 9e15, seed)) return fail(kName, kUsage, "--seed needs a whole number >= 0");
+    if (!number("threads", 0, 256, threads)) return fail(kName, kUsage, "--threads needs a number 0..256");
+    if (!number("top", 0, 1e9, top)) return fail(kName, kUsage, "--top needs a number >= 0");
+    copt.bins = static_cast<int>(bins);
+    copt.max_levels = static_cast<std::size_t>(max_levels);
+    sopt.bootstrap = static_cast<int>(boot);
+    sopt.seed = static_cast<std::uint64_t>(seed);
+    sopt.threads = static_cast<unsigned>(threads);
+
+    using clock = std::chrono::steady_clock;
+    const auto t0 = clock::now();
+    // The file's digest goes in the JSON; compute it beside the parse.
+    Result<std::string> digest = std::string();
+    std::thread hasher([&] { digest = sha256_file(path); });
+    CsvOptions ropt;
+    ropt.count_column = a.get_or("count-column", "");
+    ropt.threads = sopt.threads;
+    if (a.has("delimiter")) {
+        const auto d = *a.get("delimiter");
+        ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
+    }
+    auto table = read_csv(path, ropt);
+    hasher.join();
+    if (!table) return fail(kName, kInput, table.error().to_string());
+    if (!digest) return fail(kName, kInput, digest.error().to_string());
+    const auto t1 = clock::now();
+
+    // Both outcome and exposure numeric with many values asks for slopes, not rates.
+    const Column* oc = table->column(spec.outcome);
+    const Column* ec = table->column(spec.exposure);
+    if (oc && ec && oc->is_numeric() && ec->is_numeric() && !spec.positive &&
+        ec->distinct_count() > copt.max_levels)
+        return fail(kName, kUsage, "outcome and exposure are both numeric: that is a slope question, which this "
+                                   "build's scan does not answer yet");
+
+    auto q = resolve_question(*table, spec);
+    if (!q) return fail(kName, kUsage, q.error().to_string());
+    auto cands = select_candidates(*table, {spec.outcome, spec.exposure}, copt, ec);
+    if (!cands) return fail(kName, kUsage, cands.error().to_string());
+    if (cands->candidates.empty()) return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
+    auto result = rate_scan(*table, *q, *cands, sopt);
+    if (!result) return fail(kName, kInternal, result.error().to_string());
+    const auto t2 = clock::now();
+
+    DataInfo info{path, *digest, static_cast<double>(table->rows)};
+    const std::string json_dest = a.get_or("json", "");
+    std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
+    if (!json_dest.empty()) {
+        const std::string text = scan_json_text(*result, info);
+        if (json_dest == "-") {
+            std::cout << text;
+        } else if (auto st = write_file_atomically(json_dest, text); !st) {
+            return fail(kName, kInput, st.error().to_string());
+        }
+    }
+    const auto t3 = clock::now();
+    print_summary(human, *result, path, static_cast<std::size_t>(top));
+    if (a.flag("timings", false)) {
+        auto s = [](auto d) { return std::chrono::duration<double>(d).count(); };
+        std::fprintf(stderr, "timing_s load=%.3f scan=%.3f json=%.3f total=%.3f\n", s(t1 - t0), s(t2 - t1),
+                     s(t3 - t2), s(clock::now() - t0));
+    }
+    return kOk;
+}
+
+const CommandRegistration reg{Command{
+    "scan",
+    "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
+    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-]",
+    "search every stratifier and pair for reversals of the outcome rate between groups",
+    run}};
+
+}  // namespace
+}  // namespace foldline::cli

@@ -1,0 +1,31 @@
+#pragma once
+// The scan's JSON document: Foldline's published interface (documented in the README,
+// "JSON output"). Numbers that are undefined (NaN, infinite) are written as null; counts that
+// are whole numbers are written as integers.
+#include <string>
+
+#include <nlohmann/json.hpp>
+
+#include "core/scan/scan_result.h"
+
+namespace foldline {
+
+/// Where the scanned rows came from.
+struct DataInfo {
+    std::string path;
+    std::string sha256;  ///< hex digest of the file's bytes; empty when not computed
+    double rows = 0;     ///< rows read (weighted rows for a pre-counted file are in findings)
+};
+
+inline constexpr int kScanJsonVersion = 1;
+
+/// The whole document. An empty result gives a document with empty lists.
+nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
+
+/// One finding as it appears in "findings".
+nlohmann::json rate_finding_to_json(const RateFinding& f);
+
+/// scan_to_json(...).dump(1): one key per line, compact enough to diff.
+std::string scan_json_text(const ScanResult& result, const DataInfo& data);
+
+}  // namespace foldline

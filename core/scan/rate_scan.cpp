@@ -1,0 +1,329 @@
+#include "core/scan/rate_scan.h"
+
+#include <algorithm>
+#include <atomic>
+#include <cmath>
+#include <limits>
+#include <mutex>
+#include <thread>
+
+#include "core/stats/bootstrap.h"
+#include "core/stats/distributions.h"
+#include "core/stats/fdr.h"
+
+namespace foldline {
+
+namespace {
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+double log_or(double x) {
+    if (std::isnan(x)) return kNaN;
+    if (x <= 0) return -INFINITY;
+    return std::log(x);
+}
+
+bool disagree(const stats::Strata& strata) {
+    bool pos = false, neg = false;
+    for (const auto& s : strata) {
+        if (!s.informative()) continue;
+        const double rd = s.a / s.n_focal() - s.c / s.n_reference();
+        pos |= rd > 0;
+        neg |= rd < 0;
+    }
+    return pos && neg;
+}
+
+// The class inputs alone, for bootstrap resamples (no intervals, no tables).
+ClassInputs quick_inputs(const stats::Strata& strata, bool need_homogeneity) {
+    ClassInputs in{};
+    const auto p = stats::pooled(strata);
+    in.crude_effect = stats::proportion(p.a, p.n_focal()) - stats::proportion(p.c, p.n_reference());
+    in.crude_z = stats::cmh_test(stats::Strata{p}).z;
+    const auto orr = stats::mh_odds_ratio(strata);
+    in.adjusted_effect = log_or(orr.estimate);
+    in.adjusted_z = stats::cmh_test(strata).z;
+    in.strata_disagree = disagree(strata);
+    in.p_homogeneity = need_homogeneity && in.strata_disagree ? stats::breslow_day(strata, orr.estimate).p_tarone : kNaN;
+    return in;
+}
+
+std::uint64_t fnv1a(const std::string& s, std::uint64_t h = 1469598103934665603ull) {
+    for (unsigned char ch : s) {
+        h ^= ch;
+        h *= 1099511628211ull;
+    }
+    return h;
+}
+
+std::string join_levels(const std::vector<std::string>& v) {
+    std::string s;
+    for (std::size_t i = 0; i < v.size(); ++i) s += (i ? " | " : "") + v[i];
+    return s;
+}
+
+}  // namespace
+
+std::string RateFinding::label() const {
+    std::string s;
+    for (std::size_t i = 0; i < strata.size(); ++i) s += (i ? " \u00d7 " : "") + strata[i];
+    return s;
+}
+
+RateFinding analyse_strata(const stats::Strata& strata, const std::vector<std::vector<std::string>>& labels,
+                           const std::vector<std::string>& names, double alpha) {
+    RateFinding f;
+    f.strata = names;
+    f.stability = kNaN;
+    const auto p = stats::pooled(strata);
+    f.rows_used = p.total();
+
+    const auto crude = stats::two_by_two(p, alpha);
+    auto& c = f.crude;
+    c.pos_focal = p.a;
+    c.n_focal = p.n_focal();
+    c.pos_reference = p.c;
+    c.n_reference = p.n_reference();
+    c.rate_focal = crude.rate_focal;
+    c.rate_reference = crude.rate_reference;
+    c.rate_focal_ci = crude.rate_focal_ci;
+    c.rate_reference_ci = crude.rate_reference_ci;
+    c.rd = crude.rd;
+    c.rd_ci = crude.rd_ci;
+    c.rr = crude.rr;
+    c.odds_ratio = crude.odds_ratio;
+    c.selection_ratio = crude.selection_ratio;
+    const double lo = std::min(c.rate_focal, c.rate_reference), hi = std::max(c.rate_focal, c.rate_reference);
+    c.below_four_fifths = hi > 0 && lo < 0.8 * hi;
+    c.z = crude.z;
+    c.p = stats::normal_two_sided_p(crude.z);
+
+    f.adjusted.mh_or = stats::mh_odds_ratio(strata, alpha);
+    f.adjusted.mh_rr = stats::mh_risk_ratio(strata, alpha);
+    f.adjusted.mh_rd = stats::mh_risk_difference(strata, alpha);
+    f.adjusted.standardized = stats::standardized_rd(strata, alpha);
+    f.cmh = stats::cmh_test(strata);
+    f.breslow_day = stats::breslow_day(strata, f.adjusted.mh_or.estimate);
+    f.decomposition = stats::decompose_crude_rd(strata);
+    f.e_value = stats::e_value(f.adjusted.mh_rr.estimate, f.adjusted.mh_rr.ci);
+
+    const double n1 = c.n_focal, n0 = c.n_reference, n = n1 + n0;
+    f.strata_table.reserve(strata.size());
+    for (std::size_t k = 0; k < strata.size(); ++k) {
+        const auto& s = strata[k];
+        StratumRow r;
+        if (k < labels.size()) {
+            r.levels = labels[k];
+            r.level = join_levels(labels[k]);
+        }
+        r.pos_focal = s.a;
+        r.n_focal = s.n_focal();
+        r.pos_reference = s.c;
+        r.n_reference = s.n_reference();
+        r.rate_focal = stats::proportion(s.a, r.n_focal);
+        r.rate_reference = stats::proportion(s.c, r.n_reference);
+        r.rate_focal_ci = stats::wilson(s.a, r.n_focal, alpha);
+        r.rate_reference_ci = stats::wilson(s.c, r.n_reference, alpha);
+        r.rd = r.rate_focal - r.rate_reference;
+        r.rd_ci = stats::newcombe_difference(s.a, r.n_focal, s.c, r.n_reference, alpha);
+        r.selection_ratio = r.rate_reference > 0 ? r.rate_focal / r.rate_reference : kNaN;
+        r.share = n > 0 ? s.total() / n : kNaN;
+        r.share_focal = n1 > 0 ? r.n_focal / n1 : kNaN;
+        r.share_reference = n0 > 0 ? r.n_reference / n0 : kNaN;
+        r.informative = s.informative();
+        if (!r.informative) {
+            r.reason = r.n_focal > 0 ? "no reference rows" : "no focal rows";
+            f.uninformative.push_back(r.level);
+        } else {
+            ++f.informative_strata;
+        }
+        f.strata_table.push_back(std::move(r));
+    }
+    f.strata_disagree = disagree(strata);
+
+    auto& in = f.class_inputs;
+    in.crude_effect = c.rd;
+    in.crude_z = c.z;
+    in.adjusted_effect = log_or(f.adjusted.mh_or.estimate);
+    in.adjusted_z = f.cmh.z;
+    in.strata_disagree = f.strata_disagree;
+    in.p_homogeneity = f.breslow_day.p_tarone;
+    f.p_reversal = reversal_p(in);
+    f.q_value = f.p_reversal;
+    f.direction_flip = direction_flips(in);
+    f.cls = classify(in, f.p_reversal, alpha);
+    const double mh_rd = f.adjusted.mh_rd.greenland_robins.estimate;
+    f.change = std::isnan(mh_rd) || std::isnan(c.rd) ? 0.0 : std::fabs(c.rd - mh_rd);
+    return f;
+}
+
+double class_stability(const stats::Strata& strata, FindingClass cls, double alpha, int draws, std::uint64_t seed) {
+    const bool need_h = cls != FindingClass::Reversal;
+    return stats::bootstrap_share(strata, draws, seed, [&](const stats::Strata& s) {
+        const auto in = quick_inputs(s, need_h);
+        return classify(in, reversal_p(in), alpha) == cls;
+    });
+}
+
+void apply_fdr(ScanResult& r) {
+    std::vector<double> p;
+    p.reserve(r.rate_findings.size());
+    for (const auto& f : r.rate_findings) p.push_back(f.p_reversal);
+    const auto q = stats::benjamini_hochberg(p);
+    for (std::size_t i = 0; i < q.size(); ++i) {
+        auto& f = r.rate_findings[i];
+        f.q_value = std::isnan(q[i]) ? 1.0 : q[i];
+        f.cls = classify(f.class_inputs, f.q_value, r.alpha);
+    }
+}
+
+void rank_findings(ScanResult& r) {
+    std::stable_sort(r.rate_findings.begin(), r.rate_findings.end(), [](const RateFinding& a, const RateFinding& b) {
+        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
+        if (a.q_value != b.q_value) return a.q_value < b.q_value;
+        if (a.change != b.change) return a.change > b.change;
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return a.label() < b.label();
+    });
+}
+
+Result<ScanResult> rate_scan(const Table& table, const Question& q, const CandidateSet& cands,
+                             const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding) {
+    if (q.outcome_column >= table.columns.size() || q.exposure_column >= table.columns.size() ||
+        table.columns[q.exposure_column].name != q.exposure)
+        return make_error("the question does not belong to this table");
+    for (const auto& c : cands.candidates)
+        if (!c.column || c.column->size() != table.rows)
+            return make_error("stratifier '" + c.name + "' does not belong to this table");
+
+    ScanResult result;
+    result.question = q;
+    result.excluded = cands.excluded;
+    result.rows = table.total_weight();
+    result.alpha = opt.alpha;
+    result.bootstrap = opt.bootstrap;
+    result.seed = opt.seed;
+    for (const auto& c : cands.candidates) {
+        result.candidates.push_back(c.name);
+        result.candidate_origin.push_back(c.origin);
+    }
+
+    const RowCells rows = encode_rows(table, q);
+    struct Task {
+        std::size_t i, j;  // j == npos for a single stratifier
+    };
+    constexpr std::size_t single = static_cast<std::size_t>(-1);
+    std::vector<Task> tasks;
+    const std::size_t nc = cands.candidates.size();
+    for (std::size_t i = 0; i < nc; ++i) tasks.push_back({i, single});
+    if (opt.pairs)
+        for (std::size_t i = 0; i < nc; ++i)
+            for (std::size_t j = i + 1; j < nc; ++j) tasks.push_back({i, j});
+
+    const std::size_t ncomp = q.comparisons();
+    std::vector<RateFinding> findings(tasks.size() * ncomp);
+    std::vector<stats::Strata> cube_strata(tasks.size() * ncomp);
+    std::vector<char> done(tasks.size(), 0);
+    std::atomic<std::size_t> next{0}, finished{0};
+    std::mutex emit;
+    const double total = static_cast<double>(tasks.size());
+    work.report(0, total, "counting strata");
+
+    auto worker = [&]() {
+        std::vector<std::size_t> kept;
+        for (;;) {
+            const std::size_t t = next.fetch_add(1);
+            if (t >= tasks.size() || work.cancelled()) return;
+            const auto& task = tasks[t];
+            const Column& a = *cands.candidates[task.i].column;
+            const bool pair = task.j != single;
+            const Column* b = pair ? cands.candidates[task.j].column : nullptr;
+            const CountCube cube = pair ? build_pair_cube(a, *b, rows, table.weights) : build_cube(a, rows, table.weights);
+            std::vector<std::string> names{cands.candidates[task.i].name};
+            if (pair) names.push_back(cands.candidates[task.j].name);
+            const std::size_t k2 = pair ? b->levels.size() : 1;
+            for (std::size_t comp = 0; comp < ncomp; ++comp) {
+                auto strata = comparison_strata(cube, comp + 1, &kept);
+                std::vector<std::vector<std::string>> labels;
+                labels.reserve(kept.size());
+                for (auto s : kept) {
+                    if (pair) labels.push_back({a.levels[s / k2], b->levels[s % k2]});
+                    else labels.push_back({a.levels[s]});
+                }
+                auto f = analyse_strata(strata, labels, names, opt.alpha);
+                f.comparison = comp;
+                f.focal = q.focal[comp];
+                f.reference = q.reference;
+                const std::size_t slot = t * ncomp + comp;
+                cube_strata[slot] = std::move(strata);
+                findings[slot] = std::move(f);
+                if (on_finding) {
+                    std::lock_guard<std::mutex> lock(emit);
+                    on_finding(findings[slot]);
+                }
+            }
+            done[t] = 1;
+            const auto n = finished.fetch_add(1) + 1;
+            work.report(static_cast<double>(n), total, "counting strata");
+        }
+    };
+    unsigned nthreads = opt.threads ? opt.threads : std::max(1u, std::thread::hardware_concurrency());
+    nthreads = static_cast<unsigned>(std::min<std::size_t>(nthreads, std::max<std::size_t>(1, tasks.size())));
+    {
+        std::vector<std::thread> pool;
+        for (unsigned k = 1; k < nthreads; ++k) pool.emplace_back(worker);
+        worker();
+        for (auto& th : pool) th.join();
+    }
+    result.cancelled = work.cancelled();
+
+    std::vector<stats::Strata> kept_strata;
+    for (std::size_t t = 0; t < tasks.size(); ++t) {
+        if (!done[t]) continue;
+        for (std::size_t comp = 0; comp < ncomp; ++comp) {
+            result.rate_findings.push_back(std::move(findings[t * ncomp + comp]));
+            kept_strata.push_back(std::move(cube_strata[t * ncomp + comp]));
+        }
+    }
+    apply_fdr(result);
+
+    // Stability of flagged findings: bootstrap the cube, in parallel, seeded per finding.
+    if (opt.bootstrap > 0 && !result.cancelled) {
+        std::vector<std::size_t> flagged;
+        for (std::size_t i = 0; i < result.rate_findings.size(); ++i)
+            if (result.rate_findings[i].cls != FindingClass::Stable) flagged.push_back(i);
+        std::atomic<std::size_t> nb{0}, nbd{0};
+        const double btotal = static_cast<double>(flagged.size());
+        auto boot = [&]() {
+            for (;;) {
+                const std::size_t k = nb.fetch_add(1);
+                if (k >= flagged.size() || work.cancelled()) return;
+                auto& f = result.rate_findings[flagged[k]];
+                const std::uint64_t seed = fnv1a(f.label() + "\x1f" + f.focal, opt.seed * 0x9E3779B97F4A7C15ull + 1);
+                // Resample in a canonical stratum order (by label), so the draws do not depend on the
+                // order in which levels first appeared in the file.
+                const auto& st = kept_strata[flagged[k]];
+                std::vector<std::size_t> order(st.size());
+                for (std::size_t z = 0; z < order.size(); ++z) order[z] = z;
+                std::sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
+                    return f.strata_table[x].levels < f.strata_table[y].levels;
+                });
+                stats::Strata canonical;
+                canonical.reserve(st.size());
+                for (auto z : order) canonical.push_back(st[z]);
+                f.stability = class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed);
+                work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
+            }
+        };
+        std::vector<std::thread> pool;
+        for (unsigned k = 1; k < std::min<std::size_t>(nthreads, std::max<std::size_t>(1, flagged.size())); ++k)
+            pool.emplace_back(boot);
+        boot();
+        for (auto& th : pool) th.join();
+        result.cancelled = work.cancelled();
+    }
+    rank_findings(result);
+    return result;
+}
+
+}  // namespace foldline

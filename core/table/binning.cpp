@@ -1,0 +1,146 @@
+#include "core/table/binning.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <numeric>
+#include <unordered_map>
+
+namespace foldline {
+
+std::string format_number(double x) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.6g", x);
+    return buf;
+}
+
+std::optional<Column> integer_levels(const Column& numeric, std::size_t max_levels) {
+    if (!numeric.is_numeric()) return std::nullopt;
+    const auto& v = numeric.values;
+    double lo = INFINITY, hi = -INFINITY;
+    bool any = false;
+    for (double x : v) {
+        if (std::isnan(x)) continue;
+        if (x != std::floor(x) || std::fabs(x) > 9e15) return std::nullopt;
+        lo = std::min(lo, x);
+        hi = std::max(hi, x);
+        any = true;
+    }
+    if (!any) return std::nullopt;
+    std::vector<double> distinct;
+    std::vector<std::uint32_t> codes(v.size());
+    if (hi - lo < 1 << 20) {
+        // Small range: direct table from value to code.
+        std::vector<std::uint32_t> slot(static_cast<std::size_t>(hi - lo) + 1, 0);
+        for (double x : v)
+            if (!std::isnan(x)) slot[static_cast<std::size_t>(x - lo)] = 1;
+        std::uint32_t next = 0;
+        for (std::size_t i = 0; i < slot.size(); ++i) {
+            if (!slot[i]) continue;
+            if (next >= max_levels) return std::nullopt;
+            distinct.push_back(lo + static_cast<double>(i));
+            slot[i] = next++;
+        }
+        const std::uint32_t miss = next;
+        for (std::size_t i = 0; i < v.size(); ++i)
+            codes[i] = std::isnan(v[i]) ? miss : slot[static_cast<std::size_t>(v[i] - lo)];
+    } else {
+        std::unordered_map<double, std::uint32_t> seen;
+        for (double x : v) {
+            if (std::isnan(x) || seen.count(x)) continue;
+            if (seen.size() >= max_levels) return std::nullopt;
+            seen.emplace(x, 0);
+            distinct.push_back(x);
+        }
+        std::sort(distinct.begin(), distinct.end());
+        for (std::uint32_t i = 0; i < distinct.size(); ++i) seen[distinct[i]] = i;
+        const auto miss = static_cast<std::uint32_t>(distinct.size());
+        for (std::size_t i = 0; i < v.size(); ++i) codes[i] = std::isnan(v[i]) ? miss : seen[v[i]];
+    }
+    std::vector<std::string> labels;
+    for (double x : distinct) labels.push_back(format_number(x == 0 ? 0.0 : x));
+    return Column::categorical(numeric.name, std::move(labels), codes);
+}
+
+std::optional<Column> quantile_bins(const Column& numeric, int bins, const std::vector<double>& weights) {
+    if (!numeric.is_numeric() || bins < 2) return std::nullopt;
+    const auto& v = numeric.values;
+    std::vector<double> cuts;  // interior cut points, strictly increasing
+    double lo = INFINITY, hi = -INFINITY;
+    if (weights.empty()) {
+        std::vector<double> s;
+        s.reserve(v.size());
+        for (double x : v)
+            if (!std::isnan(x)) s.push_back(x);
+        if (s.empty()) return Column::categorical(numeric.name, {}, std::vector<std::uint32_t>(v.size(), 0));
+        const auto [mn, mx] = std::minmax_element(s.begin(), s.end());
+        lo = *mn;
+        hi = *mx;
+        // Successive nth_element calls on the shrinking right part: O(n) per cut.
+        auto first = s.begin();
+        for (int j = 1; j < bins; ++j) {
+            const auto pos = static_cast<std::size_t>(
+                std::floor(static_cast<double>(j) * static_cast<double>(s.size()) / bins));
+            auto nth = s.begin() + static_cast<std::ptrdiff_t>(std::min(pos, s.size() - 1));
+            if (nth < first) nth = first;
+            std::nth_element(first, nth, s.end());
+            cuts.push_back(*nth);
+            first = nth;
+        }
+    } else {
+        std::vector<std::pair<double, double>> s;
+        double total = 0;
+        for (std::size_t i = 0; i < v.size(); ++i)
+            if (!std::isnan(v[i]) && weights[i] > 0) {
+                s.emplace_back(v[i], weights[i]);
+                total += weights[i];
+            }
+        if (s.empty()) return Column::categorical(numeric.name, {}, std::vector<std::uint32_t>(v.size(), 0));
+        std::sort(s.begin(), s.end());
+        lo = s.front().first;
+        hi = s.back().first;
+        double acc = 0;
+        int j = 1;
+        for (const auto& [x, w] : s) {
+            // The value at weighted position j * total / bins (0-based: first value whose
+            // cumulative weight exceeds that share).
+            while (j < bins && acc + w > total * j / bins) {
+                cuts.push_back(x);
+                ++j;
+            }
+            acc += w;
+        }
+    }
+    std::sort(cuts.begin(), cuts.end());
+    cuts.erase(std::unique(cuts.begin(), cuts.end()), cuts.end());
+    cuts.erase(std::remove_if(cuts.begin(), cuts.end(), [&](double c) { return c <= lo || c > hi; }),
+               cuts.end());
+    std::vector<double> edges{lo};
+    edges.insert(edges.end(), cuts.begin(), cuts.end());
+    edges.push_back(hi);
+    const std::size_t nb = edges.size() - 1;
+    std::vector<std::string> labels;
+    auto range = [](double a, double b, bool closed) {
+        std::string l(1, '[');
+        l.append(format_number(a)).append(", ").append(format_number(b)).push_back(closed ? ']' : ')');
+        return l;
+    };
+    if (lo == hi) {
+        labels.push_back(range(lo, hi, true));
+    } else {
+        for (std::size_t b = 0; b < nb; ++b) labels.push_back(range(edges[b], edges[b + 1], b + 1 == nb));
+    }
+    const auto miss = static_cast<std::uint32_t>(labels.size());
+    std::vector<std::uint32_t> codes(v.size());
+    for (std::size_t i = 0; i < v.size(); ++i) {
+        const double x = v[i];
+        if (std::isnan(x)) {
+            codes[i] = miss;
+            continue;
+        }
+        codes[i] = static_cast<std::uint32_t>(std::upper_bound(cuts.begin(), cuts.end(), x) - cuts.begin());
+    }
+    return Column::categorical(numeric.name, std::move(labels), codes);
+}
+
+}  // namespace foldline

@@ -1,0 +1,105 @@
+#include "core/common/atomic_file.h"
+
+#include <gtest/gtest.h>
+#include <sys/resource.h>
+#include <sys/stat.h>
+#include <sys/wait.h>
+#include <csignal>
+#include <unistd.h>
+
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+
+namespace fs = std::filesystem;
+using namespace foldline;
+
+namespace {
+std::string slurp(const fs::path& p) {
+    std::ifstream in(p);
+    std::stringstream s;
+    s << in.rdbuf();
+    return s.str();
+}
+struct TempDir {
+    fs::path path = fs::temp_directory_path() / ("foldline-atomic-" + std::to_string(::getpid()));
+    TempDir() { fs::create_directories(path); }
+    ~TempDir() {
+        std::error_code ec;
+        fs::permissions(path, fs::perms::owner_all, ec);
+        fs::remove_all(path, ec);
+    }
+};
+std::size_t entries(const fs::path& dir) {
+    return static_cast<std::size_t>(std::distance(fs::directory_iterator(dir), fs::directory_iterator()));
+}
+}  // namespace
+
+TEST(AtomicFile, WritesAndReplaces) {
+    TempDir d;
+    auto f = (d.path / "a.foldline").string();
+    ASSERT_TRUE(write_file_atomically(f, "one").ok());
+    ASSERT_TRUE(write_file_atomically(f, "two").ok());
+    EXPECT_EQ(slurp(f), "two");
+    EXPECT_EQ(entries(d.path), 1u);  // no temporary left behind
+}
+
+TEST(AtomicFile, FailureBeforeRenameLeavesPreviousFileIntact) {
+    TempDir d;
+    auto f = (d.path / "a.foldline").string();
+    ASSERT_TRUE(write_file_atomically(f, "previous").ok());
+    set_atomic_write_fault_for_testing(true);
+    auto st = write_file_atomically(f, "half-written replacement");
+    set_atomic_write_fault_for_testing(false);
+    ASSERT_FALSE(st.ok());
+    EXPECT_EQ(slurp(f), "previous");
+    EXPECT_EQ(entries(d.path), 1u);
+}
+
+TEST(AtomicFile, ReadOnlyFolderGivesClearErrorAndKeepsFile) {
+    if (::geteuid() == 0) GTEST_SKIP() << "root ignores folder permissions; covered by the missing-folder case";
+    TempDir d;
+    auto f = (d.path / "a.foldline").string();
+    ASSERT_TRUE(write_file_atomically(f, "previous").ok());
+    fs::permissions(d.path, fs::perms::owner_read | fs::perms::owner_exec);
+    auto st = write_file_atomically(f, "new");
+    ASSERT_FALSE(st.ok());
+    EXPECT_EQ(st.error().file, f);
+    EXPECT_EQ(slurp(f), "previous");
+}
+
+TEST(AtomicFile, ReadOnlyFilesystemGivesClearError) {
+    // /proc is mounted read-only for new files even for root.
+    auto st = write_file_atomically("/proc/foldline-test.foldline", "x");
+    ASSERT_FALSE(st.ok());
+    EXPECT_EQ(st.error().file, "/proc/foldline-test.foldline");
+    EXPECT_NE(st.error().message.find("cannot create a temporary file"), std::string::npos);
+}
+
+TEST(AtomicFile, MissingFolderNamesThePath) {
+    auto st = write_file_atomically("/nonexistent-folder/x.foldline", "x");
+    ASSERT_FALSE(st.ok());
+    EXPECT_EQ(st.error().file, "/nonexistent-folder/x.foldline");
+    EXPECT_NE(st.error().message.find("temporary"), std::string::npos);
+}
+
+// A full disk: RLIMIT_FSIZE makes write(2) fail part-way, as ENOSPC would.
+TEST(AtomicFile, FullDiskLeavesPreviousFileIntact) {
+    TempDir d;
+    auto f = (d.path / "a.foldline").string();
+    ASSERT_TRUE(write_file_atomically(f, "previous").ok());
+    pid_t pid = ::fork();
+    if (pid == 0) {
+        struct rlimit lim{1024, 1024};
+        ::signal(SIGXFSZ, SIG_IGN);
+        ::setrlimit(RLIMIT_FSIZE, &lim);
+        auto st = write_file_atomically(f, std::string(1 << 20, 'x'));
+        ::_exit(st.ok() ? 1 : 0);
+    }
+    int status = 0;
+    ::waitpid(pid, &status, 0);
+    ASSERT_TRUE(WIFEXITED(status));
+    EXPECT_EQ(WEXITSTATUS(status), 0) << "the oversized write should have failed";
+    EXPECT_EQ(slurp(f), "previous");
+    EXPECT_EQ(entries(d.path), 1u);
+}

@@ -1,0 +1,37 @@
+#include "core/scan/classify.h"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+using namespace foldline;
+
+// The rules of classify.h, each exercised on both sides of its threshold. Normal tail values
+// [from memory]: P(Z > 1.96) = 0.025, P(Z > 3) = 0.00135.
+TEST(Classify, IntersectionUnionReversal) {
+    ClassInputs in{-0.2, -5.0, std::log(1.3), 3.0, false, NAN};
+    EXPECT_NEAR(reversal_p(in), 0.0013499, 1e-6);  // larger of the two one-sided p-values
+    EXPECT_TRUE(direction_flips(in));
+    EXPECT_EQ(classify(in, reversal_p(in), 0.05), FindingClass::Reversal);
+    // The same figures with a q-value above alpha: both effects present, so stable.
+    EXPECT_EQ(classify(in, 0.2, 0.05), FindingClass::Stable);
+    in.adjusted_z = 1.0;  // adjusted not significant: no reversal
+    EXPECT_GT(reversal_p(in), 0.15);
+    EXPECT_EQ(classify(in, reversal_p(in), 0.05), FindingClass::Explained);
+    in.adjusted_z = -3.0;  // same side: the reversal p is near 1
+    in.adjusted_effect = -0.3;
+    EXPECT_GT(reversal_p(in), 0.99);
+    EXPECT_EQ(classify(in, reversal_p(in), 0.05), FindingClass::Stable);
+}
+
+TEST(Classify, MaskedHeterogeneousAndUndefined) {
+    ClassInputs masked{0.01, 0.5, 0.4, 4.0, false, NAN};
+    EXPECT_EQ(classify(masked, reversal_p(masked), 0.05), FindingClass::Masked);
+    ClassInputs het{0.1, 4.0, 0.3, 4.0, true, 0.001};
+    EXPECT_EQ(classify(het, reversal_p(het), 0.05), FindingClass::Heterogeneous);
+    het.p_homogeneity = 0.2;
+    EXPECT_EQ(classify(het, reversal_p(het), 0.05), FindingClass::Stable);
+    ClassInputs none{NAN, NAN, NAN, NAN, false, NAN};
+    EXPECT_DOUBLE_EQ(reversal_p(none), 1.0);
+    EXPECT_EQ(classify(none, 1.0, 0.05), FindingClass::Stable);
+}
