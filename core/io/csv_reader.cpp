@@ -270,7 +270,8 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     // Chunks: split after the first newline past each nominal boundary, parse all of them in
     // parallel, then check the guess in file order: a chunk that starts right after a record
     // and ends cleanly proves the next one starts right after a record too. When a quoted
-    // field spans a split (the chunk "overran"), the two chunks are joined and read again.
+    // field spans a split (the chunk "overran"), the split moves to the end of that field's
+    // record and both chunks are read again.
     const unsigned threads = opts.threads ? opts.threads : std::max(1u, std::thread::hardware_concurrency());
     const std::size_t body = text.size() - body_start;
     std::size_t target = opts.chunk_bytes;
