@@ -8,7 +8,7 @@ using namespace foldline::stats;
 
 TEST(Bootstrap, KeepsGroupTotalsAndIsDeterministic) {
     const Strata s{{30, 70, 20, 80}, {5, 15, 40, 10}};
-    std::mt19937_64 r1(42), r2(42);
+    Xoshiro256 r1(42), r2(42);
     const auto a = resample_strata(s, r1);
     const auto b = resample_strata(s, r2);
     double n1 = 0, n0 = 0;
@@ -27,7 +27,7 @@ TEST(Bootstrap, KeepsGroupTotalsAndIsDeterministic) {
 // draws is close to 30 (the binomial mean n p; sd of the mean about 0.46/sqrt(draws) * ...).
 TEST(Bootstrap, MultinomialMeanMatchesCounts) {
     const Strata s{{30, 70, 20, 80}, {5, 15, 40, 10}};
-    std::mt19937_64 rng(7);
+    Xoshiro256 rng(7);
     double sum = 0;
     const int draws = 4000;
     for (int i = 0; i < draws; ++i) sum += resample_strata(s, rng)[0].a;
@@ -37,4 +37,41 @@ TEST(Bootstrap, MultinomialMeanMatchesCounts) {
     const double share = bootstrap_share(s, 2000, 11, [](const Strata& t) { return t[0].a > 30; });
     EXPECT_GT(share, 0.35);
     EXPECT_LT(share, 0.55);
+}
+
+// Large cells take the normal-approximation path: the redrawn count still has the binomial
+// mean n p and variance n p (1 - p) (here n = 200000, p = 0.3: mean 60000, sd 204.9).
+TEST(Bootstrap, LargeCellsKeepBinomialMoments) {
+    const Strata s{{60000, 140000, 50, 50}};
+    Xoshiro256 rng(99);
+    const int draws = 3000;
+    double sum = 0, sum2 = 0;
+    for (int i = 0; i < draws; ++i) {
+        const double a = resample_strata(s, rng)[0].a;
+        sum += a;
+        sum2 += a * a;
+    }
+    const double mean = sum / draws, sd = std::sqrt(sum2 / draws - mean * mean);
+    EXPECT_NEAR(mean, 60000, 5 * 204.9 / std::sqrt(draws));
+    EXPECT_NEAR(sd, 204.9, 0.1 * 204.9);
+}
+
+// The generator: same seed, same stream; uniform mean 1/2 and normal mean 0, variance 1 (the
+// defining moments; tolerances are about 5 standard errors at 100000 draws).
+TEST(Bootstrap, GeneratorIsDeterministicAndUniform) {
+    Xoshiro256 a(123), b(123), c(124);
+    EXPECT_EQ(a(), b());
+    EXPECT_NE(a(), c());
+    double sum = 0;
+    Xoshiro256 u(5);
+    for (int i = 0; i < 100000; ++i) sum += u.uniform();
+    EXPECT_NEAR(sum / 100000, 0.5, 0.005);  // sd of the mean 0.0009
+    double s1 = 0, s2 = 0;
+    for (int i = 0; i < 100000; ++i) {
+        const double z = u.normal();
+        s1 += z;
+        s2 += z * z;
+    }
+    EXPECT_NEAR(s1 / 100000, 0.0, 0.02);
+    EXPECT_NEAR(s2 / 100000, 1.0, 0.02);
 }
