@@ -1,0 +1,130 @@
+// foldline adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-]
+//                              [--dot FILE|-]
+// Prints the roles of the diagram's variables for the total effect of X on Y, whether the
+// pooled comparison is valid, all minimal adjustment sets, the smallest, and identifiability.
+#include <filesystem>
+#include <iostream>
+
+#include "app/cli/args.h"
+#include "app/cli/command.h"
+#include "core/causal/diagram_file.h"
+#include "core/causal/verdict.h"
+#include "core/common/atomic_file.h"
+#include "core/report/causal_json.h"
+
+namespace foldline::cli {
+namespace {
+
+using namespace foldline::causal;
+
+std::string braces(const std::vector<std::string>& set) {
+    std::string out = "{";
+    for (std::size_t i = 0; i < set.size(); ++i) out += (i ? ", " : "") + quote_name(set[i]);
+    return out + "}";
+}
+
+void print_text(std::ostream& os, const std::string& path, const CausalGraph& cg, const AdjustmentReport& r,
+                const Verdict* v) {
+    os << "Diagram: " << path << " (" << cg.size() << " variables, " << cg.graph().edge_count() << " edges)\n";
+    os << "Question: total effect of " << quote_name(r.exposure) << " on " << quote_name(r.outcome) << "\n\n";
+    os << "Roles:\n";
+    std::size_t width = 0;
+    for (const auto& nr : r.roles) width = std::max(width, quote_name(nr.name).size() + (nr.observed ? 0 : 13));
+    for (const auto& nr : r.roles) {
+        std::string label = quote_name(nr.name) + (nr.observed ? "" : " (unobserved)");
+        os << "  " << label << std::string(width - label.size() + 2, ' ') << to_string(nr.role) << "\n";
+    }
+    if (r.roles.empty()) os << "  (no other variables)\n";
+    os << "\nPooled comparison (empty set) valid: " << (r.empty_set_valid ? "yes" : "no") << "\n";
+    os << "Minimal valid adjustment sets of observed columns:";
+    if (r.minimal_sets.empty()) os << " none";
+    os << "\n";
+    for (const auto& s : r.minimal_sets) os << "  " << braces(s) << "\n";
+    if (r.truncated) os << "  (listing stopped at the cap; more sets exist)\n";
+    os << "Smallest valid set: " << (r.smallest ? braces(*r.smallest) : std::string("none")) << "\n";
+    os << "Identifiable by adjustment: " << (r.identifiable ? "yes" : "no");
+    if (!r.unobserved_needed.empty()) os << " (would need the unobserved " << braces(r.unobserved_needed) << ")";
+    os << "\n\n" << r.summary << "\n";
+    if (v) {
+        os << "\nVerdict for stratifying by " << braces(v->stratifier) << ": " << to_string(v->answer) << "\n  "
+           << v->reason << "\n";
+        if (v->direct_effect.applies) os << "  " << v->direct_effect.reason << "\n";
+    }
+}
+
+int run_adjust(int argc, char** argv) {
+    const std::string name = "adjust";
+    const std::vector<OptionSpec> specs = {
+        {"exposure", true, "exposure column (overrides the file)"},
+        {"outcome", true, "outcome column (overrides the file)"},
+        {"stratify", true, "also give the verdict for a finding stratified by this column"},
+        {"json", true, "write JSON to FILE, or to standard output with -"},
+        {"dot", true, "write the diagram as Graphviz DOT to FILE, or to standard output with -"},
+    };
+    Args args;
+    if (auto err = Args::parse(argc, argv, 1, specs, args)) return fail(name, kUsage, *err);
+    if (args.get_or("json", "") == "-" && args.get_or("dot", "") == "-")
+        return fail(name, kUsage, "--json - and --dot - cannot both write to standard output");
+    if (args.positional().size() != 1)
+        return fail(name, kUsage, "expected one diagram file: foldline adjust DIAGRAM.json [--exposure X --outcome Y]");
+    const std::string path = args.positional()[0];
+    for (const char* opt : {"json", "dot"}) {
+        std::error_code ec;
+        const std::string target = args.get_or(opt, "");
+        if (!target.empty() && target != "-" && std::filesystem::equivalent(target, path, ec))
+            return fail(name, kUsage, std::string("--") + opt + " would overwrite the diagram file " + path);
+    }
+    auto diagram = read_diagram(path);
+    if (!diagram) return fail(name, kInput, diagram.error().to_string());
+    if (auto x = args.get("exposure")) diagram->exposure = *x;
+    if (auto y = args.get("outcome")) diagram->outcome = *y;
+    if (diagram->exposure.empty() || diagram->outcome.empty())
+        return fail(name, kUsage,
+                    path + ": the diagram sets no " + std::string(diagram->exposure.empty() ? "exposure" : "outcome") +
+                        "; give --exposure and --outcome");
+    auto cg = CausalGraph::build(*diagram, path);
+    if (!cg) return fail(name, kInput, cg.error().to_string());
+    auto report = analyse_adjustment(*cg, diagram->exposure, diagram->outcome);
+    if (!report) {
+        Error e = report.error();
+        if (e.file.empty()) e.file = path;
+        return fail(name, kInput, e.to_string());
+    }
+    std::optional<Verdict> verdict;
+    if (auto s = args.get("stratify")) {
+        auto v = decide(*cg, diagram->exposure, diagram->outcome, {*s});
+        if (!v) return fail(name, kInput, path + ": " + v.error().message);
+        verdict = std::move(*v);
+    }
+    const std::string dot_target = args.get_or("dot", "");
+    if (dot_target == "-") {
+        std::cout << diagram_to_dot(*diagram);
+    } else if (!dot_target.empty()) {
+        if (auto st = write_file_atomically(dot_target, diagram_to_dot(*diagram)); !st)
+            return fail(name, kInput, st.error().to_string());
+    }
+    const std::string json_target = args.get_or("json", "");
+    if (!json_target.empty()) {
+        nlohmann::json doc = report::to_json(*report);
+        doc["diagram"] = path;
+        if (verdict) doc["verdict"] = report::to_json(*verdict);
+        const std::string text = doc.dump(2) + "\n";
+        if (json_target == "-") {
+            std::cout << text;
+            return kOk;
+        }
+        if (auto st = write_file_atomically(json_target, text); !st) return fail(name, kInput, st.error().to_string());
+    }
+    if (dot_target != "-") print_text(std::cout, path, *cg, *report, verdict ? &*verdict : nullptr);
+    return kOk;
+}
+
+const CommandRegistration registration{Command{
+    "adjust",
+    "adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-] [--dot FILE|-]",
+    "Roles, valid and minimal adjustment sets, and identifiability for the total effect in a causal diagram.",
+    run_adjust,
+}};
+
+}  // namespace
+}  // namespace foldline::cli

@@ -1,0 +1,234 @@
+// foldline inspect DATA: reads a CSV/TSV file and describes every column (type, missing cells,
+// distinct values, first levels), as text or JSON. The first look at a new source.
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <iomanip>
+#include <iostream>
+#include <sstream>
+#include <string>
+#include <unistd.h>
+
+#include <nlohmann/json.hpp>
+
+#include "app/cli/args.h"
+#include "app/cli/command.h"
+#include "core/io/csv_reader.h"
+
+namespace foldline::cli {
+
+namespace {
+
+constexpr const char* kName = "inspect";
+constexpr std::size_t kShownLevels = 6;
+
+std::optional<char> parse_delimiter(const std::string& s) {
+    if (s == "tab" || s == "\\t" || s == "\t") return '\t';
+    if (s == "comma") return ',';
+    if (s == "semicolon") return ';';
+    if (s == "pipe") return '|';
+    if (s.size() == 1 && s[0] != '"' && s[0] != '\n' && s[0] != '\r') return s[0];
+    return std::nullopt;
+}
+
+std::vector<std::string> split_list(const std::string& s) {
+    std::vector<std::string> out;
+    std::string cur;
+    for (char c : s) {
+        if (c == ',') {
+            out.push_back(cur);
+            cur.clear();
+        } else {
+            cur.push_back(c);
+        }
+    }
+    out.push_back(cur);
+    return out;
+}
+
+std::string delimiter_label(char d) {
+    switch (d) {
+        case '\t': return "tab";
+        case ',': return "comma";
+        case ';': return "semicolon";
+        case '|': return "pipe";
+        default: return std::string(1, d);
+    }
+}
+
+std::string number_text(double x) {
+    std::ostringstream os;
+    os << std::setprecision(10) << x;
+    return os.str();
+}
+
+struct Range {
+    double lo = NAN, hi = NAN;
+};
+
+Range numeric_range(const Column& c) {
+    Range r;
+    for (double x : c.values) {
+        if (std::isnan(x)) continue;
+        if (std::isnan(r.lo) || x < r.lo) r.lo = x;
+        if (std::isnan(r.hi) || x > r.hi) r.hi = x;
+    }
+    return r;
+}
+
+nlohmann::json describe_json(const Table& t, const CsvReport& rep) {
+    nlohmann::json j;
+    j["source"] = t.source;
+    j["rows"] = t.rows;
+    j["delimiter"] = std::string(1, rep.delimiter);
+    j["byte_order_mark"] = rep.had_bom;
+    j["physical_lines"] = rep.physical_lines;
+    j["weighted"] = t.weighted();
+    if (t.weighted()) {
+        j["count_column"] = t.weight_column;
+        j["total_weight"] = t.total_weight();
+    }
+    j["skipped_lines"] = rep.skipped_lines;
+    j["warnings"] = rep.warnings;
+    auto cols = nlohmann::json::array();
+    for (const auto& c : t.columns) {
+        nlohmann::json jc;
+        jc["name"] = c.name;
+        jc["type"] = c.is_numeric() ? "numeric" : "categorical";
+        jc["missing"] = c.missing_count;
+        const std::size_t distinct = c.distinct_count();
+        jc["distinct"] = distinct;
+        jc["binary"] = distinct == 2;
+        if (c.is_categorical()) {
+            jc["levels"] = c.levels;
+        } else {
+            const Range r = numeric_range(c);
+            jc["min"] = std::isnan(r.lo) ? nlohmann::json() : nlohmann::json(r.lo);
+            jc["max"] = std::isnan(r.hi) ? nlohmann::json() : nlohmann::json(r.hi);
+        }
+        cols.push_back(std::move(jc));
+    }
+    j["columns"] = std::move(cols);
+    return j;
+}
+
+void describe_text(std::ostream& os, const Table& t, const CsvReport& rep) {
+    os << t.source << ": " << t.rows << " rows, " << t.columns.size() << " columns, "
+       << delimiter_label(rep.delimiter) << "-separated" << (rep.had_bom ? ", UTF-8 with byte-order mark" : "")
+       << "\n";
+    if (t.weighted())
+        os << "pre-counted: each row counts as '" << t.weight_column << "' rows (total " << number_text(t.total_weight())
+           << ")\n";
+    std::size_t width = 6;
+    for (const auto& c : t.columns) width = std::max(width, c.name.size());
+    width = std::min<std::size_t>(width, 32);
+    os << "\n  " << std::left << std::setw(static_cast<int>(width)) << "column" << "  " << std::setw(11) << "type"
+       << std::right << std::setw(9) << "missing" << std::setw(10) << "distinct" << "  values\n";
+    for (const auto& c : t.columns) {
+        const std::size_t distinct = c.distinct_count();
+        std::string values;
+        if (c.is_categorical()) {
+            for (std::size_t i = 0; i < c.levels.size() && i < kShownLevels; ++i)
+                values += (i ? ", " : "") + c.levels[i];
+            if (c.levels.size() > kShownLevels) values += ", ... (+" + std::to_string(c.levels.size() - kShownLevels) + ")";
+        } else {
+            const Range r = numeric_range(c);
+            values = std::isnan(r.lo) ? "(all missing)" : number_text(r.lo) + " to " + number_text(r.hi);
+        }
+        if (distinct == 2) values += "  [binary]";
+        os << "  " << std::left << std::setw(static_cast<int>(width)) << c.name << "  " << std::setw(11)
+           << (c.is_numeric() ? "numeric" : "categorical") << std::right << std::setw(9) << c.missing_count
+           << std::setw(10) << distinct << "  " << values << "\n";
+    }
+}
+
+// Writes text to path through a temporary file and a rename, so a reader never sees half a file.
+bool save_atomically(const std::string& path, const std::string& text, std::string& why) {
+    const std::string tmp = path + ".tmp." + std::to_string(::getpid());
+    {
+        std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
+        f << text;
+        f.flush();
+        if (!f) {
+            why = "cannot write " + tmp;
+            std::remove(tmp.c_str());
+            return false;
+        }
+    }
+    std::error_code ec;
+    std::filesystem::rename(tmp, path, ec);
+    if (ec) {
+        why = "cannot replace " + path + ": " + ec.message();
+        std::remove(tmp.c_str());
+        return false;
+    }
+    return true;
+}
+
+int run_inspect(int argc, char** argv) {
+    const std::vector<OptionSpec> specs = {
+        {"count-column", true, "name of the column holding pre-counted cell sizes"},
+        {"delimiter", true, "field delimiter: , ; | tab (default: detected)"},
+        {"json", true, "write the description as JSON to FILE, or - for standard output"},
+        {"skip-ragged", false, "skip rows with the wrong number of fields and list their lines"},
+        {"missing", true, "comma-separated missing-value markers (default: empty,NA,N/A,NULL,.)"},
+        {"threads", true, "parser threads (default: all cores)"},
+    };
+    Args args;
+    if (auto e = Args::parse(argc, argv, 1, specs, args)) return fail(kName, kUsage, *e);
+    if (args.positional().size() != 1)
+        return fail(kName, kUsage, "expected one DATA file (usage: foldline inspect DATA [--count-column C] "
+                                   "[--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST])");
+    CsvOptions opts;
+    if (auto d = args.get("delimiter")) {
+        auto c = parse_delimiter(*d);
+        if (!c) return fail(kName, kUsage, "--delimiter expects one character or tab, got '" + *d + "'");
+        opts.delimiter = *c;
+    }
+    if (auto m = args.get("missing")) opts.missing_markers = split_list(*m);
+    opts.count_column = args.get_or("count-column", "");
+    opts.skip_ragged = args.flag("skip-ragged", false);
+    if (auto t = args.get("threads")) {
+        char* end = nullptr;
+        const long n = std::strtol(t->c_str(), &end, 10);
+        if (t->empty() || *end || n < 1 || n > 256) return fail(kName, kUsage, "--threads expects a number from 1 to 256");
+        opts.threads = static_cast<unsigned>(n);
+    }
+
+    CsvReport report;
+    auto table = read_csv(args.positional()[0], opts, &report);
+    if (!table) return fail(kName, kInput, table.error().to_string());
+    for (const auto& w : report.warnings) std::cerr << "foldline inspect: warning: " << w << "\n";
+    if (!report.skipped_lines.empty()) {
+        std::cerr << "foldline inspect: skipped " << report.skipped_lines.size() << " ragged rows at lines";
+        for (std::size_t i = 0; i < report.skipped_lines.size() && i < 20; ++i) std::cerr << " " << report.skipped_lines[i];
+        if (report.skipped_lines.size() > 20) std::cerr << " ...";
+        std::cerr << "\n";
+    }
+
+    const auto json_target = args.get("json");
+    if (!json_target) {
+        describe_text(std::cout, *table, report);
+        return kOk;
+    }
+    const std::string text = describe_json(*table, report).dump(2) + "\n";
+    if (*json_target == "-") {
+        std::cout << text;
+        return kOk;
+    }
+    std::string why;
+    if (!save_atomically(*json_target, text, why)) return fail(kName, kInternal, why);
+    describe_text(std::cout, *table, report);
+    return kOk;
+}
+
+const CommandRegistration registration{Command{
+    kName, "inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST]",
+    "Reads a CSV/TSV file and lists each column's type, missing cells, distinct values and first levels.",
+    run_inspect}};
+
+}  // namespace
+
+}  // namespace foldline::cli

@@ -1,0 +1,70 @@
+// Load benchmark: parses one CSV file N times with the Foldline reader and prints the median
+// throughput and the process's peak resident memory. Not a test; bench/load.sh drives it.
+//
+// Usage: foldline_load_bench FILE [--repeat N] [--threads T]
+// Output (one "key value" per line, for scripts): runs_s, median_s, mb_per_s, rows_per_s,
+// rows, columns, file_bytes, peak_rss_bytes.
+#include <sys/resource.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <string>
+#include <vector>
+
+#include <sys/stat.h>
+
+#include "core/io/csv_reader.h"
+
+int main(int argc, char** argv) {
+    if (argc < 2) {
+        std::fprintf(stderr, "usage: %s FILE [--repeat N] [--threads T]\n", argv[0]);
+        return 2;
+    }
+    const std::string path = argv[1];
+    int repeat = 5;
+    foldline::CsvOptions opts;
+    for (int i = 2; i + 1 < argc; i += 2) {
+        if (!std::strcmp(argv[i], "--repeat")) repeat = std::max(1, std::atoi(argv[i + 1]));
+        else if (!std::strcmp(argv[i], "--threads")) opts.threads = static_cast<unsigned>(std::atoi(argv[i + 1]));
+        else {
+            std::fprintf(stderr, "unknown option %s\n", argv[i]);
+            return 2;
+        }
+    }
+    struct stat st {};
+    if (::stat(path.c_str(), &st) != 0) {
+        std::fprintf(stderr, "cannot stat %s\n", path.c_str());
+        return 3;
+    }
+    const double bytes = static_cast<double>(st.st_size);
+    std::vector<double> secs;
+    std::size_t rows = 0, cols = 0;
+    for (int r = 0; r < repeat; ++r) {
+        const auto t0 = std::chrono::steady_clock::now();
+        auto table = foldline::read_csv(path, opts);
+        const auto t1 = std::chrono::steady_clock::now();
+        if (!table) {
+            std::fprintf(stderr, "%s\n", table.error().to_string().c_str());
+            return 3;
+        }
+        rows = table->rows;
+        cols = table->columns.size();
+        secs.push_back(std::chrono::duration<double>(t1 - t0).count());
+    }
+    std::printf("runs_s");
+    for (double s : secs) std::printf(" %.4f", s);
+    std::printf("\n");
+    std::vector<double> sorted = secs;
+    std::sort(sorted.begin(), sorted.end());
+    const double median = sorted[sorted.size() / 2];
+    struct rusage ru {};
+    ::getrusage(RUSAGE_SELF, &ru);
+    std::printf("median_s %.4f\nmb_per_s %.1f\nrows_per_s %.0f\nrows %zu\ncolumns %zu\nfile_bytes %.0f\n"
+                "peak_rss_bytes %ld\n",
+                median, bytes / 1e6 / median, static_cast<double>(rows) / median, rows, cols, bytes,
+                ru.ru_maxrss * 1024L);
+    return 0;
+}

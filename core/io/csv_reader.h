@@ -1,0 +1,63 @@
+#pragma once
+// The CSV/TSV reader: RFC 4180 text in UTF-8 → a columnar Table.
+//
+// What it accepts: quoted fields (doubled quotes, delimiters and newlines inside quotes), a
+// delimiter among , ; tab | (detected unless given), one header row, UTF-8 with or without a
+// byte-order mark, LF or CRLF line ends. Blank lines are skipped. A column is Numeric when
+// every non-missing cell parses as a decimal number (sign, decimals, exponent), otherwise
+// Categorical with levels in order of first appearance; the result does not depend on the
+// thread count. A column with no non-missing cell at all is Numeric (all NaN).
+//
+// What it refuses, as an Error naming file, 1-based physical line, column and what was
+// expected: UTF-16/32 text, invalid UTF-8, an empty file, a header with no rows, ragged rows
+// (or skips them when asked), an unclosed quote (reported at the line where it opened), a
+// stray quote inside an unquoted field, a number beyond the double range in a Numeric column
+// (1e400; in a Categorical column it is just a level), missing, negative, fractional or
+// non-numeric counts in the count column, and fields or rows beyond the hostile-input caps.
+//
+// Files are opened read-only and memory-mapped; the body is split into record-aligned chunks
+// (found from quote parity) that are parsed in parallel and merged in file order.
+#include <cstddef>
+#include <map>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/common/error.h"
+#include "core/common/progress.h"
+#include "core/io/delimiter_detect.h"
+#include "core/table/table.h"
+
+namespace foldline {
+
+struct CsvOptions {
+    char delimiter = 0;  ///< 0 = detect among , ; \t |
+    std::vector<std::string> missing_markers = {"", "NA", "N/A", "NULL", "."};
+    std::string count_column;  ///< non-empty: pre-counted table; this column becomes Table::weights
+    bool skip_ragged = false;  ///< false: a ragged row is an error; true: skip it and report its line
+    unsigned threads = 0;      ///< 0 = hardware concurrency
+    std::map<std::string, ColumnType> type_overrides;  ///< force a column's type
+    std::size_t max_field_bytes = 16u << 20;  ///< hostile-input caps, named in the error message
+    std::size_t max_fields_per_row = 1u << 16;
+    std::size_t chunk_bytes = 0;  ///< parallel chunk size; 0 = automatic (1–8 MiB)
+};
+
+struct CsvReport {
+    char delimiter = ',';
+    bool had_bom = false;
+    std::size_t physical_lines = 0;
+    std::vector<std::size_t> skipped_lines;  ///< 1-based physical lines of skipped ragged rows
+    std::vector<std::string> warnings;       ///< e.g. duplicate column names made unique
+};
+
+/// Reads the CSV file at `path`. Progress is reported in bytes; a stop request gives the
+/// Error "cancelled". An empty file, or one with a header but no rows, is an Error.
+Result<Table> read_csv(const std::string& path, const CsvOptions& opts = {},
+                       CsvReport* report = nullptr, const Work& work = {});
+
+/// Same as read_csv on text already in memory; `name` stands for the file in messages.
+Result<Table> read_csv_text(std::string_view text, const std::string& name,
+                            const CsvOptions& opts = {}, CsvReport* report = nullptr,
+                            const Work& work = {});
+
+}  // namespace foldline

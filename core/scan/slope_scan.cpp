@@ -1,0 +1,501 @@
+#include "core/scan/slope_scan.h"
+
+#include "core/stats/mixture.h"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <random>
+
+namespace foldline {
+namespace {
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+constexpr std::size_t kMaxStrata = std::size_t{1} << 22;
+const std::string kMissingLabel = "(missing)";
+
+// Rows of the scan in compact form: only rows with x, y and every covariate present and a
+// positive weight.
+struct Prepared {
+    std::vector<std::size_t> used;  // table row of each compact row
+    std::vector<double> x, y, w;    // w empty for row-level data
+    std::vector<double> cov;        // compact rows × p, row-major (empty without covariates)
+    std::size_t p = 0;
+    BivariateMoments pooled;
+    MomentMatrix pooled_matrix;     // z = (x, covariates, y) when p > 0
+    double hc3 = kNaN;
+    bool linear_probability = false;
+    const double* wptr() const { return w.empty() ? nullptr : w.data(); }
+};
+
+Result<const Column*> numeric_column(const Table& t, const std::string& name, const char* role) {
+    const Column* c = t.column(name);
+    if (!c) return make_error(std::string(role) + " column '" + name + "' not found", t.source);
+    if (!c->is_numeric())
+        return make_error(std::string(role) + " column '" + name +
+                              "' is categorical; the slope analysis needs numbers",
+                          t.source);
+    if (c->values.size() != t.rows)
+        return make_error(std::string(role) + " column '" + name + "' has the wrong length",
+                          t.source);
+    return c;
+}
+
+Result<Prepared> prepare(const Table& t, const SlopeQuestion& q) {
+    auto xc = numeric_column(t, q.x, "exposure");
+    if (!xc) return xc.error();
+    auto yc = numeric_column(t, q.y, "outcome");
+    if (!yc) return yc.error();
+    std::vector<const Column*> covs;
+    for (const auto& name : q.covariates) {
+        auto c = numeric_column(t, name, "covariate");
+        if (!c) return c.error();
+        if (name == q.x || name == q.y)
+            return make_error("covariate '" + name + "' is the exposure or the outcome", t.source);
+        covs.push_back(*c);
+    }
+    if (t.weighted() && t.weights.size() != t.rows)
+        return make_error("weight column has the wrong length", t.source);
+
+    Prepared d;
+    d.p = covs.size();
+    const auto& xv = (*xc)->values;
+    const auto& yv = (*yc)->values;
+    bool zero_one = true;
+    for (std::size_t i = 0; i < t.rows; ++i) {
+        const double xi = xv[i], yi = yv[i];
+        if (!std::isfinite(xi) || !std::isfinite(yi)) continue;
+        if (t.weighted() && !(t.weights[i] > 0)) continue;
+        bool ok = true;
+        for (const Column* c : covs) ok = ok && std::isfinite(c->values[i]);
+        if (!ok) continue;
+        d.used.push_back(i);
+        d.x.push_back(xi);
+        d.y.push_back(yi);
+        if (t.weighted()) d.w.push_back(t.weights[i]);
+        for (const Column* c : covs) d.cov.push_back(c->values[i]);
+        zero_one = zero_one && (yi == 0.0 || yi == 1.0);
+    }
+    if (d.used.empty())
+        return make_error("no row has both '" + q.x + "' and '" + q.y + "'" +
+                              (covs.empty() ? std::string() : " and every covariate"),
+                          t.source);
+    d.linear_probability = zero_one;
+    StratumMoments acc(1);
+    for (std::size_t i = 0; i < d.x.size(); ++i) acc.add(0, d.x[i], d.y[i], d.w.empty() ? 1.0 : d.w[i]);
+    d.pooled = acc.finish()[0];
+    d.hc3 = hc3_slope_se(d.x.data(), d.y.data(), d.wptr(), nullptr, d.x.size(), d.pooled);
+    if (d.p > 0) {
+        d.pooled_matrix = MomentMatrix(static_cast<Eigen::Index>(d.p + 2));
+        std::vector<double> z(d.p + 2);
+        for (std::size_t i = 0; i < d.x.size(); ++i) {
+            z[0] = d.x[i];
+            std::copy_n(&d.cov[i * d.p], d.p, z.begin() + 1);
+            z[d.p + 1] = d.y[i];
+            d.pooled_matrix.add(z.data(), d.w.empty() ? 1.0 : d.w[i]);
+        }
+    }
+    return d;
+}
+
+// Codes of a stratifier over the compact rows.
+template <typename T>
+std::vector<T> gather_codes(const Column& c, const std::vector<std::size_t>& used) {
+    std::vector<T> out(used.size());
+    visit_codes(c, [&](const auto& codes) {
+        for (std::size_t i = 0; i < used.size(); ++i) out[i] = static_cast<T>(codes[used[i]]);
+    });
+    return out;
+}
+
+template <typename T>
+std::vector<BivariateMoments> accumulate(const Prepared& d, const T* a, const T* b,
+                                         std::size_t kb, std::size_t strata) {
+    StratumMoments acc(strata);
+    const std::size_t n = d.x.size();
+    const double* x = d.x.data();
+    const double* y = d.y.data();
+    if (d.w.empty()) {
+        if (b) {
+            for (std::size_t i = 0; i < n; ++i) acc.add(std::size_t{a[i]} * kb + b[i], x[i], y[i]);
+        } else {
+            for (std::size_t i = 0; i < n; ++i) acc.add(a[i], x[i], y[i]);
+        }
+    } else {
+        const double* w = d.w.data();
+        for (std::size_t i = 0; i < n; ++i)
+            acc.add(b ? std::size_t{a[i]} * kb + b[i] : std::size_t{a[i]}, x[i], y[i], w[i]);
+    }
+    return acc.finish();
+}
+
+template <typename T>
+std::vector<MomentMatrix> accumulate_matrix(const Prepared& d, const T* a, const T* b,
+                                            std::size_t kb, std::size_t strata) {
+    const Eigen::Index dim = static_cast<Eigen::Index>(d.p + 2);
+    std::vector<MomentMatrix> out(strata, MomentMatrix(dim));
+    std::vector<double> z(d.p + 2);
+    for (std::size_t i = 0; i < d.x.size(); ++i) {
+        const std::size_t k = b ? std::size_t{a[i]} * kb + b[i] : std::size_t{a[i]};
+        z[0] = d.x[i];
+        std::copy_n(&d.cov[i * d.p], d.p, z.begin() + 1);
+        z[d.p + 1] = d.y[i];
+        out[k].add(z.data(), d.w.empty() ? 1.0 : d.w[i]);
+    }
+    return out;
+}
+
+// Every figure of a finding from per-stratum summaries; labels are added by the caller.
+SlopeFinding figures(const std::vector<BivariateMoments>& strata,
+                     const std::vector<MomentMatrix>* matrices, const BivariateMoments& pooled,
+                     const MomentMatrix* pooled_matrix, double hc3, double alpha) {
+    SlopeFinding f;
+    f.q_value = kNaN;
+    const LineFit pl = fit_line(pooled, alpha);
+    f.pooled = PooledSlope{pl.slope.slope, pl.slope.ci_low, pl.slope.ci_high, pl.slope.se,
+                           pl.slope.p,     pl.slope.df,     hc3,              pl.r,
+                           pl.r_ci_low,    pl.r_ci_high,    pl.n};
+    f.n = pooled.w;
+    f.rows_used = pooled.rows;
+    const WithinFit wf = fit_within(strata, alpha);
+    std::vector<LineFit> fits;
+    for (std::size_t k = 0; k < strata.size(); ++k) {
+        if (strata[k].rows == 0) continue;
+        fits.push_back(fit_line(strata[k], alpha));
+        const LineFit& g = fits.back();
+        SlopeGroup grp;
+        grp.n = g.n;
+        grp.rows = g.rows;
+        grp.slope = g.slope.slope;
+        grp.se = g.slope.se;
+        grp.ci_low = g.slope.ci_low;
+        grp.ci_high = g.slope.ci_high;
+        grp.p = g.slope.p;
+        grp.r = g.r;
+        grp.informative = g.informative;
+        grp.reason = g.reason;
+        grp.level = std::to_string(k);  // replaced by the caller's label
+        f.groups.push_back(std::move(grp));
+    }
+    f.within = WithinSlope{wf.slope.slope, wf.slope.ci_low, wf.slope.ci_high, wf.slope.se,
+                           wf.slope.p,     wf.slope.df,     wf.strata,
+                           precision_weighted_slope(fits, alpha)};
+    f.equal_slopes = equal_slopes_test(strata);
+    if (matrices && pooled_matrix) {
+        f.adjusted = true;
+        f.adjusted_pooled = fit_adjusted(*pooled_matrix, alpha);
+        f.adjusted_within = fit_adjusted_within(*matrices, alpha);
+    }
+    classify(f, alpha);
+    return f;
+}
+
+// FNV-1a: a seed component from the stratifier names that does not depend on the library.
+std::uint64_t name_hash(const std::vector<std::string>& names) {
+    std::uint64_t h = 1469598103934665603ull;
+    for (const auto& s : names) {
+        for (unsigned char c : s) h = (h ^ c) * 1099511628211ull;
+        h = (h ^ 0xFFu) * 1099511628211ull;
+    }
+    return h;
+}
+
+std::uint64_t mix(std::uint64_t s) {
+    s += 0x9E3779B97F4A7C15ull;
+    s = (s ^ (s >> 30)) * 0xBF58476D1CE4E5B9ull;
+    s = (s ^ (s >> 27)) * 0x94D049BB133111EBull;
+    return s ^ (s >> 31);
+}
+
+// Share of resamples (rows drawn with replacement within each stratum; frequency-weighted
+// data: multinomial counts over the stratum's rows) in which the class stays the same.
+void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<std::uint32_t>& joint,
+                         std::size_t strata, const SlopeQuestion& q, const Work& work) {
+    const std::size_t n = joint.size();
+    std::vector<std::size_t> offset(strata + 1, 0);
+    for (auto k : joint) ++offset[k + 1];
+    for (std::size_t k = 0; k < strata; ++k) offset[k + 1] += offset[k];
+    std::vector<std::uint32_t> order(n);
+    {
+        std::vector<std::size_t> pos(offset.begin(), offset.end() - 1);
+        for (std::size_t i = 0; i < n; ++i) order[pos[joint[i]]++] = static_cast<std::uint32_t>(i);
+    }
+    std::mt19937_64 rng(mix(q.seed ^ mix(name_hash(f.strata))));
+    const Eigen::Index dim = static_cast<Eigen::Index>(d.p + 2);
+    std::vector<double> z(d.p + 2);
+    int same = 0, draws = 0;
+    for (int b = 0; b < q.bootstrap; ++b) {
+        if (work.cancelled()) break;
+        std::vector<BivariateMoments> ms(strata);
+        std::vector<MomentMatrix> mm;
+        if (d.p > 0) mm.assign(strata, MomentMatrix(dim));
+        auto add_row = [&](std::size_t k, std::size_t i, double weight) {
+            if (d.p > 0) {
+                z[0] = d.x[i];
+                std::copy_n(&d.cov[i * d.p], d.p, z.begin() + 1);
+                z[d.p + 1] = d.y[i];
+                mm[k].add(z.data(), weight);
+            }
+            ms[k].add(d.x[i], d.y[i], weight);
+        };
+        for (std::size_t k = 0; k < strata; ++k) {
+            const std::size_t lo = offset[k], m = offset[k + 1] - lo;
+            if (m == 0) continue;
+            if (d.w.empty()) {
+                for (std::size_t j = 0; j < m; ++j) add_row(k, order[lo + rng() % m], 1.0);
+            } else {
+                double total = 0;
+                for (std::size_t j = 0; j < m; ++j) total += d.w[order[lo + j]];
+                long long left = std::llround(total);
+                double mass = total;
+                for (std::size_t j = 0; j < m && left > 0; ++j) {
+                    const double wj = d.w[order[lo + j]];
+                    long long c = left;
+                    if (j + 1 < m && wj < mass) {
+                        std::binomial_distribution<long long> bin(left, std::clamp(wj / mass, 0.0, 1.0));
+                        c = bin(rng);
+                    }
+                    mass -= wj;
+                    left -= c;
+                    if (c > 0) add_row(k, order[lo + j], static_cast<double>(c));
+                }
+            }
+        }
+        BivariateMoments pooled = merge_all(ms);
+        MomentMatrix pm;
+        if (d.p > 0) {
+            pm = MomentMatrix(dim);
+            for (const auto& m : mm) pm.merge(m);
+        }
+        const SlopeFinding r = figures(ms, d.p > 0 ? &mm : nullptr, pooled, d.p > 0 ? &pm : nullptr,
+                                       kNaN, q.alpha);
+        ++draws;
+        if (r.finding_class == f.finding_class) ++same;
+    }
+    f.stability_draws = draws;
+    f.stability = draws > 0 ? static_cast<double>(same) / draws : 0.0;
+}
+
+struct Scan {
+    const Table& table;
+    const SlopeQuestion& q;
+    const Prepared& d;
+};
+
+Status check_stratifier(const Table& t, const Column* c) {
+    if (!c) return make_error("stratifier is null", t.source);
+    if (!c->is_categorical())
+        return make_error("stratifier '" + c->name + "' is numeric; bin it first", t.source);
+    if (c->size() != t.rows)
+        return make_error("stratifier '" + c->name + "' has " + std::to_string(c->size()) +
+                              " rows; the table has " + std::to_string(t.rows),
+                          t.source);
+    return Ok{};
+}
+
+template <typename T>
+Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb,
+                               const std::vector<T>& codes_a, const std::vector<T>* codes_b) {
+    const std::size_t ka = ca->levels.size() + 1;
+    const std::size_t kb = cb ? cb->levels.size() + 1 : 1;
+    if (ka > kMaxStrata / kb)
+        return make_error("too many joint strata for '" + ca->name + "'" +
+                              (cb ? " × '" + cb->name + "'" : std::string()) + ": " +
+                              std::to_string(ka) + " × " + std::to_string(kb),
+                          s.table.source);
+    const std::size_t strata = ka * kb;
+    const T* b = codes_b ? codes_b->data() : nullptr;
+    const auto moments = accumulate(s.d, codes_a.data(), b, kb, strata);
+    std::vector<MomentMatrix> matrices;
+    if (s.d.p > 0) matrices = accumulate_matrix(s.d, codes_a.data(), b, kb, strata);
+    SlopeFinding f = figures(moments, s.d.p > 0 ? &matrices : nullptr, s.d.pooled,
+                             s.d.p > 0 ? &s.d.pooled_matrix : nullptr, s.d.hc3, s.q.alpha);
+    f.x = s.q.x;
+    f.y = s.q.y;
+    f.covariates = s.q.covariates;
+    f.linear_probability = s.d.linear_probability;
+    f.strata.push_back(ca->name);
+    if (cb) f.strata.push_back(cb->name);
+    auto label = [](const Column* c, std::size_t code) {
+        return code < c->levels.size() ? c->levels[code] : kMissingLabel;
+    };
+    for (auto& g : f.groups) {
+        const std::size_t k = std::stoul(g.level);
+        g.levels.push_back(label(ca, k / kb));
+        if (cb) g.levels.push_back(label(cb, k % kb));
+        g.level = g.levels[0];
+        for (std::size_t j = 1; j < g.levels.size(); ++j) g.level += " / " + g.levels[j];
+        if (!g.informative) f.uninformative.push_back(g.level);
+    }
+    if (s.q.bootstrap > 0 && f.finding_class != FindingClass::Stable) {
+        std::vector<std::uint32_t> joint(codes_a.size());
+        for (std::size_t i = 0; i < joint.size(); ++i)
+            joint[i] = static_cast<std::uint32_t>(b ? std::size_t{codes_a[i]} * kb + b[i]
+                                                    : std::size_t{codes_a[i]});
+        bootstrap_stability(f, s.d, joint, strata, s.q, {});
+    }
+    return f;
+}
+
+template <typename T>
+Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<const Column*>& cands,
+                                           bool pairs, const Work& work) {
+    std::vector<std::vector<T>> codes;
+    codes.reserve(cands.size());
+    for (const Column* c : cands) codes.push_back(gather_codes<T>(*c, s.d.used));
+    const std::size_t m = cands.size();
+    const double total = static_cast<double>(m + (pairs ? m * (m - 1) / 2 : 0));
+    std::vector<SlopeFinding> out;
+    double done = 0;
+    auto step = [&](Result<SlopeFinding> r) -> Status {
+        if (!r) return r.error();
+        out.push_back(std::move(r.value()));
+        work.report(++done, total, "slope checks");
+        if (work.cancelled()) return make_error("cancelled");
+        return Ok{};
+    };
+    for (std::size_t i = 0; i < m; ++i)
+        if (auto st = step(run_check<T>(s, cands[i], nullptr, codes[i], nullptr)); !st)
+            return st.error();
+    if (pairs)
+        for (std::size_t i = 0; i < m; ++i)
+            for (std::size_t j = i + 1; j < m; ++j)
+                if (auto st = step(run_check<T>(s, cands[i], cands[j], codes[i], &codes[j])); !st)
+                    return st.error();
+    return out;
+}
+
+}  // namespace
+
+FindingClass classify(SlopeFinding& f, double alpha) {
+    double ps = f.pooled.slope, pse = f.pooled.se, pdf = f.pooled.df, pp = f.pooled.p;
+    double ws = f.within.slope, wse = f.within.se, wdf = f.within.df, wp = f.within.p;
+    if (f.adjusted) {
+        ps = f.adjusted_pooled.slope, pse = f.adjusted_pooled.se, pdf = f.adjusted_pooled.df;
+        pp = f.adjusted_pooled.p;
+        ws = f.adjusted_within.slope, wse = f.adjusted_within.se, wdf = f.adjusted_within.df;
+        wp = f.adjusted_within.p;
+    }
+    f.p_reversal = kNaN;
+    if (ps > 0 || ps < 0) {
+        const int sign = ps > 0 ? 1 : -1;
+        const double a = one_sided_p(ps, pse, pdf, sign), b = one_sided_p(ws, wse, wdf, -sign);
+        if (!std::isnan(a) && !std::isnan(b)) f.p_reversal = std::max(a, b);
+    }
+    const bool q_ok = std::isnan(f.q_value) || f.q_value < alpha;
+    f.reversal = f.p_reversal < alpha && q_ok;
+    bool up = false, down = false;
+    for (const auto& g : f.groups) {
+        if (!g.informative || !(g.p < alpha)) continue;
+        up = up || g.slope > 0;
+        down = down || g.slope < 0;
+    }
+    const bool pooled_sig = pp < alpha, within_sig = wp < alpha;
+    if (f.reversal) f.finding_class = FindingClass::Reversal;
+    else if (up && down && f.equal_slopes.p < alpha) f.finding_class = FindingClass::Heterogeneous;
+    else if (pooled_sig && !within_sig) f.finding_class = FindingClass::Explained;
+    else if (!pooled_sig && within_sig) f.finding_class = FindingClass::Masked;
+    else f.finding_class = FindingClass::Stable;
+    return f.finding_class;
+}
+
+Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
+                                 const std::vector<const Column*>& strata, const Work& work) {
+    if (strata.empty() || strata.size() > 2)
+        return make_error("a slope check takes one or two stratifiers; got " +
+                          std::to_string(strata.size()));
+    for (const Column* c : strata)
+        if (auto st = check_stratifier(table, c); !st) return st.error();
+    auto d = prepare(table, q);
+    if (!d) return d.error();
+    if (work.cancelled()) return make_error("cancelled");
+    const Scan s{table, q, d.value()};
+    using T = std::uint32_t;
+    const auto a = gather_codes<T>(*strata[0], d->used);
+    if (strata.size() == 1) return run_check<T>(s, strata[0], nullptr, a, nullptr);
+    const auto b = gather_codes<T>(*strata[1], d->used);
+    return run_check<T>(s, strata[0], strata[1], a, &b);
+}
+
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const std::vector<const Column*>& candidates,
+                                              bool pairs, const Work& work) {
+    if (candidates.empty()) return std::vector<SlopeFinding>{};
+    std::size_t widest = 0;
+    for (const Column* c : candidates) {
+        if (auto st = check_stratifier(table, c); !st) return st.error();
+        widest = std::max(widest, c->levels.size() + 1);
+    }
+    auto d = prepare(table, q);
+    if (!d) return d.error();
+    const Scan s{table, q, d.value()};
+    if (widest <= 0xFFu) return run_scan<std::uint8_t>(s, candidates, pairs, work);
+    if (widest <= 0xFFFFu) return run_scan<std::uint16_t>(s, candidates, pairs, work);
+    return run_scan<std::uint32_t>(s, candidates, pairs, work);
+}
+
+Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
+                                  const Work& work) {
+    auto xc = numeric_column(table, q.x, "exposure");
+    if (!xc) return xc.error();
+    auto yc = numeric_column(table, q.y, "outcome");
+    if (!yc) return yc.error();
+    std::vector<double> x, y;
+    BivariateMoments pooled;
+    for (std::size_t i = 0; i < table.rows; ++i) {
+        const double xi = (*xc)->values[i], yi = (*yc)->values[i];
+        if (!std::isfinite(xi) || !std::isfinite(yi)) continue;
+        x.push_back(xi);
+        y.push_back(yi);
+        pooled.add(xi, yi);
+    }
+    MixtureOptions opt;
+    opt.seed = seed;
+    auto sel = select_gaussian_mixture(x, y, opt, work);
+    if (!sel) return sel.error();
+    LatentFinding f;
+    f.x = q.x;
+    f.y = q.y;
+    f.seed = seed;
+    f.rows_used = x.size();
+    f.rows_fitted = sel->points;
+    f.k = sel->best_k;
+    f.pooled_slope = fit_line(pooled).slope.slope;
+    for (const auto& fit : sel->fits) f.bic.push_back(fit.ok ? fit.bic : kNaN);
+    if (f.k > 0) {
+        bool all_opposite = f.k >= 2;
+        for (const auto& g : sel->fits[f.k - 1].components) {
+            LatentComponent c;
+            c.weight = g.weight;
+            c.n = g.weight * static_cast<double>(f.rows_fitted);
+            c.mean_x = g.mean[0];
+            c.mean_y = g.mean[1];
+            c.sd_x = std::sqrt(g.cov[0]);
+            c.sd_y = std::sqrt(g.cov[2]);
+            c.correlation = g.cov[1] / std::sqrt(g.cov[0] * g.cov[2]);
+            c.slope = g.cov[0] > 0 ? g.cov[1] / g.cov[0] : kNaN;
+            all_opposite = all_opposite && (c.slope * f.pooled_slope < 0);
+            f.components.push_back(c);
+        }
+        f.opposite = all_opposite;
+    }
+    const std::string k = std::to_string(f.k);
+    if (f.k <= 1) {
+        f.note = "A single group describes the (" + q.x + ", " + q.y +
+                 ") cloud best (BIC); there is no hint of hidden groups.";
+    } else if (f.opposite) {
+        f.note = "The (" + q.x + ", " + q.y + ") cloud is better described as " + k +
+                 " overlapping groups than as one, and within each of them the trend runs "
+                 "against the pooled one. This is a hint to look for a variable that separates "
+                 "such groups; the groups are a statistical construction, not records of real "
+                 "groups.";
+    } else {
+        f.note = "The (" + q.x + ", " + q.y + ") cloud is better described as " + k +
+                 " overlapping groups than as one, but their trends do not all run against the "
+                 "pooled one. The groups are a statistical construction, not records of real "
+                 "groups.";
+    }
+    return f;
+}
+
+}  // namespace foldline
