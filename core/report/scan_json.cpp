@@ -2,6 +2,8 @@
 
 #include <cmath>
 
+#include "core/report/slope_json.h"
+
 namespace foldline {
 
 namespace {
@@ -107,12 +109,18 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     j["version"] = kScanJsonVersion;
     j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
     const auto& q = r.question;
-    j["question"] = {{"outcome", q.outcome},
-                     {"positive", q.positive},
-                     {"exposure", q.exposure},
-                     {"focal", q.focal.empty() ? json(nullptr) : json(q.focal[0])},
-                     {"focal_levels", q.focal},
-                     {"reference", q.reference}};
+    if (q.outcome.empty() && !r.slope_question.x.empty()) {
+        // A slope-only scan: numeric outcome on a numeric exposure.
+        j["question"] = {{"outcome", r.slope_question.y}, {"positive", nullptr}, {"exposure", r.slope_question.x},
+                         {"focal", nullptr}, {"focal_levels", json::array()}, {"reference", nullptr}};
+    } else {
+        j["question"] = {{"outcome", q.outcome},
+                         {"positive", q.positive},
+                         {"exposure", q.exposure},
+                         {"focal", q.focal.empty() ? json(nullptr) : json(q.focal[0])},
+                         {"focal_levels", q.focal},
+                         {"reference", q.reference}};
+    }
     j["settings"] = {{"alpha", r.alpha}, {"bootstrap", r.bootstrap}, {"seed", r.seed}};
     json cands = json::array();
     for (std::size_t i = 0; i < r.candidates.size(); ++i)
@@ -133,12 +141,25 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
         if (f.reversal()) reversals.push_back(f.strata);
         findings.push_back(rate_finding_to_json(f));
     }
-    j["summary"] = {{"checks", r.rate_findings.size()}, {"classes", counts}, {"reversals", reversals},
+    json slope_reversals = json::array();
+    for (const auto& f : r.slope_findings) {
+        counts[std::string(to_string(f.finding_class))] = counts[std::string(to_string(f.finding_class))].get<int>() + 1;
+        if (f.finding_class == FindingClass::Reversal) slope_reversals.push_back(f.strata);
+        findings.push_back(to_json(f));
+    }
+    if (!r.slope_question.x.empty())
+        j["slope_question"] = {{"x", r.slope_question.x}, {"y", r.slope_question.y}};
+    j["summary"] = {{"checks", r.rate_findings.size() + r.slope_findings.size()},
+                    {"rate_checks", r.rate_findings.size()},
+                    {"slope_checks", r.slope_findings.size()},
+                    {"classes", counts},
+                    {"reversals", reversals},
+                    {"slope_reversals", slope_reversals},
                     {"cancelled", r.cancelled}};
     j["findings"] = std::move(findings);
     return j;
 }
 
-std::string scan_json_text(const ScanResult& r, const DataInfo& data) { return scan_to_json(r, data).dump(1) + "\n"; }
+std::string scan_json_text(const ScanResult& r, const DataInfo& data) { return scan_to_json(r, data).dump() + "\n"; }
 
 }  // namespace foldline

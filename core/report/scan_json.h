@@ -19,13 +19,15 @@ struct DataInfo {
 
 inline constexpr int kScanJsonVersion = 1;
 
-/// The whole document. An empty result gives a document with empty lists.
+/// The whole document: "findings" lists the rate findings (kind "rate", ranked) and then the
+/// slope findings (kind "slope", ranked; core/report/slope_json.h). An empty result gives a
+/// document with empty lists.
 nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
 
 /// One finding as it appears in "findings".
 nlohmann::json rate_finding_to_json(const RateFinding& f);
 
-/// scan_to_json(...).dump(1): one key per line, compact enough to diff.
+/// scan_to_json(...) as compact text with a final newline.
 std::string scan_json_text(const ScanResult& result, const DataInfo& data);
 
 }  // namespace foldline
