@@ -69,21 +69,58 @@ Xoshiro256::result_type Xoshiro256::operator()() {
     return result;
 }
 
-double Xoshiro256::normal() {
-    if (has_spare_) {
-        has_spare_ = false;
-        return spare_;
+namespace {
+
+// Ziggurat tables for the standard normal (Marsaglia & Tsang 2000, J Stat Softw 5(8)): 128
+// layers of equal area v = 9.91256303526217e-3 with base-layer edge r = 3.442619855899.
+struct ZigguratTables {
+    std::uint32_t k[128];
+    double w[128], f[128];
+    ZigguratTables() {
+        const double m1 = 2147483648.0, vn = 9.91256303526217e-3;
+        double dn = 3.442619855899, tn = dn;
+        const double q = vn / std::exp(-0.5 * dn * dn);
+        k[0] = static_cast<std::uint32_t>((dn / q) * m1);
+        k[1] = 0;
+        w[0] = q / m1;
+        w[127] = dn / m1;
+        f[0] = 1.0;
+        f[127] = std::exp(-0.5 * dn * dn);
+        for (int i = 126; i >= 1; --i) {
+            dn = std::sqrt(-2.0 * std::log(vn / dn + std::exp(-0.5 * dn * dn)));
+            k[i + 1] = static_cast<std::uint32_t>((dn / tn) * m1);
+            tn = dn;
+            f[i] = std::exp(-0.5 * dn * dn);
+            w[i] = dn / m1;
+        }
     }
-    double u, v, s;
-    do {
-        u = 2.0 * uniform() - 1.0;
-        v = 2.0 * uniform() - 1.0;
-        s = u * u + v * v;
-    } while (s >= 1.0 || s == 0.0);
-    const double f = std::sqrt(-2.0 * std::log(s) / s);
-    spare_ = v * f;
-    has_spare_ = true;
-    return u * f;
+};
+
+const ZigguratTables kZig;
+
+}  // namespace
+
+double Xoshiro256::normal() {
+    constexpr double r = 3.442619855899;
+    for (;;) {
+        const std::uint64_t bits = (*this)();
+        const int iz = static_cast<int>(bits & 127);
+        const auto hz = static_cast<std::int32_t>(static_cast<std::uint32_t>(bits >> 32));
+        const std::uint32_t ahz = hz < 0 ? static_cast<std::uint32_t>(-static_cast<std::int64_t>(hz))
+                                         : static_cast<std::uint32_t>(hz);
+        const double x = hz * kZig.w[iz];
+        if (ahz < kZig.k[iz]) return x;  // inside the layer's rectangle (about 99% of draws)
+        if (iz == 0) {
+            // Base layer beyond r: sample the tail (Marsaglia 1964).
+            double tx, ty;
+            do {
+                tx = -std::log(1.0 - uniform()) / r;
+                ty = -std::log(1.0 - uniform());
+            } while (ty + ty < tx * tx);
+            return hz > 0 ? r + tx : -r - tx;
+        }
+        if (kZig.f[iz] + uniform() * (kZig.f[iz - 1] - kZig.f[iz]) < std::exp(-0.5 * x * x)) return x;
+    }
 }
 
 Strata resample_strata(const Strata& strata, Xoshiro256& rng) {

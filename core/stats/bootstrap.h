@@ -4,8 +4,8 @@
 // This is the row bootstrap done on sufficient statistics (cost independent of the row count).
 // The multinomial is drawn as conditional binomials; a binomial with n p (1 - p) >= 50 uses the
 // normal approximation (rounded, clamped to [0, n]), smaller ones are exact. Random numbers come
-// from xoshiro256** (Blackman & Vigna 2018) seeded through splitmix64, so a seed gives the same
-// draws on every run and thread.
+// from xoshiro256** (Blackman & Vigna 2018) seeded through splitmix64, normal deviates from the
+// ziggurat method, so a seed gives the same draws on every run and thread.
 #include <cstdint>
 #include <functional>
 #include <limits>
@@ -24,13 +24,12 @@ public:
     result_type operator()();
     /// Uniform double in [0, 1) with 53 random bits.
     double uniform() { return static_cast<double>((*this)() >> 11) * 0x1.0p-53; }
-    /// Standard normal deviate (Marsaglia polar method, second value cached).
+    /// Standard normal deviate (ziggurat method of Marsaglia & Tsang 2000, 128 layers; the layer
+    /// index and the value come from separate bits of one 64-bit draw).
     double normal();
 
 private:
     std::uint64_t s_[4];
-    double spare_ = 0;
-    bool has_spare_ = false;
 };
 
 /// One multinomial redraw of both groups. Weighted (non-integer) totals are rounded to the

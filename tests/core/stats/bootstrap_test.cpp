@@ -75,3 +75,21 @@ TEST(Bootstrap, GeneratorIsDeterministicAndUniform) {
     EXPECT_NEAR(s1 / 100000, 0.0, 0.02);
     EXPECT_NEAR(s2 / 100000, 1.0, 0.02);
 }
+
+// Normal deviates have the standard normal's tail shares: P(Z > 1.959964) = 0.025 and
+// P(|Z| > 3) = 0.0027 [from memory, standard normal table]; tolerances about 5 standard errors
+// at 400000 draws. The ziggurat's base-layer tail (beyond 3.44) must be reached too.
+TEST(Bootstrap, NormalTails) {
+    Xoshiro256 u(2024);
+    const int n = 400000;
+    int above196 = 0, beyond3 = 0, beyond344 = 0;
+    for (int i = 0; i < n; ++i) {
+        const double z = u.normal();
+        above196 += z > 1.959964;
+        beyond3 += std::fabs(z) > 3;
+        beyond344 += std::fabs(z) > 3.442619855899;
+    }
+    EXPECT_NEAR(static_cast<double>(above196) / n, 0.025, 5 * std::sqrt(0.025 * 0.975 / n));
+    EXPECT_NEAR(static_cast<double>(beyond3) / n, 0.0026998, 5 * std::sqrt(0.0027 / n));
+    EXPECT_GT(beyond344, 0);
+}
