@@ -20,15 +20,18 @@ std::uint64_t splitmix64(std::uint64_t& x) {
 
 std::uint64_t rotl(std::uint64_t x, int k) { return (x << k) | (x >> (64 - k)); }
 
-// Multinomial by conditional binomials over the cells, written into out.
-void multinomial(std::int64_t n, const double* share, std::size_t k, double* out, Xoshiro256& rng) {
-    double rest = 1.0;
-    for (std::size_t i = 0; i < k; ++i) {
+// Exact multinomial by conditional binomials over the cells idx[0..m) with the given shares
+// (summing to `total_share`), written into out.
+void conditional_binomials(std::int64_t n, const double* share, const std::size_t* idx, std::size_t m,
+                           double total_share, double* out, Xoshiro256& rng) {
+    double rest = total_share;
+    for (std::size_t j = 0; j < m; ++j) {
+        const std::size_t i = idx[j];
         if (n <= 0 || rest <= 0) {
             out[i] = 0;
             continue;
         }
-        if (i + 1 == k) {
+        if (j + 1 == m) {
             out[i] = static_cast<double>(n);
             n = 0;
             continue;
@@ -36,20 +39,123 @@ void multinomial(std::int64_t n, const double* share, std::size_t k, double* out
         const double p = std::min(1.0, std::max(0.0, share[i] / rest));
         rest -= share[i];
         std::int64_t x = 0;
-        const double dn = static_cast<double>(n);
-        const double npq = dn * p * (1.0 - p);
-        if (p >= 1.0) {
-            x = n;
-        } else if (npq >= kNormalFrom) {
-            // De Moivre-Laplace: at this size the binomial skewness is below 1/sqrt(50) = 0.14.
-            x = static_cast<std::int64_t>(std::clamp(std::round(dn * p + std::sqrt(npq) * rng.normal()), 0.0, dn));
-        } else if (p > 0) {
-            x = std::binomial_distribution<std::int64_t>(n, p)(rng);
-        }
+        if (p >= 1.0) x = n;
+        else if (p > 0) x = std::binomial_distribution<std::int64_t>(n, p)(rng);
         out[i] = static_cast<double>(x);
         n -= x;
     }
 }
+
+// Multinomial(n, share) over k cells, with everything that depends only on the observed shares
+// prepared once. Cells with n p (1 - p) >= kNormalFrom ("large") are drawn jointly from the
+// normal approximation with the multinomial's covariance n (diag q - q q') and an exact total:
+// x_i = n_L q_i + sqrt(n_L) (sqrt(q_i) Z_i - q_i sum_j sqrt(q_j) Z_j), rounded, the rounding
+// remainder given to the largest cell. How many rows go to the large cells, and the small cells
+// themselves, are drawn exactly (conditional binomials). No serial chain runs through the large
+// cells, which is where the time went.
+class MultinomialSampler {
+public:
+    MultinomialSampler(std::int64_t n, std::vector<double> share) : n_(n), share_(std::move(share)) {
+        const double dn = static_cast<double>(n);
+        for (std::size_t i = 0; i < share_.size(); ++i) {
+            if (share_[i] <= 0) continue;
+            if (dn * share_[i] * (1.0 - share_[i]) >= kNormalFrom) {
+                large_.push_back(i);
+                p_large_ += share_[i];
+            } else {
+                small_.push_back(i);
+                p_small_ += share_[i];
+            }
+        }
+        for (auto i : large_) {
+            const double q = share_[i] / p_large_;
+            q_.push_back(q);
+            root_q_.push_back(std::sqrt(q));
+        }
+        z_.resize(large_.size());
+        if (!large_.empty() && !small_.empty()) {
+            pl_ = p_large_ / (p_large_ + p_small_);
+            npq_ = dn * pl_ * (1 - pl_);
+        }
+    }
+
+    void draw(double* out, Xoshiro256& rng) {
+        std::fill(out, out + share_.size(), 0.0);
+        const double dn = static_cast<double>(n_);
+        std::int64_t n_large = 0;
+        if (large_.empty()) n_large = 0;
+        else if (small_.empty()) n_large = n_;
+        else if (npq_ >= kNormalFrom)
+            n_large = static_cast<std::int64_t>(std::clamp(std::round(dn * pl_ + std::sqrt(npq_) * rng.normal()), 0.0, dn));
+        else
+            n_large = std::binomial_distribution<std::int64_t>(n_, std::min(1.0, pl_))(rng);
+        conditional_binomials(n_ - n_large, share_.data(), small_.data(), small_.size(), p_small_, out, rng);
+        if (large_.empty()) return;
+        const double nl = static_cast<double>(n_large), root = std::sqrt(nl);
+        double s = 0;
+        for (std::size_t j = 0; j < large_.size(); ++j) {
+            z_[j] = rng.normal();
+            s += root_q_[j] * z_[j];
+        }
+        double sum = 0;
+        std::size_t biggest = large_[0];
+        for (std::size_t j = 0; j < large_.size(); ++j) {
+            const double x = std::max(0.0, std::round(nl * q_[j] + root * (root_q_[j] * z_[j] - q_[j] * s)));
+            out[large_[j]] = x;
+            sum += x;
+            if (x > out[biggest]) biggest = large_[j];
+        }
+        out[biggest] = std::max(0.0, out[biggest] + (nl - sum));
+    }
+
+private:
+    std::int64_t n_;
+    std::vector<double> share_;
+    std::vector<std::size_t> large_, small_;
+    std::vector<double> q_, root_q_, z_;
+    double p_large_ = 0, p_small_ = 0, pl_ = 0, npq_ = 0;
+};
+
+// Both groups of a cube: group 0 is (a, b) per stratum, group 1 is (c, d).
+class CubeSampler {
+public:
+    explicit CubeSampler(const Strata& strata) : k_(strata.size()) {
+        for (int g = 0; g < 2; ++g) {
+            std::vector<double> share(2 * k_);
+            double n = 0;
+            for (std::size_t z = 0; z < k_; ++z) {
+                share[2 * z] = g == 0 ? strata[z].a : strata[z].c;
+                share[2 * z + 1] = g == 0 ? strata[z].b : strata[z].d;
+                n += share[2 * z] + share[2 * z + 1];
+            }
+            if (n > 0)
+                for (auto& x : share) x /= n;
+            groups_.emplace_back(static_cast<std::int64_t>(std::llround(n)), std::move(share));
+        }
+        draw_.resize(2 * k_);
+    }
+
+    void draw(Strata& out, Xoshiro256& rng) {
+        out.resize(k_);
+        for (int g = 0; g < 2; ++g) {
+            groups_[static_cast<std::size_t>(g)].draw(draw_.data(), rng);
+            for (std::size_t z = 0; z < k_; ++z) {
+                if (g == 0) {
+                    out[z].a = draw_[2 * z];
+                    out[z].b = draw_[2 * z + 1];
+                } else {
+                    out[z].c = draw_[2 * z];
+                    out[z].d = draw_[2 * z + 1];
+                }
+            }
+        }
+    }
+
+private:
+    std::size_t k_;
+    std::vector<MultinomialSampler> groups_;
+    std::vector<double> draw_;
+};
 
 }  // namespace
 
@@ -124,30 +230,9 @@ double Xoshiro256::normal() {
 }
 
 Strata resample_strata(const Strata& strata, Xoshiro256& rng) {
-    const std::size_t k = strata.size();
-    Strata out(k);
-    if (k == 0) return out;
-    std::vector<double> share(2 * k), draw(2 * k);
-    for (int g = 0; g < 2; ++g) {
-        double n = 0;
-        for (std::size_t z = 0; z < k; ++z) {
-            share[2 * z] = g == 0 ? strata[z].a : strata[z].c;
-            share[2 * z + 1] = g == 0 ? strata[z].b : strata[z].d;
-            n += share[2 * z] + share[2 * z + 1];
-        }
-        if (n > 0)
-            for (auto& s : share) s /= n;
-        multinomial(static_cast<std::int64_t>(std::llround(n)), share.data(), share.size(), draw.data(), rng);
-        for (std::size_t z = 0; z < k; ++z) {
-            if (g == 0) {
-                out[z].a = draw[2 * z];
-                out[z].b = draw[2 * z + 1];
-            } else {
-                out[z].c = draw[2 * z];
-                out[z].d = draw[2 * z + 1];
-            }
-        }
-    }
+    Strata out;
+    if (strata.empty()) return out;
+    CubeSampler(strata).draw(out, rng);
     return out;
 }
 
@@ -155,9 +240,13 @@ double bootstrap_share(const Strata& strata, int draws, std::uint64_t seed,
                        const std::function<bool(const Strata&)>& holds) {
     if (draws <= 0) return std::numeric_limits<double>::quiet_NaN();
     Xoshiro256 rng(seed);
+    CubeSampler sampler(strata);
+    Strata resampled;
     int hits = 0;
-    for (int i = 0; i < draws; ++i)
-        if (holds(resample_strata(strata, rng))) ++hits;
+    for (int i = 0; i < draws; ++i) {
+        sampler.draw(resampled, rng);
+        if (holds(resampled)) ++hits;
+    }
     return static_cast<double>(hits) / draws;
 }
 

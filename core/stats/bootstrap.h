@@ -2,8 +2,9 @@
 // Parametric resampling of a count cube: each group's rows are redrawn as one multinomial over
 // its (stratum, outcome) cells with the observed cell shares, keeping the group's total fixed.
 // This is the row bootstrap done on sufficient statistics (cost independent of the row count).
-// The multinomial is drawn as conditional binomials; a binomial with n p (1 - p) >= 50 uses the
-// normal approximation (rounded, clamped to [0, n]), smaller ones are exact. Random numbers come
+// Cells with n p (1 - p) >= 50 are drawn jointly from the normal approximation of the
+// multinomial (same covariance, exact total, rounded); the other cells, and how many rows go to
+// the large cells, are drawn exactly by conditional binomials. Random numbers come
 // from xoshiro256** (Blackman & Vigna 2018) seeded through splitmix64, normal deviates from the
 // ziggurat method, so a seed gives the same draws on every run and thread.
 #include <cstdint>

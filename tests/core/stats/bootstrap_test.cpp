@@ -93,3 +93,28 @@ TEST(Bootstrap, NormalTails) {
     EXPECT_NEAR(static_cast<double>(beyond3) / n, 0.0026998, 5 * std::sqrt(0.0027 / n));
     EXPECT_GT(beyond344, 0);
 }
+
+// Large cells drawn jointly keep the multinomial's covariance: for n = 100000 over shares
+// 0.5, 0.3, 0.2 the first two cells have covariance -n p1 p2 = -15000 (correlation
+// -sqrt(p1 p2 / ((1 - p1)(1 - p2))) = -0.655), and the group total never changes.
+TEST(Bootstrap, LargeCellsKeepMultinomialCovariance) {
+    const Strata s{{50000, 30000, 10, 10}, {20000, 0, 10, 10}};
+    Xoshiro256 rng(31);
+    const int draws = 4000;
+    double sx = 0, sy = 0, sxy = 0, sxx = 0, syy = 0;
+    for (int i = 0; i < draws; ++i) {
+        const auto r = resample_strata(s, rng);
+        EXPECT_EQ(r[0].a + r[0].b + r[1].a + r[1].b, 100000);
+        EXPECT_EQ(r[1].b, 0);  // an empty cell stays empty
+        sx += r[0].a;
+        sy += r[0].b;
+        sxy += r[0].a * r[0].b;
+        sxx += r[0].a * r[0].a;
+        syy += r[0].b * r[0].b;
+    }
+    const double mx = sx / draws, my = sy / draws;
+    const double cov = sxy / draws - mx * my;
+    const double corr = cov / std::sqrt((sxx / draws - mx * mx) * (syy / draws - my * my));
+    EXPECT_NEAR(mx, 50000, 5 * std::sqrt(25000.0 / draws));
+    EXPECT_NEAR(corr, -0.655, 0.05);
+}
