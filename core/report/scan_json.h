@@ -27,7 +27,11 @@ nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
 /// One finding as it appears in "findings".
 nlohmann::json rate_finding_to_json(const RateFinding& f);
 
-/// scan_to_json(...) as compact text with a final newline.
+/// The "summary" object alone (counts by class, reversals); zero counts for an empty result.
+nlohmann::json scan_to_json_summary(const ScanResult& result);
+
+/// The same document as scan_to_json, as compact text with a final newline (rate findings are
+/// streamed rather than built as a tree: several times faster on large scans).
 std::string scan_json_text(const ScanResult& result, const DataInfo& data);
 
 }  // namespace foldline
