@@ -1,5 +1,6 @@
 #include "core/scan/slope_scan.h"
 
+#include "core/stats/fdr.h"
 #include "core/stats/mixture.h"
 
 #include <algorithm>
@@ -212,7 +213,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
     std::mt19937_64 rng(mix(q.seed ^ mix(name_hash(f.strata))));
     const Eigen::Index dim = static_cast<Eigen::Index>(d.p + 2);
     std::vector<double> z(d.p + 2);
-    int same = 0, draws = 0;
+    int draws = 0;
     for (int b = 0; b < q.bootstrap; ++b) {
         if (work.cancelled()) break;
         StratumMoments acc(strata);
@@ -260,10 +261,11 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
         const SlopeFinding r = figures(ms, d.p > 0 ? &mm : nullptr, pooled, d.p > 0 ? &pm : nullptr,
                                        kNaN, q.alpha);
         ++draws;
-        if (r.finding_class == f.finding_class) ++same;
+        ++f.draws_by_class[static_cast<std::size_t>(rank(r.finding_class))];
     }
     f.stability_draws = draws;
-    f.stability = draws > 0 ? static_cast<double>(same) / draws : 0.0;
+    f.stability = draws > 0 ? static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) / draws
+                            : 0.0;
 }
 
 struct Scan {
@@ -419,17 +421,17 @@ FindingClass classify(SlopeFinding& f, double alpha) {
         const double a = one_sided_p(ps, pse, pdf, sign), b = one_sided_p(ws, wse, wdf, -sign);
         if (!std::isnan(a) && !std::isnan(b)) f.p_reversal = std::max(a, b);
     }
-    const bool q_ok = std::isnan(f.q_value) || f.q_value < alpha;
-    f.reversal = f.p_reversal < alpha && q_ok;
+    const bool q_ok = std::isnan(f.q_value) || f.q_value <= alpha;
+    f.reversal = f.p_reversal <= alpha && q_ok;
     bool up = false, down = false;
     for (const auto& g : f.groups) {
-        if (!g.informative || !(g.p < alpha)) continue;
+        if (!g.informative || !(g.p <= alpha)) continue;
         up = up || g.slope > 0;
         down = down || g.slope < 0;
     }
-    const bool pooled_sig = pp < alpha, within_sig = wp < alpha;
+    const bool pooled_sig = pp <= alpha, within_sig = wp <= alpha;
     if (f.reversal) f.finding_class = FindingClass::Reversal;
-    else if (up && down && f.equal_slopes.p < alpha) f.finding_class = FindingClass::Heterogeneous;
+    else if (up && down && f.equal_slopes.p <= alpha) f.finding_class = FindingClass::Heterogeneous;
     else if (pooled_sig && !within_sig) f.finding_class = FindingClass::Explained;
     else if (!pooled_sig && within_sig) f.finding_class = FindingClass::Masked;
     else f.finding_class = FindingClass::Stable;
@@ -469,6 +471,50 @@ Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQue
     if (widest <= 0xFFu) return run_scan<std::uint8_t>(s, candidates, pairs, work);
     if (widest <= 0xFFFFu) return run_scan<std::uint16_t>(s, candidates, pairs, work);
     return run_scan<std::uint32_t>(s, candidates, pairs, work);
+}
+
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const CandidateSet& candidates, bool pairs,
+                                              const Work& work) {
+    std::vector<const Column*> columns;
+    for (const auto& c : candidates.candidates) columns.push_back(c.column);
+    return scan_slopes(table, q, columns, pairs, work);
+}
+
+void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {
+    if (findings.empty()) return;
+    std::vector<double> p;
+    for (const auto& f : findings) p.push_back(f.p_reversal);
+    const std::vector<double> qv = stats::benjamini_hochberg(p);
+    for (std::size_t i = 0; i < findings.size(); ++i) {
+        SlopeFinding& f = findings[i];
+        f.q_value = qv[i];
+        classify(f, alpha);
+        if (f.stability_draws > 0)
+            f.stability = static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) /
+                          f.stability_draws;
+    }
+}
+
+void rank_findings(std::vector<SlopeFinding>& findings) {
+    auto change = [](const SlopeFinding& f) {
+        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope
+                                    : f.within.slope - f.pooled.slope;
+        return std::isnan(c) ? -1.0 : std::abs(c);
+    };
+    auto label = [](const SlopeFinding& f) {
+        std::string s;
+        for (const auto& n : f.strata) s += n + "\x1f";
+        return s;
+    };
+    auto q = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
+    std::stable_sort(findings.begin(), findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
+        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
+        if (q(a) != q(b)) return q(a) < q(b);
+        if (change(a) != change(b)) return change(a) > change(b);
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return label(a) < label(b);
+    });
 }
 
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,

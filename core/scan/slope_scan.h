@@ -9,12 +9,12 @@
 // cell is a stratum of its own, labelled "(missing)", so every check of a scan compares the
 // same rows and the pooled figures are identical across the scan.
 //
-// Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p < alpha
+// Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p <= alpha
 // on the classical SE; with covariates the adjusted pooled and within slopes are used):
 //   reversal      the pooled and the within slope lie significantly on opposite sides of zero:
 //                 intersection-union test, p_reversal = the larger of the two one-sided p-values
-//                 (pooled in its own direction, within in the opposite one) < alpha, and, once
-//                 the caller has filled q_value, q_value < alpha as well;
+//                 (pooled in its own direction, within in the opposite one) <= alpha, and, once
+//                 q_value is filled (apply_fdr), q_value <= alpha as well;
 //   heterogeneous at least one stratum slope is significantly positive and one significantly
 //                 negative, and the F-test of equal slopes rejects;
 //   explained     the pooled slope is significant, the within slope is not;
@@ -23,10 +23,12 @@
 // A 0/1 outcome is analysed as a linear probability model (flagged in the finding).
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/scan/candidates.h"
 #include "core/scan/finding_class.h"
 #include "core/stats/regression.h"
 #include "core/table/table.h"
 
+#include <array>
 #include <cstdint>
 #include <string>
 #include <vector>
@@ -77,6 +79,7 @@ struct SlopeFinding {
     double q_value = 0;      ///< NaN until the caller fills it (Benjamini-Hochberg over the scan)
     double stability = 0;    ///< share of resamples keeping the class; 0 when not computed
     int stability_draws = 0; ///< resamples behind `stability` (0: not computed)
+    std::array<int, 5> draws_by_class{};  ///< resamples per class, indexed by rank(FindingClass)
     PooledSlope pooled;      ///< unadjusted
     WithinSlope within;      ///< unadjusted
     bool adjusted = false;   ///< covariates given: the two figures below drive the class
@@ -100,6 +103,20 @@ FindingClass classify(SlopeFinding& f, double alpha);
 /// (> 4,194,304), cancellation. q_value is NaN.
 Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
                                  const std::vector<const Column*>& strata, const Work& work = {});
+
+/// The same over the stratifiers chosen by select_candidates (core/scan/candidates.h).
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const CandidateSet& candidates, bool pairs,
+                                              const Work& work = {});
+
+/// Benjamini-Hochberg q-values over every finding's p_reversal (core/stats/fdr.h), then each
+/// class recomputed with its q-value and its stability re-read for the new class from
+/// draws_by_class. No-op on an empty vector.
+void apply_fdr(std::vector<SlopeFinding>& findings, double alpha);
+
+/// Orders findings by class (reversal first), then q-value, then the size of the change
+/// |within − pooled| (largest first), then fewer stratifiers, then label.
+void rank_findings(std::vector<SlopeFinding>& findings);
 
 /// Every check for a candidate list: each candidate alone and, if `pairs`, every pair (i < j),
 /// singles first, in candidate order. q-values are left NaN for the caller. An empty candidate
