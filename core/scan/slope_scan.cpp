@@ -12,7 +12,7 @@ namespace foldline {
 namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-constexpr std::size_t kMaxStrata = std::size_t{1} << 22;
+constexpr std::size_t kMaxStrata = std::size_t{1} << 20;
 const std::string kMissingLabel = "(missing)";
 
 // Rows of the scan in compact form: only rows with x, y and every covariate present and a
@@ -339,9 +339,10 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
     return f;
 }
 
-// All checks of a scan share one pass over the rows in chunks: each chunk of x and y stays in
-// cache while every check folds it into its own per-stratum sums, so the rows are read from
-// memory once rather than once per check. (With covariates each check runs on its own.)
+// The checks of a scan share passes over the rows in chunks: each chunk of x and y stays in
+// cache while every check of the batch folds it into its own per-stratum sums, so the rows are
+// read from memory once per batch rather than once per check. (With covariates each check
+// runs on its own.)
 template <typename T>
 Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<const Column*>& cands,
                                            bool pairs, const Work& work) {
@@ -362,44 +363,55 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
             return st.error();
     const double total = static_cast<double>(checks.size());
 
-    std::vector<std::vector<BivariateMoments>> moments(checks.size());
-    if (s.d.p == 0) {
-        std::vector<StratumMoments> acc;
-        acc.reserve(checks.size());
-        for (const auto& c : checks) {
-            const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
-            acc.emplace_back((cands[c.a]->levels.size() + 1) * kb);
-        }
-        const std::size_t n = s.d.x.size(), chunk = 16384;
-        const double* w = s.d.wptr();
-        for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
-            if (work.cancelled()) return make_error("cancelled");
-            const std::size_t len = std::min(chunk, n - i0);
-            for (std::size_t c = 0; c < checks.size(); ++c) {
-                const bool pair = checks[c].b != checks[c].a;
-                const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
-                acc[c].add_rows(codes[checks[c].a].data() + i0,
-                                pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
-                                kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
-            }
-            work.report(0.5 * total * static_cast<double>(i0 + len) / static_cast<double>(n), total,
-                        "slope checks");
-        }
-        for (std::size_t c = 0; c < checks.size(); ++c) moments[c] = acc[c].finish();
-    }
-
+    auto strata_of = [&](const Check& c) {
+        const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
+        return (cands[c.a]->levels.size() + 1) * kb;
+    };
+    // Checks run in batches whose accumulators fit a memory budget; each batch reads the rows
+    // once, and its findings are built before the next batch starts.
+    constexpr std::size_t kBudgetBytes = std::size_t{64} << 20;
+    constexpr std::size_t kBytesPerStratum = 5 * 9 * sizeof(double);  // 4 lanes + the total
+    const std::size_t n = s.d.x.size(), chunk = 16384;
+    const double* w = s.d.wptr();
     std::vector<SlopeFinding> out;
     out.reserve(checks.size());
-    for (std::size_t c = 0; c < checks.size(); ++c) {
-        if (work.cancelled()) return make_error("cancelled");
-        const bool pair = checks[c].b != checks[c].a;
-        auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
-                              codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
-                              s.d.p == 0 ? &moments[c] : nullptr);
-        if (!r) return r.error();
-        out.push_back(std::move(r.value()));
-        work.report((s.d.p == 0 ? 0.5 * total : 0.0) + (s.d.p == 0 ? 0.5 : 1.0) * static_cast<double>(c + 1),
-                    total, "slope checks");
+    for (std::size_t c0 = 0; c0 < checks.size();) {
+        std::size_t c1 = c0 + 1, bytes = strata_of(checks[c0]) * kBytesPerStratum;
+        while (c1 < checks.size() && bytes + strata_of(checks[c1]) * kBytesPerStratum <= kBudgetBytes)
+            bytes += strata_of(checks[c1++]) * kBytesPerStratum;
+        std::vector<std::vector<BivariateMoments>> moments(c1 - c0);
+        if (s.d.p == 0) {
+            std::vector<StratumMoments> acc;
+            acc.reserve(c1 - c0);
+            for (std::size_t c = c0; c < c1; ++c) acc.emplace_back(strata_of(checks[c]));
+            for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
+                if (work.cancelled()) return make_error("cancelled");
+                const std::size_t len = std::min(chunk, n - i0);
+                for (std::size_t c = c0; c < c1; ++c) {
+                    const bool pair = checks[c].b != checks[c].a;
+                    const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
+                    acc[c - c0].add_rows(codes[checks[c].a].data() + i0,
+                                         pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
+                                         kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
+                }
+                work.report(static_cast<double>(c0) + 0.5 * static_cast<double>(c1 - c0) *
+                                                          static_cast<double>(i0 + len) / static_cast<double>(n),
+                            total, "slope checks");
+            }
+            for (std::size_t c = c0; c < c1; ++c) moments[c - c0] = acc[c - c0].finish();
+        }
+        for (std::size_t c = c0; c < c1; ++c) {
+            if (work.cancelled()) return make_error("cancelled");
+            const bool pair = checks[c].b != checks[c].a;
+            auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
+                                  codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
+                                  s.d.p == 0 ? &moments[c - c0] : nullptr);
+            if (!r) return r.error();
+            out.push_back(std::move(r.value()));
+            moments[c - c0] = {};
+            work.report(static_cast<double>(c + 1), total, "slope checks");
+        }
+        c0 = c1;
     }
     return out;
 }

@@ -100,7 +100,7 @@ FindingClass classify(SlopeFinding& f, double alpha);
 /// One check: y on x stratified by the joint levels of `strata` (1 or 2 categorical columns of
 /// `table`'s length). Errors: x or y missing or not numeric, a covariate missing or not
 /// numeric, a stratifier of the wrong length or type, no usable rows, too many joint strata
-/// (> 4,194,304), cancellation. q_value is NaN.
+/// (> 1,048,576), cancellation. q_value is NaN.
 Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
                                  const std::vector<const Column*>& strata, const Work& work = {});
 
