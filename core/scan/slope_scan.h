@@ -10,7 +10,8 @@
 // same rows and the pooled figures are identical across the scan.
 //
 // Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p <= alpha
-// on the classical SE; with covariates the adjusted pooled and within slopes are used):
+// on the classical SE; with covariates the adjusted pooled and within slopes are used, while
+// the stratum slopes and the equal-slopes test stay unadjusted):
 //   reversal      the pooled and the within slope lie significantly on opposite sides of zero:
 //                 intersection-union test, p_reversal = the larger of the two one-sided p-values
 //                 (pooled in its own direction, within in the opposite one) <= alpha, and, once
