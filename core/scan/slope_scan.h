@@ -2,9 +2,10 @@
 // The slope scan: is the pooled trend of a numeric outcome y on a numeric exposure x reversed,
 // explained, masked or split by a stratifier (or a pair of them)?
 //
-// One pass over the rows per check builds per-stratum moment sums (core/stats/moments.h); every
-// figure of a finding is computed from those, except the HC3 robust SE of the pooled slope,
-// which needs row leverages and is computed once per scan in its own pass. Rows are used when
+// One pass over the rows (shared by a batch of checks) builds each check's per-stratum moment
+// sums (core/stats/moments.h); every figure of a finding is computed from those, except the
+// HC3 robust SE of the pooled slope, which needs row leverages and is computed once per scan
+// in its own pass. Rows are used when
 // x, y and every covariate are present and the row weight is positive; a missing stratifier
 // cell is a stratum of its own, labelled "(missing)", so every check of a scan compares the
 // same rows and the pooled figures are identical across the scan.
@@ -22,6 +23,7 @@
 //   masked        the pooled slope is not significant, the within slope is;
 //   stable        none of these. The rules are tried in this order.
 // A 0/1 outcome is analysed as a linear probability model (flagged in the finding).
+// Stability (SlopeQuestion::bootstrap > 0) is computed for findings that are not stable.
 #include "core/common/error.h"
 #include "core/common/progress.h"
 #include "core/scan/candidates.h"
