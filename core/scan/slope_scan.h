@@ -5,10 +5,10 @@
 // One pass over the rows (shared by a batch of checks) builds each check's per-stratum moment
 // sums (core/stats/moments.h); every figure of a finding is computed from those, except the
 // HC3 robust SE of the pooled slope, which needs row leverages and is computed once per scan
-// in its own pass. Rows are used when
-// x, y and every covariate are present and the row weight is positive; a missing stratifier
-// cell is a stratum of its own, labelled "(missing)", so every check of a scan compares the
-// same rows and the pooled figures are identical across the scan.
+// in its own pass. Rows are used when x, y and every covariate are present and the row weight
+// is positive; a missing stratifier cell is a stratum of its own, labelled "(missing)", so
+// every check of a scan compares the same rows and the pooled figures are identical across
+// the scan.
 //
 // Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p <= alpha
 // on the classical SE; with covariates the adjusted pooled and within slopes are used, while
