@@ -29,6 +29,8 @@ bool reader_available();
 Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work);
 
 struct QuestionSpec {
+    bool slope = false;             ///< false: rates of a binary outcome between two groups;
+                                    ///< true: trend of numeric `outcome` (y) on numeric `exposure` (x)
     QString outcome, positive;      ///< binary outcome and its positive level
     QString exposure, focal, reference;
     QStringList candidates;         ///< chosen stratifiers

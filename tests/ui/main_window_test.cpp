@@ -153,6 +153,29 @@ private slots:
         QVERIFY(d->doc()->has_edge(stratum, exposure));
         QCOMPARE(d->verdict().answer, before);
     }
+
+    void trend_path_on_the_retail_sample() {
+        if (find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_weeks.csv not found");
+        MainWindow w;
+        const QString err = prepare_slope_demo(w, 120000);
+        QVERIFY2(err.isEmpty(), qPrintable(err));
+        const FindingView* f = w.findings_model()->at(w.findings_page()->selected());
+        QVERIFY(f && f->slope);
+        // The sample's planted story (sample_data/README.md): weekly sales rise with promotion
+        // spend pooled, and fall within every store format.
+        QCOMPARE(f->strata, QStringList{"store_format"});
+        QCOMPARE(f->cls, FindingClass::Reversal);
+        QVERIFY(f->crude.value > 0);
+        QVERIFY(f->adjusted.value < 0);
+        QTableWidget* s = w.findings_page()->strata_table();
+        QCOMPARE(s->rowCount(), int(f->slope_rows.size()));
+        for (int i = 0; i < s->rowCount(); ++i) {
+            QCOMPARE(s->item(i, 2)->text(), format_estimate(f->slope_rows[std::size_t(i)].slope));
+            QVERIFY(f->slope_rows[std::size_t(i)].slope.value < 0);
+        }
+        QVERIFY(f->points.size() <= 4000 && !f->points.empty());
+        QVERIFY(f->points_note.contains("drawn"));
+    }
 };
 
 QTEST_MAIN(MainWindowTest)
