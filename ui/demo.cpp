@@ -61,6 +61,16 @@ QString find_sample(const QString& name) {
     return {};
 }
 
+/// Seeds the diagram for the selected finding, then replaces it with the sample's own diagram
+/// file when there is one (the scenario's story as its author drew it).
+static void load_sample_diagram(MainWindow& w, const QString& name) {
+    const QString path = find_sample(name);
+    if (path.isEmpty()) return;
+    w.go_to(MainWindow::Diagram);
+    w.diagram_page()->open_file(path);
+    w.go_to(MainWindow::Findings);
+}
+
 QString prepare_demo(MainWindow& w, int timeout_ms) {
     SourcePage* src = w.source_page();
     const QString csv = find_sample(QStringLiteral("lender_approvals.csv"));
@@ -97,6 +107,7 @@ QString prepare_demo(MainWindow& w, int timeout_ms) {
     if (w.findings_model()->size() == 0) return QObject::tr("the demo scan found nothing: %1").arg(w.scan_page()->status());
     w.go_to(MainWindow::Findings);
     select_top_single(w);
+    load_sample_diagram(w, QStringLiteral("lender_approvals.diagram.json"));
     return {};
 }
 
@@ -119,6 +130,7 @@ QString prepare_slope_demo(MainWindow& w, int timeout_ms) {
     if (w.findings_model()->size() == 0) return QObject::tr("the demo scan found nothing: %1").arg(w.scan_page()->status());
     w.go_to(MainWindow::Findings);
     select_top_single(w);
+    load_sample_diagram(w, QStringLiteral("retail_weeks.diagram.json"));
     return {};
 }
 

@@ -1,6 +1,11 @@
 #include "ui/diagram_page.h"
 
 #include <QApplication>
+#include <QFileDialog>
+#include <QFileInfo>
+#include <QMessageBox>
+#include <QSaveFile>
+#include <QSettings>
 #include <QComboBox>
 #include <QGraphicsView>
 #include <QHBoxLayout>
@@ -15,6 +20,7 @@
 #include <QUndoStack>
 #include <QVBoxLayout>
 
+#include "core/causal/diagram_file.h"
 #include "ui/caution_band.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_scene.h"
@@ -169,6 +175,59 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
     auto_layout();
     undo_->clear();
     fit_view();
+}
+
+Status DiagramPage::open_file(const QString& path) {
+    auto d = causal::read_diagram(path.toStdString());
+    if (!d) return d.error();
+    doc_->replace(*d);
+    if (doc_->crowded()) {
+        const QHash<QString, QPointF> pos = doc_->layout();
+        for (auto it = pos.begin(); it != pos.end(); ++it) doc_->move_node(it.key(), it.value());
+    }
+    undo_->clear();
+    columns_->clear();
+    show_message({});
+    fit_view();
+    return Ok{};
+}
+
+Status DiagramPage::save_file(const QString& path) const { return causal::write_diagram(doc_->diagram(), path.toStdString()); }
+
+Status DiagramPage::export_dot(const QString& path) const {
+    QSaveFile f(path);
+    const std::string dot = causal::diagram_to_dot(doc_->diagram());
+    if (!f.open(QIODevice::WriteOnly) || f.write(dot.data(), qint64(dot.size())) != qint64(dot.size()) || !f.commit())
+        return make_error("could not write the DOT file", path.toStdString());
+    return Ok{};
+}
+
+void DiagramPage::open_dialog() {
+    const QString path = QFileDialog::getOpenFileName(this, tr("Open diagram"), QSettings().value("diagram/last_dir").toString(),
+                                                      tr("Diagrams (*.diagram.json *.json);;All files (*)"));
+    if (path.isEmpty()) return;
+    QSettings().setValue("diagram/last_dir", QFileInfo(path).absolutePath());
+    const Status st = open_file(path);
+    if (!st) QMessageBox::warning(this, tr("Open diagram"), QString::fromStdString(st.error().to_string()));
+}
+
+void DiagramPage::save_dialog() {
+    QString path = QFileDialog::getSaveFileName(this, tr("Save diagram"), QSettings().value("diagram/last_dir").toString(),
+                                                tr("Diagrams (*.diagram.json)"));
+    if (path.isEmpty()) return;
+    if (!path.endsWith(QLatin1String(".json"))) path += QStringLiteral(".diagram.json");
+    QSettings().setValue("diagram/last_dir", QFileInfo(path).absolutePath());
+    const Status st = save_file(path);
+    if (!st) QMessageBox::warning(this, tr("Save diagram"), QString::fromStdString(st.error().to_string()));
+}
+
+void DiagramPage::export_dot_dialog() {
+    QString path = QFileDialog::getSaveFileName(this, tr("Export diagram as DOT"), QSettings().value("diagram/last_dir").toString(),
+                                                tr("Graphviz DOT (*.dot *.gv)"));
+    if (path.isEmpty()) return;
+    if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".dot");
+    const Status st = export_dot(path);
+    if (!st) QMessageBox::warning(this, tr("Export DOT"), QString::fromStdString(st.error().to_string()));
 }
 
 void DiagramPage::fit_view() {
