@@ -154,6 +154,7 @@ DiagramPage::DiagramPage(QWidget* parent)
                 undo_->push(new MoveNodesCommand(doc_, before, after, tr("move")));
             });
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_verdict);
+    connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refill_columns);
     refresh_verdict();
 }
 
@@ -168,9 +169,8 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
                        const QStringList& columns) {
     undo_->clear();
     doc_->seed(exposure, outcome, strata);
-    columns_->clear();
-    for (const QString& c : columns)
-        if (!doc_->node(c)) columns_->addItem(c);
+    data_columns_ = columns;
+    refill_columns();  // the seed above ran before the columns were known
     show_message({});
     auto_layout();
     undo_->clear();
@@ -186,7 +186,7 @@ Status DiagramPage::open_file(const QString& path) {
         for (auto it = pos.begin(); it != pos.end(); ++it) doc_->move_node(it.key(), it.value());
     }
     undo_->clear();
-    columns_->clear();
+    refill_columns();
     show_message({});
     fit_view();
     return Ok{};
@@ -244,6 +244,12 @@ void DiagramPage::showEvent(QShowEvent* e) {
     fit_view();
 }
 
+void DiagramPage::refill_columns() {
+    columns_->clear();
+    for (const QString& c : data_columns_)
+        if (!doc_->node(c)) columns_->addItem(c);
+}
+
 QPointF DiagramPage::free_spot() const {
     const QRectF r = scene_->itemsBoundingRect();
     return r.isNull() ? QPointF(0, 0) : QPointF(r.center().x(), r.bottom() + 80);
@@ -268,7 +274,6 @@ bool DiagramPage::add_observed(const QString& column) {
     }
     show_message({});
     undo_->push(new AddNodeCommand(doc_, DiagramNode{column, true, free_spot()}));
-    columns_->removeItem(columns_->findText(column));
     return true;
 }
 
@@ -299,10 +304,7 @@ void DiagramPage::delete_selected() {
     undo_->beginMacro(tr("delete"));
     for (const auto& e : edges)
         if (!nodes.contains(e.first) && !nodes.contains(e.second)) undo_->push(new RemoveEdgeCommand(doc_, e.first, e.second));
-    for (const QString& n : nodes) {
-        undo_->push(new RemoveNodeCommand(doc_, n));
-        if (!doc_->node(n) && n != doc_->exposure()) columns_->addItem(n);
-    }
+    for (const QString& n : nodes) undo_->push(new RemoveNodeCommand(doc_, n));
     undo_->endMacro();
     show_message({});
 }

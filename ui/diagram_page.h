@@ -70,6 +70,7 @@ private:
     void refresh_verdict();
     void show_message(const QString& text);
     QPointF free_spot() const;
+    void refill_columns();
 
     DiagramDoc* doc_;
     DiagramScene* scene_;
@@ -81,6 +82,7 @@ private:
     QLabel *verdict_label_, *message_;
     QSplitter* split_;
     DiagramVerdict verdict_;
+    QStringList data_columns_;
 };
 
 }  // namespace foldline::ui
