@@ -279,11 +279,14 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     if (!set) return out;
     for (const Column& c : t.columns) {
         const std::string& name = c.name;
-        CandidateView v{qs(name), false, {}};
+        CandidateView v{qs(name), false, {}, {}};
         if (std::find(skip.begin(), skip.end(), name) != skip.end()) {
             v.reason = qs(name) == q.outcome ? QObject::tr("the outcome") : QObject::tr("the compared groups");
-        } else if (std::any_of(set->candidates.begin(), set->candidates.end(), [&](const Candidate& k) { return k.name == name; })) {
+        } else if (auto it = std::find_if(set->candidates.begin(), set->candidates.end(),
+                                          [&](const Candidate& k) { return k.name == name; });
+                   it != set->candidates.end()) {
             v.usable = true;
+            v.origin = qs(it->origin);
         } else {
             for (const Exclusion& e : set->excluded)
                 if (e.column == name) v.reason = qs(e.reason);

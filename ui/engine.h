@@ -46,6 +46,7 @@ struct CandidateView {
     QString column;
     bool usable = true;
     QString reason;
+    QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
 };
 
 /// Columns that could stratify the question, each with the reason any is left out.

@@ -288,8 +288,12 @@ void QuestionPage::refresh_candidates() {
         q.outcome = outcome_->currentText();
         q.exposure = exposure_->currentText();
         q.bins = bins_->value();
-        for (const CandidateView& c : propose_candidates(*table_, q)) {
-            auto* item = new QListWidgetItem(c.usable ? c.column : tr("%1 — left out: %2").arg(c.column, c.reason));
+        std::vector<CandidateView> all = propose_candidates(*table_, q);
+        std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
+        for (const CandidateView& c : all) {
+            const QString shown = c.origin.isEmpty() || c.origin == QLatin1String("categorical")
+                                      ? c.column : tr("%1  (%2)").arg(c.column, c.origin);
+            auto* item = new QListWidgetItem(c.usable ? shown : tr("%1 — left out: %2").arg(c.column, c.reason));
             item->setData(Qt::UserRole, c.column);
             if (c.usable) {
                 item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsUserCheckable | Qt::ItemIsSelectable);

@@ -3,6 +3,7 @@
 #include <QApplication>
 #include <QCommandLineParser>
 #include <QDir>
+#include <QIcon>
 #include <QTabWidget>
 #include <QTimer>
 #include <cstdio>
@@ -11,6 +12,10 @@
 #include "ui/findings_page.h"
 #include "ui/main_window.h"
 
+// The resources live in a static library: register them before first use. Outside any
+// namespace, as Q_INIT_RESOURCE requires.
+static void init_foldline_resources() { Q_INIT_RESOURCE(foldline); }
+
 namespace foldline::ui {
 
 int run_workbench(int argc, char** argv) {
@@ -18,6 +23,8 @@ int run_workbench(int argc, char** argv) {
     QApplication::setApplicationName(QStringLiteral("Foldline"));
     QApplication::setOrganizationName(QStringLiteral("Foldline"));
     QApplication::setApplicationVersion(QStringLiteral("0.1.0"));
+    init_foldline_resources();
+    QApplication::setWindowIcon(QIcon(QStringLiteral(":/foldline/icon.svg")));
 
     QCommandLineParser parser;
     parser.setApplicationDescription(QStringLiteral("Foldline workbench"));
