@@ -1,7 +1,11 @@
 #include "ui/workbench.h"
 
 #include <QApplication>
+#include <QCommandLineParser>
+#include <QTimer>
+#include <cstdio>
 
+#include "ui/demo.h"
 #include "ui/main_window.h"
 
 namespace foldline::ui {
@@ -10,8 +14,53 @@ int run_workbench(int argc, char** argv) {
     QApplication app(argc, argv);
     QApplication::setApplicationName(QStringLiteral("Foldline"));
     QApplication::setOrganizationName(QStringLiteral("Foldline"));
+    QApplication::setApplicationVersion(QStringLiteral("0.1.0"));
+
+    QCommandLineParser parser;
+    parser.setApplicationDescription(QStringLiteral("Foldline workbench"));
+    parser.addHelpOption();
+    QCommandLineOption demo(QStringLiteral("demo"), QStringLiteral("Open with the invented lender audit already scanned."));
+    QCommandLineOption shots(QStringLiteral("screenshots"),
+                             QStringLiteral("Render each step of the demo audit to PNG files in DIR, then exit."),
+                             QStringLiteral("DIR"));
+    QCommandLineOption dark(QStringLiteral("dark"), QStringLiteral("Use a dark palette (for screenshots)."));
+    parser.addOption(demo);
+    parser.addOption(shots);
+    parser.addOption(dark);
+    parser.process(app);
+
+    if (parser.isSet(dark)) {
+        QPalette p;
+        p.setColor(QPalette::Window, QColor(QRgb(0x2a2c31)));
+        p.setColor(QPalette::WindowText, QColor(QRgb(0xe6e6e6)));
+        p.setColor(QPalette::Base, QColor(QRgb(0x1f2125)));
+        p.setColor(QPalette::AlternateBase, QColor(QRgb(0x292b30)));
+        p.setColor(QPalette::Text, QColor(QRgb(0xe6e6e6)));
+        p.setColor(QPalette::Button, QColor(QRgb(0x34363c)));
+        p.setColor(QPalette::ButtonText, QColor(QRgb(0xe6e6e6)));
+        p.setColor(QPalette::Highlight, QColor(QRgb(0x56B4E9)));
+        p.setColor(QPalette::HighlightedText, QColor(QRgb(0x000000)));
+        p.setColor(QPalette::ToolTipBase, QColor(QRgb(0x34363c)));
+        p.setColor(QPalette::ToolTipText, QColor(QRgb(0xe6e6e6)));
+        QApplication::setPalette(p);
+    }
+
     MainWindow window;
+    if (parser.isSet(shots)) {
+        window.resize(1440, 900);
+        window.show();
+        const QString err = prepare_demo(window);
+        if (!err.isEmpty()) std::fprintf(stderr, "foldline: demo: %s\n", qPrintable(err));
+        const int n = save_screenshots(window, parser.value(shots));
+        std::printf("foldline: wrote %d screenshots to %s\n", n, qPrintable(parser.value(shots)));
+        return n > 0 ? 0 : 1;
+    }
     window.show();
+    if (parser.isSet(demo))
+        QTimer::singleShot(0, &window, [&window] {
+            const QString err = prepare_demo(window);
+            if (!err.isEmpty()) std::fprintf(stderr, "foldline: demo: %s\n", qPrintable(err));
+        });
     return QApplication::exec();
 }
 

@@ -91,6 +91,18 @@ std::vector<std::string> unique_names(std::vector<std::string> names, std::vecto
     return names;
 }
 
+// Offset just past the first newline outside quotes at or after `from` (which is outside
+// quotes); the end of text when there is none. Every '"' toggles quoting, as in RFC 4180.
+std::size_t next_record_start(std::string_view text, std::size_t from) {
+    bool in_quotes = false;
+    for (std::size_t i = from; i < text.size(); ++i) {
+        const char c = text[i];
+        if (c == '"') in_quotes = !in_quotes;
+        else if (c == '\n' && !in_quotes) return i + 1;
+    }
+    return text.size();
+}
+
 template <typename T>
 void release_vector(std::vector<T>& v) {
     std::vector<T>().swap(v);
@@ -281,10 +293,21 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     if (work.cancelled()) return err("cancelled");
     std::vector<std::size_t> first_line(1, body_first_line);
     for (std::size_t i = 0; i < chunks.size(); ++i) {
-        if (!chunks[i].parsed) parse_chunk(plan, chunks[i], work);  // skipped after an earlier failure
+        if (!chunks[i].parsed) {  // skipped after an earlier (guessed) failure, or moved
+            parse_chunk(plan, chunks[i], work);
+            if (map) map->release(chunks[i].begin, chunks[i].end);
+        }
         while (chunks[i].overran) {
-            chunks[i].end = chunks[i + 1].end;
-            chunks.erase(chunks.begin() + static_cast<std::ptrdiff_t>(i) + 1);
+            // The record holding the open quote ends at the first newline outside quotes after
+            // it; the next chunk starts there instead (and is read again), so no cascade.
+            const std::size_t t = next_record_start(text, chunks[i].overrun_from);
+            chunks[i].end = t;
+            while (i + 1 < chunks.size() && chunks[i + 1].end <= t)
+                chunks.erase(chunks.begin() + static_cast<std::ptrdiff_t>(i) + 1);
+            if (i + 1 < chunks.size()) {
+                chunks[i + 1].begin = t;
+                chunks[i + 1].parsed = false;
+            }
             parse_chunk(plan, chunks[i], work);
             if (map) map->release(chunks[i].begin, chunks[i].end);
         }
@@ -337,19 +360,23 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
         if (map) map->release(chunks[i].begin, chunks[i].end);
     });
 
+    // Assemble columns (independent of each other, so in parallel).
+    std::vector<Column> assembled(ncols);
+    run_tasks(ncols, threads, [&](std::size_t c) {
+        assembled[c] = categorical[c] ? assemble_categorical(names[c], chunks, c, rows)
+                                      : assemble_numeric(names[c], chunks, c, rows);
+    });
     Table table;
     table.source = name;
     table.rows = rows;
     table.columns.reserve(ncols);
     for (std::size_t c = 0; c < ncols; ++c) {
         if (c == count_index) {
-            Column w = assemble_numeric(names[c], chunks, c, rows);
-            table.weights = std::move(w.values);
+            table.weights = std::move(assembled[c].values);
             table.weight_column = names[c];
             continue;
         }
-        table.columns.push_back(categorical[c] ? assemble_categorical(names[c], chunks, c, rows)
-                                               : assemble_numeric(names[c], chunks, c, rows));
+        table.columns.push_back(std::move(assembled[c]));
     }
     progress.add(0, "done");
     if (report_out) *report_out = std::move(report);

@@ -12,7 +12,8 @@ class LocalCodes {
 public:
     static constexpr std::uint32_t kMissing = 0xFFFFFFFFu;
 
-    /// Appends code (must be below the dictionary size); widens when it does not fit.
+    /// Appends code (must be below the dictionary size); widens when it does not fit. A new
+    /// LocalCodes is one byte wide and empty.
     void push(std::uint32_t code) {
         if (width_ == 1) {
             if (code < 0xFFu) {

@@ -82,7 +82,9 @@ Result<Prepared> prepare(const Table& t, const SlopeQuestion& q) {
                           t.source);
     d.linear_probability = zero_one;
     StratumMoments acc(1);
-    for (std::size_t i = 0; i < d.x.size(); ++i) acc.add(0, d.x[i], d.y[i], d.w.empty() ? 1.0 : d.w[i]);
+    const std::vector<std::uint8_t> zero(d.x.size(), 0);
+    acc.add_rows(zero.data(), static_cast<const std::uint8_t*>(nullptr), 1, d.x.data(), d.y.data(),
+                 d.wptr(), d.x.size());
     d.pooled = acc.finish()[0];
     d.hc3 = hc3_slope_se(d.x.data(), d.y.data(), d.wptr(), nullptr, d.x.size(), d.pooled);
     if (d.p > 0) {
@@ -112,20 +114,7 @@ template <typename T>
 std::vector<BivariateMoments> accumulate(const Prepared& d, const T* a, const T* b,
                                          std::size_t kb, std::size_t strata) {
     StratumMoments acc(strata);
-    const std::size_t n = d.x.size();
-    const double* x = d.x.data();
-    const double* y = d.y.data();
-    if (d.w.empty()) {
-        if (b) {
-            for (std::size_t i = 0; i < n; ++i) acc.add(std::size_t{a[i]} * kb + b[i], x[i], y[i]);
-        } else {
-            for (std::size_t i = 0; i < n; ++i) acc.add(a[i], x[i], y[i]);
-        }
-    } else {
-        const double* w = d.w.data();
-        for (std::size_t i = 0; i < n; ++i)
-            acc.add(b ? std::size_t{a[i]} * kb + b[i] : std::size_t{a[i]}, x[i], y[i], w[i]);
-    }
+    acc.add_rows(a, b, kb, d.x.data(), d.y.data(), d.wptr(), d.x.size());
     return acc.finish();
 }
 
@@ -174,7 +163,7 @@ SlopeFinding figures(const std::vector<BivariateMoments>& strata,
         grp.r = g.r;
         grp.informative = g.informative;
         grp.reason = g.reason;
-        grp.level = std::to_string(k);  // replaced by the caller's label
+        grp.code = k;  // the caller adds the labels
         f.groups.push_back(std::move(grp));
     }
     f.within = WithinSlope{wf.slope.slope, wf.slope.ci_low, wf.slope.ci_high, wf.slope.se,
@@ -226,7 +215,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
     int same = 0, draws = 0;
     for (int b = 0; b < q.bootstrap; ++b) {
         if (work.cancelled()) break;
-        std::vector<BivariateMoments> ms(strata);
+        StratumMoments acc(strata);
         std::vector<MomentMatrix> mm;
         if (d.p > 0) mm.assign(strata, MomentMatrix(dim));
         auto add_row = [&](std::size_t k, std::size_t i, double weight) {
@@ -236,7 +225,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 z[d.p + 1] = d.y[i];
                 mm[k].add(z.data(), weight);
             }
-            ms[k].add(d.x[i], d.y[i], weight);
+            acc.add(k, d.x[i], d.y[i], weight);
         };
         for (std::size_t k = 0; k < strata; ++k) {
             const std::size_t lo = offset[k], m = offset[k + 1] - lo;
@@ -261,6 +250,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 }
             }
         }
+        const std::vector<BivariateMoments> ms = acc.finish();
         BivariateMoments pooled = merge_all(ms);
         MomentMatrix pm;
         if (d.p > 0) {
@@ -293,19 +283,29 @@ Status check_stratifier(const Table& t, const Column* c) {
     return Ok{};
 }
 
-template <typename T>
-Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb,
-                               const std::vector<T>& codes_a, const std::vector<T>* codes_b) {
+Status check_strata_count(const Table& t, const Column* ca, const Column* cb) {
     const std::size_t ka = ca->levels.size() + 1;
     const std::size_t kb = cb ? cb->levels.size() + 1 : 1;
     if (ka > kMaxStrata / kb)
         return make_error("too many joint strata for '" + ca->name + "'" +
                               (cb ? " × '" + cb->name + "'" : std::string()) + ": " +
                               std::to_string(ka) + " × " + std::to_string(kb),
-                          s.table.source);
+                          t.source);
+    return Ok{};
+}
+
+// The finding of one check from its per-stratum moments (computed by the caller, or here when
+// `given` is null).
+template <typename T>
+Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb,
+                               const std::vector<T>& codes_a, const std::vector<T>* codes_b,
+                               std::vector<BivariateMoments>* given = nullptr) {
+    if (auto st = check_strata_count(s.table, ca, cb); !st) return st.error();
+    const std::size_t ka = ca->levels.size() + 1;
+    const std::size_t kb = cb ? cb->levels.size() + 1 : 1;
     const std::size_t strata = ka * kb;
     const T* b = codes_b ? codes_b->data() : nullptr;
-    const auto moments = accumulate(s.d, codes_a.data(), b, kb, strata);
+    const auto moments = given ? std::move(*given) : accumulate(s.d, codes_a.data(), b, kb, strata);
     std::vector<MomentMatrix> matrices;
     if (s.d.p > 0) matrices = accumulate_matrix(s.d, codes_a.data(), b, kb, strata);
     SlopeFinding f = figures(moments, s.d.p > 0 ? &matrices : nullptr, s.d.pooled,
@@ -320,7 +320,7 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
         return code < c->levels.size() ? c->levels[code] : kMissingLabel;
     };
     for (auto& g : f.groups) {
-        const std::size_t k = std::stoul(g.level);
+        const std::size_t k = g.code;
         g.levels.push_back(label(ca, k / kb));
         if (cb) g.levels.push_back(label(cb, k % kb));
         g.level = g.levels[0];
@@ -337,6 +337,9 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
     return f;
 }
 
+// All checks of a scan share one pass over the rows in chunks: each chunk of x and y stays in
+// cache while every check folds it into its own per-stratum sums, so the rows are read from
+// memory once rather than once per check. (With covariates each check runs on its own.)
 template <typename T>
 Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<const Column*>& cands,
                                            bool pairs, const Work& work) {
@@ -344,24 +347,58 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
     codes.reserve(cands.size());
     for (const Column* c : cands) codes.push_back(gather_codes<T>(*c, s.d.used));
     const std::size_t m = cands.size();
-    const double total = static_cast<double>(m + (pairs ? m * (m - 1) / 2 : 0));
-    std::vector<SlopeFinding> out;
-    double done = 0;
-    auto step = [&](Result<SlopeFinding> r) -> Status {
-        if (!r) return r.error();
-        out.push_back(std::move(r.value()));
-        work.report(++done, total, "slope checks");
-        if (work.cancelled()) return make_error("cancelled");
-        return Ok{};
+    struct Check {
+        std::size_t a, b;  // b == a: single
     };
-    for (std::size_t i = 0; i < m; ++i)
-        if (auto st = step(run_check<T>(s, cands[i], nullptr, codes[i], nullptr)); !st)
-            return st.error();
+    std::vector<Check> checks;
+    for (std::size_t i = 0; i < m; ++i) checks.push_back({i, i});
     if (pairs)
         for (std::size_t i = 0; i < m; ++i)
-            for (std::size_t j = i + 1; j < m; ++j)
-                if (auto st = step(run_check<T>(s, cands[i], cands[j], codes[i], &codes[j])); !st)
-                    return st.error();
+            for (std::size_t j = i + 1; j < m; ++j) checks.push_back({i, j});
+    for (const auto& c : checks)
+        if (auto st = check_strata_count(s.table, cands[c.a], c.b != c.a ? cands[c.b] : nullptr); !st)
+            return st.error();
+    const double total = static_cast<double>(checks.size());
+
+    std::vector<std::vector<BivariateMoments>> moments(checks.size());
+    if (s.d.p == 0) {
+        std::vector<StratumMoments> acc;
+        acc.reserve(checks.size());
+        for (const auto& c : checks) {
+            const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
+            acc.emplace_back((cands[c.a]->levels.size() + 1) * kb);
+        }
+        const std::size_t n = s.d.x.size(), chunk = 16384;
+        const double* w = s.d.wptr();
+        for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
+            if (work.cancelled()) return make_error("cancelled");
+            const std::size_t len = std::min(chunk, n - i0);
+            for (std::size_t c = 0; c < checks.size(); ++c) {
+                const bool pair = checks[c].b != checks[c].a;
+                const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
+                acc[c].add_rows(codes[checks[c].a].data() + i0,
+                                pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
+                                kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
+            }
+            work.report(0.5 * total * static_cast<double>(i0 + len) / static_cast<double>(n), total,
+                        "slope checks");
+        }
+        for (std::size_t c = 0; c < checks.size(); ++c) moments[c] = acc[c].finish();
+    }
+
+    std::vector<SlopeFinding> out;
+    out.reserve(checks.size());
+    for (std::size_t c = 0; c < checks.size(); ++c) {
+        if (work.cancelled()) return make_error("cancelled");
+        const bool pair = checks[c].b != checks[c].a;
+        auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
+                              codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
+                              s.d.p == 0 ? &moments[c] : nullptr);
+        if (!r) return r.error();
+        out.push_back(std::move(r.value()));
+        work.report((s.d.p == 0 ? 0.5 * total : 0.0) + (s.d.p == 0 ? 0.5 : 1.0) * static_cast<double>(c + 1),
+                    total, "slope checks");
+    }
     return out;
 }
 

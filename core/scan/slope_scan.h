@@ -46,6 +46,7 @@ struct SlopeQuestion {
 struct SlopeGroup {
     std::string level;                ///< label; a pair's labels joined by " / "
     std::vector<std::string> levels;  ///< one label per stratifier ("(missing)" for empty cells)
+    std::size_t code = 0;             ///< stratum code: c1 × (levels2 + 1) + c2 for a pair
     double n = 0;                     ///< observations (Σ weights)
     double rows = 0;
     double slope = 0, se = 0, ci_low = 0, ci_high = 0, p = 0, r = 0;  ///< NaN when undefined
@@ -55,7 +56,7 @@ struct SlopeGroup {
 
 struct PooledSlope {
     double slope = 0, ci_low = 0, ci_high = 0, se = 0, p = 0, df = 0;
-    double se_robust = 0;             ///< HC3; NaN when undefined or with covariates weighted in
+    double se_robust = 0;             ///< HC3 SE of this (unadjusted) slope; NaN when undefined
     double r = 0, r_ci_low = 0, r_ci_high = 0;
     double n = 0;
 };
@@ -102,7 +103,8 @@ Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
 
 /// Every check for a candidate list: each candidate alone and, if `pairs`, every pair (i < j),
 /// singles first, in candidate order. q-values are left NaN for the caller. An empty candidate
-/// list gives an empty vector. Errors as for check_slope.
+/// list gives an empty vector. Errors as for check_slope. Bootstrap stability, when asked for,
+/// costs O(bootstrap × rows) per finding that is not stable.
 Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
                                               const std::vector<const Column*>& candidates,
                                               bool pairs, const Work& work = {});
