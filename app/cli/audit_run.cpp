@@ -10,6 +10,7 @@
 #include "core/causal/diagram.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
+#include "core/report/csv_export.h"
 #include "core/report/memo_content.h"
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
@@ -131,6 +132,16 @@ std::string today() {
     char buf[16];
     std::strftime(buf, sizeof buf, "%Y-%m-%d", &tm);
     return buf;
+}
+
+int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
+                         const std::string& memo_path, const std::string& csv_prefix) {
+    if (!csv_prefix.empty()) {
+        if (auto st = report::write_csv_exports(result, nullptr, csv_prefix); !st)
+            return fail(command, kInput, st.error().to_string());
+    }
+    if (!memo_path.empty()) return write_memo(command, result, info, nullptr, {}, {}, memo_path);
+    return kOk;
 }
 
 bool memo_available() {

@@ -62,6 +62,11 @@ int write_memo(const std::string& command, const ScanResult& result, const DataI
                const project::Project* p, const std::vector<std::optional<causal::Verdict>>& verdicts,
                const std::string& data_change, const std::string& out_path);
 
+/// The outputs `foldline scan` shares besides its JSON: the PDF memo (`memo_path`) and the CSV
+/// pair (`csv_prefix`); empty = not asked. Returns 0 or the exit code after printing the reason.
+int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
+                         const std::string& memo_path, const std::string& csv_prefix);
+
 /// True when this build can write PDF memos.
 bool memo_available();
 

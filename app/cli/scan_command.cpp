@@ -9,6 +9,7 @@
 #include <thread>
 
 #include "app/cli/args.h"
+#include "app/cli/audit_run.h"
 #include "app/cli/command.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
@@ -112,13 +113,15 @@ int run(int argc, char** argv) {
         {"json", true, "FILE|-"},            {"threads", true, "N"},
         {"top", true, "N"},                  {"delimiter", true, "CHAR"},
         {"timings", false, ""},              {"help", false, ""},
+        {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
     if (a.flag("help", false)) {
         std::cout << "foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
                      "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
-                     "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n";
+                     "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
+                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n";
         return kOk;
     }
     if (a.positional().size() != 1) return fail(kName, kUsage, "expected one DATA file (CSV or TSV)");
@@ -202,6 +205,8 @@ int run(int argc, char** argv) {
             return fail(kName, kInput, st.error().to_string());
         }
     }
+    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", "")); rc != kOk)
+        return rc;
     const auto t3 = clock::now();
     print_summary(human, *result, path, static_cast<std::size_t>(top));
     if (a.flag("timings", false)) {

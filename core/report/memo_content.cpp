@@ -65,14 +65,14 @@ const project::FindingReview* review_of(const RateFinding& f, const project::Pro
 std::string answer_words(const causal::Verdict& v, const RateFinding& f) {
     switch (v.answer) {
         case causal::Answer::Stratified:
-            return "the stratified view (within " + strata_words(f) + ") answers the question";
-        case causal::Answer::Pooled: return "the pooled view answers the question";
-        case causal::Answer::Both: return "both views answer the question (they estimate the same effect)";
+            return "the stratified view (within " + strata_words(f) + ")";
+        case causal::Answer::Pooled: return "the pooled view";
+        case causal::Answer::Both: return "both views (they estimate the same effect)";
         case causal::Answer::OtherSet:
             return "neither view as shown; standardise over " +
                    (v.standardise_over ? joined(*v.standardise_over, ", ") : std::string("another set"));
         case causal::Answer::NotIdentifiable:
-            return "no view answers it: the effect is not identifiable from the observed columns";
+            return "no view: the effect is not identifiable from the observed columns";
     }
     return {};
 }
@@ -315,7 +315,7 @@ MemoContent build_memo(const MemoInput& in) {
             const auto* diag_name = p && !p->diagrams.empty() ? &p->diagrams.front().name : nullptr;
             if (p && !p->active_diagram.empty()) diag_name = &p->active_diagram;
             s += " Under the causal diagram" + (diag_name && !diag_name->empty() ? " \"" + *diag_name + "\"" : "") +
-                 ", " + answer_words(*in.verdicts.front(), top) + ".";
+                 ", the view that answers the question is " + answer_words(*in.verdicts.front(), top) + ".";
         } else {
             s += " No causal diagram was given, so the memo does not say which view answers the question.";
         }
@@ -325,7 +325,7 @@ MemoContent build_memo(const MemoInput& in) {
     // Findings table: every flagged finding, or all of them when none is flagged.
     m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled diff.", "Adjusted diff.", "q", "Stability",
                          "Decision"};
-    m.findings.widths = {0.45, 1.3, 2.2, 1.3, 1.15, 1.15, 0.9, 0.95, 1.0};
+    m.findings.widths = {0.45, 1.55, 2.1, 1.3, 1.05, 1.05, 0.85, 0.95, 1.0};
     m.findings.numeric = {true, false, false, false, true, true, true, true, false};
     std::vector<std::size_t> section_of;
     std::size_t listed = 0;

@@ -68,6 +68,11 @@ bool is_control(char32_t c) {
 
 QString q(const std::string& s) { return printable(s); }
 
+// Ligatures (fi, ff) would make the PDF's text read back as "ﬁgures": a search for "figures"
+// then fails. Qt's shaper leaves Latin ligatures out when letter spacing is set, so set a
+// spacing too small to see.
+void no_ligatures(QFont& f) { f.setLetterSpacing(QFont::AbsoluteSpacing, 0.05); }
+
 QString elided(const QString& s, int max) { return s.size() <= max ? s : s.left(max - 1) + QChar(0x2026); }
 
 // ---------------------------------------------------------------------------------------------
@@ -96,6 +101,7 @@ public:
         f.setBold(bold);
         f.setItalic(italic);
         f.setHintingPreference(QFont::PreferNoHinting);
+        no_ligatures(f);
         return QFont(f, &pdf_);
     }
 
@@ -279,6 +285,7 @@ QFont chart_font(int px, bool bold = false) {
     QFont f(QStringLiteral("DejaVu Sans"));
     f.setPixelSize(px);
     f.setBold(bold);
+    no_ligatures(f);
     return f;
 }
 
