@@ -1,6 +1,7 @@
 #include "app/cli/audit_run.h"
 
 #include <chrono>
+#include <filesystem>
 #include <cstdlib>
 #include <ctime>
 #include <map>
@@ -134,8 +135,22 @@ std::string today() {
     return buf;
 }
 
+std::string overwrites_input(const std::string& output, const std::vector<std::string>& inputs) {
+    if (output.empty() || output == "-") return {};
+    namespace fs = std::filesystem;
+    for (const auto& in : inputs) {
+        std::error_code ec;
+        if (!in.empty() && fs::exists(output, ec) && fs::equivalent(output, in, ec))
+            return "refusing to write " + output + ": it is an input of this audit (" + in + ")";
+    }
+    return {};
+}
+
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
                          const std::string& memo_path, const std::string& csv_prefix) {
+    for (const auto& out : {memo_path, csv_prefix.empty() ? std::string() : csv_prefix + "-findings.csv",
+                            csv_prefix.empty() ? std::string() : csv_prefix + "-strata.csv"})
+        if (auto msg = overwrites_input(out, {info.path}); !msg.empty()) return fail(command, kUsage, msg);
     if (!csv_prefix.empty()) {
         if (auto st = report::write_csv_exports(result, nullptr, csv_prefix); !st)
             return fail(command, kInput, st.error().to_string());

@@ -67,6 +67,10 @@ int write_memo(const std::string& command, const ScanResult& result, const DataI
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
                          const std::string& memo_path, const std::string& csv_prefix);
 
+/// An error message when `output` names the same file as one of `inputs` (outputs never
+/// overwrite the data or the project); empty when it is safe or `output` is empty or "-".
+std::string overwrites_input(const std::string& output, const std::vector<std::string>& inputs);
+
 /// True when this build can write PDF memos.
 bool memo_available();
 

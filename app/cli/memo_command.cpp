@@ -31,6 +31,8 @@ int run(int argc, char** argv) {
     if (out.empty()) out = std::filesystem::path(project_path).replace_extension(".pdf").string();
     auto loaded = project::load_project(project_path);
     if (!loaded) return fail(kName, kInput, loaded.error().to_string());
+    if (auto msg = overwrites_input(out, {project_path, loaded->data.path, a.get_or("data", "")}); !msg.empty())
+        return fail(kName, kUsage, msg);
     unsigned threads = 2;
     if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
     int code = kOk;

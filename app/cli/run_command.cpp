@@ -48,6 +48,13 @@ int run(int argc, char** argv) {
     unsigned threads = 2;
     if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
 
+    {
+        const std::string prefix = a.get_or("csv", "");
+        const std::vector<std::string> inputs = {project_path, p.data.path, override_data};
+        for (const auto& out : {a.get_or("json", ""), memo_path, prefix.empty() ? prefix : prefix + "-findings.csv",
+                                prefix.empty() ? prefix : prefix + "-strata.csv"})
+            if (auto msg = overwrites_input(out, inputs); !msg.empty()) return fail(kName, kUsage, msg);
+    }
     int code = kOk;
     auto run = run_audit(p, override_data, threads, code);
     if (!run) return fail(kName, code, run.error().to_string());

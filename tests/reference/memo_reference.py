@@ -83,7 +83,9 @@ try:
         for f in (project, data, data.replace(".csv", ".diagram.json")):
             shutil.copy(os.path.join(SAMPLES, f), work)
         rc, out, err = run(["run", project, "--memo", "m.pdf", "--csv", "x", "--json", "x.json"], work)
-        check(rc == 0, "run exits 0 when the classes are as saved (got %d: %s)" % (rc, err.strip()))
+        check(rc == 0, "run exits 0 when the classes are as saved (got %d: %s%s)" % (
+            rc, err.strip(), "; if the scan changed on purpose, refresh the sample with "
+            "`foldline run sample_data/%s --update`" % project if rc == 4 else ""))
         text = pdf_text(os.path.join(work, "m.pdf"))
         df = pd.read_csv(os.path.join(work, data))
         pos = df[outcome].astype(str) == str(positive)
@@ -162,6 +164,10 @@ try:
                         "--bootstrap", "20", "--memo", "scan.pdf", "--csv", "scan"], work)
     check(rc == 0 and os.path.exists(os.path.join(work, "scan.pdf"))
           and os.path.exists(os.path.join(work, "scan-strata.csv")), "scan --memo --csv writes both")
+    before = open(os.path.join(work, "lender_audit.foldline"), "rb").read()
+    rc, out, err = run(["run", "lender_audit.foldline", "--memo", "lender_audit.foldline"], work)
+    check(rc == 2 and open(os.path.join(work, "lender_audit.foldline"), "rb").read() == before,
+          "an output naming the project file is refused (2) and the project is untouched")
     rc, out, err = run(["run", "no_such.foldline"], work)
     check(rc == 3 and "cannot open the project file" in err, "a missing project is an input error (3)")
     open(os.path.join(work, "bad.foldline"), "w").write('{"format": "foldline-project", "version": 99}')
