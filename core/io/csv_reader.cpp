@@ -276,6 +276,7 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     const std::size_t body = text.size() - body_start;
     std::size_t target = opts.chunk_bytes;
     if (target == 0) target = std::clamp<std::size_t>(body / (std::size_t{threads} * 4), kMiB, 8 * kMiB);
+    target = std::max<std::size_t>(target, body / 65536 + 1);  // at most ~64K chunks, whatever was asked
     std::vector<Chunk> chunks;
     for (std::size_t begin = body_start; begin < text.size();) {
         std::size_t end = text.size();
