@@ -1,13 +1,369 @@
 #include "ui/main_window.h"
 
-#include <QLabel>
+#include <QAction>
+#include <QActionGroup>
+#include <QApplication>
+#include <QCloseEvent>
+#include <QDragEnterEvent>
+#include <QFileInfo>
+#include <QGraphicsView>
+#include <QLineEdit>
+#include <QMenuBar>
+#include <QMessageBox>
+#include <QMimeData>
+#include <QSettings>
+#include <QSplitter>
+#include <QStackedWidget>
+#include <QStatusBar>
+#include <QUndoStack>
+#include <QVBoxLayout>
+
+#include "ui/caution_band.h"
+#include "ui/counts_grid.h"
+#include "ui/diagram_page.h"
+#include "ui/findings_model.h"
+#include "ui/findings_page.h"
+#include "ui/memo_page.h"
+#include "ui/question_page.h"
+#include "ui/scan_page.h"
+#include "ui/source_page.h"
+#include "ui/step_bar.h"
 
 namespace foldline::ui {
 
+namespace {
+QAction* add(QMenu* menu, QAction* a) {
+    menu->addAction(a);
+    return a;
+}
+}  // namespace
+
 MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
-    setWindowTitle(tr("Foldline"));
-    setCentralWidget(new QLabel(tr("Open a data file to begin."), this));
-    resize(1200, 800);
+    setWindowTitle(tr("Foldline — rate and slope reversal audit"));
+    setObjectName(QStringLiteral("foldline_main"));
+    setAcceptDrops(true);
+    model_ = new FindingsModel(this);
+    steps_ = new StepBar({tr("Source"), tr("Question"), tr("Scan"), tr("Findings"), tr("Diagram"), tr("Memo")});
+    stack_ = new QStackedWidget;
+    source_ = new SourcePage;
+    question_ = new QuestionPage;
+    scan_ = new ScanPage(model_);
+    findings_ = new FindingsPage(model_);
+    diagram_ = new DiagramPage;
+    memo_ = new MemoPage(model_);
+    for (QWidget* w : std::initializer_list<QWidget*>{source_, question_, scan_, findings_, diagram_, memo_}) stack_->addWidget(w);
+
+    auto* central = new QWidget;
+    auto* lay = new QVBoxLayout(central);
+    lay->setContentsMargins(6, 0, 6, 6);
+    lay->setSpacing(2);
+    lay->addWidget(steps_);
+    lay->addWidget(stack_, 1);
+    setCentralWidget(central);
+    connect(steps_, &StepBar::step_requested, this, &MainWindow::go_to);
+
+    connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString& src) {
+        question_->set_table(t);
+        model_->clear();
+        seeded_row_ = -1;
+        for (int s = Scan; s < StepCount; ++s) steps_->set_state(s, StepBar::State::Locked);
+        steps_->set_state(Source, t ? StepBar::State::Done : StepBar::State::Open);
+        steps_->set_state(Question, t ? StepBar::State::Open : StepBar::State::Locked);
+        statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
+        setWindowTitle(t ? tr("Foldline — %1").arg(QFileInfo(src).fileName()) : tr("Foldline"));
+        if (t) go_to(Question);
+    });
+    connect(source_, &SourcePage::recent_files_changed, this, &MainWindow::rebuild_recent_menu);
+    connect(question_, &QuestionPage::scan_requested, this, [this] { start_scan(); });
+    connect(scan_, &ScanPage::scan_finished, this, [this](bool completed, int n) {
+        steps_->set_state(Scan, completed ? StepBar::State::Done : StepBar::State::Open);
+        steps_->set_state(Findings, n > 0 ? StepBar::State::Open : StepBar::State::Locked);
+        steps_->set_state(Memo, StepBar::State::Open);
+        action("action_stop")->setEnabled(false);
+        statusBar()->showMessage(scan_->status(), 8000);
+        if (completed && n > 0 && step() == Scan) {
+            go_to(Findings);
+            findings_->select_top();
+        }
+    });
+    connect(findings_, &FindingsPage::finding_selected, this, [this](int row) {
+        steps_->set_state(Diagram, row >= 0 ? StepBar::State::Open : StepBar::State::Locked);
+    });
+    connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
+
+    build_menus();
+    restore_layout();
+    go_to(Source);
+}
+
+MainWindow::~MainWindow() = default;
+
+int MainWindow::step() const { return stack_->currentIndex(); }
+
+void MainWindow::go_to(int s) {
+    if (s < 0 || s >= StepCount) return;
+    if (s == Diagram) {
+        if (findings_->selected() < 0) {
+            if (findings_->select_top() < 0) return;
+        }
+        seed_diagram_for(findings_->selected());
+    }
+    if (s == Memo) refresh_memo();
+    stack_->setCurrentIndex(s);
+    steps_->set_current(s);
+    for (int i = 0; i < StepCount; ++i)
+        if (QAction* a = action(QStringLiteral("action_step_%1").arg(i))) a->setChecked(i == s);
+}
+
+void MainWindow::seed_diagram_for(int row) {
+    const FindingView* f = model_->at(row);
+    if (!f || row == seeded_row_) return;
+    seeded_row_ = row;
+    QStringList columns;
+    if (const Table* t = source_->table().get())
+        for (const Column& c : t->columns) columns << QString::fromStdString(c.name);
+    diagram_->seed(last_question_.exposure, last_question_.outcome, f->strata, columns);
+}
+
+void MainWindow::refresh_memo() { memo_->refresh(source_->source(), last_question_.outcome.isEmpty() ? nullptr : &last_question_); }
+
+bool MainWindow::start_scan() {
+    if (!source_->table() || !question_->problems().isEmpty()) {
+        go_to(Question);
+        return false;
+    }
+    last_question_ = question_->spec();
+    seeded_row_ = -1;
+    if (!scan_->start(source_->table(), last_question_)) return false;
+    action("action_stop")->setEnabled(true);
+    steps_->set_state(Question, StepBar::State::Done);
+    steps_->set_state(Scan, StepBar::State::Open);
+    steps_->set_state(Findings, StepBar::State::Open);
+    go_to(Scan);
+    return true;
+}
+
+QAction* MainWindow::make_action(const QString& name, const QString& text, const QKeySequence& key, const QString& tip) {
+    auto* a = new QAction(text, this);
+    a->setObjectName(name);
+    if (!key.isEmpty()) a->setShortcut(key);
+    a->setToolTip(tip);
+    a->setStatusTip(tip);
+    actions_.insert(name, a);
+    addAction(a);
+    return a;
+}
+
+void MainWindow::build_menus() {
+    QMenu* file = menuBar()->addMenu(tr("&File"));
+    connect(add(file, make_action("action_open", tr("&Open data file…"), QKeySequence::Open,
+                                        tr("Open a CSV or TSV file"))),
+            &QAction::triggered, this, [this] {
+                go_to(Source);
+                source_->open_dialog();
+            });
+    connect(add(file, make_action("action_type_counts", tr("&Type in counts…"), QKeySequence(tr("Ctrl+T")),
+                                        tr("Enter a table of counts by stratum and group"))),
+            &QAction::triggered, this, [this] {
+                go_to(Source);
+                source_->show_counts_grid();
+            });
+    recent_menu_ = file->addMenu(tr("Open &recent"));
+    rebuild_recent_menu();
+    file->addSeparator();
+    connect(add(file, make_action("action_quit", tr("&Quit"), QKeySequence::Quit, tr("Close the workbench"))),
+            &QAction::triggered, this, &QWidget::close);
+
+    QMenu* edit = menuBar()->addMenu(tr("&Edit"));
+    QAction* undo = diagram_->undo_stack()->createUndoAction(this, tr("&Undo"));
+    undo->setShortcut(QKeySequence::Undo);
+    undo->setObjectName("action_undo");
+    actions_.insert("action_undo", undo);
+    QAction* redo = diagram_->undo_stack()->createRedoAction(this, tr("&Redo"));
+    redo->setShortcuts({QKeySequence(tr("Ctrl+Shift+Z")), QKeySequence(tr("Ctrl+Y"))});
+    redo->setObjectName("action_redo");
+    actions_.insert("action_redo", redo);
+    edit->addAction(undo);
+    edit->addAction(redo);
+    edit->addSeparator();
+    connect(add(edit, make_action("action_copy_table", tr("&Copy table as TSV"), QKeySequence(tr("Ctrl+Shift+C")),
+                                        tr("Copy the finding's table as tab-separated text"))),
+            &QAction::triggered, findings_, &FindingsPage::copy_table);
+    connect(add(edit, make_action("action_paste_counts", tr("&Paste counts"), QKeySequence(tr("Ctrl+Shift+V")),
+                                        tr("Paste tab-separated counts into the typed-in table"))),
+            &QAction::triggered, this, [this] {
+                go_to(Source);
+                source_->show_counts_grid();
+                source_->counts_grid()->paste_from_clipboard();
+            });
+    connect(add(edit, make_action("action_find", tr("&Find finding…"), QKeySequence::Find,
+                                        tr("Search the findings by stratifier"))),
+            &QAction::triggered, this, [this] {
+                go_to(Findings);
+                if (auto* s = findings_->findChild<QWidget*>(QStringLiteral("search_findings"))) s->setFocus();
+            });
+
+    QMenu* go = menuBar()->addMenu(tr("&Go"));
+    auto* group = new QActionGroup(this);
+    const QStringList names = {tr("&Source"), tr("&Question"), tr("S&can"), tr("&Findings"), tr("&Diagram"), tr("&Memo")};
+    for (int i = 0; i < StepCount; ++i) {
+        QAction* a = make_action(QStringLiteral("action_step_%1").arg(i), names[i],
+                                 QKeySequence(QStringLiteral("Ctrl+%1").arg(i + 1)), tr("Go to step %1").arg(i + 1));
+        a->setCheckable(true);
+        group->addAction(a);
+        go->addAction(a);
+        connect(a, &QAction::triggered, this, [this, i] {
+            if (steps_->state(i) != StepBar::State::Locked || i == step()) go_to(i);
+            else statusBar()->showMessage(tr("That step opens once the earlier steps are done."), 4000);
+        });
+    }
+    go->addSeparator();
+    connect(add(go, make_action("action_next", tr("&Next step"), QKeySequence(tr("Ctrl+PgDown")), tr("Go to the next step"))),
+            &QAction::triggered, this, [this] {
+                if (step() + 1 < StepCount && steps_->state(step() + 1) != StepBar::State::Locked) go_to(step() + 1);
+            });
+    connect(add(go, make_action("action_previous", tr("&Previous step"), QKeySequence(tr("Ctrl+PgUp")),
+                                      tr("Go to the previous step"))),
+            &QAction::triggered, this, [this] { go_to(step() - 1); });
+
+    QMenu* audit = menuBar()->addMenu(tr("&Audit"));
+    connect(add(audit, make_action("action_scan", tr("&Scan"), QKeySequence(Qt::Key_F5), tr("Scan every candidate stratifier"))),
+            &QAction::triggered, this, &MainWindow::start_scan);
+    QAction* stop = make_action("action_stop", tr("S&top scan"), QKeySequence(Qt::Key_Escape), tr("Stop the running scan"));
+    stop->setEnabled(false);
+    audit->addAction(stop);
+    connect(stop, &QAction::triggered, scan_, &ScanPage::cancel);
+    audit->addSeparator();
+    const std::tuple<const char*, QString, QKeySequence, Decision> decisions[] = {
+        {"action_upheld", tr("Mark &upheld"), QKeySequence(tr("Ctrl+Shift+U")), Decision::Upheld},
+        {"action_set_aside", tr("Mark set &aside"), QKeySequence(tr("Ctrl+Shift+X")), Decision::SetAside},
+        {"action_follow_up", tr("Mark &follow up"), QKeySequence(tr("Ctrl+Shift+F")), Decision::FollowUp}};
+    for (const auto& [name, text, key, d] : decisions)
+        connect(add(audit, make_action(name, text, key, tr("Record the decision on the selected finding"))),
+                &QAction::triggered, this, [this, d = d] { findings_->decide(d); });
+    audit->addSeparator();
+    connect(add(audit, make_action("action_save_chart", tr("Save &chart…"), QKeySequence(tr("Ctrl+Shift+S")),
+                                         tr("Save the visible chart as PNG, SVG or PDF"))),
+            &QAction::triggered, findings_, &FindingsPage::save_chart);
+
+    QMenu* diagram = menuBar()->addMenu(tr("&Diagram"));
+    connect(add(diagram, make_action("action_open_diagram", tr("&Open diagram…"), QKeySequence(tr("Ctrl+Shift+O")),
+                                     tr("Read a diagram file (NAME.diagram.json) into the editor"))),
+            &QAction::triggered, this, [this] {
+                go_to(Diagram);
+                diagram_->open_dialog();
+            });
+    connect(add(diagram, make_action("action_save_diagram", tr("&Save diagram as…"), QKeySequence(tr("Ctrl+Alt+S")),
+                                     tr("Write the diagram as NAME.diagram.json"))),
+            &QAction::triggered, diagram_, &DiagramPage::save_dialog);
+    connect(add(diagram, make_action("action_export_dot", tr("Export as &DOT…"), QKeySequence(tr("Ctrl+Alt+D")),
+                                     tr("Write the diagram in Graphviz DOT for other drawing tools"))),
+            &QAction::triggered, diagram_, &DiagramPage::export_dot_dialog);
+    diagram->addSeparator();
+    QAction* draw = make_action("action_draw_arrows", tr("&Draw arrows"), QKeySequence(tr("Ctrl+D")),
+                                tr("Drag from node to node to draw an arrow"));
+    draw->setCheckable(true);
+    diagram->addAction(draw);
+    connect(draw, &QAction::toggled, diagram_, &DiagramPage::set_connect_mode);
+    connect(add(diagram, make_action("action_add_unobserved", tr("Add &unobserved node…"), QKeySequence(tr("Ctrl+Shift+N")),
+                                           tr("Declare a variable the data does not hold"))),
+            &QAction::triggered, this, [this] {
+                go_to(Diagram);
+                if (auto* e = diagram_->findChild<QLineEdit*>()) e->setFocus();
+            });
+    QAction* del = make_action("action_delete", tr("De&lete selection"), QKeySequence::Delete, tr("Delete the selected nodes and arrows"));
+    del->setShortcutContext(Qt::WidgetWithChildrenShortcut);
+    diagram_->view()->addAction(del);
+    diagram->addAction(del);
+    connect(del, &QAction::triggered, diagram_, &DiagramPage::delete_selected);
+    connect(add(diagram, make_action("action_tidy", tr("&Tidy layout"), QKeySequence(tr("Ctrl+L")),
+                                           tr("Arrange the nodes along the arrows"))),
+            &QAction::triggered, diagram_, &DiagramPage::auto_layout);
+
+    QMenu* view = menuBar()->addMenu(tr("&View"));
+    connect(add(view, make_action("action_reset_layout", tr("&Reset layout"), {}, tr("Restore the default panel sizes"))),
+            &QAction::triggered, this, [this] {
+                QSettings().remove("layout");
+                for (QSplitter* s : findChildren<QSplitter*>()) {
+                    QList<int> even(s->count(), 1000);
+                    s->setSizes(even);
+                }
+            });
+
+    QMenu* help = menuBar()->addMenu(tr("&Help"));
+    connect(add(help, make_action("action_reading", tr("&Reading a finding"), QKeySequence::HelpContents,
+                                        tr("What the classes and numbers mean"))),
+            &QAction::triggered, this, [this] {
+                QString text = tr("<p>Foldline compares a rate between two groups, first pooled and then within strata of "
+                                  "each candidate column. Each comparison gets one class:</p><ul>");
+                for (FindingClass c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
+                                       FindingClass::Heterogeneous, FindingClass::Stable})
+                    text += QStringLiteral("<li><b>%1 %2</b>: %3</li>").arg(class_glyph(c), class_title(c), class_meaning(c));
+                text += tr("</ul><p>Which view to quote depends on how the columns cause one another: draw it in the "
+                           "Diagram step.</p><p><i>%1</i></p>").arg(caution_text());
+                QMessageBox::information(this, tr("Reading a finding"), text);
+            });
+    connect(add(help, make_action("action_about", tr("&About Foldline"), {}, tr("Version and purpose"))),
+            &QAction::triggered, this, [this] {
+                QMessageBox::about(this, tr("About Foldline"),
+                                   tr("<b>Foldline</b> %1<p>Audits tables for pooled-versus-stratified reversals of rates "
+                                      "and slopes, and uses a causal diagram to decide which view answers the question.</p>"
+                                      "<p>%2</p>").arg(QApplication::applicationVersion(), caution_text()));
+            });
+}
+
+void MainWindow::rebuild_recent_menu() {
+    if (!recent_menu_) return;
+    recent_menu_->clear();
+    const QStringList recent = source_->recent_files();
+    for (const QString& r : recent)
+        connect(recent_menu_->addAction(QFileInfo(r).fileName() + QStringLiteral("  (") + r + QLatin1Char(')')),
+                &QAction::triggered, this, [this, r] {
+                    go_to(Source);
+                    source_->open_path(r);
+                });
+    if (recent.isEmpty()) recent_menu_->addAction(tr("(none)"))->setEnabled(false);
+    recent_menu_->addSeparator();
+    connect(recent_menu_->addAction(tr("Clear list")), &QAction::triggered, source_, &SourcePage::clear_recent_files);
+}
+
+void MainWindow::save_layout() const {
+    QSettings s;
+    s.beginGroup("layout");
+    s.setValue("geometry", saveGeometry());
+    s.setValue("state", saveState());
+    for (QSplitter* sp : findChildren<QSplitter*>())
+        if (!sp->objectName().isEmpty()) s.setValue("splitter/" + sp->objectName(), sp->saveState());
+    s.endGroup();
+}
+
+void MainWindow::restore_layout() {
+    QSettings s;
+    s.beginGroup("layout");
+    if (!restoreGeometry(s.value("geometry").toByteArray())) resize(1360, 860);
+    restoreState(s.value("state").toByteArray());
+    for (QSplitter* sp : findChildren<QSplitter*>())
+        if (!sp->objectName().isEmpty()) sp->restoreState(s.value("splitter/" + sp->objectName()).toByteArray());
+    s.endGroup();
+}
+
+void MainWindow::closeEvent(QCloseEvent* e) {
+    save_layout();
+    scan_->cancel();
+    QMainWindow::closeEvent(e);
+}
+
+void MainWindow::dragEnterEvent(QDragEnterEvent* e) {
+    if (e->mimeData()->hasUrls() && !e->mimeData()->urls().isEmpty() && e->mimeData()->urls().first().isLocalFile())
+        e->acceptProposedAction();
+}
+
+void MainWindow::dropEvent(QDropEvent* e) {
+    const auto urls = e->mimeData()->urls();
+    if (urls.isEmpty() || !urls.first().isLocalFile()) return;
+    e->acceptProposedAction();
+    go_to(Source);
+    source_->open_path(urls.first().toLocalFile());
 }
 
 }  // namespace foldline::ui

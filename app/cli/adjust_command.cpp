@@ -108,7 +108,7 @@ int run_adjust(int argc, char** argv) {
         nlohmann::json doc = report::to_json(*report);
         doc["diagram"] = path;
         if (verdict) doc["verdict"] = report::to_json(*verdict);
-        const std::string text = doc.dump(2) + "\n";
+        const std::string text = doc.dump(2, ' ', false, nlohmann::json::error_handler_t::replace) + "\n";
         if (json_target == "-") {
             std::cout << text;
             return kOk;

@@ -9,6 +9,7 @@
 #include <thread>
 
 #include "app/cli/args.h"
+#include "app/cli/audit_run.h"
 #include "app/cli/command.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
@@ -142,6 +143,7 @@ int run(int argc, char** argv) {
         {"top", true, "N"},                  {"delimiter", true, "CHAR"},
         {"timings", false, ""},              {"help", false, ""},
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
+        {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -151,6 +153,7 @@ int run(int argc, char** argv) {
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
+                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
                      "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
         return kOk;
     }
@@ -291,6 +294,8 @@ int run(int argc, char** argv) {
             return fail(kName, kInput, st.error().to_string());
         }
     }
+    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", "")); rc != kOk)
+        return rc;
     const auto t3 = clock::now();
     print_summary(human, *result, path, static_cast<std::size_t>(top));
     if (a.flag("timings", false)) {

@@ -109,4 +109,19 @@ Result<CausalGraph> CausalGraph::build(const Diagram& d, const std::string& sour
     return cg;
 }
 
+Status check_columns(const CausalGraph& cg, const std::vector<std::string>& data_columns,
+                     const std::string& source) {
+    std::set<std::string_view> have(data_columns.begin(), data_columns.end());
+    std::vector<std::string> missing;
+    for (int v = 0; v < cg.size(); ++v)
+        if (cg.observed(v) && !have.count(cg.name(v))) missing.push_back(quote_name(cg.name(v)));
+    if (missing.empty()) return Ok{};
+    std::string list;
+    for (std::size_t i = 0; i < missing.size(); ++i) list += (i ? ", " : "") + missing[i];
+    return make_error(std::string(missing.size() == 1 ? "node " : "nodes ") + list +
+                          (missing.size() == 1 ? " is" : " are") +
+                          " marked observed but not a column of the data; mark unobserved or rename to match a column",
+                      source);
+}
+
 }  // namespace foldline::causal

@@ -74,6 +74,11 @@ private:
     int outcome_ = -1;
 };
 
+/// Checks that every node marked observed is a column of the data (matched by exact name).
+/// Error names the missing node(s) and `source` (the diagram file); an empty diagram → Ok.
+Status check_columns(const CausalGraph& cg, const std::vector<std::string>& data_columns,
+                     const std::string& source = {});
+
 /// "a" quoted for messages: the name in double quotes, inner quotes and backslashes escaped.
 std::string quote_name(std::string_view name);
 

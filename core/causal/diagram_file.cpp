@@ -125,7 +125,8 @@ std::string diagram_to_json_text(const Diagram& d) {
     doc["edges"] = std::move(edges);
     if (!d.exposure.empty()) doc["exposure"] = d.exposure;
     if (!d.outcome.empty()) doc["outcome"] = d.outcome;
-    return doc.dump(2) + "\n";
+    // Replace rather than throw on invalid UTF-8 in a name (a column name read from bytes).
+    return doc.dump(2, ' ', false, json::error_handler_t::replace) + "\n";
 }
 
 Status write_diagram(const Diagram& d, const std::string& path) {

@@ -59,13 +59,24 @@ std::vector<std::string> of_role(const CausalGraph& cg, const std::vector<Role>&
     return out;
 }
 
+// A member of S that biases the total effect whatever else is adjusted for, or a collider.
+bool biasing(Role r) {
+    return always_biases(r) || r == Role::Collider || r == Role::ColliderDescendant;
+}
+
+bool has_biasing_member(const std::vector<Role>& roles, const std::vector<int>& s, const NodeMask& forb) {
+    return std::any_of(s.begin(), s.end(), [&](int u) {
+        return forb[static_cast<std::size_t>(u)] || biasing(roles[static_cast<std::size_t>(u)]);
+    });
+}
+
 // Why S cannot be used: members whose role biases any set containing them, else colliders.
 std::string why_invalid(const CausalGraph& cg, const std::vector<Role>& roles, const std::vector<int>& s,
                         const NodeMask& forb) {
     std::vector<std::string> parts;
     for (int v : s) {
         Role r = roles[static_cast<std::size_t>(v)];
-        if (always_biases(r) || r == Role::Collider || r == Role::ColliderDescendant)
+        if (biasing(r))
             parts.push_back(quote_name(cg.name(v)) + " is " + std::string(describe(r)));
         else if (forb[static_cast<std::size_t>(v)])
             parts.push_back(quote_name(cg.name(v)) + " is affected by the exposure through a causal path");
@@ -214,7 +225,9 @@ Result<Verdict> decide(const CausalGraph& cg, std::string_view exposure, std::st
             v.standardise_over = cg.names_of(best);
             v.reason = "Neither view answers the " + question + ": the pooled comparison is confounded and " +
                        (s.empty() ? std::string("no stratifier was given")
-                                  : by + " is not enough because " + why_invalid(cg, c.roles, s, forb)) +
+                        : has_biasing_member(c.roles, s, forb)
+                            ? by + " is itself biased because " + why_invalid(cg, c.roles, s, forb)
+                            : by + " is not enough because " + why_invalid(cg, c.roles, s, forb)) +
                        "; standardise over " + set_phrase(*v.standardise_over) + " instead.";
         } else {
             v.answer = Answer::NotIdentifiable;

@@ -27,7 +27,8 @@ inline void encode_level(const ChunkPlan& plan, ChunkColumn& col, const CsvField
         ++col.missing;
         return;
     }
-    col.codes.push(col.dict.intern(v, !f.escaped));
+    if (!f.escaped && f.data + 16 <= plan.data + plan.size) col.codes.push(col.dict.intern_padded(v));
+    else col.codes.push(col.dict.intern(v, !f.escaped));
 }
 
 // Position of the first invalid UTF-8 byte of a level just added, or npos.
@@ -104,97 +105,139 @@ void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work) {
 
     CsvTokenizer tok(plan.data + chunk.begin, plan.data + chunk.end, plan.delimiter,
                      plan.max_field_bytes, plan.max_fields_per_row);
-    std::vector<CsvField> fields;
-    fields.reserve(ncols + 1);
+    using FieldEnd = CsvTokenizer::FieldEnd;
     std::string scratch;
-    auto fail = [&](std::size_t line, std::size_t column, std::string message) {
+    std::size_t line = 0;
+    auto fail = [&](std::size_t at_line, std::size_t column, std::string message) {
         chunk.failed = true;
-        chunk.error = TokenError{line, column, std::move(message)};
+        chunk.error = TokenError{at_line, column, std::move(message)};
+        return false;
+    };
+    auto token_failed = [&] {
+        const TokenError& e = tok.error();
+        if (e.unclosed_quote && chunk.end != plan.size) {
+            chunk.overran = true;
+            chunk.overrun_from = static_cast<std::size_t>(e.open_quote - plan.data);
+        } else {
+            chunk.failed = true;
+        }
+        chunk.error = e;
+    };
+    auto ragged = [&](std::size_t found) {
+        return fail(line, std::min(found, ncols) + 1,
+                    "expected " + std::to_string(ncols) + " fields as in the header, found " + std::to_string(found));
+    };
+    auto bad_utf8 = [&](std::size_t c, const CsvField& f, const ChunkColumn& col, std::size_t bad) {
+        return fail(line + static_cast<std::size_t>(std::count(f.data, f.data + std::min<std::size_t>(bad, f.size), '\n')),
+                    c + 1,
+                    "invalid UTF-8 byte " + byte_hex(static_cast<unsigned char>(col.dict.levels().back()[bad])) +
+                        " (expected UTF-8 text; re-save the file as UTF-8)");
     };
 
-    for (;;) {
-        const RecordStatus st = tok.next(fields);
-        if (st == RecordStatus::End) break;
-        if (st == RecordStatus::Error) {
-            if (tok.error().unclosed_quote && chunk.end != plan.size) chunk.overran = true;
-            else chunk.failed = true;
-            chunk.error = tok.error();
-            return;
+    // One cell of column c in the current row; false (with chunk.error set) on bad input.
+    auto process = [&](std::size_t c, const CsvField& f) __attribute__((always_inline)) -> bool {
+        ChunkColumn& col = chunk.cols[c];
+        if (col.categorical) {
+            const std::size_t before = col.dict.size();
+            encode_level(plan, col, f, scratch);
+            if (const auto bad = invalid_byte(col, before); bad != utf8::npos) return bad_utf8(c, f, col, bad);
+            return true;
         }
-        const std::size_t line = tok.record_line();
-        if (fields.size() != ncols) {
-            if (plan.skip_ragged) {
+        const std::string_view v = field_text(f, scratch);
+        const ColumnKind kind = plan.kinds[c];
+        if (plan.missing(v)) {
+            if (kind == ColumnKind::Count)
+                return fail(line, c + 1, "count is missing (expected a whole number of 0 or more)");
+            col.values.push_back(kNaN);
+            ++col.missing;
+            return true;
+        }
+        double x = 0;
+        const NumberParse r = parse_number(v, x);
+        if (r == NumberParse::Ok) {
+            if (kind == ColumnKind::Count) {
+                if (x < 0)
+                    return fail(line, c + 1, "count " + quoted_cell(v) + " is negative (expected a whole number of 0 or more)");
+                if (x != std::floor(x))
+                    return fail(line, c + 1, "count " + quoted_cell(v) + " is fractional (expected a whole number of 0 or more)");
+            }
+            col.values.push_back(x);
+            return true;
+        }
+        if (r == NumberParse::OutOfRange) {
+            if (kind == ColumnKind::Count)
+                return fail(line, c + 1, "count " + quoted_cell(v) + " is beyond the range of a double");
+            col.values.push_back(kNaN);
+            if (!col.overflow) {
+                col.overflow = true;
+                col.overflow_line = line;
+                col.overflow_text = std::string(v);
+            }
+            return true;
+        }
+        if (kind == ColumnKind::Count)
+            return fail(line, c + 1, "count " + quoted_cell(v) + " is not a number (expected a whole number of 0 or more)");
+        if (kind == ColumnKind::Numeric)
+            return fail(line, c + 1, "expected a number (the column is set to numeric), found " + quoted_cell(v));
+        // Not a number: the column is categorical. Encode this chunk's earlier rows first so
+        // levels keep their order of first appearance.
+        std::string keep(v);  // scratch is reused by the re-read
+        encode_as_categorical(plan, chunk, {c}, chunk.rows);
+        ChunkColumn& cat = chunk.cols[c];
+        cat.codes.reserve(reserve_rows);
+        const std::size_t before = cat.dict.size();
+        if (f.escaped) cat.codes.push(cat.dict.intern(keep, false));
+        else cat.codes.push(cat.dict.intern(f.raw(), true));
+        if (const auto bad = invalid_byte(cat, before); bad != utf8::npos) return bad_utf8(c, f, cat, bad);
+        return true;
+    };
+
+    std::vector<CsvField> fields;
+    fields.reserve(ncols + 1);
+    CsvField f;
+    while (tok.start_record()) {
+        line = tok.record_line();
+        if (plan.skip_ragged) {
+            // Whole record first: a ragged row is skipped before any of its cells is used.
+            fields.clear();
+            FieldEnd e;
+            do {
+                e = tok.next_field(f, fields.size() + 1);
+                if (e == FieldEnd::Error) return token_failed();
+                fields.push_back(f);
+            } while (e == FieldEnd::Delimiter);
+            if (fields.size() != ncols) {
                 chunk.skipped.push_back(line);
                 continue;
             }
-            return fail(line, std::min(fields.size(), ncols) + 1,
-                        "expected " + std::to_string(ncols) + " fields as in the header, found " +
-                            std::to_string(fields.size()));
-        }
-        for (std::size_t c = 0; c < ncols; ++c) {
-            ChunkColumn& col = chunk.cols[c];
-            const CsvField& f = fields[c];
-            if (col.categorical) {
-                const std::size_t before = col.dict.size();
-                encode_level(plan, col, f, scratch);
-                if (const auto bad = invalid_byte(col, before); bad != utf8::npos)
-                    return fail(line + static_cast<std::size_t>(std::count(f.data, f.data + bad, '\n')), c + 1,
-                                "invalid UTF-8 byte " + byte_hex(static_cast<unsigned char>(col.dict.levels().back()[bad])) +
-                                    " (expected UTF-8 text; re-save the file as UTF-8)");
-                continue;
-            }
-            const std::string_view v = field_text(f, scratch);
-            const ColumnKind kind = plan.kinds[c];
-            if (plan.missing(v)) {
-                if (kind == ColumnKind::Count)
-                    return fail(line, c + 1, "count is missing (expected a whole number of 0 or more)");
-                col.values.push_back(kNaN);
-                ++col.missing;
-                continue;
-            }
-            double x = 0;
-            const NumberParse r = parse_number(v, x);
-            if (r == NumberParse::Ok) {
-                if (kind == ColumnKind::Count) {
-                    if (x < 0)
-                        return fail(line, c + 1, "count " + quoted_cell(v) + " is negative (expected a whole number of 0 or more)");
-                    if (x != std::floor(x))
-                        return fail(line, c + 1, "count " + quoted_cell(v) + " is fractional (expected a whole number of 0 or more)");
+            for (std::size_t c = 0; c < ncols; ++c)
+                if (!process(c, fields[c])) return;
+        } else {
+            // Cells are used as they are read; a ragged row is an error anyway.
+            for (std::size_t c = 0; c < ncols; ++c) {
+                FieldEnd e = tok.next_field(f, c + 1);
+                if (e == FieldEnd::Error) return token_failed();
+                if (e == FieldEnd::Record && c + 1 < ncols) {
+                    ragged(c + 1);
+                    return;
                 }
-                col.values.push_back(x);
-                continue;
-            }
-            if (r == NumberParse::OutOfRange) {
-                if (kind == ColumnKind::Count)
-                    return fail(line, c + 1, "count " + quoted_cell(v) + " is beyond the range of a double");
-                col.values.push_back(kNaN);
-                if (!col.overflow) {
-                    col.overflow = true;
-                    col.overflow_line = line;
-                    col.overflow_text = std::string(v);
+                if (!process(c, f)) return;
+                if (e == FieldEnd::Delimiter && c + 1 == ncols) {
+                    std::size_t found = ncols;
+                    while (e == FieldEnd::Delimiter) {
+                        e = tok.next_field(f, ++found);
+                        if (e == FieldEnd::Error) return token_failed();
+                    }
+                    ragged(found);
+                    return;
                 }
-                continue;
             }
-            if (kind == ColumnKind::Count)
-                return fail(line, c + 1, "count " + quoted_cell(v) + " is not a number (expected a whole number of 0 or more)");
-            if (kind == ColumnKind::Numeric)
-                return fail(line, c + 1, "expected a number (the column is set to numeric), found " + quoted_cell(v));
-            // Not a number: the column is categorical. Encode this chunk's earlier rows first so
-            // levels keep their order of first appearance.
-            std::string keep(v);  // scratch is reused by the re-read
-            encode_as_categorical(plan, chunk, {c}, chunk.rows);
-            ChunkColumn& cat = chunk.cols[c];
-            cat.codes.reserve(reserve_rows);
-            const std::size_t before = cat.dict.size();
-            if (f.escaped) cat.codes.push(cat.dict.intern(keep, false));
-            else cat.codes.push(cat.dict.intern(f.raw(), true));
-            if (const auto bad = invalid_byte(cat, before); bad != utf8::npos)
-                return fail(line + static_cast<std::size_t>(std::count(f.data, f.data + bad, '\n')), c + 1,
-                            "invalid UTF-8 byte " + byte_hex(static_cast<unsigned char>(cat.dict.levels().back()[bad])) +
-                                " (expected UTF-8 text; re-save the file as UTF-8)");
         }
         ++chunk.rows;
-        if ((chunk.rows & 0x1FFF) == 0 && work.cancelled()) return fail(0, 0, "cancelled");
+        if ((chunk.rows & 0x1FFF) == 0 && work.cancelled()) {
+            fail(0, 0, "cancelled");
+            return;
+        }
     }
     chunk.lines = tok.lines();
 }

@@ -70,6 +70,7 @@ struct Chunk {
     std::vector<std::size_t> skipped;  ///< 0-based lines, relative to the chunk start
     bool parsed = false;
     bool overran = false;  ///< a quoted field runs past `end`: the split was inside quotes
+    std::size_t overrun_from = 0;  ///< offset of that field's opening quote
     bool failed = false;
     TokenError error;  ///< line relative to the chunk start
 };
@@ -82,7 +83,8 @@ struct Chunk {
 void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work);
 
 /// Re-reads the chunk's first `row_limit` rows and dictionary-encodes columns `cols` of them,
-/// replacing whatever those columns held. Used when a column turns out not to be numeric.
+/// replacing whatever those columns held (row_limit 0 leaves them empty). Used when a column
+/// turns out not to be numeric.
 void encode_as_categorical(const ChunkPlan& plan, Chunk& chunk, const std::vector<std::size_t>& cols,
                            std::size_t row_limit);
 

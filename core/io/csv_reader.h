@@ -4,9 +4,13 @@
 // What it accepts: quoted fields (doubled quotes, delimiters and newlines inside quotes), a
 // delimiter among , ; tab | (detected unless given), one header row, UTF-8 with or without a
 // byte-order mark, LF or CRLF line ends. Blank lines are skipped. A column is Numeric when
-// every non-missing cell parses as a decimal number (sign, decimals, exponent), otherwise
-// Categorical with levels in order of first appearance; the result does not depend on the
-// thread count. A column with no non-missing cell at all is Numeric (all NaN).
+// every non-missing cell parses as a decimal number (sign, decimals, exponent; spaces around
+// it allowed; "inf", "nan", hex and thousands separators are not numbers), otherwise
+// Categorical with levels in order of first appearance, kept byte for byte (quotes removed,
+// doubled quotes collapsed). A quoted cell equal to a missing marker is missing too. A column
+// with no non-missing cell at all is Numeric (all NaN). Duplicate or empty header names are
+// made unique ("a_2", "column_3") with a warning. The result does not depend on the thread
+// count or the chunk size.
 //
 // What it refuses, as an Error naming file, 1-based physical line, column and what was
 // expected: UTF-16/32 text, invalid UTF-8, an empty file, a header with no rows, ragged rows
@@ -15,8 +19,15 @@
 // (1e400; in a Categorical column it is just a level), missing, negative, fractional or
 // non-numeric counts in the count column, and fields or rows beyond the hostile-input caps.
 //
-// Files are opened read-only and memory-mapped; the body is split into record-aligned chunks
-// (found from quote parity) that are parsed in parallel and merged in file order.
+// Files are opened read-only and memory-mapped. The body is cut into chunks after a newline;
+// chunks are parsed in parallel into per-chunk columns (numbers, or chunk-local dictionary
+// codes one byte wide), then checked in file order: a chunk that started on a record boundary
+// and ended cleanly proves its successor did too; when a quoted field crosses a cut, the cut
+// moves to the end of that record and the next chunk is read again. Dictionaries are merged
+// in file order (so levels keep their first-appearance order) and codes remapped into the
+// narrowest width. Pages already parsed are handed back, so peak memory stays near the size
+// of the finished table rather than the file. UTF-8 is checked on header names and on each
+// new level (a cell that parses as a number is ASCII by construction).
 #include <cstddef>
 #include <map>
 #include <string>

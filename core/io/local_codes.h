@@ -12,8 +12,9 @@ class LocalCodes {
 public:
     static constexpr std::uint32_t kMissing = 0xFFFFFFFFu;
 
-    /// Appends code (must be below the dictionary size); widens when it does not fit.
-    void push(std::uint32_t code) {
+    /// Appends code (must be below the dictionary size); widens when it does not fit. A new
+    /// LocalCodes is one byte wide and empty.
+    [[gnu::always_inline]] void push(std::uint32_t code) {
         if (width_ == 1) {
             if (code < 0xFFu) {
                 c8_.push_back(static_cast<std::uint8_t>(code));
@@ -56,7 +57,7 @@ public:
     }
 
 private:
-    void widen() {
+    [[gnu::noinline]] void widen() {
         if (width_ == 1) {
             c16_.reserve(c8_.capacity());
             for (auto c : c8_) c16_.push_back(c == 0xFFu ? 0xFFFFu : c);

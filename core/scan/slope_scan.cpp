@@ -1,5 +1,6 @@
 #include "core/scan/slope_scan.h"
 
+#include "core/stats/fdr.h"
 #include "core/stats/mixture.h"
 
 #include <algorithm>
@@ -11,7 +12,7 @@ namespace foldline {
 namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-constexpr std::size_t kMaxStrata = std::size_t{1} << 22;
+constexpr std::size_t kMaxStrata = std::size_t{1} << 20;
 const std::string kMissingLabel = "(missing)";
 
 // Rows of the scan in compact form: only rows with x, y and every covariate present and a
@@ -82,7 +83,9 @@ Result<Prepared> prepare(const Table& t, const SlopeQuestion& q) {
                           t.source);
     d.linear_probability = zero_one;
     StratumMoments acc(1);
-    for (std::size_t i = 0; i < d.x.size(); ++i) acc.add(0, d.x[i], d.y[i], d.w.empty() ? 1.0 : d.w[i]);
+    const std::vector<std::uint8_t> zero(d.x.size(), 0);
+    acc.add_rows(zero.data(), static_cast<const std::uint8_t*>(nullptr), 1, d.x.data(), d.y.data(),
+                 d.wptr(), d.x.size());
     d.pooled = acc.finish()[0];
     d.hc3 = hc3_slope_se(d.x.data(), d.y.data(), d.wptr(), nullptr, d.x.size(), d.pooled);
     if (d.p > 0) {
@@ -112,20 +115,7 @@ template <typename T>
 std::vector<BivariateMoments> accumulate(const Prepared& d, const T* a, const T* b,
                                          std::size_t kb, std::size_t strata) {
     StratumMoments acc(strata);
-    const std::size_t n = d.x.size();
-    const double* x = d.x.data();
-    const double* y = d.y.data();
-    if (d.w.empty()) {
-        if (b) {
-            for (std::size_t i = 0; i < n; ++i) acc.add(std::size_t{a[i]} * kb + b[i], x[i], y[i]);
-        } else {
-            for (std::size_t i = 0; i < n; ++i) acc.add(a[i], x[i], y[i]);
-        }
-    } else {
-        const double* w = d.w.data();
-        for (std::size_t i = 0; i < n; ++i)
-            acc.add(b ? std::size_t{a[i]} * kb + b[i] : std::size_t{a[i]}, x[i], y[i], w[i]);
-    }
+    acc.add_rows(a, b, kb, d.x.data(), d.y.data(), d.wptr(), d.x.size());
     return acc.finish();
 }
 
@@ -174,7 +164,7 @@ SlopeFinding figures(const std::vector<BivariateMoments>& strata,
         grp.r = g.r;
         grp.informative = g.informative;
         grp.reason = g.reason;
-        grp.level = std::to_string(k);  // replaced by the caller's label
+        grp.code = k;  // the caller adds the labels
         f.groups.push_back(std::move(grp));
     }
     f.within = WithinSlope{wf.slope.slope, wf.slope.ci_low, wf.slope.ci_high, wf.slope.se,
@@ -223,10 +213,10 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
     std::mt19937_64 rng(mix(q.seed ^ mix(name_hash(f.strata))));
     const Eigen::Index dim = static_cast<Eigen::Index>(d.p + 2);
     std::vector<double> z(d.p + 2);
-    int same = 0, draws = 0;
+    int draws = 0;
     for (int b = 0; b < q.bootstrap; ++b) {
         if (work.cancelled()) break;
-        std::vector<BivariateMoments> ms(strata);
+        StratumMoments acc(strata);
         std::vector<MomentMatrix> mm;
         if (d.p > 0) mm.assign(strata, MomentMatrix(dim));
         auto add_row = [&](std::size_t k, std::size_t i, double weight) {
@@ -236,7 +226,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 z[d.p + 1] = d.y[i];
                 mm[k].add(z.data(), weight);
             }
-            ms[k].add(d.x[i], d.y[i], weight);
+            acc.add(k, d.x[i], d.y[i], weight);
         };
         for (std::size_t k = 0; k < strata; ++k) {
             const std::size_t lo = offset[k], m = offset[k + 1] - lo;
@@ -261,6 +251,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                 }
             }
         }
+        const std::vector<BivariateMoments> ms = acc.finish();
         BivariateMoments pooled = merge_all(ms);
         MomentMatrix pm;
         if (d.p > 0) {
@@ -270,10 +261,11 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
         const SlopeFinding r = figures(ms, d.p > 0 ? &mm : nullptr, pooled, d.p > 0 ? &pm : nullptr,
                                        kNaN, q.alpha);
         ++draws;
-        if (r.finding_class == f.finding_class) ++same;
+        ++f.draws_by_class[static_cast<std::size_t>(rank(r.finding_class))];
     }
     f.stability_draws = draws;
-    f.stability = draws > 0 ? static_cast<double>(same) / draws : 0.0;
+    f.stability = draws > 0 ? static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) / draws
+                            : 0.0;
 }
 
 struct Scan {
@@ -293,19 +285,29 @@ Status check_stratifier(const Table& t, const Column* c) {
     return Ok{};
 }
 
-template <typename T>
-Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb,
-                               const std::vector<T>& codes_a, const std::vector<T>* codes_b) {
+Status check_strata_count(const Table& t, const Column* ca, const Column* cb) {
     const std::size_t ka = ca->levels.size() + 1;
     const std::size_t kb = cb ? cb->levels.size() + 1 : 1;
     if (ka > kMaxStrata / kb)
         return make_error("too many joint strata for '" + ca->name + "'" +
                               (cb ? " × '" + cb->name + "'" : std::string()) + ": " +
                               std::to_string(ka) + " × " + std::to_string(kb),
-                          s.table.source);
+                          t.source);
+    return Ok{};
+}
+
+// The finding of one check from its per-stratum moments (computed by the caller, or here when
+// `given` is null).
+template <typename T>
+Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb,
+                               const std::vector<T>& codes_a, const std::vector<T>* codes_b,
+                               std::vector<BivariateMoments>* given = nullptr) {
+    if (auto st = check_strata_count(s.table, ca, cb); !st) return st.error();
+    const std::size_t ka = ca->levels.size() + 1;
+    const std::size_t kb = cb ? cb->levels.size() + 1 : 1;
     const std::size_t strata = ka * kb;
     const T* b = codes_b ? codes_b->data() : nullptr;
-    const auto moments = accumulate(s.d, codes_a.data(), b, kb, strata);
+    const auto moments = given ? std::move(*given) : accumulate(s.d, codes_a.data(), b, kb, strata);
     std::vector<MomentMatrix> matrices;
     if (s.d.p > 0) matrices = accumulate_matrix(s.d, codes_a.data(), b, kb, strata);
     SlopeFinding f = figures(moments, s.d.p > 0 ? &matrices : nullptr, s.d.pooled,
@@ -320,7 +322,7 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
         return code < c->levels.size() ? c->levels[code] : kMissingLabel;
     };
     for (auto& g : f.groups) {
-        const std::size_t k = std::stoul(g.level);
+        const std::size_t k = g.code;
         g.levels.push_back(label(ca, k / kb));
         if (cb) g.levels.push_back(label(cb, k % kb));
         g.level = g.levels[0];
@@ -337,6 +339,10 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
     return f;
 }
 
+// The checks of a scan share passes over the rows in chunks: each chunk of x and y stays in
+// cache while every check of the batch folds it into its own per-stratum sums, so the rows are
+// read from memory once per batch rather than once per check. (With covariates each check
+// runs on its own.)
 template <typename T>
 Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<const Column*>& cands,
                                            bool pairs, const Work& work) {
@@ -344,24 +350,69 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
     codes.reserve(cands.size());
     for (const Column* c : cands) codes.push_back(gather_codes<T>(*c, s.d.used));
     const std::size_t m = cands.size();
-    const double total = static_cast<double>(m + (pairs ? m * (m - 1) / 2 : 0));
-    std::vector<SlopeFinding> out;
-    double done = 0;
-    auto step = [&](Result<SlopeFinding> r) -> Status {
-        if (!r) return r.error();
-        out.push_back(std::move(r.value()));
-        work.report(++done, total, "slope checks");
-        if (work.cancelled()) return make_error("cancelled");
-        return Ok{};
+    struct Check {
+        std::size_t a, b;  // b == a: single
     };
-    for (std::size_t i = 0; i < m; ++i)
-        if (auto st = step(run_check<T>(s, cands[i], nullptr, codes[i], nullptr)); !st)
-            return st.error();
+    std::vector<Check> checks;
+    for (std::size_t i = 0; i < m; ++i) checks.push_back({i, i});
     if (pairs)
         for (std::size_t i = 0; i < m; ++i)
-            for (std::size_t j = i + 1; j < m; ++j)
-                if (auto st = step(run_check<T>(s, cands[i], cands[j], codes[i], &codes[j])); !st)
-                    return st.error();
+            for (std::size_t j = i + 1; j < m; ++j) checks.push_back({i, j});
+    for (const auto& c : checks)
+        if (auto st = check_strata_count(s.table, cands[c.a], c.b != c.a ? cands[c.b] : nullptr); !st)
+            return st.error();
+    const double total = static_cast<double>(checks.size());
+
+    auto strata_of = [&](const Check& c) {
+        const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
+        return (cands[c.a]->levels.size() + 1) * kb;
+    };
+    // Checks run in batches whose accumulators fit a memory budget; each batch reads the rows
+    // once, and its findings are built before the next batch starts.
+    constexpr std::size_t kBudgetBytes = std::size_t{64} << 20;
+    constexpr std::size_t kBytesPerStratum = 5 * 9 * sizeof(double);  // 4 lanes + the total
+    const std::size_t n = s.d.x.size(), chunk = 16384;
+    const double* w = s.d.wptr();
+    std::vector<SlopeFinding> out;
+    out.reserve(checks.size());
+    for (std::size_t c0 = 0; c0 < checks.size();) {
+        std::size_t c1 = c0 + 1, bytes = strata_of(checks[c0]) * kBytesPerStratum;
+        while (c1 < checks.size() && bytes + strata_of(checks[c1]) * kBytesPerStratum <= kBudgetBytes)
+            bytes += strata_of(checks[c1++]) * kBytesPerStratum;
+        std::vector<std::vector<BivariateMoments>> moments(c1 - c0);
+        if (s.d.p == 0) {
+            std::vector<StratumMoments> acc;
+            acc.reserve(c1 - c0);
+            for (std::size_t c = c0; c < c1; ++c) acc.emplace_back(strata_of(checks[c]));
+            for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
+                if (work.cancelled()) return make_error("cancelled");
+                const std::size_t len = std::min(chunk, n - i0);
+                for (std::size_t c = c0; c < c1; ++c) {
+                    const bool pair = checks[c].b != checks[c].a;
+                    const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
+                    acc[c - c0].add_rows(codes[checks[c].a].data() + i0,
+                                         pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
+                                         kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
+                }
+                work.report(static_cast<double>(c0) + 0.5 * static_cast<double>(c1 - c0) *
+                                                          static_cast<double>(i0 + len) / static_cast<double>(n),
+                            total, "slope checks");
+            }
+            for (std::size_t c = c0; c < c1; ++c) moments[c - c0] = acc[c - c0].finish();
+        }
+        for (std::size_t c = c0; c < c1; ++c) {
+            if (work.cancelled()) return make_error("cancelled");
+            const bool pair = checks[c].b != checks[c].a;
+            auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
+                                  codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
+                                  s.d.p == 0 ? &moments[c - c0] : nullptr);
+            if (!r) return r.error();
+            out.push_back(std::move(r.value()));
+            moments[c - c0] = {};
+            work.report(static_cast<double>(c + 1), total, "slope checks");
+        }
+        c0 = c1;
+    }
     return out;
 }
 
@@ -382,17 +433,17 @@ FindingClass classify(SlopeFinding& f, double alpha) {
         const double a = one_sided_p(ps, pse, pdf, sign), b = one_sided_p(ws, wse, wdf, -sign);
         if (!std::isnan(a) && !std::isnan(b)) f.p_reversal = std::max(a, b);
     }
-    const bool q_ok = std::isnan(f.q_value) || f.q_value < alpha;
-    f.reversal = f.p_reversal < alpha && q_ok;
+    const bool q_ok = std::isnan(f.q_value) || f.q_value <= alpha;
+    f.reversal = f.p_reversal <= alpha && q_ok;
     bool up = false, down = false;
     for (const auto& g : f.groups) {
-        if (!g.informative || !(g.p < alpha)) continue;
+        if (!g.informative || !(g.p <= alpha)) continue;
         up = up || g.slope > 0;
         down = down || g.slope < 0;
     }
-    const bool pooled_sig = pp < alpha, within_sig = wp < alpha;
+    const bool pooled_sig = pp <= alpha, within_sig = wp <= alpha;
     if (f.reversal) f.finding_class = FindingClass::Reversal;
-    else if (up && down && f.equal_slopes.p < alpha) f.finding_class = FindingClass::Heterogeneous;
+    else if (up && down && f.equal_slopes.p <= alpha) f.finding_class = FindingClass::Heterogeneous;
     else if (pooled_sig && !within_sig) f.finding_class = FindingClass::Explained;
     else if (!pooled_sig && within_sig) f.finding_class = FindingClass::Masked;
     else f.finding_class = FindingClass::Stable;
@@ -432,6 +483,50 @@ Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQue
     if (widest <= 0xFFu) return run_scan<std::uint8_t>(s, candidates, pairs, work);
     if (widest <= 0xFFFFu) return run_scan<std::uint16_t>(s, candidates, pairs, work);
     return run_scan<std::uint32_t>(s, candidates, pairs, work);
+}
+
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const CandidateSet& candidates, bool pairs,
+                                              const Work& work) {
+    std::vector<const Column*> columns;
+    for (const auto& c : candidates.candidates) columns.push_back(c.column);
+    return scan_slopes(table, q, columns, pairs, work);
+}
+
+void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {
+    if (findings.empty()) return;
+    std::vector<double> p;
+    for (const auto& f : findings) p.push_back(f.p_reversal);
+    const std::vector<double> qv = stats::benjamini_hochberg(p);
+    for (std::size_t i = 0; i < findings.size(); ++i) {
+        SlopeFinding& f = findings[i];
+        f.q_value = qv[i];
+        classify(f, alpha);
+        if (f.stability_draws > 0)
+            f.stability = static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) /
+                          f.stability_draws;
+    }
+}
+
+void rank_findings(std::vector<SlopeFinding>& findings) {
+    auto change = [](const SlopeFinding& f) {
+        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope
+                                    : f.within.slope - f.pooled.slope;
+        return std::isnan(c) ? -1.0 : std::abs(c);
+    };
+    auto label = [](const SlopeFinding& f) {
+        std::string s;
+        for (const auto& n : f.strata) s += n + "\x1f";
+        return s;
+    };
+    auto q = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
+    std::stable_sort(findings.begin(), findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
+        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
+        if (q(a) != q(b)) return q(a) < q(b);
+        if (change(a) != change(b)) return change(a) > change(b);
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return label(a) < label(b);
+    });
 }
 
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
@@ -496,6 +591,36 @@ Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, st
                  "groups.";
     }
     return f;
+}
+
+Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
+                                       const CandidateOptions& options, bool pairs, bool groups,
+                                       const Work& work) {
+    std::vector<std::string> skip = {q.x, q.y};
+    skip.insert(skip.end(), q.covariates.begin(), q.covariates.end());
+    auto cands = select_candidates(table, skip, options);
+    if (!cands) return cands.error();
+    if (cands->candidates.empty() && !groups)
+        return make_error("no column qualifies as a stratifier", table.source);
+    SlopeScanResult r;
+    r.question = q;
+    r.excluded = cands->excluded;
+    r.rows = table.total_weight();
+    for (const auto& c : cands->candidates) {
+        r.candidates.push_back(c.name);
+        r.candidate_origin.push_back(c.origin);
+    }
+    auto found = scan_slopes(table, q, *cands, pairs, work);
+    if (!found) return found.error();
+    r.findings = std::move(found.value());
+    apply_fdr(r.findings, q.alpha);
+    rank_findings(r.findings);
+    if (groups) {
+        auto latent = find_groups(table, q, q.seed, work);
+        if (!latent) return latent.error();
+        r.latent = std::move(latent.value());
+    }
+    return r;
 }
 
 }  // namespace foldline

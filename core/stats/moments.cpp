@@ -130,10 +130,12 @@ BivariateMoments MomentMatrix::xy() const {
 }
 
 StratumMoments::StratumMoments(std::size_t strata, std::size_t block_rows)
-    : block_(strata), total_(strata), block_rows_(block_rows ? block_rows : 16384) {}
+    : lane_mask_(strata <= kFewStrata ? kLanes - 1 : 0),
+      block_((lane_mask_ + 1) * strata),
+      total_(strata),
+      block_rows_(block_rows ? block_rows : 65536) {}
 
-void StratumMoments::start_block(std::size_t k, double x, double y) {
-    Block& b = block_[k];
+void StratumMoments::start_block(Block& b, std::size_t k, double x, double y) {
     const BivariateMoments& t = total_[k];
     if (t.w > 0) {
         b.sx0 = t.mean_x();
@@ -145,8 +147,9 @@ void StratumMoments::start_block(std::size_t k, double x, double y) {
 }
 
 void StratumMoments::fold() {
-    for (std::size_t k = 0; k < block_.size(); ++k) {
-        Block& b = block_[k];
+    const std::size_t s = total_.size();
+    for (std::size_t slot = 0; slot < block_.size(); ++slot) {
+        Block& b = block_[slot];
         if (b.rows == 0) continue;
         BivariateMoments m;
         m.rows = b.rows;
@@ -161,7 +164,7 @@ void StratumMoments::fold() {
             m.cxy = b.sxy - b.sx * uy;
             m.cyy = std::max(0.0, b.syy - b.sy * uy);
         }
-        total_[k].merge(m);
+        total_[slot % s].merge(m);
         b = Block{};
     }
     pending_ = 0;

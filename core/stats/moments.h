@@ -13,6 +13,7 @@
 // block around the stratum's mean, not by the magnitude of the values.
 #include <Eigen/Core>
 
+#include <algorithm>
 #include <cstddef>
 #include <cstdint>
 #include <vector>
@@ -83,19 +84,64 @@ struct MomentMatrix {
 /// Accumulates one BivariateMoments per stratum code from a stream of rows — the scan's hot
 /// loop. Each stratum keeps running block sums of deviations from a shift equal to its mean at
 /// the start of the block (its first value in the first block); every `block_rows` rows the
-/// block sums are folded into the stratum's summary and the shift re-centred. No allocation
+/// block sums are folded into the stratum's summary and the shift re-centred. With few strata
+/// (<= 64) add_rows spreads consecutive rows over four independent sets of block sums (merged
+/// when folding) so that rows of the same stratum do not wait on each other. No allocation
 /// happens per row.
 class StratumMoments {
 public:
-    /// `strata` codes 0..strata−1 are accepted. block_rows 0 means the default (16384).
+    /// `strata` codes 0..strata−1 are accepted. block_rows 0 means the default (65536).
     explicit StratumMoments(std::size_t strata, std::size_t block_rows = 0);
 
     /// Adds one row to stratum k (k < strata; not checked). NaN values must be filtered first.
     void add(std::size_t k, double x, double y, double weight = 1.0) {
-        Block& b = block_[k];
-        if (b.rows == 0) start_block(k, x, y);
+        push<true>(k, k, x, y, weight);
+        if (++pending_ >= block_rows_) fold();
+    }
+
+    /// Adds rows 0..n−1: row i goes to stratum a[i]·kb + b[i] (a[i] when b is null), with
+    /// weight w[i] (1 when w is null). Codes must be below the stratum count; values finite.
+    template <typename T>
+    void add_rows(const T* a, const T* b, std::size_t kb, const double* x, const double* y,
+                  const double* w, std::size_t n) {
+        std::size_t i0 = 0;
+        while (i0 < n) {
+            const std::size_t i1 = i0 + std::min(n - i0, block_rows_ - pending_);
+            if (b && w) run<true, true>(a, b, kb, x, y, w, i0, i1);
+            else if (b) run<true, false>(a, b, kb, x, y, w, i0, i1);
+            else if (w) run<false, true>(a, b, kb, x, y, w, i0, i1);
+            else run<false, false>(a, b, kb, x, y, w, i0, i1);
+            pending_ += i1 - i0;
+            i0 = i1;
+            if (pending_ >= block_rows_) fold();
+        }
+    }
+
+    /// Folds the open blocks and returns one summary per stratum (empty ones for unseen codes).
+    std::vector<BivariateMoments> finish();
+
+private:
+    static constexpr std::size_t kLanes = 4;
+    static constexpr std::size_t kFewStrata = 64;
+    struct Block {
+        double rows = 0, w = 0, sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
+        double sx0 = 0, sy0 = 0;
+    };
+    template <bool Pair, bool Weighted, typename T>
+    void run(const T* a, const T* b, std::size_t kb, const double* x, const double* y,
+             const double* w, std::size_t i0, std::size_t i1) {
+        const std::size_t s = total_.size(), mask = lane_mask_;
+        for (std::size_t i = i0; i < i1; ++i) {
+            const std::size_t k = Pair ? std::size_t{a[i]} * kb + b[i] : std::size_t{a[i]};
+            push<Weighted>((i & mask) * s + k, k, x[i], y[i], Weighted ? w[i] : 1.0);
+        }
+    }
+    template <bool Weighted>
+    void push(std::size_t slot, std::size_t k, double x, double y, double weight) {
+        Block& b = block_[slot];
+        if (b.rows == 0) start_block(b, k, x, y);
         const double dx = x - b.sx0, dy = y - b.sy0;
-        const double wdx = weight * dx, wdy = weight * dy;
+        const double wdx = Weighted ? weight * dx : dx, wdy = Weighted ? weight * dy : dy;
         b.rows += 1;
         b.w += weight;
         b.sx += wdx;
@@ -103,21 +149,12 @@ public:
         b.sxx += wdx * dx;
         b.sxy += wdx * dy;
         b.syy += wdy * dy;
-        if (++pending_ == block_rows_) fold();
     }
-
-    /// Folds the open blocks and returns one summary per stratum (empty ones for unseen codes).
-    std::vector<BivariateMoments> finish();
-
-private:
-    struct Block {
-        double rows = 0, w = 0, sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
-        double sx0 = 0, sy0 = 0;
-    };
-    void start_block(std::size_t k, double x, double y);
+    void start_block(Block& b, std::size_t k, double x, double y);
     void fold();
 
-    std::vector<Block> block_;
+    std::size_t lane_mask_;     // kLanes − 1 for few strata, else 0
+    std::vector<Block> block_;  // lanes × strata, lane-major
     std::vector<BivariateMoments> total_;
     std::size_t block_rows_;
     std::size_t pending_ = 0;

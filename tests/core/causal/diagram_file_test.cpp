@@ -5,6 +5,7 @@
 
 #include <filesystem>
 #include <fstream>
+#include <random>
 
 #include <gtest/gtest.h>
 
@@ -107,4 +108,39 @@ TEST(DiagramFile, DotQuotesAndEscapesNames) {
               "  \"héllo\" -> \"income band\";\n"
               "}\n");
     EXPECT_EQ(diagram_to_dot(Diagram{}), "digraph diagram {\n}\n");
+}
+
+TEST(DiagramFile, MutatedInputGivesAnErrorOrADiagramNeverACrash) {
+    // Robustness: random byte edits of a valid file must come back as a value or an Error,
+    // and whatever parses must build or be rejected with a message.
+    const std::string base = diagram_to_json_text(sample());
+    std::mt19937 rng(5);
+    std::size_t parsed = 0, rejected = 0;
+    for (int i = 0; i < 3000; ++i) {
+        std::string text = base;
+        const int edits = 1 + static_cast<int>(rng() % 4);
+        for (int e = 0; e < edits; ++e) {
+            std::size_t at = rng() % text.size();
+            switch (rng() % 3) {
+                case 0: text[at] = static_cast<char>(rng() % 256); break;
+                case 1: text.erase(at, 1 + rng() % 8); break;
+                default: text.insert(at, 1, "{}[],:\"\\0ab"[rng() % 11]);
+            }
+            if (text.empty()) text.assign(1, '{');
+        }
+        auto d = parse_diagram(text, "m.json");
+        if (!d) {
+            ++rejected;
+            EXPECT_EQ(d.error().file, "m.json");
+            EXPECT_FALSE(d.error().message.empty());
+            continue;
+        }
+        ++parsed;
+        auto cg = CausalGraph::build(*d, "m.json");
+        if (!cg) {
+            EXPECT_FALSE(cg.error().message.empty());
+        }
+    }
+    EXPECT_GT(parsed, 100u);
+    EXPECT_GT(rejected, 100u);
 }

@@ -67,3 +67,13 @@ TEST(Diagram, QuestionChecksNames) {
     EXPECT_EQ(cg->question("x", "").error().message, "no outcome is set");
     EXPECT_EQ(cg->question("x", "x").error().message, "exposure and outcome are the same node \"x\"");
 }
+
+TEST(Diagram, ObservedNodesMustBeDataColumns) {
+    auto cg = CausalGraph::build(make_diagram({"x", "y", "z"}, {{"x", "y"}}, {"u"}));
+    ASSERT_TRUE(cg.ok());
+    EXPECT_TRUE(check_columns(*cg, {"x", "y", "z", "other"}).ok());
+    EXPECT_EQ(check_columns(*cg, {"x", "y"}, "d.diagram.json").error().to_string(),
+              "d.diagram.json: node \"z\" is marked observed but not a column of the data; mark unobserved or rename "
+              "to match a column");
+    EXPECT_EQ(check_columns(*cg, {"x"}).error().message.substr(0, 18), "nodes \"y\", \"z\" are");
+}

@@ -92,6 +92,8 @@ TEST(Verdict, InsufficientStratifierPointsToAnotherSet) {
     EXPECT_EQ(v.answer, Answer::OtherSet);
     EXPECT_EQ(v.standardise_over, (std::vector<std::string>{"A", "B"}));
     EXPECT_EQ(v.valid_sets, (std::vector<std::vector<std::string>>{{"A", "B"}}));
+    EXPECT_NE(v.reason.find("stratifying by \"A\" is not enough because it leaves a back-door path"), std::string::npos)
+        << v.reason;
 }
 
 TEST(Verdict, UnobservedConfounderIsNotIdentifiable) {
@@ -140,6 +142,7 @@ TEST(Verdict, ClinicSampleSeverityIsAConfounderSoTheStratifiedViewAnswers) {
     EXPECT_EQ(stay.answer, Answer::OtherSet);
     EXPECT_EQ(stay.stratifier_roles[0].role, Role::Collider);
     EXPECT_EQ(stay.standardise_over, std::vector<std::string>{"severity"});
+    EXPECT_NE(stay.reason.find("is itself biased because \"days_in_care\" is a collider"), std::string::npos) << stay.reason;
 }
 
 TEST(Verdict, RetailSampleStoreFormatIsAConfounderSoTheStratifiedViewAnswers) {

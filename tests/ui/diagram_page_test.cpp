@@ -1,0 +1,140 @@
+// tests/ui/diagram_page_test.cpp <-> ui/diagram_page.h, ui/diagram_scene.h, ui/diagram_doc.h,
+// ui/diagram_commands.h
+#include <QFile>
+#include <QGraphicsView>
+#include <QTemporaryDir>
+#include <QMouseEvent>
+#include <QUndoStack>
+#include <QtTest>
+
+#include "ui/diagram_page.h"
+#include "ui/diagram_scene.h"
+
+using namespace foldline;
+using namespace foldline::ui;
+
+class DiagramPageTest : public QObject {
+    Q_OBJECT
+private slots:
+    void seed_draws_exposure_outcome_and_strata() {
+        DiagramPage page;
+        page.seed("group", "approved", {"product"}, {"group", "approved", "product", "branch"});
+        QCOMPARE(int(page.doc()->nodes().size()), 3);
+        QVERIFY(page.doc()->has_edge("group", "approved"));
+        QVERIFY(page.doc()->has_edge("product", "group"));
+        QVERIFY(page.doc()->has_edge("product", "approved"));
+        QCOMPARE(page.scene()->edge_items().size(), 3);
+        QCOMPARE(page.undo_stack()->count(), 0);
+    }
+
+    void cycle_is_refused_with_a_message() {
+        DiagramPage page;
+        page.seed("X", "Y", {"S"}, {});
+        // S → Y exists (and S → X → Y), so Y → S would close a loop back to S.
+        QVERIFY(!page.request_edge("Y", "S"));
+        QVERIFY2(page.message().contains("cycle"), qPrintable(page.message()));
+        QVERIFY(page.message().contains("\"S\"") && page.message().contains("\"Y\""));
+        QVERIFY(!page.doc()->has_edge("Y", "S"));
+        QVERIFY(!page.request_edge("X", "X"));
+        QVERIFY2(page.message().contains("itself"), qPrintable(page.message()));
+        QVERIFY(!page.request_edge("X", "Y"));
+        QVERIFY2(page.message().contains("already drawn"), qPrintable(page.message()));
+        QCOMPARE(page.undo_stack()->count(), 0);
+    }
+
+    void every_edit_undoes_and_redoes() {
+        DiagramPage page;
+        page.seed("X", "Y", {"S"}, {"X", "Y", "S", "M"});
+        QVERIFY(page.add_observed("M"));
+        QVERIFY(page.request_edge("X", "M"));
+        QVERIFY(page.request_edge("M", "Y"));
+        QVERIFY(page.add_unobserved("U"));
+        QCOMPARE(page.doc()->node("U")->observed, false);
+        QCOMPARE(page.undo_stack()->count(), 4);
+        // Delete M with its two arrows as one step; undo restores both arrows.
+        page.scene()->node_item("M")->setSelected(true);
+        page.delete_selected();
+        QVERIFY(!page.doc()->node("M"));
+        QVERIFY(!page.doc()->has_edge("X", "M"));
+        page.undo_stack()->undo();
+        QVERIFY(page.doc()->node("M"));
+        QVERIFY(page.doc()->has_edge("X", "M") && page.doc()->has_edge("M", "Y"));
+        page.undo_stack()->undo();  // U
+        QVERIFY(!page.doc()->node("U"));
+        page.undo_stack()->redo();
+        QVERIFY(page.doc()->node("U"));
+        // Exposure and outcome cannot be deleted.
+        page.scene()->clearSelection();
+        page.scene()->node_item("X")->setSelected(true);
+        page.delete_selected();
+        QVERIFY(page.doc()->node("X"));
+        // Tidy moves nodes as one undoable step.
+        page.doc()->move_node("S", {900, 900});
+        const int before = page.undo_stack()->index();
+        page.auto_layout();
+        QCOMPARE(page.undo_stack()->index(), before + 1);
+        QVERIFY(page.doc()->node("S")->pos != QPointF(900, 900));
+        page.undo_stack()->undo();
+        QCOMPARE(page.doc()->node("S")->pos, QPointF(900, 900));
+    }
+
+    void dragging_from_the_handle_draws_an_arrow() {
+        DiagramPage page;
+        page.resize(1000, 700);
+        page.show();
+        QVERIFY(QTest::qWaitForWindowExposed(&page));
+        page.seed("X", "Y", {}, {"X", "Y", "Z"});
+        QVERIFY(page.add_observed("Z"));
+        QGraphicsView* v = page.view();
+        NodeItem* z = page.scene()->node_item("Z");
+        NodeItem* y = page.scene()->node_item("Y");
+        v->ensureVisible(page.scene()->itemsBoundingRect());
+        QApplication::processEvents();
+        const QPoint from = v->mapFromScene(z->mapToScene(z->port_rect().center()));
+        const QPoint to = v->mapFromScene(y->scenePos());
+        QTest::mousePress(v->viewport(), Qt::LeftButton, {}, from);
+        QMouseEvent move(QEvent::MouseMove, QPointF(to), v->viewport()->mapToGlobal(QPointF(to)), Qt::NoButton,
+                         Qt::LeftButton, Qt::NoModifier);
+        QApplication::sendEvent(v->viewport(), &move);
+        QTest::mouseRelease(v->viewport(), Qt::LeftButton, {}, to);
+        QVERIFY(page.doc()->has_edge("Z", "Y"));
+        page.undo_stack()->undo();
+        QVERIFY(!page.doc()->has_edge("Z", "Y"));
+    }
+
+    void saves_opens_and_exports() {
+        QTemporaryDir dir;
+        DiagramPage page;
+        page.seed("X", "Y", {"S"}, {});
+        QVERIFY(page.add_unobserved("U \"hidden\""));
+        QVERIFY(page.request_edge("U \"hidden\"", "Y"));
+        const QString path = dir.filePath("audit.diagram.json");
+        QVERIFY(page.save_file(path).ok());
+        QVERIFY(page.export_dot(dir.filePath("audit.dot")).ok());
+        QFile dot(dir.filePath("audit.dot"));
+        QVERIFY(dot.open(QIODevice::ReadOnly));
+        const QByteArray text = dot.readAll();
+        QVERIFY(text.startsWith("digraph"));
+        QVERIFY(text.contains("\"U \\\"hidden\\\"\""));  // DOT escapes the inner quotes
+
+        DiagramPage other;
+        other.seed("X", "Y", {"S"}, {});
+        QVERIFY(other.open_file(path).ok());
+        QCOMPARE(int(other.doc()->nodes().size()), 4);
+        QVERIFY(other.doc()->has_edge("U \"hidden\"", "Y"));
+        QCOMPARE(other.doc()->node("U \"hidden\"")->observed, false);
+        QCOMPARE(other.undo_stack()->count(), 0);
+        // A broken file is an error naming the file, and the diagram is left as it was.
+        QFile bad(dir.filePath("bad.diagram.json"));
+        QVERIFY(bad.open(QIODevice::WriteOnly));
+        bad.write("{\"nodes\": [ {\"name\": 3} ]}");
+        bad.close();
+        const Status st = other.open_file(bad.fileName());
+        QVERIFY(!st.ok());
+        QVERIFY(QString::fromStdString(st.error().to_string()).contains("bad.diagram.json"));
+        QCOMPARE(int(other.doc()->nodes().size()), 4);
+    }
+};
+
+QTEST_MAIN(DiagramPageTest)
+#include "diagram_page_test.moc"

@@ -1,0 +1,243 @@
+#include "ui/diagram_doc.h"
+
+#include <QSet>
+
+#include "core/causal/verdict.h"
+#include <algorithm>
+#include <functional>
+
+namespace foldline::ui {
+
+QString role_title(const QString& role) {
+    static const QHash<QString, QString> titles = {
+        {"exposure", QObject::tr("exposure")},
+        {"outcome", QObject::tr("outcome")},
+        {"confounder", QObject::tr("confounder")},
+        {"mediator", QObject::tr("mediator")},
+        {"mediator_descendant", QObject::tr("after a mediator")},
+        {"collider", QObject::tr("collider")},
+        {"collider_descendant", QObject::tr("after a collider")},
+        {"outcome_descendant", QObject::tr("after the outcome")},
+        {"exposure_descendant", QObject::tr("side effect of exposure")},
+        {"exposure_cause", QObject::tr("cause of exposure only")},
+        {"outcome_cause", QObject::tr("cause of outcome only")},
+        {"unrelated", QObject::tr("unrelated")},
+    };
+    return titles.value(role, role);
+}
+
+namespace {
+QString qs(const std::string& s) { return QString::fromStdString(s); }
+std::string ss(const QString& s) { return s.toStdString(); }
+DiagramNode to_ui(const causal::DiagramNode& n) {
+    return {qs(n.name), n.observed, QPointF(n.x.value_or(0), n.y.value_or(0))};
+}
+}  // namespace
+
+DiagramDoc::DiagramDoc(QObject* parent) : QObject(parent) {}
+
+void DiagramDoc::seed(const QString& exposure, const QString& outcome, const QStringList& strata) {
+    d_ = causal::Diagram{};
+    exposure_ = exposure;
+    outcome_ = outcome;
+    strata_ = strata;
+    d_.exposure = ss(exposure);
+    d_.outcome = ss(outcome);
+    d_.nodes.push_back({ss(exposure), true, 0.0, 0.0});
+    d_.nodes.push_back({ss(outcome), true, 360.0, 0.0});
+    d_.edges.push_back({ss(exposure), ss(outcome)});
+    double y = -140;
+    for (const QString& s : strata) {
+        if (d_.find_node(ss(s)) >= 0) continue;
+        d_.nodes.push_back({ss(s), true, 180.0, y});
+        d_.edges.push_back({ss(s), ss(exposure)});
+        d_.edges.push_back({ss(s), ss(outcome)});
+        y -= 110;
+    }
+    emit structure_changed();
+}
+
+void DiagramDoc::replace(const causal::Diagram& d) {
+    d_ = d;
+    d_.exposure = ss(exposure_);
+    d_.outcome = ss(outcome_);
+    for (const QString& name : {exposure_, outcome_})
+        if (!name.isEmpty() && d_.find_node(ss(name)) < 0) d_.nodes.push_back({ss(name), true, 0.0, 0.0});
+    emit structure_changed();
+}
+
+bool DiagramDoc::crowded() const {
+    for (std::size_t i = 0; i < d_.nodes.size(); ++i)
+        for (std::size_t j = i + 1; j < d_.nodes.size(); ++j) {
+            const auto& a = d_.nodes[i];
+            const auto& b = d_.nodes[j];
+            if (!a.x || !a.y || !b.x || !b.y) return true;
+            if (std::abs(*a.x - *b.x) < 170 && std::abs(*a.y - *b.y) < 80) return true;
+        }
+    return false;
+}
+
+void DiagramDoc::set_strata(const QStringList& strata) {
+    strata_ = strata;
+    emit structure_changed();
+}
+
+std::vector<DiagramNode> DiagramDoc::nodes() const {
+    std::vector<DiagramNode> out;
+    for (const auto& n : d_.nodes) out.push_back(to_ui(n));
+    return out;
+}
+
+std::vector<DiagramEdge> DiagramDoc::edges() const {
+    std::vector<DiagramEdge> out;
+    for (const auto& e : d_.edges) out.push_back({qs(e.from), qs(e.to)});
+    return out;
+}
+
+std::optional<DiagramNode> DiagramDoc::node(const QString& name) const {
+    const int i = d_.find_node(ss(name));
+    if (i < 0) return std::nullopt;
+    return to_ui(d_.nodes[std::size_t(i)]);
+}
+
+bool DiagramDoc::has_edge(const QString& from, const QString& to) const {
+    return std::any_of(d_.edges.begin(), d_.edges.end(),
+                       [&](const causal::DiagramEdge& e) { return e.from == ss(from) && e.to == ss(to); });
+}
+
+QString DiagramDoc::check_node(const QString& name) const {
+    if (name.trimmed().isEmpty()) return tr("A node needs a name.");
+    if (node(name)) return tr("\"%1\" is already in the diagram.").arg(name);
+    return {};
+}
+
+QString DiagramDoc::check_edge(const QString& from, const QString& to) const {
+    if (!node(from) || !node(to)) return tr("Both ends of an arrow must be nodes of the diagram.");
+    if (from == to) return tr("An arrow cannot point from \"%1\" to itself.").arg(from);
+    if (has_edge(from, to)) return tr("The arrow %1 → %2 is already drawn.").arg(from, to);
+    // The engine validates the diagram with the arrow added; what is left to refuse is a cycle.
+    causal::Diagram trial = d_;
+    trial.edges.push_back({ss(from), ss(to)});
+    auto built = causal::CausalGraph::build(trial);
+    if (!built) return tr("Arrow %1 → %2 refused: %3").arg(from, to, qs(built.error().message));
+    return {};
+}
+
+bool DiagramDoc::add_node(const DiagramNode& n) {
+    if (!check_node(n.name).isEmpty()) return false;
+    d_.nodes.push_back({ss(n.name), n.observed, n.pos.x(), n.pos.y()});
+    emit structure_changed();
+    return true;
+}
+
+bool DiagramDoc::remove_node(const QString& name) {
+    const int i = d_.find_node(ss(name));
+    if (i < 0) return false;
+    d_.nodes.erase(d_.nodes.begin() + i);
+    const std::string n = ss(name);
+    d_.edges.erase(std::remove_if(d_.edges.begin(), d_.edges.end(),
+                                  [&](const causal::DiagramEdge& e) { return e.from == n || e.to == n; }),
+                   d_.edges.end());
+    emit structure_changed();
+    return true;
+}
+
+bool DiagramDoc::add_edge(const QString& from, const QString& to) {
+    if (!check_edge(from, to).isEmpty()) return false;
+    d_.edges.push_back({ss(from), ss(to)});
+    emit structure_changed();
+    return true;
+}
+
+bool DiagramDoc::remove_edge(const QString& from, const QString& to) {
+    auto it = std::find_if(d_.edges.begin(), d_.edges.end(),
+                           [&](const causal::DiagramEdge& e) { return e.from == ss(from) && e.to == ss(to); });
+    if (it == d_.edges.end()) return false;
+    d_.edges.erase(it);
+    emit structure_changed();
+    return true;
+}
+
+void DiagramDoc::move_node(const QString& name, QPointF pos) {
+    const int i = d_.find_node(ss(name));
+    if (i < 0) return;
+    d_.nodes[std::size_t(i)].x = pos.x();
+    d_.nodes[std::size_t(i)].y = pos.y();
+    emit node_moved(name, pos);
+}
+
+QHash<QString, QPointF> DiagramDoc::layout() const {
+    // Layer = longest path from any source; the exposure is pinned to layer 0 when it is a source.
+    QHash<QString, int> layer;
+    const std::vector<DiagramNode> ns = nodes();
+    const std::vector<DiagramEdge> es = edges();
+    for (const auto& n : ns) layer[n.name] = 0;
+    for (std::size_t pass = 0; pass < ns.size(); ++pass) {
+        bool changed = false;
+        for (const auto& e : es)
+            if (layer[e.to] < layer[e.from] + 1) layer[e.to] = layer[e.from] + 1, changed = true;
+        if (!changed) break;
+    }
+    QHash<int, QStringList> by_layer;
+    for (const auto& n : ns) by_layer[layer[n.name]] << n.name;
+    // Exposure and outcome sit on one line; every other node goes above or below it in turn,
+    // so arrows from a common cause to the outcome pass clear of the exposure.
+    QHash<QString, QPointF> pos;
+    for (auto it = by_layer.begin(); it != by_layer.end(); ++it) {
+        QStringList names = it.value();
+        std::sort(names.begin(), names.end());
+        int k = 0;
+        for (const QString& name : names) {
+            double y = 0;
+            if (name != exposure_ && name != outcome_) {
+                y = (k % 2 == 0 ? -1.0 : 1.0) * (k / 2 + 1) * 120.0;
+                ++k;
+            }
+            pos[name] = QPointF(it.key() * 220.0, y);
+        }
+    }
+    return pos;
+}
+
+DiagramVerdict DiagramDoc::verdict() const {
+    DiagramVerdict v;
+    auto graph = causal::CausalGraph::build(d_);
+    if (!graph) {
+        v.problem = qs(graph.error().message);
+        return v;
+    }
+    std::vector<std::string> strata;
+    for (const QString& s : strata_) strata.push_back(ss(s));
+    auto r = causal::decide(*graph, ss(exposure_), ss(outcome_), strata);
+    if (!r) {
+        v.problem = qs(r.error().message);
+        return v;
+    }
+    v.computed = true;
+    v.answer = qs(std::string(causal::to_string(r->answer)));
+    const QString s = strata_.join(QStringLiteral(" × "));
+    switch (r->answer) {
+        case causal::Answer::Stratified: v.recommended = tr("the table within strata of %1").arg(s); break;
+        case causal::Answer::Pooled: v.recommended = tr("the pooled table"); break;
+        case causal::Answer::Both: v.recommended = tr("either table — both estimate the same effect"); break;
+        case causal::Answer::OtherSet: {
+            QStringList set;
+            if (r->standardise_over)
+                for (const auto& n : *r->standardise_over) set << qs(n);
+            v.recommended = tr("a table standardised over %1").arg(set.join(QStringLiteral(" × ")));
+            break;
+        }
+        case causal::Answer::NotIdentifiable: v.recommended = tr("neither — not identifiable by adjustment"); break;
+    }
+    v.reason = qs(r->reason);
+    for (const auto& nr : r->roles) v.roles.insert(qs(nr.name), qs(std::string(causal::to_string(nr.role))));
+    for (const auto& set : r->valid_sets) {
+        QStringList l;
+        for (const auto& n : set) l << qs(n);
+        v.valid_sets << l;
+    }
+    if (r->direct_effect.applies) v.direct_effect = qs(r->direct_effect.reason);
+    return v;
+}
+
+}  // namespace foldline::ui

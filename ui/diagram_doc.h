@@ -1,0 +1,97 @@
+#pragma once
+// The diagram being edited, as the editor sees it: the causal graph (held by the engine) plus
+// where each node sits on the canvas. Every edit goes through here and is announced by a
+// signal; the scene's items only mirror it, and the undo commands only call it.
+#include <QHash>
+#include <QObject>
+#include <QPointF>
+#include <QString>
+#include <QStringList>
+#include <optional>
+#include <vector>
+
+#include "core/causal/diagram.h"
+
+namespace foldline::ui {
+
+struct DiagramNode {
+    QString name;
+    bool observed = true;
+    QPointF pos;
+};
+
+struct DiagramEdge {
+    QString from, to;
+    bool operator==(const DiagramEdge& o) const { return from == o.from && to == o.to; }
+};
+
+/// What the engine concludes from the diagram for one stratification.
+struct DiagramVerdict {
+    bool computed = false;        ///< false when the engine is missing or the diagram is invalid
+    QString answer;               ///< "stratified", "pooled", "both", "other_set", "not_identifiable"
+    QString recommended;          ///< the view to quote, in words
+    QString reason;               ///< one plain sentence
+    QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
+    QList<QStringList> valid_sets;///< minimal valid adjustment sets
+    QString adjusted;             ///< adjusted estimate text, when the engine computed one
+    QString direct_effect;        ///< what the direct effect "not through the mediators" needs
+    QString problem;              ///< why no verdict (invalid diagram), empty otherwise
+};
+
+class DiagramDoc : public QObject {
+    Q_OBJECT
+public:
+    explicit DiagramDoc(QObject* parent = nullptr);
+
+    /// Starts a new diagram: exposure → outcome, each stratifier pointing at both.
+    void seed(const QString& exposure, const QString& outcome, const QStringList& strata);
+    /// Replaces the graph with `d` (a diagram read from a file). The current exposure and
+    /// outcome stay the question's: they are added as observed nodes if `d` lacks them.
+    void replace(const causal::Diagram& d);
+    /// True when two nodes sit closer than a node's size (positions from elsewhere).
+    bool crowded() const;
+    /// The finding's stratifiers the verdict is about.
+    void set_strata(const QStringList& strata);
+
+    /// Nodes and arrows in diagram order (copies of the engine's diagram).
+    std::vector<DiagramNode> nodes() const;
+    std::vector<DiagramEdge> edges() const;
+    std::optional<DiagramNode> node(const QString& name) const;
+    /// The diagram as the engine holds it (for saving and export).
+    const causal::Diagram& diagram() const { return d_; }
+    bool has_edge(const QString& from, const QString& to) const;
+    QString exposure() const { return exposure_; }
+    QString outcome() const { return outcome_; }
+    QStringList strata() const { return strata_; }
+
+    /// Why the edit cannot be made (empty when it can), in the engine's words: unknown node,
+    /// self-loop, duplicate, or a cycle (named by its nodes).
+    QString check_edge(const QString& from, const QString& to) const;
+    QString check_node(const QString& name) const;
+
+    // Edits. Each returns false (changing nothing) when the edit is invalid.
+    bool add_node(const DiagramNode& n);
+    bool remove_node(const QString& name);
+    bool add_edge(const QString& from, const QString& to);
+    bool remove_edge(const QString& from, const QString& to);
+    void move_node(const QString& name, QPointF pos);
+    /// Positions in layers by longest path from the sources (exposure far left).
+    QHash<QString, QPointF> layout() const;
+
+    /// The engine's verdict for the current diagram and strata.
+    DiagramVerdict verdict() const;
+
+signals:
+    void structure_changed();
+    void node_moved(const QString& name, QPointF pos);
+
+private:
+    causal::Diagram d_;
+    QString exposure_, outcome_;
+    QStringList strata_;
+};
+
+/// Display word of a role, as on the canvas ("confounder", "mediator", ...).
+QString role_title(const QString& role);
+
+}  // namespace foldline::ui

@@ -1,0 +1,74 @@
+#pragma once
+// The one place the workbench calls the engines in core/: loading, the question, the scan and
+// the causal verdict. Everything returns plain values; nothing here touches widgets, so every
+// call may run on a worker thread.
+#include <QString>
+#include <QStringList>
+#include <functional>
+#include <map>
+#include <memory>
+#include <optional>
+#include <vector>
+
+#include "core/common/error.h"
+#include "core/common/progress.h"
+#include "core/table/table.h"
+#include "ui/finding_view.h"
+
+namespace foldline::ui {
+
+struct LoadOptions {
+    QString count_column;              ///< empty: row-level data
+    QStringList missing_markers;       ///< empty: the reader's defaults
+    std::map<std::string, ColumnType> type_overrides;
+};
+
+/// True when this build has the CSV reader.
+bool reader_available();
+/// Reads a CSV/TSV file; an Error names file, line and column. Honours work.stop.
+Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work);
+
+struct QuestionSpec {
+    bool slope = false;             ///< false: rates of a binary outcome between two groups;
+                                    ///< true: trend of numeric `outcome` (y) on numeric `exposure` (x)
+    QString outcome, positive;      ///< binary outcome and its positive level
+    QString exposure, focal, reference;
+    QStringList candidates;         ///< chosen stratifiers
+    bool pairs = true;
+    int bins = 4;
+    double alpha = 0.05;
+    int bootstrap = 200;
+    unsigned seed = 1;
+};
+
+/// A column and whether it may stratify; `reason` says why not.
+struct CandidateView {
+    QString column;
+    bool usable = true;
+    QString reason;
+    QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
+};
+
+/// Columns that could stratify the question, each with the reason any is left out.
+/// Empty table → empty list.
+std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q);
+/// Problems with the question in plain sentences; empty when the scan can run.
+QStringList check_question(const Table& t, const QuestionSpec& q);
+
+/// True when this build has the rate scan.
+bool scan_available();
+
+/// A finished scan as the workbench shows it.
+struct ScanOutcome {
+    std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
+    QStringList excluded;               ///< "column: reason"
+    bool cancelled = false;
+};
+
+/// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
+/// the calling thread; class still decided on the raw p, before the FDR step and the
+/// bootstrap); the result holds the final, ranked findings. Honours work.stop (cancelled set).
+Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
+                             const std::function<void(FindingView)>& on_provisional);
+
+}  // namespace foldline::ui

@@ -1,0 +1,448 @@
+#include "ui/findings_page.h"
+
+#include <QApplication>
+#include <QButtonGroup>
+#include <QClipboard>
+#include <QFileDialog>
+#include <QHBoxLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QLineEdit>
+#include <QMessageBox>
+#include <QPlainTextEdit>
+#include <QPushButton>
+#include <QScrollArea>
+#include <QSettings>
+#include <QSplitter>
+#include <QTabWidget>
+#include <QTableView>
+#include <QTableWidget>
+#include <QToolButton>
+#include <QVBoxLayout>
+#include <qcustomplot.h>
+
+#include "ui/caution_band.h"
+#include "ui/charts.h"
+#include "ui/findings_model.h"
+#include "ui/palette.h"
+#include "ui/tsv.h"
+
+namespace foldline::ui {
+
+namespace {
+
+QString count_text(double pos, double n) {
+    return QStringLiteral("%1 / %2").arg(pos, 0, 'f', 0).arg(n, 0, 'f', 0);
+}
+
+QString ratio_text(double r) { return std::isfinite(r) ? QString::number(r, 'f', 2) : QStringLiteral("—"); }
+
+void set_headers(QTableWidget* t, const QStringList& names, const QStringList& tips) {
+    t->setColumnCount(int(names.size()));
+    for (int i = 0; i < names.size(); ++i) {
+        auto* h = new QTableWidgetItem(names[i]);
+        if (i < tips.size()) h->setToolTip(tips[i]);
+        t->setHorizontalHeaderItem(i, h);
+    }
+}
+
+QTableWidget* make_table() {
+    auto* t = new QTableWidget;
+    t->setEditTriggers(QAbstractItemView::NoEditTriggers);
+    t->verticalHeader()->hide();
+    t->horizontalHeader()->setStretchLastSection(true);
+    t->setSelectionBehavior(QAbstractItemView::SelectRows);
+    t->setWordWrap(false);
+    return t;
+}
+
+void put(QTableWidget* t, int r, int c, const QString& text, bool greyed = false, const QString& tip = {}) {
+    auto* item = new QTableWidgetItem(text);
+    if (c > 0) item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
+    if (greyed) {
+        item->setForeground(colors::muted(QApplication::palette()));
+        QFont f = item->font();
+        f.setItalic(true);
+        item->setFont(f);
+    }
+    if (!tip.isEmpty()) item->setToolTip(tip);
+    t->setItem(r, c, item);
+}
+
+const QString kTipRate = QObject::tr("Share of the group with the positive outcome, with its 95% Wilson score interval");
+const QString kTipRd = QObject::tr("Risk difference: focal rate minus reference rate, with its 95% Newcombe interval");
+const QString kTipRatio = QObject::tr("Selection-rate ratio: focal rate divided by reference rate; below 0.8 is the common four-fifths flag");
+const QString kTipCounts = QObject::tr("Positives out of the group's total");
+
+}  // namespace
+
+FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
+    : QWidget(parent), model_(model), filter_(new FindingsFilter(this)) {
+    filter_->setSourceModel(model_);
+
+    // Left: filter chips, search, ranked list.
+    auto* chips = new QHBoxLayout;
+    chips->setSpacing(4);
+    for (FindingClass c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
+                           FindingClass::Heterogeneous, FindingClass::Stable}) {
+        auto* b = new QToolButton;
+        b->setText(class_glyph(c) + QLatin1Char(' ') + class_title(c));
+        b->setCheckable(true);
+        b->setChecked(true);
+        b->setToolTip(tr("Show or hide %1 findings: %2").arg(class_title(c).toLower(), class_meaning(c)));
+        b->setObjectName(QStringLiteral("show_") + class_title(c).toLower());
+        connect(b, &QToolButton::toggled, this, [this, c](bool on) { filter_->set_class_shown(c, on); });
+        chips->addWidget(b);
+    }
+    chips->addStretch();
+    search_ = new QLineEdit;
+    search_->setPlaceholderText(tr("Search strata…"));
+    search_->setClearButtonEnabled(true);
+    search_->setObjectName(QStringLiteral("search_findings"));
+    connect(search_, &QLineEdit::textChanged, filter_, &FindingsFilter::set_search);
+
+    list_ = new QTableView;
+    list_->setObjectName(QStringLiteral("findings_list"));
+    list_->setModel(filter_);
+    list_->setSortingEnabled(true);
+    list_->sortByColumn(FindingsModel::Class, Qt::AscendingOrder);
+    list_->setSelectionBehavior(QAbstractItemView::SelectRows);
+    list_->setSelectionMode(QAbstractItemView::SingleSelection);
+    list_->verticalHeader()->hide();
+    list_->horizontalHeader()->setStretchLastSection(true);
+    list_->setAlternatingRowColors(true);
+    list_->setWordWrap(false);
+    connect(list_->selectionModel(), &QItemSelectionModel::currentRowChanged, this,
+            [this](const QModelIndex& cur) { show_finding(cur.isValid() ? filter_->mapToSource(cur).row() : -1); });
+
+    auto* left = new QWidget;
+    auto* ll = new QVBoxLayout(left);
+    ll->setContentsMargins(0, 0, 0, 0);
+    ll->addLayout(chips);
+    ll->addWidget(search_);
+    ll->addWidget(list_, 1);
+
+    // Right: the selected finding.
+    heading_ = new QLabel;
+    heading_->setObjectName(QStringLiteral("finding_heading"));
+    heading_->setTextFormat(Qt::RichText);
+    meaning_ = new QLabel;
+    meaning_->setWordWrap(true);
+
+    auto* decide_row = new QHBoxLayout;
+    decision_ = new QButtonGroup(this);
+    decision_->setExclusive(true);
+    const std::pair<Decision, QString> choices[] = {
+        {Decision::Upheld, tr("The finding stands and the chosen view is the one to quote")},
+        {Decision::SetAside, tr("The finding does not hold up or does not matter for this question")},
+        {Decision::FollowUp, tr("More data or expert advice is needed before deciding")}};
+    decide_row->addWidget(new QLabel(tr("Decision:")));
+    for (const auto& [d, tip] : choices) {
+        auto* b = new QPushButton(decision_title(d));
+        b->setCheckable(true);
+        b->setToolTip(tip);
+        b->setObjectName(QStringLiteral("decide_") + QString::number(int(d)));
+        decision_->addButton(b, int(d));
+        decide_row->addWidget(b);
+    }
+    connect(decision_, &QButtonGroup::idClicked, this, [this](int id) { decide(Decision(id)); });
+    note_ = new QPlainTextEdit;
+    note_->setPlaceholderText(tr("Reviewer's note on this finding…"));
+    note_->setMaximumHeight(52);
+    note_->setObjectName(QStringLiteral("finding_note"));
+    connect(note_, &QPlainTextEdit::textChanged, this, [this] {
+        if (showing_) return;
+        const int r = selected();
+        if (const FindingView* f = model_->at(r)) model_->set_decision(r, f->decision, note_->toPlainText());
+    });
+
+    pooled_ = make_table();
+    pooled_->setObjectName(QStringLiteral("pooled_table"));
+    strata_ = make_table();
+    strata_->setObjectName(QStringLiteral("strata_table"));
+    auto* pooled_box = new QWidget;
+    auto* pl = new QVBoxLayout(pooled_box);
+    pl->setContentsMargins(0, 0, 0, 0);
+    pl->addWidget(new QLabel(tr("<b>Pooled</b> (all strata together)")));
+    pl->addWidget(pooled_);
+    auto* strata_box = new QWidget;
+    auto* sl = new QVBoxLayout(strata_box);
+    sl->setContentsMargins(0, 0, 0, 0);
+    sl->addWidget(new QLabel(tr("<b>Within each stratum</b>")));
+    sl->addWidget(strata_);
+    auto* tables = tables_split_ = new QSplitter(Qt::Horizontal);
+    tables->setObjectName(QStringLiteral("tables_splitter"));
+    tables->addWidget(pooled_box);
+    tables->addWidget(strata_box);
+    tables->setStretchFactor(0, 2);
+    tables->setStretchFactor(1, 3);
+
+    charts_ = new QTabWidget;
+    charts_->setObjectName(QStringLiteral("chart_tabs"));
+    auto make_plot = [this](const QString& name, const QString& tip) {
+        auto* p = new QCustomPlot;
+        p->setObjectName(name);
+        p->setToolTip(tip);
+        p->setMinimumHeight(220);
+        return p;
+    };
+    forest_ = make_plot(QStringLiteral("chart_forest"), tr("Each stratum's gap with its 95% interval, beside the pooled and adjusted gaps"));
+    mix_ = make_plot(QStringLiteral("chart_mix"), tr("How each group is spread across the strata"));
+    decomp_ = make_plot(QStringLiteral("chart_decomposition"), tr("The pooled gap split into a within-stratum part and a part due to different stratum mixes"));
+    scatter_ = make_plot(QStringLiteral("chart_scatter"), tr("Points with the pooled line (dashed) and one line per stratum"));
+    multiples_ = make_plot(QStringLiteral("chart_multiples"), tr("One small panel per stratum"));
+    forest_scroll_ = new QScrollArea;
+    forest_scroll_->setWidget(forest_);
+    forest_scroll_->setWidgetResizable(true);
+    forest_scroll_->setFrameShape(QFrame::NoFrame);
+    charts_->addTab(forest_scroll_, tr("Gaps by stratum"));
+    charts_->addTab(mix_, tr("Stratum mix"));
+    charts_->addTab(decomp_, tr("Decomposition"));
+    charts_->addTab(scatter_, tr("Scatter"));
+    charts_->addTab(multiples_, tr("Per stratum"));
+
+    auto* copy = new QPushButton(tr("Copy table (TSV)"));
+    copy->setToolTip(tr("Copy the per-stratum table, or the table you clicked last, as tab-separated text (Ctrl+Shift+C)"));
+    connect(copy, &QPushButton::clicked, this, &FindingsPage::copy_table);
+    auto* save = new QPushButton(tr("Save chart…"));
+    save->setToolTip(tr("Save the visible chart as PNG, SVG or PDF (Ctrl+Shift+S)"));
+    connect(save, &QPushButton::clicked, this, &FindingsPage::save_chart);
+    auto* tools = new QHBoxLayout;
+    tools->addStretch();
+    tools->addWidget(copy);
+    tools->addWidget(save);
+
+    detail_split_ = new QSplitter(Qt::Vertical);
+    detail_split_->setObjectName(QStringLiteral("detail_splitter"));
+    detail_split_->addWidget(tables);
+    detail_split_->addWidget(charts_);
+    detail_split_->setStretchFactor(0, 2);
+    detail_split_->setStretchFactor(1, 3);
+
+    detail_ = new QWidget;
+    auto* dl = new QVBoxLayout(detail_);
+    dl->setContentsMargins(0, 0, 0, 0);
+    dl->addWidget(heading_);
+    dl->addWidget(meaning_);
+    dl->addLayout(decide_row);
+    dl->addWidget(note_);
+    dl->addWidget(detail_split_, 1);
+    dl->addLayout(tools);
+    empty_ = new QLabel(tr("Run a scan (step 3) and pick a finding from the list."));
+    empty_->setAlignment(Qt::AlignCenter);
+    auto* right = new QWidget;
+    auto* rl = new QVBoxLayout(right);
+    rl->setContentsMargins(0, 0, 0, 0);
+    rl->addWidget(empty_);
+    rl->addWidget(detail_, 1);
+    detail_->hide();
+
+    split_ = new QSplitter(Qt::Horizontal);
+    split_->setObjectName(QStringLiteral("findings_splitter"));
+    split_->addWidget(left);
+    split_->addWidget(right);
+    split_->setStretchFactor(0, 1);
+    split_->setStretchFactor(1, 3);
+    split_->setSizes({380, 1000});
+    tables->setSizes({330, 600});
+
+    auto* lay = new QVBoxLayout(this);
+    lay->addWidget(new CautionBand);
+    lay->addWidget(split_, 1);
+
+    connect(model_, &QAbstractItemModel::modelReset, this, [this] { show_finding(-1); });
+}
+
+int FindingsPage::selected() const {
+    const QModelIndex cur = list_->selectionModel()->currentIndex();
+    return cur.isValid() ? filter_->mapToSource(cur).row() : -1;
+}
+
+bool FindingsPage::select(int row) {
+    const QModelIndex p = filter_->mapFromSource(model_->index(row, 0));
+    if (!p.isValid()) return false;
+    list_->selectionModel()->setCurrentIndex(p, QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
+    list_->scrollTo(p);
+    return true;
+}
+
+int FindingsPage::select_top() {
+    if (filter_->rowCount() == 0) return -1;
+    const QModelIndex p = filter_->index(0, 0);
+    list_->selectionModel()->setCurrentIndex(p, QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
+    return filter_->mapToSource(p).row();
+}
+
+void FindingsPage::set_search(const QString& text) { search_->setText(text); }
+
+void FindingsPage::show_finding(int row) {
+    const FindingView* f = model_->at(row);
+    detail_->setVisible(f != nullptr);
+    empty_->setVisible(f == nullptr);
+    if (!f) {
+        emit finding_selected(-1);
+        return;
+    }
+    showing_ = true;
+    heading_->setText(QStringLiteral("<span style='font-size:large'><b>%1 %2</b> — stratified by <b>%3</b></span>")
+                          .arg(class_glyph(f->cls), class_title(f->cls), f->strata_label().toHtmlEscaped()));
+    QString detail = class_meaning(f->cls);
+    if (std::isfinite(f->q_value)) detail += tr("  q-value %1").arg(f->q_value, 0, 'g', 3);
+    if (std::isfinite(f->stability)) detail += tr("; kept its class in %1% of resamples").arg(100 * f->stability, 0, 'f', 0);
+    meaning_->setText(detail);
+    if (auto* b = decision_->button(int(f->decision))) b->setChecked(true);
+    else {
+        decision_->setExclusive(false);
+        for (auto* b2 : decision_->buttons()) b2->setChecked(false);
+        decision_->setExclusive(true);
+    }
+    note_->setPlainText(f->note);
+    if (f->slope) fill_slope_tables(*f);
+    else fill_rate_tables(*f);
+    draw_charts(*f);
+    showing_ = false;
+    emit finding_selected(row);
+}
+
+void FindingsPage::fill_rate_tables(const FindingView& f) {
+    pooled_->clear();
+    set_headers(pooled_, {tr("Group"), tr("Positives / total"), tr("Rate [95% CI]")},
+                {QString(), kTipCounts, kTipRate});
+    const GroupRow& p = f.pooled;
+    pooled_->setRowCount(5 + int(f.more.size()));
+    put(pooled_, 0, 0, f.focal + tr(" (focal)"));
+    put(pooled_, 0, 1, count_text(p.pos_focal, p.n_focal), false, kTipCounts);
+    put(pooled_, 0, 2, format_estimate(p.rate_focal), false, kTipRate);
+    put(pooled_, 1, 0, f.reference + tr(" (reference)"));
+    put(pooled_, 1, 1, count_text(p.pos_reference, p.n_reference), false, kTipCounts);
+    put(pooled_, 1, 2, format_estimate(p.rate_reference), false, kTipRate);
+    put(pooled_, 2, 0, tr("Difference (pooled)"));
+    put(pooled_, 2, 2, format_estimate(f.crude), false, kTipRd);
+    put(pooled_, 3, 0, tr("Selection-rate ratio"));
+    put(pooled_, 3, 2, ratio_text(p.selection_ratio), false, kTipRatio);
+    put(pooled_, 4, 0, f.adjusted_name.isEmpty() ? tr("Adjusted difference") : f.adjusted_name);
+    put(pooled_, 4, 2, format_estimate(f.adjusted), false,
+        tr("The gap after comparing like with like within strata (standard = the whole population's stratum mix), with its 95% interval"));
+    for (int i = 0; i < int(f.more.size()); ++i) {
+        put(pooled_, 5 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
+        put(pooled_, 5 + i, 2, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
+    }
+    pooled_->resizeColumnsToContents();
+    fit_pooled();
+
+    strata_->clear();
+    set_headers(strata_,
+                {tr("Stratum"), f.focal, tr("Rate [95% CI]"), f.reference, tr("Rate [95% CI]"),
+                 tr("Difference [95% CI]"), tr("Ratio"), tr("Note")},
+                {tr("Level of %1").arg(f.strata_label()), kTipCounts, kTipRate, kTipCounts, kTipRate, kTipRd, kTipRatio,
+                 tr("Why a stratum is left out of the adjusted figures")});
+    strata_->setRowCount(int(f.rows.size()));
+    for (int i = 0; i < int(f.rows.size()); ++i) {
+        const GroupRow& r = f.rows[std::size_t(i)];
+        const bool g = !r.informative;
+        const QString why = g ? (r.reason.isEmpty() ? tr("left out: a group has no rows here") : r.reason) : QString();
+        put(strata_, i, 0, r.level, g, why);
+        put(strata_, i, 1, count_text(r.pos_focal, r.n_focal), g, kTipCounts);
+        put(strata_, i, 2, format_estimate(r.rate_focal), g, kTipRate);
+        put(strata_, i, 3, count_text(r.pos_reference, r.n_reference), g, kTipCounts);
+        put(strata_, i, 4, format_estimate(r.rate_reference), g, kTipRate);
+        put(strata_, i, 5, format_estimate(r.rd), g, kTipRd);
+        put(strata_, i, 6, ratio_text(r.selection_ratio), g, kTipRatio);
+        put(strata_, i, 7, why, g, why);
+        strata_->item(i, 7)->setTextAlignment(Qt::AlignLeft | Qt::AlignVCenter);
+    }
+    strata_->resizeColumnsToContents();
+}
+
+void FindingsPage::fill_slope_tables(const FindingView& f) {
+    pooled_->clear();
+    set_headers(pooled_, {tr("Estimate"), tr("Value [95% CI]")}, {});
+    pooled_->setRowCount(2 + int(f.more.size()));
+    for (int i = 0; i < int(f.more.size()); ++i) {
+        put(pooled_, 2 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
+        put(pooled_, 2 + i, 1, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
+    }
+    put(pooled_, 0, 0, tr("Pooled slope"));
+    put(pooled_, 0, 1, format_estimate(f.crude), false, tr("Slope of the line fitted to all points together"));
+    put(pooled_, 1, 0, f.adjusted_name.isEmpty() ? tr("Within-stratum slope") : f.adjusted_name);
+    put(pooled_, 1, 1, format_estimate(f.adjusted), false, tr("Common slope once each stratum has its own level"));
+    pooled_->resizeColumnsToContents();
+    strata_->clear();
+    set_headers(strata_, {tr("Stratum"), tr("n"), tr("Slope [95% CI]"), tr("Intercept")},
+                {QString(), tr("Observations in the stratum"), tr("Least-squares slope within the stratum"), QString()});
+    strata_->setRowCount(int(f.slope_rows.size()));
+    for (int i = 0; i < int(f.slope_rows.size()); ++i) {
+        const SlopeRow& r = f.slope_rows[std::size_t(i)];
+        put(strata_, i, 0, r.level);
+        put(strata_, i, 1, QString::number(r.n, 'f', 0));
+        put(strata_, i, 2, format_estimate(r.slope));
+        put(strata_, i, 3, std::isfinite(r.intercept) ? QString::number(r.intercept, 'f', 3) : QStringLiteral("—"));
+    }
+    strata_->resizeColumnsToContents();
+}
+
+void FindingsPage::draw_charts(const FindingView& f) {
+    for (int i = 0; i < 3; ++i) charts_->setTabVisible(i, !f.slope);
+    for (int i = 3; i < 5; ++i) charts_->setTabVisible(i, f.slope);
+    if (f.slope) {
+        charts::draw_scatter(scatter_, f);
+        charts::draw_small_multiples(multiples_, f);
+        scatter_->replot();
+        multiples_->replot();
+        if (charts_->currentIndex() < 3) charts_->setCurrentIndex(3);
+    } else {
+        // One readable row per stratum: many strata make the chart tall and the tab scrolls.
+        forest_->setMinimumHeight(std::max(220, 110 + 17 * (int(f.rows.size()) + 3)));
+        charts::draw_forest(forest_, f);
+        charts::draw_mix(mix_, f);
+        charts::draw_decomposition(decomp_, f);
+        forest_->replot();
+        mix_->replot();
+        decomp_->replot();
+        if (charts_->currentIndex() >= 3) charts_->setCurrentIndex(0);
+    }
+}
+
+void FindingsPage::fit_pooled() {
+    // The first time a finding is shown, give the pooled table the width it needs and the
+    // per-stratum table the rest; later the reviewer's own sizes (remembered) win.
+    if (fitted_) return;
+    int need = 2 * pooled_->frameWidth() + 4;
+    for (int c = 0; c < pooled_->columnCount(); ++c) need += pooled_->columnWidth(c);
+    const int total = tables_split_->width() > 100 ? tables_split_->width() : 900;
+    if (need < total * 2 / 3) {
+        tables_split_->setSizes({need, total - need});
+        fitted_ = true;
+    }
+}
+
+QCustomPlot* FindingsPage::current_chart() const {
+    if (charts_->currentWidget() == forest_scroll_) return forest_;
+    return qobject_cast<QCustomPlot*>(charts_->currentWidget());
+}
+
+void FindingsPage::copy_table() {
+    QTableWidget* t = pooled_->hasFocus() ? pooled_ : strata_;
+    QApplication::clipboard()->setText(model_to_tsv(t->model()));
+}
+
+void FindingsPage::save_chart() {
+    QCustomPlot* plot = current_chart();
+    if (!plot || selected() < 0) return;
+    QSettings s;
+    const QString path = QFileDialog::getSaveFileName(this, tr("Save chart"), s.value("charts/last_dir").toString(),
+                                                      tr("PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)"));
+    if (path.isEmpty()) return;
+    s.setValue("charts/last_dir", QFileInfo(path).absolutePath());
+    const Status st = charts::save(plot, path);
+    if (!st) QMessageBox::warning(this, tr("Save chart"), QString::fromStdString(st.error().to_string()));
+}
+
+void FindingsPage::decide(Decision d) {
+    const int r = selected();
+    if (r < 0) return;
+    model_->set_decision(r, d, note_->toPlainText());
+    if (auto* b = decision_->button(int(d))) b->setChecked(true);
+}
+
+}  // namespace foldline::ui

@@ -1,0 +1,60 @@
+#include "ui/memo_page.h"
+
+#include <QDateTime>
+#include <QTextBrowser>
+#include <QVBoxLayout>
+
+#include "ui/caution_band.h"
+#include "ui/engine.h"
+#include "ui/findings_model.h"
+
+namespace foldline::ui {
+
+MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), model_(model) {
+    text_ = new QTextBrowser;
+    text_->setObjectName(QStringLiteral("memo_preview"));
+    text_->setOpenLinks(false);
+    auto* lay = new QVBoxLayout(this);
+    lay->addWidget(new CautionBand);
+    lay->addWidget(text_, 1);
+    refresh({}, nullptr);
+}
+
+QString MemoPage::html() const { return text_->toHtml(); }
+
+void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
+    auto esc = [](const QString& s) { return s.toHtmlEscaped(); };
+    QString h = tr("<h2>Audit memo (preview)</h2><p>%1</p>").arg(QDateTime::currentDateTime().toString(Qt::ISODate));
+    h += tr("<p><b>Data:</b> %1</p>").arg(source.isEmpty() ? tr("none yet") : esc(source));
+    if (q && q->slope)
+        h += tr("<p><b>Question:</b> does <i>%1</i> rise or fall with <i>%2</i>, and does the answer change within "
+                "strata of %3?</p>").arg(esc(q->outcome), esc(q->exposure), esc(q->candidates.join(QStringLiteral(", "))));
+    else if (q && !q->outcome.isEmpty())
+        h += tr("<p><b>Question:</b> is the rate of <i>%1 = %2</i> different for <i>%3</i> than for <i>%4</i> "
+                "(column <i>%5</i>), and does the answer change within strata of %6?</p>")
+                 .arg(esc(q->outcome), esc(q->positive), esc(q->focal), esc(q->reference), esc(q->exposure),
+                      esc(q->candidates.join(QStringLiteral(", "))));
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const FindingView& f : model_->findings()) ++counts[int(f.cls)];
+    h += tr("<p><b>Summary:</b> %1 finding(s): %2 reversal, %3 explained, %4 masked, %5 heterogeneous, %6 stable.</p>")
+             .arg(model_->size()).arg(counts[0]).arg(counts[1]).arg(counts[2]).arg(counts[3]).arg(counts[4]);
+    h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>Pooled gap</th>"
+            "<th>Adjusted gap</th><th>q-value</th><th>Decision</th><th>Note</th></tr>");
+    std::vector<const FindingView*> order;
+    for (const FindingView& f : model_->findings()) order.push_back(&f);
+    std::stable_sort(order.begin(), order.end(), [](const FindingView* a, const FindingView* b) {
+        if (a->cls != b->cls) return rank(a->cls) < rank(b->cls);
+        return (std::isfinite(a->q_value) ? a->q_value : 2) < (std::isfinite(b->q_value) ? b->q_value : 2);
+    });
+    for (const FindingView* f : order)
+        h += QStringLiteral("<tr><td>%1</td><td>%2</td><td>%3</td><td>%4</td><td>%5</td><td>%6</td><td>%7</td></tr>")
+                 .arg(esc(class_title(f->cls)), esc(f->strata_label()), esc(format_estimate(f->crude)),
+                      esc(format_estimate(f->adjusted)),
+                      std::isfinite(f->q_value) ? QString::number(f->q_value, 'g', 3) : QStringLiteral("—"),
+                      esc(decision_title(f->decision)), esc(f->note));
+    h += QStringLiteral("</table>");
+    h += QStringLiteral("<p><i>%1</i></p>").arg(esc(caution_text()));
+    text_->setHtml(h);
+}
+
+}  // namespace foldline::ui

@@ -1,0 +1,373 @@
+#include "ui/question_page.h"
+
+#include <QCheckBox>
+#include <QComboBox>
+#include <QDoubleSpinBox>
+#include <QFormLayout>
+#include <QGroupBox>
+#include <QHBoxLayout>
+#include <QLabel>
+#include <QListWidget>
+#include <QPushButton>
+#include <QRadioButton>
+#include <QSpinBox>
+#include <QVBoxLayout>
+
+#include "ui/palette.h"
+
+namespace foldline::ui {
+
+namespace {
+/// Level with the most rows (weighted); empty for a non-categorical column.
+QString most_frequent_level(const Table& t, const Column& c) {
+    if (!c.is_categorical() || c.levels.empty()) return {};
+    std::vector<double> n(c.levels.size() + 1, 0.0);
+    for (std::size_t i = 0; i < t.rows; ++i) n[c.code(i)] += t.weight(i);
+    n.back() = -1;
+    return QString::fromStdString(c.levels[std::size_t(std::max_element(n.begin(), n.end()) - n.begin())]);
+}
+bool looks_positive(const QString& s) {
+    static const QStringList yes = {"1", "yes", "y", "true", "approved", "positive", "hired", "admitted"};
+    return yes.contains(s.toLower());
+}
+}  // namespace
+
+QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
+    outcome_ = new QComboBox;
+    outcome_->setObjectName(QStringLiteral("outcome"));
+    outcome_->setToolTip(tr("The yes/no result whose rate is compared between the groups"));
+    positive_ = new QComboBox;
+    positive_->setObjectName(QStringLiteral("positive"));
+    positive_->setToolTip(tr("Which value of the outcome counts as the event (e.g. approved)"));
+    exposure_ = new QComboBox;
+    exposure_->setObjectName(QStringLiteral("exposure"));
+    exposure_->setToolTip(tr("The column whose groups are compared"));
+    focal_ = new QComboBox;
+    focal_->setObjectName(QStringLiteral("focal"));
+    focal_->setToolTip(tr("The group under review; differences are focal minus reference"));
+    reference_ = new QComboBox;
+    reference_->setObjectName(QStringLiteral("reference"));
+    reference_->setToolTip(tr("The group the focal group is compared with (by default the largest)"));
+
+    rates_ = new QRadioButton(tr("Rates: a yes/no outcome between two groups"));
+    rates_->setObjectName(QStringLiteral("kind_rates"));
+    rates_->setChecked(true);
+    slopes_ = new QRadioButton(tr("Trend: a numeric outcome against a numeric exposure"));
+    slopes_->setObjectName(QStringLiteral("kind_slopes"));
+    slopes_->setToolTip(tr("Is the slope of the outcome on the exposure different within strata than pooled?"));
+    connect(slopes_, &QRadioButton::toggled, this, [this](bool on) { set_kind(on); });
+    auto* who = new QGroupBox(tr("What is compared"));
+    auto* f = who_form_ = new QFormLayout(who);
+    f->addRow(rates_);
+    f->addRow(slopes_);
+    f->addRow(tr("Outcome"), outcome_);
+    f->addRow(tr("Counts as positive"), positive_);
+    f->addRow(tr("Groups column"), exposure_);
+    f->addRow(tr("Focal group"), focal_);
+    f->addRow(tr("Reference group"), reference_);
+
+    pairs_ = new QCheckBox(tr("Also stratify by every pair of candidates"));
+    pairs_->setChecked(true);
+    pairs_->setToolTip(tr("Joint strata of two columns can reveal reversals neither shows alone"));
+    bins_ = new QSpinBox;
+    bins_->setRange(2, 20);
+    bins_->setValue(4);
+    bins_->setToolTip(tr("Numeric candidates are cut into this many quantile bins"));
+    alpha_ = new QDoubleSpinBox;
+    alpha_->setDecimals(3);
+    alpha_->setRange(0.001, 0.499);
+    alpha_->setSingleStep(0.01);
+    alpha_->setValue(0.05);
+    alpha_->setToolTip(tr("False discovery rate controlled across everything scanned (Benjamini-Hochberg)"));
+    bootstrap_ = new QSpinBox;
+    bootstrap_->setRange(0, 10000);
+    bootstrap_->setSingleStep(100);
+    bootstrap_->setValue(200);
+    bootstrap_->setToolTip(tr("Resamples used to measure how often a flagged finding keeps its class (0 = skip)"));
+    seed_ = new QSpinBox;
+    seed_->setRange(0, 1 << 30);
+    seed_->setValue(1);
+    seed_->setToolTip(tr("Seed of the resampling, so a scan can be repeated exactly"));
+    auto* how = new QGroupBox(tr("How to scan"));
+    auto* h = new QFormLayout(how);
+    h->addRow(pairs_);
+    h->addRow(tr("Bins for numeric columns"), bins_);
+    h->addRow(tr("False discovery rate (alpha)"), alpha_);
+    h->addRow(tr("Bootstrap resamples"), bootstrap_);
+    h->addRow(tr("Seed"), seed_);
+
+    candidates_ = new QListWidget;
+    candidates_->setObjectName(QStringLiteral("candidates"));
+    candidates_->setToolTip(tr("Columns that may explain the gap; those left out say why"));
+    auto* all = new QPushButton(tr("All"));
+    auto* none = new QPushButton(tr("None"));
+    connect(all, &QPushButton::clicked, this, [this] {
+        for (int i = 0; i < candidates_->count(); ++i)
+            if (candidates_->item(i)->flags() & Qt::ItemIsEnabled) candidates_->item(i)->setCheckState(Qt::Checked);
+    });
+    connect(none, &QPushButton::clicked, this, [this] {
+        for (int i = 0; i < candidates_->count(); ++i) candidates_->item(i)->setCheckState(Qt::Unchecked);
+    });
+    auto* cand = new QGroupBox(tr("Candidate stratifiers"));
+    auto* cl = new QVBoxLayout(cand);
+    cl->addWidget(candidates_, 1);
+    auto* cb = new QHBoxLayout;
+    cb->addWidget(all);
+    cb->addWidget(none);
+    cb->addStretch();
+    cl->addLayout(cb);
+
+    problems_ = new QLabel;
+    problems_->setObjectName(QStringLiteral("question_problems"));
+    problems_->setWordWrap(true);
+    scan_ = new QPushButton(tr("Scan  (F5)"));
+    scan_->setObjectName(QStringLiteral("start_scan"));
+    scan_->setDefault(true);
+    connect(scan_, &QPushButton::clicked, this, [this] {
+        if (problems().isEmpty()) emit scan_requested(spec());
+    });
+
+    auto* left = new QVBoxLayout;
+    left->addWidget(who);
+    left->addWidget(how);
+    left->addStretch();
+    auto* cols = new QHBoxLayout;
+    cols->addLayout(left, 1);
+    cols->addWidget(cand, 1);
+    auto* lay = new QVBoxLayout(this);
+    lay->addLayout(cols, 1);
+    auto* bottom = new QHBoxLayout;
+    bottom->addWidget(problems_, 1);
+    bottom->addWidget(scan_, 0, Qt::AlignBottom);
+    lay->addLayout(bottom);
+
+    connect(outcome_, &QComboBox::currentTextChanged, this, [this](const QString& c) {
+        if (filling_) return;
+        fill_levels(positive_, c);
+        for (int i = 0; i < positive_->count(); ++i)
+            if (looks_positive(positive_->itemText(i))) positive_->setCurrentIndex(i);
+        refresh_candidates();
+        validate();
+    });
+    connect(exposure_, &QComboBox::currentTextChanged, this, [this](const QString& c) {
+        if (filling_) return;
+        fill_levels(focal_, c);
+        fill_levels(reference_, c);
+        if (table_)
+            if (const Column* col = table_->column(c.toStdString())) {
+                const QString ref = most_frequent_level(*table_, *col);
+                reference_->setCurrentText(ref);
+                for (int i = 0; i < focal_->count(); ++i)
+                    if (focal_->itemText(i) != ref) {
+                        focal_->setCurrentIndex(i);
+                        break;
+                    }
+            }
+        refresh_candidates();
+        validate();
+    });
+    for (QComboBox* b : {positive_, focal_, reference_})
+        connect(b, &QComboBox::currentTextChanged, this, [this] { if (!filling_) validate(); });
+    connect(candidates_, &QListWidget::itemChanged, this, [this] { if (!filling_) validate(); });
+    connect(alpha_, &QDoubleSpinBox::valueChanged, this, [this] { validate(); });
+    set_table(nullptr);
+}
+
+void QuestionPage::fill_levels(QComboBox* box, const QString& column) {
+    const bool was = filling_;
+    filling_ = true;
+    box->clear();
+    if (table_)
+        if (const Column* c = table_->column(column.toStdString())) {
+            if (c->is_categorical()) {
+                for (const auto& l : c->levels) box->addItem(QString::fromStdString(l));
+            } else if (c->is_binary()) {
+                std::vector<double> seen;
+                for (double v : c->values)
+                    if (!std::isnan(v) && std::find(seen.begin(), seen.end(), v) == seen.end()) seen.push_back(v);
+                std::sort(seen.begin(), seen.end());
+                for (double v : seen) box->addItem(QString::number(v, 'g', 12));
+            }
+        }
+    filling_ = was;
+}
+
+void QuestionPage::set_table(std::shared_ptr<const Table> table) {
+    table_ = std::move(table);
+    filling_ = true;
+    outcome_->clear();
+    exposure_->clear();
+    positive_->clear();
+    focal_->clear();
+    reference_->clear();
+    if (table_) {
+        bool has_binary = false;
+        for (const Column& c : table_->columns) has_binary = has_binary || c.is_binary();
+        filling_ = false;
+        if (!has_binary && !slopes_->isChecked()) slopes_->setChecked(true);  // calls fill_columns
+        else fill_columns();
+    }
+    filling_ = false;
+    refresh_candidates();
+    validate();
+}
+
+void QuestionPage::set_kind(bool slope) {
+    who_form_->setRowVisible(positive_, !slope);
+    who_form_->setRowVisible(focal_, !slope);
+    who_form_->setRowVisible(reference_, !slope);
+    who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : tr("Outcome"));
+    who_form_->labelForField(exposure_)->setProperty("text", slope ? tr("Exposure (x)") : tr("Groups column"));
+    fill_columns();
+}
+
+void QuestionPage::fill_columns() {
+    filling_ = true;
+    outcome_->clear();
+    exposure_->clear();
+    positive_->clear();
+    focal_->clear();
+    reference_->clear();
+    if (!table_) {
+        filling_ = false;
+        return;
+    }
+    const bool slope = slopes_->isChecked();
+    QString outcome_guess, group_guess;
+    for (const Column& c : table_->columns) {
+        const QString name = QString::fromStdString(c.name);
+        if (slope) {
+            if (c.is_numeric()) outcome_->addItem(name), exposure_->addItem(name);
+            continue;
+        }
+        if (c.is_binary()) outcome_->addItem(name);
+        if (c.is_categorical() && c.levels.size() >= 2) exposure_->addItem(name);
+    }
+    if (slope) {
+        // Default: the last numeric column as y, the first other one as x.
+        if (outcome_->count()) outcome_guess = outcome_->itemText(outcome_->count() - 1);
+        for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i)
+            if (exposure_->itemText(i) != outcome_guess) group_guess = exposure_->itemText(i);
+    } else {
+        // Default outcome: a binary column with a positive-looking level, else the last one.
+        for (int i = 0; i < outcome_->count(); ++i) {
+            const Column* c = table_->column(outcome_->itemText(i).toStdString());
+            bool pos = c->is_numeric();
+            for (const auto& l : c->levels) pos = pos || looks_positive(QString::fromStdString(l));
+            if (pos) outcome_guess = outcome_->itemText(i);
+        }
+        if (outcome_guess.isEmpty() && outcome_->count()) outcome_guess = outcome_->itemText(outcome_->count() - 1);
+        for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i) {
+            const QString n = exposure_->itemText(i).toLower();
+            if (n != outcome_guess.toLower() && (n.contains("group") || n.contains("sex") || n.contains("gender") ||
+                                                  n.contains("arm") || n.contains("cohort") || n.contains("treatment")))
+                group_guess = exposure_->itemText(i);
+        }
+        for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i)
+            if (exposure_->itemText(i) != outcome_guess) group_guess = exposure_->itemText(i);
+    }
+    outcome_->setCurrentIndex(-1);
+    exposure_->setCurrentIndex(-1);
+    filling_ = false;
+    outcome_->setCurrentText(outcome_guess);
+    exposure_->setCurrentText(group_guess);
+    refresh_candidates();
+    validate();
+}
+
+void QuestionPage::refresh_candidates() {
+    const bool was = filling_;
+    filling_ = true;
+    QStringList previously_off;
+    for (int i = 0; i < candidates_->count(); ++i)
+        if (candidates_->item(i)->checkState() == Qt::Unchecked) previously_off << candidates_->item(i)->data(Qt::UserRole).toString();
+    candidates_->clear();
+    if (table_) {
+        QuestionSpec q;
+        q.slope = slopes_->isChecked();
+        q.outcome = outcome_->currentText();
+        q.exposure = exposure_->currentText();
+        q.bins = bins_->value();
+        std::vector<CandidateView> all = propose_candidates(*table_, q);
+        std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
+        for (const CandidateView& c : all) {
+            const QString shown = c.origin.isEmpty() || c.origin == QLatin1String("categorical")
+                                      ? c.column : tr("%1  (%2)").arg(c.column, c.origin);
+            auto* item = new QListWidgetItem(c.usable ? shown : tr("%1 — left out: %2").arg(c.column, c.reason));
+            item->setData(Qt::UserRole, c.column);
+            if (c.usable) {
+                item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsUserCheckable | Qt::ItemIsSelectable);
+                item->setCheckState(previously_off.contains(c.column) ? Qt::Unchecked : Qt::Checked);
+            } else {
+                item->setFlags(Qt::NoItemFlags);
+                item->setToolTip(c.reason);
+            }
+            candidates_->addItem(item);
+        }
+    }
+    filling_ = was;
+}
+
+QuestionSpec QuestionPage::spec() const {
+    QuestionSpec q;
+    q.slope = slopes_->isChecked();
+    q.outcome = outcome_->currentText();
+    q.positive = q.slope ? QString() : positive_->currentText();
+    q.exposure = exposure_->currentText();
+    q.focal = q.slope ? QString() : focal_->currentText();
+    q.reference = q.slope ? QString() : reference_->currentText();
+    for (int i = 0; i < candidates_->count(); ++i)
+        if (candidates_->item(i)->checkState() == Qt::Checked) q.candidates << candidates_->item(i)->data(Qt::UserRole).toString();
+    q.pairs = pairs_->isChecked();
+    q.bins = bins_->value();
+    q.alpha = alpha_->value();
+    q.bootstrap = bootstrap_->value();
+    q.seed = unsigned(seed_->value());
+    return q;
+}
+
+void QuestionPage::set_spec(const QuestionSpec& q) {
+    if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
+    outcome_->setCurrentText(q.outcome);
+    positive_->setCurrentText(q.positive);
+    exposure_->setCurrentText(q.exposure);
+    focal_->setCurrentText(q.focal);
+    reference_->setCurrentText(q.reference);
+    if (!q.candidates.isEmpty())
+        for (int i = 0; i < candidates_->count(); ++i)
+            if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
+                candidates_->item(i)->setCheckState(q.candidates.contains(candidates_->item(i)->data(Qt::UserRole).toString())
+                                                        ? Qt::Checked : Qt::Unchecked);
+    pairs_->setChecked(q.pairs);
+    bins_->setValue(q.bins);
+    alpha_->setValue(q.alpha);
+    bootstrap_->setValue(q.bootstrap);
+    seed_->setValue(int(q.seed));
+    validate();
+}
+
+QStringList QuestionPage::problems() const {
+    if (!table_) return {tr("Open data first (step 1).")};
+    QStringList p = check_question(*table_, spec());
+    if (!scan_available()) p << tr("This build has no scan engine.");
+    return p;
+}
+
+void QuestionPage::validate() {
+    const QStringList p = problems();
+    scan_->setEnabled(p.isEmpty());
+    if (p.isEmpty()) {
+        problems_->setText(tr("Ready: %1 candidate(s)%2.").arg(spec().candidates.size()).arg(pairs_->isChecked() ? tr(" and their pairs") : QString()));
+        problems_->setPalette(palette());
+    } else {
+        QStringList items;
+        for (const QString& s : p) items << QStringLiteral("• ") + s.toHtmlEscaped();
+        problems_->setText(items.join(QStringLiteral("<br>")));
+        QPalette pal = problems_->palette();
+        pal.setColor(QPalette::WindowText, colors::focal());
+        problems_->setPalette(pal);
+    }
+    emit changed();
+}
+
+}  // namespace foldline::ui

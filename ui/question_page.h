@@ -1,0 +1,61 @@
+#pragma once
+// Step 2, Question: the outcome and its positive level, the compared groups, the candidate
+// stratifiers (with the reason any column is left out) and the scan settings. Problems are
+// explained inline while the reviewer chooses; the scan button stays off until there are none.
+#include <QWidget>
+#include <memory>
+
+#include "core/table/table.h"
+#include "ui/engine.h"
+
+class QCheckBox;
+class QFormLayout;
+class QRadioButton;
+class QComboBox;
+class QDoubleSpinBox;
+class QLabel;
+class QListWidget;
+class QPushButton;
+class QSpinBox;
+
+namespace foldline::ui {
+
+class QuestionPage : public QWidget {
+    Q_OBJECT
+public:
+    explicit QuestionPage(QWidget* parent = nullptr);
+
+    /// Fills the choices from `table` with sensible defaults; null clears them.
+    void set_table(std::shared_ptr<const Table> table);
+    /// The question as currently chosen.
+    QuestionSpec spec() const;
+    /// Applies a question (unknown columns or levels are left as they are).
+    void set_spec(const QuestionSpec& q);
+    /// Problems with the current choice (empty when the scan can run).
+    QStringList problems() const;
+
+signals:
+    void scan_requested(const foldline::ui::QuestionSpec& spec);
+    void changed();
+
+private:
+    void fill_levels(QComboBox* box, const QString& column);
+    void refresh_candidates();
+    void validate();
+    void fill_columns();
+    void set_kind(bool slope);
+
+    std::shared_ptr<const Table> table_;
+    QComboBox *outcome_, *positive_, *exposure_, *focal_, *reference_;
+    QRadioButton *rates_, *slopes_;
+    QFormLayout* who_form_;
+    QListWidget* candidates_;
+    QCheckBox* pairs_;
+    QSpinBox *bins_, *bootstrap_, *seed_;
+    QDoubleSpinBox* alpha_;
+    QLabel* problems_;
+    QPushButton* scan_;
+    bool filling_ = false;
+};
+
+}  // namespace foldline::ui

@@ -1,0 +1,293 @@
+#include "ui/source_page.h"
+
+#include <QComboBox>
+#include <QDragEnterEvent>
+#include <QDropEvent>
+#include <QFileDialog>
+#include <QFileInfo>
+#include <QHBoxLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QLineEdit>
+#include <QMenu>
+#include <QMimeData>
+#include <QProgressBar>
+#include <QPushButton>
+#include <QSettings>
+#include <QSplitter>
+#include <QTabWidget>
+#include <QTableView>
+#include <QVBoxLayout>
+
+#include "ui/column_model.h"
+#include "ui/counts_grid.h"
+#include "ui/job.h"
+#include "ui/table_model.h"
+
+namespace foldline::ui {
+
+namespace {
+constexpr int kMaxRecent = 8;
+const char* kRecentKey = "source/recent";
+}  // namespace
+
+SourcePage::SourcePage(QWidget* parent)
+    : QWidget(parent), job_(new Job(this)), model_(new TableModel(this)), column_model_(new ColumnModel(this)) {
+    setAcceptDrops(true);
+
+    auto* open = new QPushButton(tr("Open data file…"));
+    open->setObjectName(QStringLiteral("open_file"));
+    open->setToolTip(tr("Open a CSV or TSV file (Ctrl+O); you can also drop a file on this window"));
+    connect(open, &QPushButton::clicked, this, &SourcePage::open_dialog);
+    recent_ = new QComboBox;
+    recent_->setMinimumContentsLength(30);
+    recent_->setSizeAdjustPolicy(QComboBox::AdjustToMinimumContentsLengthWithIcon);
+    recent_->setPlaceholderText(tr("Recent files"));
+    recent_->setToolTip(tr("Files opened before"));
+    connect(recent_, &QComboBox::activated, this, [this](int i) { open_path(recent_->itemData(i).toString()); });
+
+    count_column_ = new QComboBox;
+    count_column_->setToolTip(tr("For a pre-counted file: the column that says how many observations each row stands for"));
+    connect(count_column_, &QComboBox::activated, this, [this](int) {
+        options_.count_column = count_column_->currentData().toString();
+        reload();
+    });
+    missing_ = new QLineEdit;
+    missing_->setPlaceholderText(tr("reader defaults"));
+    missing_->setToolTip(tr("Cell texts that mean \"missing\", separated by commas (e.g. NA, n/a, -)"));
+    reload_ = new QPushButton(tr("Reload"));
+    reload_->setToolTip(tr("Read the file again with these settings"));
+    connect(reload_, &QPushButton::clicked, this, [this] {
+        options_.missing_markers.clear();
+        for (const QString& m : missing_->text().split(QLatin1Char(','), Qt::SkipEmptyParts))
+            options_.missing_markers << m.trimmed();
+        reload();
+    });
+
+    auto* bar = new QHBoxLayout;
+    bar->addWidget(open);
+    bar->addWidget(recent_, 1);
+    bar->addSpacing(12);
+    bar->addWidget(new QLabel(tr("Count column")));
+    bar->addWidget(count_column_);
+    bar->addWidget(new QLabel(tr("Missing markers")));
+    bar->addWidget(missing_);
+    bar->addWidget(reload_);
+
+    progress_ = new QProgressBar;
+    progress_->setTextVisible(true);
+    cancel_ = new QPushButton(tr("Cancel"));
+    cancel_->setObjectName(QStringLiteral("cancel_load"));
+    connect(cancel_, &QPushButton::clicked, this, &SourcePage::cancel_load);
+    auto* prow = new QHBoxLayout;
+    prow->addWidget(progress_, 1);
+    prow->addWidget(cancel_);
+    progress_->hide();
+    cancel_->hide();
+
+    message_ = new QLabel;
+    message_->setWordWrap(true);
+    message_->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    message_->setObjectName(QStringLiteral("source_message"));
+    summary_ = new QLabel(tr("No data yet. Open a file, drop one here, or type in a table of counts."));
+    summary_->setWordWrap(true);
+
+    preview_ = new QTableView;
+    preview_->setModel(model_);
+    preview_->verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+    preview_->verticalHeader()->setDefaultSectionSize(preview_->fontMetrics().height() + 6);
+    preview_->horizontalHeader()->setSectionResizeMode(QHeaderView::Interactive);
+    preview_->horizontalHeader()->setDefaultSectionSize(120);
+    preview_->setWordWrap(false);
+    preview_->setAlternatingRowColors(true);
+    columns_ = new QTableView;
+    columns_->setModel(column_model_);
+    columns_->verticalHeader()->hide();
+    columns_->horizontalHeader()->setStretchLastSection(true);
+    columns_->setSelectionBehavior(QAbstractItemView::SelectRows);
+    columns_->setContextMenuPolicy(Qt::CustomContextMenu);
+    columns_->setToolTip(tr("Right-click a column to read it as another type"));
+    connect(columns_, &QTableView::customContextMenuRequested, this, &SourcePage::column_menu);
+
+    splitter_ = new QSplitter(Qt::Horizontal);
+    splitter_->setObjectName(QStringLiteral("source_splitter"));
+    splitter_->addWidget(preview_);
+    splitter_->addWidget(columns_);
+    splitter_->setStretchFactor(0, 3);
+    splitter_->setStretchFactor(1, 2);
+
+    grid_ = new CountsGrid;
+    connect(grid_, &CountsGrid::table_ready, this,
+            [this](std::shared_ptr<const Table> t) { set_table(std::move(t), tr("typed-in table")); });
+    tabs_ = new QTabWidget;
+    tabs_->addTab(splitter_, tr("Rows and columns"));
+    tabs_->addTab(grid_, tr("Type in counts"));
+
+    auto* lay = new QVBoxLayout(this);
+    lay->addLayout(bar);
+    lay->addLayout(prow);
+    lay->addWidget(summary_);
+    lay->addWidget(message_);
+    lay->addWidget(tabs_, 1);
+
+    connect(job_, &Job::progress, this, [this](double done, double total, const QString& step) {
+        progress_->setRange(0, 1000);
+        progress_->setValue(total > 0 ? int(1000 * done / total) : 0);
+        progress_->setFormat(step.isEmpty() ? tr("Reading… %p%") : step + QStringLiteral(" %p%"));
+    });
+    connect(job_, &Job::finished, this, [this] {
+        progress_->hide();
+        cancel_->hide();
+        auto result = std::move(pending_);
+        if (job_->cancelled()) {
+            show_message(tr("Loading %1 was cancelled.").arg(path_), false);
+            return;
+        }
+        if (!result || !result->ok()) {
+            show_message(result ? QString::fromStdString(result->error().to_string()) : tr("Loading failed."), true);
+            return;
+        }
+        add_recent(path_);
+        set_table(std::make_shared<const Table>(std::move(*result).value()), path_);
+    });
+
+    QStringList recent = recent_files();
+    for (const QString& r : recent) recent_->addItem(QFileInfo(r).fileName() + QStringLiteral("  —  ") + r, r);
+    count_column_->addItem(tr("none (one row per observation)"), QString());
+}
+
+bool SourcePage::loading() const { return job_->running(); }
+
+QString SourcePage::message() const { return message_->text(); }
+
+void SourcePage::open_dialog() {
+    const QString dir = QSettings().value("source/last_dir").toString();
+    const QString path = QFileDialog::getOpenFileName(this, tr("Open data file"), dir,
+                                                      tr("Delimited text (*.csv *.tsv *.txt);;All files (*)"));
+    if (path.isEmpty()) return;
+    QSettings().setValue("source/last_dir", QFileInfo(path).absolutePath());
+    if (path != path_) {
+        options_ = LoadOptions{};
+        missing_->clear();
+    }
+    open_path(path);
+}
+
+void SourcePage::open_path(const QString& path) {
+    if (job_->running()) return;
+    if (path != path_) options_.count_column.clear(), options_.type_overrides.clear();
+    path_ = path;
+    reload();
+}
+
+void SourcePage::reload() {
+    if (path_.isEmpty() || job_->running()) return;
+    if (!QFileInfo(path_).isFile()) {
+        show_message(tr("%1: no such file").arg(path_), true);
+        return;
+    }
+    show_message(tr("Reading %1…").arg(QFileInfo(path_).fileName()), false);
+    progress_->setRange(0, 0);
+    progress_->show();
+    cancel_->show();
+    auto result = std::make_shared<Result<Table>>(make_error("not run"));
+    pending_ = result;
+    const QString path = path_;
+    const LoadOptions opts = options_;
+    job_->start([result, path, opts](const Work& work) { *result = load_table(path, opts, work); });
+}
+
+void SourcePage::cancel_load() { job_->cancel(); }
+
+void SourcePage::show_counts_grid() { tabs_->setCurrentWidget(grid_); }
+
+void SourcePage::set_table(std::shared_ptr<const Table> table, const QString& source) {
+    table_ = std::move(table);
+    source_ = source;
+    model_->set_table(table_);
+    column_model_->set_table(table_);
+    columns_->resizeColumnsToContents();
+    if (table_) {
+        const QString counts = table_->weighted()
+                                   ? tr(", weighted by \"%1\" (%2 observations)")
+                                         .arg(QString::fromStdString(table_->weight_column))
+                                         .arg(table_->total_weight(), 0, 'f', 0)
+                                   : QString();
+        summary_->setText(tr("<b>%1</b>: %L2 rows, %3 columns%4")
+                              .arg(source.toHtmlEscaped())
+                              .arg(qulonglong(table_->rows))
+                              .arg(table_->columns.size())
+                              .arg(counts.toHtmlEscaped()));
+        // Offer numeric columns as the count column (the current one stays listed).
+        count_column_->clear();
+        count_column_->addItem(tr("none (one row per observation)"), QString());
+        for (const Column& c : table_->columns)
+            if (c.is_numeric()) count_column_->addItem(QString::fromStdString(c.name), QString::fromStdString(c.name));
+        if (table_->weighted()) {
+            const QString w = QString::fromStdString(table_->weight_column);
+            count_column_->addItem(w, w);
+            count_column_->setCurrentIndex(count_column_->count() - 1);
+        }
+        if (source != tr("typed-in table")) tabs_->setCurrentIndex(0);
+        show_message(QString(), false);
+    }
+    emit table_loaded(table_, source_);
+}
+
+QStringList SourcePage::recent_files() const { return QSettings().value(kRecentKey).toStringList(); }
+
+void SourcePage::clear_recent_files() {
+    QSettings().remove(kRecentKey);
+    recent_->clear();
+    emit recent_files_changed();
+}
+
+void SourcePage::add_recent(const QString& path) {
+    const QString abs = QFileInfo(path).absoluteFilePath();
+    QStringList recent = recent_files();
+    recent.removeAll(abs);
+    recent.prepend(abs);
+    while (recent.size() > kMaxRecent) recent.removeLast();
+    QSettings().setValue(kRecentKey, recent);
+    recent_->clear();
+    for (const QString& r : recent) recent_->addItem(QFileInfo(r).fileName() + QStringLiteral("  —  ") + r, r);
+    emit recent_files_changed();
+}
+
+void SourcePage::show_message(const QString& text, bool error) {
+    message_->setText(text);
+    QPalette p = message_->palette();
+    p.setColor(QPalette::WindowText, error ? QColor(0xD55E00) : palette().color(QPalette::WindowText));
+    message_->setPalette(p);
+    message_->setVisible(!text.isEmpty());
+    if (error) message_->setText(QStringLiteral("⚠ ") + text);
+}
+
+void SourcePage::column_menu(const QPoint& pos) {
+    const QModelIndex idx = columns_->indexAt(pos);
+    if (!idx.isValid() || !table_ || path_.isEmpty() || source_ != path_) return;
+    const Column& c = table_->columns[std::size_t(idx.row())];
+    QMenu menu(this);
+    const bool cat = c.is_categorical();
+    QAction* a = menu.addAction(cat ? tr("Read \"%1\" as numeric").arg(QString::fromStdString(c.name))
+                                    : tr("Read \"%1\" as categorical").arg(QString::fromStdString(c.name)));
+    if (menu.exec(columns_->viewport()->mapToGlobal(pos)) == a) {
+        options_.type_overrides[c.name] = cat ? ColumnType::Numeric : ColumnType::Categorical;
+        reload();
+    }
+}
+
+void SourcePage::dragEnterEvent(QDragEnterEvent* e) {
+    if (e->mimeData()->hasUrls() && !e->mimeData()->urls().isEmpty() && e->mimeData()->urls().first().isLocalFile())
+        e->acceptProposedAction();
+}
+
+void SourcePage::dropEvent(QDropEvent* e) {
+    const auto urls = e->mimeData()->urls();
+    if (!urls.isEmpty() && urls.first().isLocalFile()) {
+        e->acceptProposedAction();
+        open_path(urls.first().toLocalFile());
+    }
+}
+
+}  // namespace foldline::ui

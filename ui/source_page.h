@@ -1,0 +1,86 @@
+#pragma once
+// Step 1, Source: open a CSV/TSV file (dialog, drag-and-drop, recent files) or type in counts;
+// load off the UI thread with progress and cancel; preview rows and summarise columns.
+#include <QWidget>
+#include <memory>
+
+#include "core/table/table.h"
+#include "ui/engine.h"
+
+class QComboBox;
+class QLabel;
+class QLineEdit;
+class QProgressBar;
+class QPushButton;
+class QSplitter;
+class QTabWidget;
+class QTableView;
+
+namespace foldline::ui {
+
+class ColumnModel;
+class CountsGrid;
+class Job;
+class TableModel;
+
+class SourcePage : public QWidget {
+    Q_OBJECT
+public:
+    explicit SourcePage(QWidget* parent = nullptr);
+
+    /// Starts loading `path` in the background (ignored while a load is running).
+    void open_path(const QString& path);
+    /// Shows a table built elsewhere (typed-in counts, the demo) as the current source.
+    void set_table(std::shared_ptr<const Table> table, const QString& source);
+    std::shared_ptr<const Table> table() const { return table_; }
+    QString source() const { return source_; }
+    bool loading() const;
+    QStringList recent_files() const;
+    void clear_recent_files();
+
+    QTableView* preview() const { return preview_; }
+    QTableView* column_view() const { return columns_; }
+    CountsGrid* counts_grid() const { return grid_; }
+    QSplitter* splitter() const { return splitter_; }
+    QTabWidget* tabs() const { return tabs_; }
+    /// Last message shown (errors name file, line and column).
+    QString message() const;
+
+signals:
+    void table_loaded(std::shared_ptr<const foldline::Table> table, const QString& source);
+    void recent_files_changed();
+
+public slots:
+    void open_dialog();
+    void cancel_load();
+    void show_counts_grid();
+
+protected:
+    void dragEnterEvent(QDragEnterEvent* e) override;
+    void dropEvent(QDropEvent* e) override;
+
+private:
+    void reload();
+    void add_recent(const QString& path);
+    void show_message(const QString& text, bool error);
+    void column_menu(const QPoint& pos);
+
+    std::shared_ptr<const Table> table_;
+    QString source_, path_;
+    LoadOptions options_;
+    std::shared_ptr<Result<Table>> pending_;
+    Job* job_;
+    TableModel* model_;
+    ColumnModel* column_model_;
+    QTableView *preview_, *columns_;
+    QComboBox *recent_, *count_column_;
+    QLineEdit* missing_;
+    QProgressBar* progress_;
+    QPushButton *cancel_, *reload_;
+    QLabel *message_, *summary_;
+    QTabWidget* tabs_;
+    QSplitter* splitter_;
+    CountsGrid* grid_;
+};
+
+}  // namespace foldline::ui
