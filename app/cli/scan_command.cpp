@@ -47,6 +47,9 @@ std::string fmt(double x, const char* f = "%.3f") {
     return buf;
 }
 
+// q-values that underflowed print as a bound, not as a misleading 0.
+std::string qfmt(double q) { return std::isfinite(q) && q < 1e-300 ? "<1e-300" : fmt(q, "%.2g"); }
+
 std::string pct(double x) { return std::isfinite(x) ? fmt(100 * x, "%.1f%%") : "-"; }
 
 void print_summary(std::ostream& os, const ScanResult& r, const std::string& path, std::size_t top) {
@@ -95,7 +98,7 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
         std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n",
                       std::string(to_string(f.cls)).c_str(), label.c_str(), fmt(f.crude.rd, "%+.4f").c_str(),
                       fmt(a.mh_rd.greenland_robins.estimate, "%+.4f").c_str(),
-                      fmt(a.standardized.rd, "%+.4f").c_str(), orci.c_str(), fmt(f.q_value, "%.2g").c_str(),
+                      fmt(a.standardized.rd, "%+.4f").c_str(), orci.c_str(), qfmt(f.q_value).c_str(),
                       fmt(f.stability, "%.2f").c_str());
         os << line;
     }
@@ -121,7 +124,7 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
             std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
                           std::string(to_string(f.finding_class)).c_str(), label.c_str(),
                           fmt(f.pooled.slope, "%+.4g").c_str(), fmt(f.within.slope, "%+.4g").c_str(),
-                          fmt(f.q_value, "%.2g").c_str(),
+                          qfmt(f.q_value).c_str(),
                           f.stability_draws > 0 ? fmt(f.stability, "%.2f").c_str() : "-");
             os << line;
         }

@@ -50,6 +50,7 @@ Result<CandidateSet> select_candidates(const Table& table, const std::vector<std
 
 /// True when the two categorical columns partition the rows the same way (a one-to-one map
 /// between their non-missing codes on every row where both are present, and missing together).
+/// False for a numeric column or different lengths; true for two empty columns.
 bool same_partition(const Column& a, const Column& b);
 
 }  // namespace foldline

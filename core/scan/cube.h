@@ -31,11 +31,13 @@ struct CountCube {
 CountCube build_cube(const Column& stratifier, const RowCells& rows, const std::vector<double>& weights);
 
 /// Cube over the joint levels of two categorical stratifiers (rows missing either are dropped).
+/// A stratifier without levels gives a cube with no strata.
 CountCube build_pair_cube(const Column& first, const Column& second, const RowCells& rows,
                           const std::vector<double>& weights);
 
 /// The 2 x 2 x K strata of one comparison (focal slot against slot 0), keeping only strata with
-/// at least one row in either group; `kept` (optional) receives their stratum indices.
+/// at least one row in either group; `kept` (optional) receives their stratum indices. Empty when
+/// no stratum has rows.
 stats::Strata comparison_strata(const CountCube& cube, std::size_t focal_slot,
                                 std::vector<std::size_t>* kept = nullptr);
 

@@ -48,9 +48,11 @@ struct Question {
 /// positive level, positive level absent, exposure with one level, focal == reference, ...).
 Result<Question> resolve_question(const Table& table, const QuestionSpec& spec);
 
-/// Parses "C" or "C=LEVEL" (outcome) into spec.outcome / spec.positive.
+/// Parses "C" or "C=LEVEL" (outcome) into spec.outcome / spec.positive; "" leaves an empty
+/// outcome (resolve_question then reports it).
 void parse_outcome_arg(const std::string& arg, QuestionSpec& spec);
-/// Parses "C", "C=FOCAL" or "C=FOCAL,REF" (exposure) into spec.exposure / focal / reference.
+/// Parses "C", "C=FOCAL" or "C=FOCAL,REF" (exposure) into spec.exposure / focal / reference;
+/// "C=,REF" names only the reference.
 void parse_exposure_arg(const std::string& arg, QuestionSpec& spec);
 
 /// Per-row encoding of the question: cell = slot * 2 + (positive ? 1 : 0), or 2 * slots when the

@@ -81,7 +81,7 @@ struct RateFinding {
     std::string verdict;
 
     bool reversal() const { return cls == FindingClass::Reversal; }
-    /// "product" or "product × branch".
+    /// "product" or "product × branch"; "" when no stratifier is named.
     std::string label() const;
 };
 

@@ -32,7 +32,7 @@ struct ScanResult {
 /// empty result.
 void apply_fdr(ScanResult& result);
 
-/// Orders each list by class (reversal first), then q-value, then size of the change (largest
+/// Orders each list (empty lists stay empty) by class (reversal first), then q-value, then size of the change (largest
 /// first: |crude RD - MH RD| for rates, |pooled - within slope| for slopes), then label.
 void rank_findings(ScanResult& result);
 

@@ -39,7 +39,13 @@ double normal_upper_quantile(double upper) {
 
 double z_for_alpha(double alpha) {
     if (!(alpha > 0 && alpha < 1)) return kNaN;
-    return normal_upper_quantile(alpha / 2.0);
+    // Every interval of a scan asks for the same alpha: remember the last one per thread.
+    thread_local double last_alpha = 0.05, last_z = normal_upper_quantile(0.025);
+    if (alpha != last_alpha) {
+        last_alpha = alpha;
+        last_z = normal_upper_quantile(alpha / 2.0);
+    }
+    return last_z;
 }
 
 }  // namespace foldline::stats
