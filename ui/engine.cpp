@@ -352,4 +352,19 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
     return out;
 }
 
+Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set) {
+    if (set.isEmpty()) return make_error("the empty set needs no adjustment: the pooled figure applies");
+    if (set.size() > 2) return make_error("standardising over more than two columns is not offered yet");
+    QuestionSpec one = q;
+    one.candidates = set;
+    one.pairs = set.size() == 2;
+    one.bootstrap = 0;
+    auto out = run_scan(t, one, Work{}, {});
+    if (!out) return out.error();
+    for (FindingView& f : out->findings)
+        if (f.strata.size() == set.size() && std::is_permutation(f.strata.begin(), f.strata.end(), set.begin()))
+            return std::move(f);
+    return make_error("the engine gave no figure for that set");
+}
+
 }  // namespace foldline::ui

@@ -71,4 +71,9 @@ struct ScanOutcome {
 Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
 
+/// The adjusted estimate over the joint strata of `set` (one or two columns): the standardised
+/// difference for rates, the within-stratum slope for trends. An Error when the set is empty,
+/// holds more than two columns, or the engine cannot compute it.
+Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set);
+
 }  // namespace foldline::ui

@@ -91,6 +91,12 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     });
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
 
+    diagram_->set_estimator([this](const QStringList& set) -> QString {
+        if (!source_->table()) return {};
+        auto f = adjusted_over(*source_->table(), last_question_, set);
+        if (!f) return tr("not computed: %1").arg(QString::fromStdString(f.error().message));
+        return tr("%1 over %2: %3").arg(f->adjusted_name, set.join(QStringLiteral(" × ")), format_estimate(f->adjusted));
+    });
     build_menus();
     restore_layout();
     go_to(Source);

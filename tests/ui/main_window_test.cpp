@@ -155,6 +155,24 @@ private slots:
         QVERIFY(d->doc()->has_edge(from, to));
         QVERIFY(!d->doc()->has_edge(to, from));
         QCOMPARE(d->verdict().roles.value(stratum), role_before);
+
+        // Neither view valid: income band made a common cause of group and approval while the
+        // product stays a mediator. The verdict names {income_band} and the page shows the
+        // engine's standardised estimate over it, the same figure as the scan's income_band finding.
+        QVERIFY(was_mediator);  // the demo opens the sample's own diagram
+        QVERIFY(d->doc()->node("income_band").has_value());
+        {
+            QVERIFY(d->request_edge("income_band", exposure));
+            QCOMPARE(d->verdict().answer, QStringLiteral("other_set"));
+            QCOMPARE(d->verdict().standardise_over, QStringList{"income_band"});
+            const FindingView* ib = nullptr;
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.strata == QStringList{"income_band"}) ib = &g;
+            QVERIFY(ib);
+            QVERIFY2(d->verdict().adjusted.endsWith(format_estimate(ib->adjusted)), qPrintable(d->verdict().adjusted));
+            d->undo_stack()->undo();
+            QCOMPARE(d->verdict().answer, before);
+        }
         QCOMPARE(d->verdict().answer, before);
     }
 
