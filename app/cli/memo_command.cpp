@@ -1,0 +1,52 @@
+// foldline memo PROJECT [--out FILE.pdf] [--data FILE]: re-runs the saved audit and writes its
+// PDF memo (with the reviewer's decisions and notes). Needs the Qt build; the Qt application is
+// created inside the memo writer only (offscreen), so no display is needed.
+#include <filesystem>
+#include <iostream>
+
+#include "app/cli/args.h"
+#include "app/cli/audit_run.h"
+#include "app/cli/command.h"
+
+namespace foldline::cli {
+namespace {
+
+const char* kName = "memo";
+
+int run(int argc, char** argv) {
+    const std::vector<OptionSpec> specs = {
+        {"out", true, "FILE.pdf"}, {"data", true, "FILE"}, {"threads", true, "N"}, {"help", false, ""}};
+    Args a;
+    if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
+    if (a.flag("help", false)) {
+        std::cout << "foldline memo PROJECT.foldline [--out FILE.pdf] [--data FILE]\n"
+                     "Writes the audit's PDF memo (default: the project's name with .pdf, beside it).\n";
+        return kOk;
+    }
+    if (a.positional().size() != 1) return fail(kName, kUsage, "expected one PROJECT file (NAME.foldline)");
+    if (!memo_available())
+        return fail(kName, kUsage, "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF)");
+    const std::string project_path = a.positional()[0];
+    std::string out = a.get_or("out", "");
+    if (out.empty()) out = std::filesystem::path(project_path).replace_extension(".pdf").string();
+    auto loaded = project::load_project(project_path);
+    if (!loaded) return fail(kName, kInput, loaded.error().to_string());
+    if (auto msg = overwrites_input(out, {project_path, loaded->data.path, a.get_or("data", "")}); !msg.empty())
+        return fail(kName, kUsage, msg);
+    unsigned threads = 2;
+    if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
+    int code = kOk;
+    auto run = run_audit(*loaded, a.get_or("data", ""), threads, code);
+    if (!run) return fail(kName, code, run.error().to_string());
+    if (!run->data_change.empty()) std::cerr << "foldline memo: warning: " << run->data_change << "\n";
+    if (int rc = write_memo(kName, run->result, run->info, &*loaded, run->verdicts, run->data_change, out); rc != kOk)
+        return rc;
+    std::cout << "Memo: " << out << "\n";
+    return kOk;
+}
+
+const CommandRegistration reg{Command{"memo", "memo PROJECT [--out FILE.pdf] [--data FILE]",
+                                      "write the PDF memo of a saved audit (needs the Qt build)", run}};
+
+}  // namespace
+}  // namespace foldline::cli

@@ -1,0 +1,120 @@
+// foldline run PROJECT: re-runs a saved audit (same question, settings, seed and diagram),
+// optionally on a new extract with the same columns, writes the shareable outputs, and exits
+// with 4 when a finding's class differs from the one saved in the project — so a scheduled
+// re-audit can gate on it.
+#include <iostream>
+
+#include "app/cli/args.h"
+#include "app/cli/audit_run.h"
+#include "app/cli/command.h"
+#include "core/common/atomic_file.h"
+#include "core/report/csv_export.h"
+
+namespace foldline::cli {
+namespace {
+
+const char* kName = "run";
+
+std::string class_or(const std::optional<FindingClass>& c, const char* none) {
+    return c ? std::string(to_string(*c)) : std::string(none);
+}
+
+int run(int argc, char** argv) {
+    const std::vector<OptionSpec> specs = {
+        {"data", true, "FILE"}, {"json", true, "FILE|-"}, {"memo", true, "FILE.pdf"}, {"csv", true, "PREFIX"},
+        {"threads", true, "N"}, {"update", false, ""},    {"help", false, ""},
+    };
+    Args a;
+    if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
+    if (a.flag("help", false)) {
+        std::cout << "foldline run PROJECT.foldline [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX]\n"
+                     "  [--threads N] [--update]\n"
+                     "Re-runs the saved audit with its question, settings, seed and diagram.\n"
+                     "  --data    a new extract with the same columns (the quarterly re-audit)\n"
+                     "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
+                     "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"
+                     "            2 usage error, 3 input error, 1 internal error.\n";
+        return kOk;
+    }
+    if (a.positional().size() != 1) return fail(kName, kUsage, "expected one PROJECT file (NAME.foldline)");
+    const std::string project_path = a.positional()[0];
+    auto loaded = project::load_project(project_path);
+    if (!loaded) return fail(kName, kInput, loaded.error().to_string());
+    project::Project p = std::move(*loaded);
+    const std::string override_data = a.get_or("data", "");
+    const std::string memo_path = a.get_or("memo", "");
+    if (!memo_path.empty() && !memo_available())
+        return fail(kName, kUsage, "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF)");
+    unsigned threads = 2;
+    if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
+
+    {
+        const std::string prefix = a.get_or("csv", "");
+        const std::vector<std::string> inputs = {project_path, p.data.path, override_data};
+        for (const auto& out : {a.get_or("json", ""), memo_path, prefix.empty() ? prefix : prefix + "-findings.csv",
+                                prefix.empty() ? prefix : prefix + "-strata.csv"})
+            if (auto msg = overwrites_input(out, inputs); !msg.empty()) return fail(kName, kUsage, msg);
+    }
+    int code = kOk;
+    auto run = run_audit(p, override_data, threads, code);
+    if (!run) return fail(kName, code, run.error().to_string());
+    const ScanResult& r = run->result;
+    std::ostream& out = a.get_or("json", "") == "-" ? std::cerr : std::cout;
+
+    out << "Re-ran " << project_path << " on " << run->info.path << " (" << static_cast<long long>(run->info.rows)
+        << " rows, SHA-256 " << run->info.sha256.substr(0, 16) << "…)\n";
+    if (!run->data_change.empty()) out << "Warning: " << run->data_change << "\n";
+    if (!run->diagram_problem.empty()) out << "Diagram not used for some findings: " << run->diagram_problem << "\n";
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
+    out << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
+        << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha
+        << ", seed " << r.seed << ")\n";
+
+    const auto changes = class_changes(p, r);
+    if (changes.empty()) {
+        out << "Classes: as saved in the project.\n";
+    } else {
+        out << "Classes that differ from the saved ones (" << changes.size() << "):\n";
+        for (const auto& c : changes)
+            out << "  " << project::describe(c.key) << ": " << class_or(c.before, "(not saved)") << " -> "
+                << class_or(c.after, "(no longer produced)") << "\n";
+    }
+
+    if (a.has("json")) {
+        const std::string dest = *a.get("json");
+        const std::string text = scan_json_text(r, run->info);
+        if (dest == "-") std::cout << text;
+        else if (auto st = write_file_atomically(dest, text); !st) return fail(kName, kInput, st.error().to_string());
+        else out << "JSON: " << dest << "\n";
+    }
+    if (a.has("csv")) {
+        const std::string prefix = *a.get("csv");
+        if (auto st = report::write_csv_exports(r, &p, prefix); !st) return fail(kName, kInput, st.error().to_string());
+        out << "CSV: " << prefix << "-findings.csv, " << prefix << "-strata.csv\n";
+    }
+    if (!memo_path.empty()) {
+        if (int rc = write_memo(kName, r, run->info, &p, run->verdicts, run->data_change, memo_path); rc != kOk)
+            return rc;
+        out << "Memo: " << memo_path << "\n";
+    }
+    if (a.flag("update", false)) {
+        if (!override_data.empty()) p.data.path = override_data;
+        if (auto st = project::record_data(p.data, run->table); !st) return fail(kName, kInput, st.error().to_string());
+        record_classes(p, r);
+        if (auto st = project::save_project(p, project_path); !st) return fail(kName, kInput, st.error().to_string());
+        out << "Project updated: " << project_path << "\n";
+    }
+    out << "A statistical screen, not a legal or clinical determination: read it with local law, counsel and "
+           "licensed practice.\n";
+    return changes.empty() ? kOk : kClassChanged;
+}
+
+const CommandRegistration reg{Command{
+    "run",
+    "run PROJECT [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
+    "re-run a saved audit (same question, settings, seed, diagram); exit 4 when a finding's class changed",
+    run}};
+
+}  // namespace
+}  // namespace foldline::cli

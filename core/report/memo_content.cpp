@@ -1,0 +1,445 @@
+#include "core/report/memo_content.h"
+
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+
+namespace foldline::report {
+
+namespace {
+
+std::string fmt(const char* f, double x) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, f, x);
+    return buf;
+}
+
+std::string joined(const std::vector<std::string>& v, const char* sep) {
+    std::string s;
+    for (std::size_t i = 0; i < v.size(); ++i) s += (i ? sep : "") + v[i];
+    return s;
+}
+
+std::string count(double x) {
+    if (!std::isfinite(x)) return "n/a";
+    const std::string digits = fmt("%.0f", std::abs(x));
+    std::string s = x < 0 && digits != "0" ? "-" : "";
+    for (std::size_t i = 0; i < digits.size(); ++i) {
+        if (i > 0 && (digits.size() - i) % 3 == 0) s += ',';
+        s += digits[i];
+    }
+    return s;
+}
+
+std::string interval(double lo, double hi, std::string (*f)(double)) {
+    if (!std::isfinite(lo) || !std::isfinite(hi)) return "n/a";
+    return f(lo) + " to " + f(hi);
+}
+
+std::string ratio(double x) { return fixed(x, 2); }
+
+// Interval limits in percentage points without the unit (the estimate beside them carries it).
+std::string bare_points(double x) { return std::isfinite(x) ? fmt("%+.1f", 100 * x) : "n/a"; }
+
+std::string capitalised(std::string_view s) {
+    std::string out(s);
+    if (!out.empty() && out[0] >= 'a' && out[0] <= 'z') out[0] = static_cast<char>(out[0] - 'a' + 'A');
+    return out;
+}
+
+std::string file_name(const std::string& path) {
+    const auto name = std::filesystem::path(path).filename().string();
+    return name.empty() ? path : name;
+}
+
+std::string outcome_words(const Question& q) { return q.outcome + " = " + q.positive; }
+
+std::string strata_words(const RateFinding& f) { return joined(f.strata, " × "); }
+
+std::string comparison_words(const RateFinding& f) { return f.focal + " vs " + f.reference; }
+
+const project::FindingReview* review_of(const RateFinding& f, const project::Project* p) {
+    return p ? p->review(project::rate_key(f.strata, f.focal, f.reference)) : nullptr;
+}
+
+std::string answer_words(const causal::Verdict& v, const RateFinding& f) {
+    switch (v.answer) {
+        case causal::Answer::Stratified:
+            return "the stratified view (within " + strata_words(f) + ")";
+        case causal::Answer::Pooled: return "the pooled view";
+        case causal::Answer::Both: return "both views (they estimate the same effect)";
+        case causal::Answer::OtherSet:
+            return "neither view as shown; standardise over " +
+                   (v.standardise_over ? joined(*v.standardise_over, ", ") : std::string("another set"));
+        case causal::Answer::NotIdentifiable:
+            return "no view: the effect is not identifiable from the observed columns";
+    }
+    return {};
+}
+
+std::string lead_sentence(const RateFinding& f, const Question& q) {
+    const auto& c = f.crude;
+    const auto& a = f.adjusted;
+    std::string s = "Pooled, the rate of " + outcome_words(q) + " is " + percent(c.rate_focal) + " for " + f.focal +
+                    " against " + percent(c.rate_reference) + " for " + f.reference + " (difference " +
+                    points(c.rd) + ", 95% CI " + interval(c.rd_ci.lo, c.rd_ci.hi, points) + "). ";
+    s += "Within " + strata_words(f) + " (" + std::to_string(f.informative_strata) +
+         " strata with both groups), the Mantel-Haenszel difference is " +
+         points(a.mh_rd.greenland_robins.estimate) + " (" +
+         interval(a.mh_rd.greenland_robins.ci.lo, a.mh_rd.greenland_robins.ci.hi, points) +
+         ") and the odds ratio " + ratio(a.mh_or.estimate) + " (" + interval(a.mh_or.ci.lo, a.mh_or.ci.hi, ratio) +
+         ").";
+    switch (f.cls) {
+        case FindingClass::Reversal: s += " The direction reverses once the strata are taken into account."; break;
+        case FindingClass::Explained: s += " The stratified view leaves no clear difference."; break;
+        case FindingClass::Masked: s += " A difference hidden in the pooled view appears within strata."; break;
+        case FindingClass::Heterogeneous:
+            s += " The strata disagree in direction, so no single adjusted figure should be quoted.";
+            break;
+        case FindingClass::Stable: s += " Stratifying changes little."; break;
+    }
+    return s;
+}
+
+MemoTable figures_table(const RateFinding& f, double alpha) {
+    const auto& c = f.crude;
+    const auto& a = f.adjusted;
+    const std::string level = fmt("%.0f%% CI", 100 * (1 - alpha));
+    MemoTable t;
+    t.header = {"Measure", "Estimate", level};
+    t.widths = {3, 1.4, 2.2};
+    t.numeric = {false, true, true};
+    t.rows = {
+        {"Pooled rate, " + f.focal, percent(c.rate_focal), interval(c.rate_focal_ci.lo, c.rate_focal_ci.hi, percent)},
+        {"Pooled rate, " + f.reference, percent(c.rate_reference),
+         interval(c.rate_reference_ci.lo, c.rate_reference_ci.hi, percent)},
+        {"Pooled difference", points(c.rd), interval(c.rd_ci.lo, c.rd_ci.hi, points)},
+        {"Mantel-Haenszel difference", points(a.mh_rd.greenland_robins.estimate),
+         interval(a.mh_rd.greenland_robins.ci.lo, a.mh_rd.greenland_robins.ci.hi, points)},
+        {"Standardised difference", points(a.standardized.rd),
+         interval(a.standardized.rd_ci.lo, a.standardized.rd_ci.hi, points)},
+        {"Pooled odds ratio", ratio(c.odds_ratio), ""},
+        {"Mantel-Haenszel odds ratio", ratio(a.mh_or.estimate), interval(a.mh_or.ci.lo, a.mh_or.ci.hi, ratio)},
+        {"Mantel-Haenszel risk ratio", ratio(a.mh_rr.estimate), interval(a.mh_rr.ci.lo, a.mh_rr.ci.hi, ratio)},
+        {"CMH test p", p_text(f.cmh.p), ""},
+        {"Breslow-Day (Tarone) p", p_text(f.breslow_day.p_tarone), ""},
+        {"Reversal q-value", p_text(f.q_value), ""},
+        {"Stability (bootstrap)", std::isfinite(f.stability) ? percent(f.stability) : "not run", ""},
+    };
+    return t;
+}
+
+MemoTable strata_table(const RateFinding& f) {
+    MemoTable t;
+    t.header = {"Stratum", f.focal, f.reference, "Difference (95% CI)", "Mix " + f.focal, "Mix " + f.reference};
+    t.widths = {2.5, 1.9, 1.9, 2.5, 0.9, 0.9};
+    t.numeric = {false, true, true, true, true, true};
+    auto cell = [](double pos, double n, double rate) {
+        return count(pos) + "/" + count(n) + " (" + percent(rate) + ")";
+    };
+    const auto& c = f.crude;
+    t.rows.push_back({"All (pooled)", cell(c.pos_focal, c.n_focal, c.rate_focal),
+                      cell(c.pos_reference, c.n_reference, c.rate_reference),
+                      points(c.rd) + " (" + interval(c.rd_ci.lo, c.rd_ci.hi, bare_points) + ")", "100%", "100%"});
+    for (const auto& s : f.strata_table) {
+        t.rows.push_back({s.level, cell(s.pos_focal, s.n_focal, s.rate_focal),
+                          cell(s.pos_reference, s.n_reference, s.rate_reference),
+                          s.informative ? points(s.rd) + " (" + interval(s.rd_ci.lo, s.rd_ci.hi, bare_points) + ")"
+                                        : "n/a (" + s.reason + ")",
+                          percent(s.share_focal), percent(s.share_reference)});
+    }
+    return t;
+}
+
+MemoChart chart_of(const RateFinding& f, const Question& q) {
+    MemoChart ch;
+    ch.title = "Rate of " + outcome_words(q) + ": pooled and by " + strata_words(f);
+    ch.value_label = "rate of " + outcome_words(q);
+    ch.mix_title = "How each group is spread over " + strata_words(f);
+    ch.focal = f.focal;
+    ch.reference = f.reference;
+    const auto& c = f.crude;
+    ch.points.push_back({"All (pooled)", c.rate_focal, c.rate_focal_ci.lo, c.rate_focal_ci.hi, c.rate_reference,
+                         c.rate_reference_ci.lo, c.rate_reference_ci.hi, 1, 1, true});
+    for (const auto& s : f.strata_table)
+        ch.points.push_back({s.level, s.rate_focal, s.rate_focal_ci.lo, s.rate_focal_ci.hi, s.rate_reference,
+                             s.rate_reference_ci.lo, s.rate_reference_ci.hi, s.share_focal, s.share_reference,
+                             false});
+    return ch;
+}
+
+MemoDiagram diagram_of(const causal::Diagram& d, const std::string& name, const causal::Verdict* v,
+                       const std::vector<causal::NamedRole>& fallback_roles, const std::vector<std::string>& stratifier) {
+    MemoDiagram md;
+    md.name = name;
+    const double n = static_cast<double>(d.nodes.size());
+    for (std::size_t i = 0; i < d.nodes.size(); ++i) {
+        const auto& node = d.nodes[i];
+        MemoDiagramNode mn;
+        mn.name = node.name;
+        mn.observed = node.observed;
+        if (node.x && node.y) {
+            mn.x = *node.x;
+            mn.y = *node.y;
+        } else {
+            const double angle = 2 * M_PI * static_cast<double>(i) / std::max(1.0, n);
+            mn.x = 200 + 160 * std::cos(angle);
+            mn.y = 160 + 120 * std::sin(angle);
+        }
+        if (node.name == d.exposure) mn.role = "exposure";
+        else if (node.name == d.outcome) mn.role = "outcome";
+        else mn.role = "unrelated";
+        for (const auto& r : v ? v->roles : fallback_roles)
+            if (r.name == node.name) mn.role = std::string(causal::to_string(r.role));
+        for (const auto& s : stratifier)
+            if (s == node.name) mn.in_stratifier = true;
+        md.nodes.push_back(std::move(mn));
+    }
+    for (const auto& e : d.edges) {
+        const int a = d.find_node(e.from), b = d.find_node(e.to);
+        if (a >= 0 && b >= 0) md.edges.emplace_back(a, b);
+    }
+    return md;
+}
+
+std::string decomposition_sentence(const RateFinding& f) {
+    const auto& d = f.decomposition;
+    if (!std::isfinite(d.crude_gap)) return "The pooled gap cannot be decomposed (a group has no rows).";
+    return "Of the pooled gap of " + points(d.crude_gap) + ", " + points(d.within) +
+           " comes from differences within the strata and " + points(d.composition) +
+           " from the groups' different mix over " + strata_words(f) +
+           " (Kitagawa-Das Gupta decomposition; the two parts add up exactly).";
+}
+
+std::string e_value_sentence(const RateFinding& f) {
+    const auto& e = f.e_value;
+    const double rr = f.adjusted.mh_rr.estimate;
+    if (!std::isfinite(e.estimate)) return "No E-value: the adjusted risk ratio is undefined.";
+    std::string s = "E-value " + fixed(e.estimate, 2) + " for the adjusted risk ratio of " + ratio(rr) +
+                    ": an unmeasured confounder would need a risk-ratio association of at least " +
+                    fixed(e.estimate, 2) + " with both " + f.focal + "/" + f.reference +
+                    " membership and the outcome, beyond the strata, to explain it away";
+    if (std::isfinite(e.ci_limit) && e.ci_limit <= 1.0)
+        s += "; its confidence interval already includes no effect (E-value of the limit 1).";
+    else if (std::isfinite(e.ci_limit))
+        s += "; to move the confidence limit nearer 1 to no effect, at least " + fixed(e.ci_limit, 2) + ".";
+    else
+        s += ".";
+    return s + " (VanderWeele & Ding 2017.)";
+}
+
+}  // namespace
+
+std::string percent(double x) { return std::isfinite(x) ? fmt("%.1f%%", 100 * x) : "n/a"; }
+
+std::string points(double x) {
+    if (!std::isfinite(x)) return "n/a";
+    std::string s = fmt("%+.1f pp", 100 * x);
+    if (s == "-0.0 pp") s = "+0.0 pp";
+    return s;
+}
+
+std::string fixed(double x, int digits) {
+    if (!std::isfinite(x)) return "n/a";
+    char f[16];
+    std::snprintf(f, sizeof f, "%%.%df", digits);
+    return fmt(f, x);
+}
+
+std::string p_text(double p) {
+    if (!std::isfinite(p)) return "n/a";
+    if (p < 0.0001) return "< 0.0001";
+    if (p < 0.001) return fmt("%.4f", p);
+    if (p < 0.1) return fmt("%.3f", p);
+    return fmt("%.2f", p);
+}
+
+bool included_in_memo(const RateFinding& f, const project::Project* project) {
+    const auto* r = review_of(f, project);
+    if (project && project->memo.findings == "chosen") return r && r->in_memo && *r->in_memo;
+    if (r && r->in_memo) return *r->in_memo;
+    return f.cls != FindingClass::Stable;
+}
+
+MemoContent build_memo(const MemoInput& in) {
+    MemoContent m;
+    if (!in.scan) return m;
+    const ScanResult& r = *in.scan;
+    const Question& q = r.question;
+    const project::Project* p = in.project;
+
+    const std::string source = file_name(in.data.path);
+    m.title = p && !p->memo.title.empty() ? p->memo.title : "Audit of " + source;
+    m.analyst = p ? p->memo.analyst : std::string();
+    m.date = in.date;
+    m.page_size = p ? p->memo.page_size : project::PageSize::A4;
+    m.facts.push_back({"Data source", source});
+    m.facts.push_back({"Rows", count(in.data.rows)});
+    m.facts.push_back({"SHA-256", in.data.sha256.empty() ? "not computed" : in.data.sha256});
+    if (!m.analyst.empty()) m.facts.push_back({"Analyst", m.analyst});
+    if (!m.date.empty()) m.facts.push_back({"Date", m.date});
+    m.data_warning = in.data_change;
+
+    m.question = "Is the rate of " + outcome_words(q) + " different for " + joined(q.focal, ", ") + " than for " +
+                 q.reference + " (column " + q.exposure + "), and does the answer change when the comparison is " +
+                 "made within levels of another column?";
+    m.facts.push_back({"Question", m.question});
+
+    // Counts by class.
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
+    const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
+
+    // Summary.
+    std::string s = "Foldline compared the rate of " + outcome_words(q) + " between " +
+                    joined(q.focal, ", ") + " and " + q.reference + " on " + count(in.data.rows) +
+                    " rows, pooled and within each of " + std::to_string(r.candidates.size()) + " candidate columns" +
+                    (r.candidates.size() > 1 && !r.rate_findings.empty() &&
+                             r.rate_findings.size() > r.candidates.size() * q.focal.size()
+                         ? " and their pairs"
+                         : "") +
+                    ": " + std::to_string(r.rate_findings.size()) + " comparisons. ";
+    if (flagged == 0) {
+        s += "None changes its answer under stratification beyond what chance explains at a false discovery rate "
+             "of " + fixed(r.alpha, 2) + ".";
+    } else {
+        s += std::to_string(counts[0]) + " " + (counts[0] == 1 ? "is a reversal" : "are reversals") + ", " +
+             std::to_string(counts[1]) + " explained, " + std::to_string(counts[2]) + " masked and " +
+             std::to_string(counts[3]) + " heterogeneous (false discovery rate " + fixed(r.alpha, 2) + "). ";
+        const RateFinding& top = r.rate_findings.front();
+        s += "The strongest, by " + strata_words(top) + ": pooled, " + top.focal + " " +
+             percent(top.crude.rate_focal) + " against " + top.reference + " " + percent(top.crude.rate_reference) +
+             " (" + points(top.crude.rd) + "); within " + strata_words(top) + ", " +
+             points(top.adjusted.mh_rd.greenland_robins.estimate) + " (Mantel-Haenszel).";
+        if (!in.verdicts.empty() && in.verdicts.front()) {
+            const auto* diag_name = p && !p->diagrams.empty() ? &p->diagrams.front().name : nullptr;
+            if (p && !p->active_diagram.empty()) diag_name = &p->active_diagram;
+            s += " Under the causal diagram" + (diag_name && !diag_name->empty() ? " \"" + *diag_name + "\"" : "") +
+                 ", the view that answers the question is " + answer_words(*in.verdicts.front(), top) + ".";
+        } else {
+            s += " No causal diagram was given, so the memo does not say which view answers the question.";
+        }
+    }
+    m.summary = s;
+
+    // Findings table: every flagged finding, or all of them when none is flagged.
+    m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled diff.", "Adjusted diff.", "q", "Stability",
+                         "Decision"};
+    m.findings.widths = {0.45, 1.55, 2.1, 1.3, 1.05, 1.05, 0.85, 0.95, 1.0};
+    m.findings.numeric = {true, false, false, false, true, true, true, true, false};
+    std::vector<std::size_t> section_of;
+    std::size_t listed = 0;
+    for (std::size_t i = 0; i < r.rate_findings.size(); ++i) {
+        const auto& f = r.rate_findings[i];
+        if (flagged > 0 && f.cls == FindingClass::Stable && !included_in_memo(f, p)) continue;
+        ++listed;
+        const auto* rv = review_of(f, p);
+        m.findings.rows.push_back({std::to_string(i + 1), std::string(to_string(f.cls)), strata_words(f),
+                                   comparison_words(f), points(f.crude.rd),
+                                   points(f.adjusted.mh_rd.greenland_robins.estimate), p_text(f.q_value),
+                                   std::isfinite(f.stability) ? percent(f.stability) : "-",
+                                   rv ? std::string(to_string(rv->decision)) : "undecided"});
+        if (included_in_memo(f, p)) section_of.push_back(i);
+    }
+    const std::size_t with_section = std::min(section_of.size(), in.max_sections);
+    m.findings_note = "Listed: " + std::to_string(listed) + " of " + std::to_string(r.rate_findings.size()) +
+                      " comparisons (" + (flagged > 0 ? "those not stable" : "none is flagged, so all") +
+                      "); # is the rank in the scan. Differences in percentage points, " + q.focal.front() +
+                      (q.focal.size() > 1 ? " etc." : "") + " minus " + q.reference + ". " +
+                      std::to_string(with_section) + " finding" + (with_section == 1 ? " has" : "s have") +
+                      " a section below" +
+                      (section_of.size() > with_section
+                           ? "; " + std::to_string(section_of.size() - with_section) +
+                                 " more chosen findings are in the table only (see the JSON or CSV export)."
+                           : ".");
+
+    // Sections.
+    const causal::Diagram* diagram = p ? p->diagram() : nullptr;
+    std::string diagram_name;
+    if (p && diagram)
+        for (const auto& d : p->diagrams)
+            if (&d.diagram == diagram) diagram_name = d.name;
+    // Roles for the question, used where a finding has no verdict of its own.
+    std::vector<causal::NamedRole> question_roles;
+    std::optional<causal::CausalGraph> graph;
+    if (diagram) {
+        if (auto cg = causal::CausalGraph::build(*diagram)) {
+            graph = std::move(*cg);
+            if (auto rep = causal::analyse_adjustment(*graph, q.exposure, q.outcome)) question_roles = rep->roles;
+        }
+    }
+    for (std::size_t k = 0; k < with_section; ++k) {
+        const std::size_t i = section_of[k];
+        const auto& f = r.rate_findings[i];
+        MemoSection sec;
+        sec.finding_class = std::string(to_string(f.cls));
+        sec.heading = std::to_string(k + 1) + ". " + capitalised(to_string(f.cls)) + ": " + strata_words(f) + " (" +
+                      comparison_words(f) + ")";
+        sec.lead = lead_sentence(f, q);
+        sec.figures = figures_table(f, r.alpha);
+        sec.strata = strata_table(f);
+        sec.chart = chart_of(f, q);
+        const causal::Verdict* v = i < in.verdicts.size() && in.verdicts[i] ? &*in.verdicts[i] : nullptr;
+        if (diagram) sec.diagram = diagram_of(*diagram, diagram_name, v, question_roles, f.strata);
+        if (v) {
+            sec.verdict = "Which view answers the question: " + answer_words(*v, f) + ". " + v->reason;
+        } else if (diagram) {
+            std::string why = "the diagram is not valid";
+            if (graph) {
+                auto attempt = causal::decide(*graph, q.exposure, q.outcome, f.strata);
+                why = attempt ? std::string("no verdict was computed") : attempt.error().message;
+            } else if (auto cg = causal::CausalGraph::build(*diagram); !cg) {
+                why = cg.error().message;
+            }
+            sec.verdict = "The diagram cannot judge this finding: " + why +
+                          ". Add the column to the diagram to learn which view answers the question.";
+        } else {
+            sec.verdict = "No causal diagram was given: whether the pooled or the stratified view answers the "
+                          "question depends on how the columns cause each other, which the data alone cannot say.";
+        }
+        sec.decomposition = decomposition_sentence(f);
+        sec.e_value = e_value_sentence(f);
+        const auto* rv = review_of(f, p);
+        sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+        if (rv) sec.note = rv->note;
+        m.sections.push_back(std::move(sec));
+    }
+
+    // Method notes: enough to reproduce.
+    m.method_notes = {
+        "Rates carry Wilson score intervals (Wilson 1927); differences of two rates, Newcombe's hybrid score "
+        "interval (Newcombe 1998, method 10).",
+        "Adjusted figures: Mantel-Haenszel odds ratio with the Robins-Breslow-Greenland interval, Mantel-Haenszel "
+        "risk ratio and risk difference with Greenland-Robins intervals (Sato's standard error reported in the "
+        "exports), and the difference directly standardised to the pooled stratum mix (the back-door adjustment "
+        "over the strata).",
+        "Tests: Cochran-Mantel-Haenszel (uncorrected), Breslow-Day homogeneity with Tarone's correction. A "
+        "reversal needs the pooled and the adjusted effect significant on opposite sides (intersection-union "
+        "test); its p-values are corrected with Benjamini-Hochberg over all " +
+            std::to_string(r.rate_findings.size()) + " comparisons at a false discovery rate of " +
+            fixed(r.alpha, 2) + "; intervals are " + fmt("%.0f%%", 100 * (1 - r.alpha)) + ".",
+        r.bootstrap > 0 ? "Stability: share of " + std::to_string(r.bootstrap) +
+                              " multinomial bootstrap resamples of each flagged finding's count table that keep its "
+                              "class; seed " + std::to_string(r.seed) + "."
+                        : "Stability: not computed (bootstrap off).",
+        "Candidate columns: " + (r.candidates.empty() ? std::string("none") : joined(r.candidates, ", ")) + "." +
+            (r.excluded.empty() ? std::string()
+                                : " Left out: " + [&] {
+                                      std::string e;
+                                      for (std::size_t i = 0; i < r.excluded.size(); ++i)
+                                          e += (i ? "; " : "") + r.excluded[i].column + " (" +
+                                               r.excluded[i].reason + ")";
+                                      return e;
+                                  }() + "."),
+        "Decomposition of the pooled gap: Kitagawa (1955) in the symmetric form of Das Gupta (1993). E-values: "
+        "VanderWeele & Ding (2017). Which view answers the question: the adjustment criterion on the reviewer's "
+        "causal diagram (Pearl's back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
+        "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
+            ". The audit re-runs from its project file with `foldline run PROJECT`.",
+    };
+    if (r.cancelled) m.method_notes.push_back("The scan was stopped early: the findings are incomplete.");
+    m.caution = kMemoCaution;
+    return m;
+}
+
+}  // namespace foldline::report

@@ -1,0 +1,224 @@
+// Tests of core/report/memo_content.h. The figures come from the penicillin-and-rabbits strata of
+// R's mantelhaen.test documentation (Agresti 1990, pp. 231-237), so the memo's numbers can be
+// checked against published values; the rest checks what the memo says and includes.
+#include "core/report/memo_content.h"
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+
+#include "core/causal/diagram.h"
+#include "core/scan/rate_scan.h"
+
+using namespace foldline;
+using namespace foldline::report;
+
+namespace {
+
+// (no delay cured, no delay died, 1.5 h cured, 1.5 h died) per penicillin level; focal = no delay.
+stats::Strata penicillin() {
+    return {{0, 6, 0, 5}, {3, 3, 0, 6}, {6, 0, 2, 4}, {5, 1, 6, 0}, {2, 0, 5, 0}};
+}
+
+ScanResult penicillin_scan(const std::vector<std::string>& levels = {"1/8", "1/4", "1/2", "1", "4"}) {
+    std::vector<std::vector<std::string>> labels;
+    for (const auto& l : levels) labels.push_back({l});
+    RateFinding f = analyse_strata(penicillin(), labels, {"penicillin"}, 0.05);
+    f.focal = "no_delay";
+    f.reference = "delay_1.5h";
+    f.cls = FindingClass::Explained;  // the class itself is the scan's business; fixed for the memo
+    f.q_value = 0.03;
+    f.stability = 0.91;
+    ScanResult r;
+    r.question.outcome = "cured";
+    r.question.positive = "yes";
+    r.question.exposure = "delay";
+    r.question.reference = "delay_1.5h";
+    r.question.focal = {"no_delay"};
+    r.candidates = {"penicillin"};
+    r.rate_findings = {f};
+    r.alpha = 0.05;
+    r.bootstrap = 400;
+    r.seed = 77;
+    return r;
+}
+
+const std::vector<std::string>* row_named(const MemoTable& t, const std::string& first) {
+    for (const auto& row : t.rows)
+        if (!row.empty() && row[0] == first) return &row;
+    return nullptr;
+}
+
+}  // namespace
+
+TEST(MemoContent, FiguresMatchPublishedPenicillinValues) {
+    const ScanResult r = penicillin_scan();
+    MemoInput in;
+    in.scan = &r;
+    in.data = DataInfo{"/data/rabbits.csv", "ab12", 54};
+    in.date = "2026-12-02";
+    const MemoContent m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    const MemoSection& s = m.sections[0];
+    // OR_MH 7, 95% CI 1.026713-47.725133 [src: R mantelhaen.test documentation].
+    const auto* orow = row_named(s.figures, "Mantel-Haenszel odds ratio");
+    ASSERT_NE(orow, nullptr);
+    EXPECT_EQ((*orow)[1], "7.00");
+    EXPECT_EQ((*orow)[2], "1.03 to 47.73");
+    // RR_MH 1.552632, RD_MH 0.228036 [calc: methods.md, R / statsmodels].
+    EXPECT_EQ((*row_named(s.figures, "Mantel-Haenszel risk ratio"))[1], "1.55");
+    EXPECT_EQ((*row_named(s.figures, "Mantel-Haenszel difference"))[1], "+22.8 pp");
+    // Pooled rates by hand from the published counts: 16/26 = 61.5%, 13/28 = 46.4%.
+    EXPECT_EQ((*row_named(s.figures, "Pooled rate, no_delay"))[1], "61.5%");
+    EXPECT_EQ((*row_named(s.figures, "Pooled rate, delay_1.5h"))[1], "46.4%");
+    EXPECT_EQ(s.strata.rows[0][1], "16/26 (61.5%)");
+    EXPECT_EQ(s.strata.rows[0][2], "13/28 (46.4%)");
+    // E-value of RR 1.552632: RR + sqrt(RR (RR - 1)) = 2.4789 [calc, VanderWeele & Ding 2017 formula].
+    EXPECT_NE(s.e_value.find("E-value 2.48"), std::string::npos) << s.e_value;
+    // Kitagawa parts add up to the pooled gap (15.1 pp = 61.5% - 46.4%).
+    EXPECT_NE(s.decomposition.find("pooled gap of +15.1 pp"), std::string::npos) << s.decomposition;
+    // One stratum row per level, after the pooled row; the chart has the same categories.
+    EXPECT_EQ(s.strata.rows.size(), 6u);
+    EXPECT_EQ(s.chart.points.size(), 6u);
+    EXPECT_TRUE(s.chart.points[0].pooled);
+    EXPECT_EQ(s.chart.points[5].label, "4");
+    EXPECT_EQ(s.heading, "1. Explained: penicillin (no_delay vs delay_1.5h)");
+}
+
+TEST(MemoContent, FrontMatterMethodNotesAndCaution) {
+    const ScanResult r = penicillin_scan();
+    MemoInput in;
+    in.scan = &r;
+    in.data = DataInfo{"/data/rabbits.csv", "ab12", 54};
+    in.date = "2026-12-02";
+    in.data_change = "the data file changed since the project was saved";
+    const MemoContent m = build_memo(in);
+    EXPECT_EQ(m.title, "Audit of rabbits.csv");
+    EXPECT_EQ(m.date, "2026-12-02");
+    EXPECT_EQ(m.data_warning, in.data_change);
+    EXPECT_NE(m.question.find("rate of cured = yes"), std::string::npos) << m.question;
+    EXPECT_NE(m.summary.find("1 comparisons"), std::string::npos) << m.summary;
+    EXPECT_NE(m.summary.find("No causal diagram"), std::string::npos) << m.summary;
+    bool seed = false, fdr = false;
+    for (const auto& n : m.method_notes) {
+        seed = seed || (n.find("400 multinomial bootstrap") != std::string::npos && n.find("seed 77") != std::string::npos);
+        fdr = fdr || n.find("false discovery rate of 0.05") != std::string::npos;
+    }
+    EXPECT_TRUE(seed);
+    EXPECT_TRUE(fdr);
+    EXPECT_NE(m.caution.find("statistical screen, not a legal or clinical determination"), std::string::npos);
+    EXPECT_NE(m.caution.find("local law, counsel and licensed practice"), std::string::npos);
+    ASSERT_EQ(m.findings.rows.size(), 1u);
+    EXPECT_EQ(m.findings.rows[0][1], "explained");
+    EXPECT_EQ(m.findings.rows[0][8], "undecided");
+}
+
+TEST(MemoContent, ReviewDecisionsNotesAndChoices) {
+    ScanResult r = penicillin_scan();
+    RateFinding stable = r.rate_findings[0];
+    stable.strata = {"cage"};
+    stable.cls = FindingClass::Stable;
+    r.rate_findings.push_back(stable);
+    project::Project p;
+    p.memo.title = "Rabbit trial";
+    p.memo.analyst = "Analyst <i>name</i>";
+    p.memo.page_size = project::PageSize::Letter;
+    auto& rv = p.review_for(project::rate_key({"penicillin"}, "no_delay", "delay_1.5h"));
+    rv.decision = Decision::FollowUp;
+    rv.note = "<b>x</b> & \u05e9\u05dc\u05d5\u05dd";
+    MemoInput in;
+    in.scan = &r;
+    in.project = &p;
+    MemoContent m = build_memo(in);
+    EXPECT_EQ(m.title, "Rabbit trial");
+    EXPECT_EQ(m.page_size, project::PageSize::Letter);
+    ASSERT_EQ(m.sections.size(), 1u);  // "flagged": the stable one is listed nowhere
+    EXPECT_EQ(m.findings.rows.size(), 1u);
+    EXPECT_EQ(m.sections[0].decision, "Reviewer's decision: follow up.");
+    EXPECT_EQ(m.sections[0].note, rv.note);  // kept verbatim: the renderer prints it literally
+    EXPECT_EQ(m.findings.rows[0][8], "follow up");
+    const auto analyst = std::find_if(m.facts.begin(), m.facts.end(), [](auto& f) { return f.first == "Analyst"; });
+    ASSERT_NE(analyst, m.facts.end());
+    EXPECT_EQ(analyst->second, "Analyst <i>name</i>");
+
+    // "chosen": only in_memo true, even a stable finding.
+    p.memo.findings = "chosen";
+    rv.in_memo = false;
+    p.review_for(project::rate_key({"cage"}, "no_delay", "delay_1.5h")).in_memo = true;
+    m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    EXPECT_NE(m.sections[0].heading.find("cage"), std::string::npos);
+    EXPECT_FALSE(included_in_memo(r.rate_findings[0], &p));
+    EXPECT_TRUE(included_in_memo(r.rate_findings[1], &p));
+    EXPECT_TRUE(included_in_memo(r.rate_findings[0], nullptr));
+    EXPECT_FALSE(included_in_memo(r.rate_findings[1], nullptr));
+}
+
+TEST(MemoContent, DiagramGivesVerdictAndRoles) {
+    ScanResult r = penicillin_scan();
+    causal::Diagram d;
+    d.nodes = {{"penicillin", true, 0.0, 0.0}, {"delay", true, -50.0, 80.0}, {"cured", true, 50.0, 80.0},
+               {"weight", false, std::nullopt, std::nullopt}};
+    d.edges = {{"penicillin", "delay"}, {"penicillin", "cured"}, {"delay", "cured"}, {"weight", "cured"}};
+    d.exposure = "delay";
+    d.outcome = "cured";
+    project::Project p;
+    p.diagrams.push_back({"rabbits", d});
+    auto cg = causal::CausalGraph::build(d);
+    ASSERT_TRUE(cg.ok());
+    auto v = causal::decide(*cg, "delay", "cured", {"penicillin"});
+    ASSERT_TRUE(v.ok());
+    MemoInput in;
+    in.scan = &r;
+    in.project = &p;
+    in.verdicts = {*v};
+    const MemoContent m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    const auto& s = m.sections[0];
+    // A common cause of exposure and outcome: the stratified view answers (back-door criterion).
+    EXPECT_NE(s.verdict.find("the stratified view (within penicillin)"), std::string::npos) << s.verdict;
+    EXPECT_NE(m.summary.find("\"rabbits\""), std::string::npos) << m.summary;
+    ASSERT_TRUE(s.diagram.has_value());
+    ASSERT_EQ(s.diagram->nodes.size(), 4u);
+    EXPECT_EQ(s.diagram->nodes[0].role, "confounder");
+    EXPECT_TRUE(s.diagram->nodes[0].in_stratifier);
+    EXPECT_EQ(s.diagram->nodes[1].role, "exposure");
+    EXPECT_EQ(s.diagram->nodes[2].role, "outcome");
+    EXPECT_FALSE(s.diagram->nodes[3].observed);
+    EXPECT_EQ(s.diagram->edges.size(), 4u);
+
+    // A stratifier missing from the diagram: the memo says so instead of guessing.
+    r.rate_findings[0].strata = {"cage"};
+    in.verdicts = {std::nullopt};
+    const MemoContent m2 = build_memo(in);
+    EXPECT_NE(m2.sections[0].verdict.find("cannot judge"), std::string::npos) << m2.sections[0].verdict;
+    EXPECT_NE(m2.sections[0].verdict.find("cage"), std::string::npos) << m2.sections[0].verdict;
+    EXPECT_EQ(m2.sections[0].diagram->nodes[0].role, "confounder");
+}
+
+TEST(MemoContent, EmptyScanAndNumberFormats) {
+    ScanResult r;
+    r.question.outcome = "y";
+    r.question.positive = "1";
+    r.question.exposure = "g";
+    r.question.reference = "a";
+    r.question.focal = {"b"};
+    MemoInput in;
+    in.scan = &r;
+    const MemoContent m = build_memo(in);
+    EXPECT_TRUE(m.sections.empty());
+    EXPECT_TRUE(m.findings.rows.empty());
+    EXPECT_NE(m.summary.find("None changes"), std::string::npos) << m.summary;
+    EXPECT_FALSE(m.caution.empty());
+    EXPECT_TRUE(build_memo(MemoInput{}).title.empty());
+
+    EXPECT_EQ(percent(0.4775), "47.8%");
+    EXPECT_EQ(percent(std::nan("")), "n/a");
+    EXPECT_EQ(points(-0.19912), "-19.9 pp");
+    EXPECT_EQ(points(0.04), "+4.0 pp");
+    EXPECT_EQ(points(-0.0001), "+0.0 pp");
+    EXPECT_EQ(p_text(0.00001), "< 0.0001");
+    EXPECT_EQ(p_text(0.0321), "0.032");
+    EXPECT_EQ(p_text(0.41), "0.41");
+    EXPECT_EQ(fixed(std::nan(""), 2), "n/a");
+}

@@ -1,0 +1,91 @@
+// Tests of ui/memo/memo_writer.h: the PDF bytes (page size, page count, text kept as text is
+// checked with poppler in tests/reference/memo_reference.py), literal printing of control and
+// bidi characters, and atomic writing.
+#include "ui/memo/memo_writer.h"
+
+#include <QApplication>
+#include <QDir>
+#include <QFile>
+#include <QRegularExpression>
+#include <QTemporaryDir>
+#include <QtTest>
+
+#include "core/common/atomic_file.h"
+
+using namespace foldline;
+
+namespace {
+
+report::MemoContent sample_memo(project::PageSize size) {
+    report::MemoContent m;
+    m.title = "<b>Title</b>";
+    m.date = "2026-12-02";
+    m.page_size = size;
+    m.summary = "Summary text.";
+    m.findings.header = {"#", "Class"};
+    m.findings.widths = {1, 3};
+    m.findings.numeric = {true, false};
+    for (int i = 0; i < 120; ++i) m.findings.rows.push_back({std::to_string(i + 1), "reversal"});
+    m.caution = report::kMemoCaution;
+    return m;
+}
+
+int page_count(const QByteArray& pdf) {
+    return static_cast<int>(pdf.count("/Type /Page\n") + pdf.count("/Type /Page\r") + pdf.count("/Type /Page "));
+}
+
+}  // namespace
+
+class MemoWriterTest : public QObject {
+    Q_OBJECT
+private slots:
+    void printableShowsControlsLiterally() {
+        QCOMPARE(ui::printable("<b>x</b> & \"q\""), QStringLiteral("<b>x</b> & \"q\""));
+        QCOMPARE(ui::printable("a\u202Eb"), QStringLiteral("a[U+202E]b"));
+        QCOMPARE(ui::printable(std::string("a\x01z", 3)), QStringLiteral("a[U+0001]z"));
+        QCOMPARE(ui::printable("line\nnext\ttab"), QStringLiteral("line\nnext\ttab"));
+        const QString hebrew = ui::printable("\u05e9\u05dc\u05d5\u05dd");
+        QCOMPARE(hebrew, QString::fromUtf8("\u05e9\u05dc\u05d5\u05dd"));
+        QVERIFY(ui::printable("").isEmpty());
+    }
+
+    void pageSizesAndPagination() {
+        // A4 = 595 x 842 pt, US Letter = 612 x 792 pt (ISO 216; ANSI/ASME Y14.1).
+        const QByteArray a4 = ui::memo_pdf(sample_memo(project::PageSize::A4));
+        const QByteArray letter = ui::memo_pdf(sample_memo(project::PageSize::Letter));
+        QVERIFY(a4.startsWith("%PDF-"));
+        QVERIFY(a4.contains("/MediaBox [0 0 595.000000 842.000000]"));
+        QVERIFY(letter.contains("/MediaBox [0 0 612.000000 792.000000]"));
+        // 120 table rows do not fit one page: the table continues on a second page or more.
+        QVERIFY2(page_count(a4) >= 2, qPrintable(QString::number(page_count(a4))));
+        QVERIFY(a4.contains("/FontFile2"));  // TrueType font program embedded
+        const QByteArray empty = ui::memo_pdf(report::MemoContent{});
+        QCOMPARE(page_count(empty), 1);
+    }
+
+    void writesAtomically() {
+        QTemporaryDir dir;
+        QVERIFY(dir.isValid());
+        const std::string path = QDir(dir.path()).filePath("memo.pdf").toStdString();
+        QVERIFY(ui::write_memo_pdf(sample_memo(project::PageSize::A4), path).ok());
+        QFile f(QString::fromStdString(path));
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        const QByteArray before = f.readAll();
+        f.close();
+        set_atomic_write_fault_for_testing(true);
+        const auto st = ui::write_memo_pdf(sample_memo(project::PageSize::Letter), path);
+        set_atomic_write_fault_for_testing(false);
+        QVERIFY(!st.ok());
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QCOMPARE(f.readAll(), before);
+        QCOMPARE(QDir(dir.path()).entryList(QDir::Files).size(), 1);
+
+        const std::string missing = QDir(dir.path()).filePath("no/such/memo.pdf").toStdString();
+        const auto st2 = ui::write_memo_pdf(sample_memo(project::PageSize::A4), missing);
+        QVERIFY(!st2.ok());
+        QCOMPARE(QString::fromStdString(st2.error().file), QString::fromStdString(missing));
+    }
+};
+
+QTEST_MAIN(MemoWriterTest)
+#include "memo_writer_test.moc"
