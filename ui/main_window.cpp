@@ -5,6 +5,7 @@
 #include <QApplication>
 #include <QCloseEvent>
 #include <QDragEnterEvent>
+#include <QFileDialog>
 #include <QFileInfo>
 #include <QGraphicsView>
 #include <QLineEdit>
@@ -89,6 +90,7 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(findings_, &FindingsPage::finding_selected, this, [this](int row) {
         steps_->set_state(Diagram, row >= 0 ? StepBar::State::Open : StepBar::State::Locked);
     });
+    connect(memo_, &MemoPage::export_requested, this, &MainWindow::export_memo_dialog);
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
 
     diagram_->set_estimator([this](const QStringList& set) -> QString {
@@ -175,6 +177,9 @@ void MainWindow::build_menus() {
                 source_->show_counts_grid();
             });
     recent_menu_ = file->addMenu(tr("Open &recent"));
+    connect(add(file, make_action("action_export_memo", tr("Save memo as &PDF…"), QKeySequence(tr("Ctrl+E")),
+                                  tr("Write the audit memo as a PDF"))),
+            &QAction::triggered, this, &MainWindow::export_memo_dialog);
     rebuild_recent_menu();
     file->addSeparator();
     connect(add(file, make_action("action_quit", tr("&Quit"), QKeySequence::Quit, tr("Close the workbench"))),
@@ -316,6 +321,33 @@ void MainWindow::build_menus() {
                                       "and slopes, and uses a causal diagram to decide which view answers the question.</p>"
                                       "<p>%2</p>").arg(QApplication::applicationVersion(), caution_text()));
             });
+}
+
+Status MainWindow::export_memo_to(const QString& path) {
+    MemoRequest r;
+    r.scan = scan_->rate_result();
+    r.data_path = source_->source();
+    r.rows = source_->table() ? double(source_->table()->rows) : 0;
+    r.reviewed = model_->findings();
+    if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
+    r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
+    return export_memo(r, path);
+}
+
+void MainWindow::export_memo_dialog() {
+    if (!scan_->rate_result()) {
+        QMessageBox::information(this, tr("Memo"), tr("The PDF memo covers rate audits: run a rate scan first."));
+        return;
+    }
+    QSettings s;
+    QString path = QFileDialog::getSaveFileName(this, tr("Save memo"), s.value("memo/last_dir").toString(),
+                                                tr("PDF document (*.pdf)"));
+    if (path.isEmpty()) return;
+    if (!path.endsWith(QLatin1String(".pdf"), Qt::CaseInsensitive)) path += QStringLiteral(".pdf");
+    s.setValue("memo/last_dir", QFileInfo(path).absolutePath());
+    const Status st = export_memo_to(path);
+    if (!st) QMessageBox::warning(this, tr("Memo"), QString::fromStdString(st.error().to_string()));
+    else statusBar()->showMessage(tr("Memo written to %1").arg(path), 8000);
 }
 
 void MainWindow::rebuild_recent_menu() {

@@ -46,6 +46,9 @@ public slots:
     void go_to(int step);
     /// Starts the scan with the question as set; false when it cannot run.
     bool start_scan();
+    /// Writes the PDF memo of the last rate scan to `path`; Error when there is none.
+    Status export_memo_to(const QString& path);
+    void export_memo_dialog();
 
 protected:
     void closeEvent(QCloseEvent* e) override;

@@ -126,6 +126,18 @@ private slots:
         QCOMPARE(s->item(0, 0)->text(), f->rows[0].level);
         QCOMPARE(s->item(0, 1)->text(), QStringLiteral("%1 / %2").arg(f->rows[0].pos_focal, 0, 'f', 0).arg(f->rows[0].n_focal, 0, 'f', 0));
         QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_estimate(f->crude));
+        // Record a decision and write the memo; the PDF carries it (checked by size and header
+        // here; the memo's wording is tested with the memo writer).
+        w.findings_page()->decide(Decision::Upheld);
+        QCOMPARE(w.findings_model()->at(top)->decision, Decision::Upheld);
+        QTemporaryDir memo_dir;
+        const QString pdf = memo_dir.filePath("memo.pdf");
+        const Status written = w.export_memo_to(pdf);
+        QVERIFY2(written.ok(), written.ok() ? "" : written.error().to_string().c_str());
+        QFile memo(pdf);
+        QVERIFY(memo.open(QIODevice::ReadOnly));
+        QVERIFY(memo.read(5) == "%PDF-");
+        QVERIFY(memo.size() > 10000);
         // Diagram: draw an edge that changes the verdict, then undo it.
         w.go_to(MainWindow::Diagram);
         DiagramPage* d = w.diagram_page();
