@@ -138,6 +138,24 @@ private slots:
         QVERIFY(memo.open(QIODevice::ReadOnly));
         QVERIFY(memo.read(5) == "%PDF-");
         QVERIFY(memo.size() > 10000);
+
+        // Save the audit and open it in a fresh window: the data is read again, the question
+        // asked again, and the decision comes back on the same finding.
+        const QString audit = memo_dir.filePath("lender.foldline");
+        const Status saved = w.save_project_to(audit);
+        QVERIFY2(saved.ok(), saved.ok() ? "" : saved.error().to_string().c_str());
+        {
+            MainWindow again;
+            QVERIFY(again.open_project(audit).ok());
+            auto restored = [&] {
+                for (const FindingView& g : again.findings_model()->findings())
+                    if (g.strata == f->strata) return g.decision == Decision::Upheld;
+                return false;
+            };
+            QTRY_VERIFY_WITH_TIMEOUT(restored(), 60000);
+            QCOMPARE(again.findings_model()->size(), w.findings_model()->size());
+            QVERIFY(!again.open_project(memo_dir.filePath("absent.foldline")).ok());
+        }
         // Diagram: draw an edge that changes the verdict, then undo it.
         w.go_to(MainWindow::Diagram);
         DiagramPage* d = w.diagram_page();
