@@ -99,7 +99,8 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     QSharedPointer<QCPAxisTickerText> ticker(new QCPAxisTickerText);
     // Rows from top: strata in order, a gap, then adjusted and pooled.
     const int n = int(f.rows.size());
-    auto strata = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, colors::reference(), 7,
+    const QColor stratum_colour = colors::accent(pal);  // the blue that reads on light and dark
+    auto strata = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, stratum_colour, 7,
                                 QObject::tr("stratum (95% CI)"));
     QVector<double> k, v, e_lo, e_hi;
     double lo = 0, hi = 0;
@@ -119,7 +120,7 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
         hi = std::max({hi, r.rd.has_ci() ? r.rd.hi : r.rd.value});
     }
     strata->setData(k, v);
-    error_bars(plot, strata, colors::reference())->setData(e_lo, e_hi);
+    error_bars(plot, strata, stratum_colour)->setData(e_lo, e_hi);
 
     auto add_summary = [&](double y, const Estimate& e, QCPScatterStyle::ScatterShape shape, const QColor& c,
                            const QString& name) {
@@ -183,7 +184,7 @@ void draw_mix(QCustomPlot* plot, const FindingView& f) {
             auto* t = new QCPItemText(plot);
             t->position->setCoords(x, base + share / 2);
             t->setText(QStringLiteral("%1  %2%").arg(r.level).arg(100 * share, 0, 'f', 0));
-            t->setColor(Qt::black);
+            t->setColor(c.lightness() < 120 ? Qt::white : Qt::black);  // readable on its own segment
             t->setClipToAxisRect(true);
         }
         below = bars;

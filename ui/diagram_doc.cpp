@@ -224,6 +224,7 @@ DiagramVerdict DiagramDoc::verdict() const {
             QStringList set;
             if (r->standardise_over)
                 for (const auto& n : *r->standardise_over) set << qs(n);
+            v.standardise_over = set;
             v.recommended = tr("a table standardised over %1").arg(set.join(QStringLiteral(" × ")));
             break;
         }

@@ -33,6 +33,7 @@ struct DiagramVerdict {
     QString reason;               ///< one plain sentence
     QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
     QList<QStringList> valid_sets;///< minimal valid adjustment sets
+    QStringList standardise_over; ///< the set whose adjusted figure answers the question (other_set)
     QString adjusted;             ///< adjusted estimate text, when the engine computed one
     QString direct_effect;        ///< what the direct effect "not through the mediators" needs
     QString problem;              ///< why no verdict (invalid diagram), empty otherwise

@@ -3,6 +3,7 @@
 // engine's verdict live: node roles (shape + label, with a legend), the valid adjustment
 // sets, the view to quote and why. Every edit is undoable.
 #include <QWidget>
+#include <functional>
 
 #include "core/common/error.h"
 #include "ui/diagram_doc.h"
@@ -28,6 +29,10 @@ public:
     /// other data columns are offered for adding. Clears the undo history.
     void seed(const QString& exposure, const QString& outcome, const QStringList& strata,
               const QStringList& columns);
+
+    /// How the page gets the adjusted estimate over a set of columns the verdict names
+    /// (returns display text, or empty when there is none).
+    void set_estimator(std::function<QString(const QStringList&)> estimator) { estimator_ = std::move(estimator); }
 
     DiagramDoc* doc() const { return doc_; }
     DiagramScene* scene() const { return scene_; }
@@ -83,6 +88,7 @@ private:
     QSplitter* split_;
     DiagramVerdict verdict_;
     QStringList data_columns_;
+    std::function<QString(const QStringList&)> estimator_;
 };
 
 }  // namespace foldline::ui

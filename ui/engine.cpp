@@ -5,9 +5,15 @@
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
 #include "core/stats/fdr.h"
+#include "core/common/sha256.h"
+#include "core/io/project_file.h"
+#include "core/report/memo_content.h"
+#include "core/causal/verdict.h"
+#include "ui/memo/memo_writer.h"
 
 #include "ui/engine.h"
 
+#include <QDate>
 #include <QObject>
 #include <algorithm>
 
@@ -347,9 +353,55 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
     if (!result) return result.error();
     ScanOutcome out;
     out.cancelled = result->cancelled;
+    out.rate_result = std::make_shared<const ScanResult>(*result);
     for (const RateFinding& r : result->rate_findings) out.findings.push_back(to_view(r));
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
     return out;
+}
+
+Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set) {
+    if (set.isEmpty()) return make_error("the empty set needs no adjustment: the pooled figure applies");
+    if (set.size() > 2) return make_error("standardising over more than two columns is not offered yet");
+    QuestionSpec one = q;
+    one.candidates = set;
+    one.pairs = set.size() == 2;
+    one.bootstrap = 0;
+    auto out = run_scan(t, one, Work{}, {});
+    if (!out) return out.error();
+    for (FindingView& f : out->findings)
+        if (f.strata.size() == set.size() && std::is_permutation(f.strata.begin(), f.strata.end(), set.begin()))
+            return std::move(f);
+    return make_error("the engine gave no figure for that set");
+}
+
+Status export_memo(const MemoRequest& request, const QString& path) {
+    if (!request.scan) return make_error("the memo needs a finished rate scan", path.toStdString());
+    const ScanResult& scan = *request.scan;
+    project::Project proj;
+    proj.memo.title = request.title.toStdString();
+    if (request.diagram) proj.diagrams.push_back({"as drawn", *request.diagram});
+    for (const FindingView& f : request.reviewed) {
+        if (f.slope || (f.decision == Decision::Undecided && f.note.isEmpty())) continue;
+        std::vector<std::string> strata;
+        for (const QString& s : f.strata) strata.push_back(s.toStdString());
+        project::FindingReview& r = proj.review_for(project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString()));
+        r.decision = f.decision;
+        r.note = f.note.toStdString();
+    }
+    report::MemoInput in;
+    in.scan = &scan;
+    in.data.path = request.data_path.toStdString();
+    in.data.rows = request.rows;
+    if (auto h = sha256_file(in.data.path)) in.data.sha256 = *h;
+    in.project = &proj;
+    in.date = QDate::currentDate().toString(Qt::ISODate).toStdString();
+    if (request.diagram)
+        if (auto graph = causal::CausalGraph::build(*request.diagram))
+            for (const RateFinding& f : scan.rate_findings) {
+                auto v = causal::decide(*graph, scan.question.exposure, scan.question.outcome, f.strata);
+                in.verdicts.push_back(v ? std::optional<causal::Verdict>(*v) : std::nullopt);
+            }
+    return write_memo_pdf(report::build_memo(in), path.toStdString());
 }
 
 }  // namespace foldline::ui

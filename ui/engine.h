@@ -15,6 +15,14 @@
 #include "core/table/table.h"
 #include "ui/finding_view.h"
 
+namespace foldline {
+struct ScanResult;
+}
+
+namespace foldline::causal {
+struct Diagram;
+}
+
 namespace foldline::ui {
 
 struct LoadOptions {
@@ -63,12 +71,31 @@ struct ScanOutcome {
     std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
     QStringList excluded;               ///< "column: reason"
     bool cancelled = false;
+    std::shared_ptr<const ScanResult> rate_result;  ///< the engine's own result (rates), for the memo
 };
+
+/// What the PDF memo is made from, beyond the scan itself.
+struct MemoRequest {
+    std::shared_ptr<const ScanResult> scan;  ///< a rate scan; null → Error
+    QString data_path;                       ///< hashed for the memo's facts when it is a file
+    double rows = 0;
+    std::vector<FindingView> reviewed;       ///< findings with the reviewer's decisions and notes
+    const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
+    QString title;
+};
+
+/// Writes the memo as a PDF (atomically) through core/report and ui/memo. Error names the file.
+Status export_memo(const MemoRequest& request, const QString& path);
 
 /// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
 /// the calling thread; class still decided on the raw p, before the FDR step and the
 /// bootstrap); the result holds the final, ranked findings. Honours work.stop (cancelled set).
 Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
+
+/// The adjusted estimate over the joint strata of `set` (one or two columns): the standardised
+/// difference for rates, the within-stratum slope for trends. An Error when the set is empty,
+/// holds more than two columns, or the engine cannot compute it.
+Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set);
 
 }  // namespace foldline::ui

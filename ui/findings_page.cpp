@@ -392,7 +392,7 @@ void FindingsPage::draw_charts(const FindingView& f) {
         if (charts_->currentIndex() < 3) charts_->setCurrentIndex(3);
     } else {
         // One readable row per stratum: many strata make the chart tall and the tab scrolls.
-        forest_->setMinimumHeight(std::max(220, 110 + 17 * (int(f.rows.size()) + 3)));
+        forest_->setMinimumHeight(std::max(200, 80 + 16 * (int(f.rows.size()) + 3)));
         charts::draw_forest(forest_, f);
         charts::draw_mix(mix_, f);
         charts::draw_decomposition(decomp_, f);

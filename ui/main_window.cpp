@@ -5,6 +5,7 @@
 #include <QApplication>
 #include <QCloseEvent>
 #include <QDragEnterEvent>
+#include <QFileDialog>
 #include <QFileInfo>
 #include <QGraphicsView>
 #include <QLineEdit>
@@ -15,9 +16,12 @@
 #include <QSplitter>
 #include <QStackedWidget>
 #include <QStatusBar>
+#include <QTableView>
 #include <QUndoStack>
 #include <QVBoxLayout>
 
+#include "core/common/sha256.h"
+#include "core/io/project_file.h"
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
 #include "ui/diagram_page.h"
@@ -30,6 +34,12 @@
 #include "ui/step_bar.h"
 
 namespace foldline::ui {
+
+struct MainWindow::PendingProject {
+    project::Project project;
+    QString path;
+    bool scanned = false;
+};
 
 namespace {
 QAction* add(QMenu* menu, QAction* a) {
@@ -72,6 +82,7 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
         setWindowTitle(t ? tr("Foldline — %1").arg(QFileInfo(src).fileName()) : tr("Foldline"));
         if (t) go_to(Question);
+        if (t && pending_ && !pending_->scanned) restore_pending();
     });
     connect(source_, &SourcePage::recent_files_changed, this, &MainWindow::rebuild_recent_menu);
     connect(question_, &QuestionPage::scan_requested, this, [this] { start_scan(); });
@@ -85,12 +96,20 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
             go_to(Findings);
             findings_->select_top();
         }
+        if (pending_ && pending_->scanned) restore_pending();
     });
     connect(findings_, &FindingsPage::finding_selected, this, [this](int row) {
         steps_->set_state(Diagram, row >= 0 ? StepBar::State::Open : StepBar::State::Locked);
     });
+    connect(memo_, &MemoPage::export_requested, this, &MainWindow::export_memo_dialog);
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
 
+    diagram_->set_estimator([this](const QStringList& set) -> QString {
+        if (!source_->table()) return {};
+        auto f = adjusted_over(*source_->table(), last_question_, set);
+        if (!f) return tr("not computed: %1").arg(QString::fromStdString(f.error().message));
+        return tr("%1 over %2: %3").arg(f->adjusted_name, set.join(QStringLiteral(" × ")), format_estimate(f->adjusted));
+    });
     build_menus();
     restore_layout();
     go_to(Source);
@@ -169,6 +188,16 @@ void MainWindow::build_menus() {
                 source_->show_counts_grid();
             });
     recent_menu_ = file->addMenu(tr("Open &recent"));
+    file->addSeparator();
+    connect(add(file, make_action("action_open_project", tr("Open au&dit…"), QKeySequence(tr("Ctrl+Shift+A")),
+                                  tr("Open a saved audit (NAME.foldline): data, question, diagram, decisions"))),
+            &QAction::triggered, this, &MainWindow::open_project_dialog);
+    connect(add(file, make_action("action_save_project", tr("&Save audit as…"), QKeySequence::Save,
+                                  tr("Save the audit as NAME.foldline (no data rows are stored)"))),
+            &QAction::triggered, this, &MainWindow::save_project_dialog);
+    connect(add(file, make_action("action_export_memo", tr("Save memo as &PDF…"), QKeySequence(tr("Ctrl+E")),
+                                  tr("Write the audit memo as a PDF"))),
+            &QAction::triggered, this, &MainWindow::export_memo_dialog);
     rebuild_recent_menu();
     file->addSeparator();
     connect(add(file, make_action("action_quit", tr("&Quit"), QKeySequence::Quit, tr("Close the workbench"))),
@@ -310,6 +339,160 @@ void MainWindow::build_menus() {
                                       "and slopes, and uses a causal diagram to decide which view answers the question.</p>"
                                       "<p>%2</p>").arg(QApplication::applicationVersion(), caution_text()));
             });
+}
+
+Status MainWindow::export_memo_to(const QString& path) {
+    MemoRequest r;
+    r.scan = scan_->rate_result();
+    r.data_path = source_->source();
+    r.rows = source_->table() ? double(source_->table()->rows) : 0;
+    r.reviewed = model_->findings();
+    if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
+    r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
+    return export_memo(r, path);
+}
+
+void MainWindow::export_memo_dialog() {
+    if (!scan_->rate_result()) {
+        QMessageBox::information(this, tr("Memo"), tr("The PDF memo covers rate audits: run a rate scan first."));
+        return;
+    }
+    QSettings s;
+    QString path = QFileDialog::getSaveFileName(this, tr("Save memo"), s.value("memo/last_dir").toString(),
+                                                tr("PDF document (*.pdf)"));
+    if (path.isEmpty()) return;
+    if (!path.endsWith(QLatin1String(".pdf"), Qt::CaseInsensitive)) path += QStringLiteral(".pdf");
+    s.setValue("memo/last_dir", QFileInfo(path).absolutePath());
+    const Status st = export_memo_to(path);
+    if (!st) QMessageBox::warning(this, tr("Memo"), QString::fromStdString(st.error().to_string()));
+    else statusBar()->showMessage(tr("Memo written to %1").arg(path), 8000);
+}
+
+Status MainWindow::save_project_to(const QString& path) {
+    if (last_question_.slope) return make_error("saving trend audits is not offered yet", path.toStdString());
+    if (!source_->table() || source_->source() == tr("typed-in table"))
+        return make_error("open a data file first: a project records the file, never the rows", path.toStdString());
+    project::Project p;
+    const std::string data = source_->source().toStdString();
+    p.data.path = data;
+    p.data.size = std::uint64_t(QFileInfo(source_->source()).size());
+    if (auto h = sha256_file(data)) p.data.sha256 = *h;
+    p.data.rows = source_->table()->rows;
+    for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
+    const LoadOptions o = source_->options();
+    p.data.count_column = o.count_column.toStdString();
+    if (!o.missing_markers.isEmpty()) {
+        p.data.missing_markers.clear();
+        for (const QString& m : o.missing_markers) p.data.missing_markers.push_back(m.toStdString());
+    }
+    p.data.type_overrides = o.type_overrides;
+    const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
+    p.question.outcome = q.outcome.toStdString();
+    if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
+    p.question.exposure = q.exposure.toStdString();
+    if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
+    if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
+    for (const QString& c : q.candidates) p.scan.strata.push_back(c.toStdString());
+    p.scan.pairs = q.pairs;
+    p.scan.bins = q.bins;
+    p.scan.alpha = q.alpha;
+    p.scan.bootstrap = q.bootstrap;
+    p.scan.seed = q.seed;
+    if (seeded_row_ >= 0) p.diagrams.push_back({"as drawn", diagram_->doc()->diagram()});
+    for (const FindingView& f : model_->findings()) {
+        if (f.decision == Decision::Undecided && f.note.isEmpty()) continue;
+        std::vector<std::string> strata;
+        for (const QString& s : f.strata) strata.push_back(s.toStdString());
+        project::FindingReview& r = p.review_for(project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString()));
+        r.saved_class = f.cls;
+        r.decision = f.decision;
+        r.note = f.note.toStdString();
+    }
+    return project::save_project(p, path.toStdString());
+}
+
+Status MainWindow::open_project(const QString& path) {
+    auto p = project::load_project(path.toStdString());
+    if (!p) return p.error();
+    pending_ = std::make_shared<PendingProject>();
+    pending_->project = std::move(p).value();
+    pending_->path = path;
+    const project::DataSource& d = pending_->project.data;
+    LoadOptions o;
+    o.count_column = QString::fromStdString(d.count_column);
+    for (const auto& m : d.missing_markers) o.missing_markers << QString::fromStdString(m);
+    o.type_overrides = d.type_overrides;
+    go_to(Source);
+    source_->open_path(QString::fromStdString(d.path), o);
+    return Ok{};
+}
+
+void MainWindow::restore_pending() {
+    auto pending = pending_;
+    const project::Project& p = pending->project;
+    if (!pending->scanned) {
+        // The data is in: warn when it changed since the save, then ask the saved question.
+        if (auto h = sha256_file(p.data.path); h && !p.data.sha256.empty() && *h != p.data.sha256)
+            statusBar()->showMessage(tr("The data file changed since the audit was saved (SHA-256 differs)."), 15000);
+        QuestionSpec q = question_->spec();
+        q.slope = false;
+        q.outcome = QString::fromStdString(p.question.outcome);
+        q.positive = p.question.positive ? QString::fromStdString(*p.question.positive) : QString();
+        q.exposure = QString::fromStdString(p.question.exposure);
+        q.focal = p.question.focal.empty() ? QString() : QString::fromStdString(p.question.focal.front());
+        q.reference = p.question.reference ? QString::fromStdString(*p.question.reference) : QString();
+        q.candidates.clear();
+        for (const auto& s : p.scan.strata) q.candidates << QString::fromStdString(s);
+        q.pairs = p.scan.pairs;
+        q.bins = p.scan.bins;
+        q.alpha = p.scan.alpha;
+        q.bootstrap = p.scan.bootstrap;
+        q.seed = unsigned(p.scan.seed);
+        question_->set_spec(q);
+        pending->scanned = true;
+        if (!start_scan()) pending_.reset();
+        return;
+    }
+    pending_.reset();
+    // Findings are back: restore decisions and notes by key, then the diagram.
+    for (int i = 0; i < model_->size(); ++i) {
+        const FindingView* f = model_->at(i);
+        std::vector<std::string> strata;
+        for (const QString& s : f->strata) strata.push_back(s.toStdString());
+        if (const project::FindingReview* r = p.review(project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString())))
+            model_->set_decision(i, r->decision, QString::fromStdString(r->note));
+    }
+    // Re-select so the detail panel shows the restored decision.
+    findings_->list()->selectionModel()->setCurrentIndex(QModelIndex(), QItemSelectionModel::Clear);
+    findings_->select_top();
+    if (const causal::Diagram* d = p.diagram()) {
+        seed_diagram_for(findings_->selected());
+        diagram_->doc()->replace(*d);
+        diagram_->undo_stack()->clear();
+    }
+    statusBar()->showMessage(tr("Opened %1").arg(pending->path), 8000);
+}
+
+void MainWindow::save_project_dialog() {
+    QSettings s;
+    QString path = QFileDialog::getSaveFileName(this, tr("Save audit"), s.value("project/last_dir").toString(),
+                                                tr("Foldline audit (*.foldline)"));
+    if (path.isEmpty()) return;
+    if (!path.endsWith(QLatin1String(".foldline"))) path += QStringLiteral(".foldline");
+    s.setValue("project/last_dir", QFileInfo(path).absolutePath());
+    const Status st = save_project_to(path);
+    if (!st) QMessageBox::warning(this, tr("Save audit"), QString::fromStdString(st.error().to_string()));
+    else statusBar()->showMessage(tr("Saved %1").arg(path), 8000);
+}
+
+void MainWindow::open_project_dialog() {
+    QSettings s;
+    const QString path = QFileDialog::getOpenFileName(this, tr("Open audit"), s.value("project/last_dir").toString(),
+                                                      tr("Foldline audit (*.foldline);;All files (*)"));
+    if (path.isEmpty()) return;
+    s.setValue("project/last_dir", QFileInfo(path).absolutePath());
+    const Status st = open_project(path);
+    if (!st) QMessageBox::warning(this, tr("Open audit"), QString::fromStdString(st.error().to_string()));
 }
 
 void MainWindow::rebuild_recent_menu() {

@@ -46,6 +46,17 @@ public slots:
     void go_to(int step);
     /// Starts the scan with the question as set; false when it cannot run.
     bool start_scan();
+    /// Writes the PDF memo of the last rate scan to `path`; Error when there is none.
+    Status export_memo_to(const QString& path);
+    void export_memo_dialog();
+    /// Writes the audit (data source, question, settings, diagram, decisions; no rows) as a
+    /// NAME.foldline project, atomically. Error for a trend audit (the format holds rates).
+    Status save_project_to(const QString& path);
+    /// Opens a project: loads its data, scans with its question and settings, then restores
+    /// the decisions and the diagram. Error when the file cannot be read.
+    Status open_project(const QString& path);
+    void save_project_dialog();
+    void open_project_dialog();
 
 protected:
     void closeEvent(QCloseEvent* e) override;
@@ -74,6 +85,9 @@ private:
     QHash<QString, QAction*> actions_;
     QuestionSpec last_question_;
     int seeded_row_ = -1;
+    struct PendingProject;
+    std::shared_ptr<PendingProject> pending_;  ///< a project being opened (load → scan → restore)
+    void restore_pending();
 };
 
 }  // namespace foldline::ui

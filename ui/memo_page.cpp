@@ -1,6 +1,8 @@
 #include "ui/memo_page.h"
 
 #include <QDateTime>
+#include <QHBoxLayout>
+#include <QPushButton>
 #include <QTextBrowser>
 #include <QVBoxLayout>
 
@@ -14,9 +16,17 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
     text_ = new QTextBrowser;
     text_->setObjectName(QStringLiteral("memo_preview"));
     text_->setOpenLinks(false);
+    auto* pdf = new QPushButton(tr("Save memo as PDF…  (Ctrl+E)"));
+    pdf->setObjectName(QStringLiteral("export_memo"));
+    pdf->setToolTip(tr("Write the memo with the findings, tables, charts, diagram, decisions and the caution"));
+    connect(pdf, &QPushButton::clicked, this, &MemoPage::export_requested);
+    auto* row = new QHBoxLayout;
+    row->addStretch();
+    row->addWidget(pdf);
     auto* lay = new QVBoxLayout(this);
     lay->addWidget(new CautionBand);
     lay->addWidget(text_, 1);
+    lay->addLayout(row);
     refresh({}, nullptr);
 }
 

@@ -18,6 +18,9 @@ public:
     void refresh(const QString& source, const QuestionSpec* question);
     QString html() const;
 
+signals:
+    void export_requested();
+
 private:
     FindingsModel* model_;
     QTextBrowser* text_;

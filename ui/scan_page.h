@@ -36,6 +36,8 @@ public:
     QString status() const;
     /// Seconds the last scan took, or the time so far.
     double elapsed_seconds() const;
+    /// The engine's result of the last completed rate scan (null otherwise).
+    std::shared_ptr<const ScanResult> rate_result() const { return rate_result_; }
 
 signals:
     void scan_finished(bool completed, int findings);
@@ -53,6 +55,7 @@ private:
     std::vector<FindingView> inbox_;
     std::shared_ptr<Result<ScanOutcome>> result_;
     std::shared_ptr<const Table> table_;
+    std::shared_ptr<const ScanResult> rate_result_;
     QElapsedTimer clock_;
     double seconds_ = 0;
     QLabel *question_, *status_;

@@ -180,6 +180,14 @@ void SourcePage::open_path(const QString& path) {
     reload();
 }
 
+void SourcePage::open_path(const QString& path, const LoadOptions& options) {
+    if (job_->running()) return;
+    path_ = path;
+    options_ = options;
+    missing_->setText(options.missing_markers.join(QStringLiteral(", ")));
+    reload();
+}
+
 void SourcePage::reload() {
     if (path_.isEmpty() || job_->running()) return;
     if (!QFileInfo(path_).isFile()) {

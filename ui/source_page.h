@@ -30,6 +30,10 @@ public:
 
     /// Starts loading `path` in the background (ignored while a load is running).
     void open_path(const QString& path);
+    /// Starts loading `path` with these reader settings (a saved audit's).
+    void open_path(const QString& path, const LoadOptions& options);
+    /// The reader settings of the current file.
+    LoadOptions options() const { return options_; }
     /// Shows a table built elsewhere (typed-in counts, the demo) as the current source.
     void set_table(std::shared_ptr<const Table> table, const QString& source);
     std::shared_ptr<const Table> table() const { return table_; }

@@ -52,6 +52,7 @@ int run_workbench(int argc, char** argv) {
         p.setColor(QPalette::HighlightedText, QColor(QRgb(0x000000)));
         p.setColor(QPalette::ToolTipBase, QColor(QRgb(0x34363c)));
         p.setColor(QPalette::ToolTipText, QColor(QRgb(0xe6e6e6)));
+        p.setColor(QPalette::PlaceholderText, QColor(QRgb(0x9a9ca3)));
         QApplication::setPalette(p);
     }
 

@@ -126,6 +126,36 @@ private slots:
         QCOMPARE(s->item(0, 0)->text(), f->rows[0].level);
         QCOMPARE(s->item(0, 1)->text(), QStringLiteral("%1 / %2").arg(f->rows[0].pos_focal, 0, 'f', 0).arg(f->rows[0].n_focal, 0, 'f', 0));
         QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_estimate(f->crude));
+        // Record a decision and write the memo; the PDF carries it (checked by size and header
+        // here; the memo's wording is tested with the memo writer).
+        w.findings_page()->decide(Decision::Upheld);
+        QCOMPARE(w.findings_model()->at(top)->decision, Decision::Upheld);
+        QTemporaryDir memo_dir;
+        const QString pdf = memo_dir.filePath("memo.pdf");
+        const Status written = w.export_memo_to(pdf);
+        QVERIFY2(written.ok(), written.ok() ? "" : written.error().to_string().c_str());
+        QFile memo(pdf);
+        QVERIFY(memo.open(QIODevice::ReadOnly));
+        QVERIFY(memo.read(5) == "%PDF-");
+        QVERIFY(memo.size() > 10000);
+
+        // Save the audit and open it in a fresh window: the data is read again, the question
+        // asked again, and the decision comes back on the same finding.
+        const QString audit = memo_dir.filePath("lender.foldline");
+        const Status saved = w.save_project_to(audit);
+        QVERIFY2(saved.ok(), saved.ok() ? "" : saved.error().to_string().c_str());
+        {
+            MainWindow again;
+            QVERIFY(again.open_project(audit).ok());
+            auto restored = [&] {
+                for (const FindingView& g : again.findings_model()->findings())
+                    if (g.strata == f->strata) return g.decision == Decision::Upheld;
+                return false;
+            };
+            QTRY_VERIFY_WITH_TIMEOUT(restored(), 60000);
+            QCOMPARE(again.findings_model()->size(), w.findings_model()->size());
+            QVERIFY(!again.open_project(memo_dir.filePath("absent.foldline")).ok());
+        }
         // Diagram: draw an edge that changes the verdict, then undo it.
         w.go_to(MainWindow::Diagram);
         DiagramPage* d = w.diagram_page();
@@ -155,6 +185,24 @@ private slots:
         QVERIFY(d->doc()->has_edge(from, to));
         QVERIFY(!d->doc()->has_edge(to, from));
         QCOMPARE(d->verdict().roles.value(stratum), role_before);
+
+        // Neither view valid: income band made a common cause of group and approval while the
+        // product stays a mediator. The verdict names {income_band} and the page shows the
+        // engine's standardised estimate over it, the same figure as the scan's income_band finding.
+        QVERIFY(was_mediator);  // the demo opens the sample's own diagram
+        QVERIFY(d->doc()->node("income_band").has_value());
+        {
+            QVERIFY(d->request_edge("income_band", exposure));
+            QCOMPARE(d->verdict().answer, QStringLiteral("other_set"));
+            QCOMPARE(d->verdict().standardise_over, QStringList{"income_band"});
+            const FindingView* ib = nullptr;
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.strata == QStringList{"income_band"}) ib = &g;
+            QVERIFY(ib);
+            QVERIFY2(d->verdict().adjusted.endsWith(format_estimate(ib->adjusted)), qPrintable(d->verdict().adjusted));
+            d->undo_stack()->undo();
+            QCOMPARE(d->verdict().answer, before);
+        }
         QCOMPARE(d->verdict().answer, before);
     }
 
