@@ -117,6 +117,9 @@ try:
         check(("Page 1 of %d" % pages) in text and ("Page %d of %d" % (pages, pages)) in text, "page numbers")
         check(page in info["Page size"], "page size %s (%s)" % (page, info["Page size"].strip()))
         check(fonts_embedded(os.path.join(work, "m.pdf")), "every font embedded (pdffonts)")
+        images = subprocess.run(["pdfimages", "-list", os.path.join(work, "m.pdf")], capture_output=True,
+                                text=True, check=True).stdout.splitlines()[2:]
+        check(len(images) == 0, "charts and diagram are vector graphics: no raster image in the PDF (pdfimages)")
         check(renders_pages_1_and_2(os.path.join(work, "m.pdf"), work), "pdftoppm renders pages 1 and 2")
 
         doc = json.load(open(os.path.join(work, "x.json")))
