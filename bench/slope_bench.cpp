@@ -5,22 +5,22 @@
 //       categorical candidates with 2..24 levels and about 0.1% empty cells; times scan_slopes
 //       over the 12 candidates and (unless --no-pairs) their 66 pairs, R runs, prints the median.
 //   slope_bench --csv FILE --x COL --y COL [--runs R] [--no-pairs]
-//       loads a CSV (simple comma-separated, no quoted fields; columns whose cells are all
-//       numbers are numeric, the rest categorical) and scans every categorical column with at
-//       most 50 levels — for a side-by-side run with the pandas peer in ../shared/bench/.
+//       loads a CSV with the project's reader and scans the candidates select_candidates picks
+//       (categorical columns and integer columns with 2..50 values; other numeric columns are
+//       left out, as the peer does), skipping approved and applicant_group — for a side-by-side
+//       run with the pandas peer in ../shared/bench/ (see slope_vs_peer.sh).
 // Output: one line per measurement, `slope_bench key=value ...`.
 #include "core/scan/slope_scan.h"
+
+#include "core/io/csv_reader.h"
+#include "core/scan/candidates.h"
 
 #include <algorithm>
 #include <chrono>
 #include <cstdio>
-#include <cstdlib>
-#include <fstream>
 #include <random>
 #include <sys/resource.h>
-#include <sstream>
 #include <string>
-#include <unordered_map>
 
 using namespace foldline;
 
@@ -78,84 +78,6 @@ Table generate(std::size_t rows) {
     return t;
 }
 
-// Bench-only loader for the peer's generated file (no quoting, no escapes).
-Table load_csv(const std::string& path) {
-    std::ifstream in(path);
-    if (!in) {
-        std::fprintf(stderr, "cannot open %s\n", path.c_str());
-        std::exit(1);
-    }
-    std::string line;
-    std::getline(in, line);
-    std::vector<std::string> names;
-    {
-        std::stringstream ss(line);
-        for (std::string f; std::getline(ss, f, ',');) names.push_back(f);
-    }
-    const std::size_t m = names.size();
-    std::vector<std::vector<std::string>> cells(m);
-    std::size_t rows = 0;
-    while (std::getline(in, line)) {
-        std::size_t start = 0, j = 0;
-        for (; j < m; ++j) {
-            const std::size_t end = std::min(line.find(',', start), line.size());
-            cells[j].emplace_back(line, start, end - start);
-            start = end + 1;
-        }
-        ++rows;
-    }
-    Table t;
-    t.rows = rows;
-    t.source = path;
-    for (std::size_t j = 0; j < m; ++j) {
-        std::vector<double> v(rows);
-        bool numeric = true;
-        for (std::size_t i = 0; i < rows && numeric; ++i) {
-            const std::string& s = cells[j][i];
-            if (s.empty()) {
-                v[i] = std::nan("");
-                continue;
-            }
-            char* end = nullptr;
-            v[i] = std::strtod(s.c_str(), &end);
-            numeric = end && *end == '\0';
-        }
-        std::unordered_map<std::string, std::uint32_t> index;
-        std::vector<std::string> levels;
-        if (numeric) {
-            // Integer columns with few values are categorical, as in the peer.
-            bool integral = true;
-            for (double d : v)
-                if (!std::isnan(d) && d != std::floor(d)) integral = false;
-            if (integral)
-                for (std::size_t i = 0; i < rows && levels.size() <= 50; ++i)
-                    if (!cells[j][i].empty() && index.emplace(cells[j][i], 0).second)
-                        levels.push_back(cells[j][i]);
-            if (!integral || levels.size() > 50) {
-                t.columns.push_back(Column::numeric(names[j], std::move(v)));
-                continue;
-            }
-            index.clear();
-            levels.clear();
-        }
-        std::vector<std::uint32_t> codes(rows);
-        std::vector<std::uint32_t> missing_rows;
-        for (std::size_t i = 0; i < rows; ++i) {
-            const std::string& s = cells[j][i];
-            if (s.empty()) {
-                missing_rows.push_back(static_cast<std::uint32_t>(i));
-                continue;
-            }
-            auto [it, fresh] = index.emplace(s, static_cast<std::uint32_t>(levels.size()));
-            if (fresh) levels.push_back(s);
-            codes[i] = it->second;
-        }
-        for (auto i : missing_rows) codes[i] = static_cast<std::uint32_t>(levels.size());
-        t.columns.push_back(Column::categorical(names[j], std::move(levels), codes));
-    }
-    return t;
-}
-
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -179,13 +101,29 @@ int main(int argc, char** argv) {
         }
     }
     auto t0 = std::chrono::steady_clock::now();
-    Table t = csv.empty() ? generate(rows) : load_csv(csv);
+    Table t;
+    if (csv.empty()) {
+        t = generate(rows);
+    } else {
+        auto r = read_csv(csv, CsvOptions{}, nullptr);
+        if (!r) {
+            std::fprintf(stderr, "%s\n", r.error().to_string().c_str());
+            return 1;
+        }
+        t = std::move(r.value());
+    }
     const double load = seconds_since(t0);
+    skip.push_back(xcol);
+    skip.push_back(ycol);
+    CandidateOptions copt;
+    copt.bins = 0;
+    auto selected = select_candidates(t, skip, copt);
+    if (!selected) {
+        std::fprintf(stderr, "%s\n", selected.error().to_string().c_str());
+        return 1;
+    }
     std::vector<const Column*> cands;
-    for (const auto& c : t.columns)
-        if (c.is_categorical() && c.levels.size() <= 50 &&
-            std::find(skip.begin(), skip.end(), c.name) == skip.end())
-            cands.push_back(&c);
+    for (const auto& c : selected->candidates) cands.push_back(c.column);
     SlopeQuestion q;
     q.x = xcol;
     q.y = ycol;

@@ -255,14 +255,15 @@ void draw_scatter(QCustomPlot* plot, const FindingView& f) {
         auto* g = plot->addGraph();
         g->setLineStyle(QCPGraph::lsNone);
         g->setScatterStyle(QCPScatterStyle(shape[s % shape.size()], QPen(c), QBrush(Qt::NoBrush), 5));
-        g->setData(x, y, true);
+        g->setData(x, y);
         g->setName(f.slope_rows[s].level);
         const SlopeRow& r = f.slope_rows[s];
-        if (std::isfinite(r.slope.value) && std::isfinite(r.intercept)) {
+        if (std::isfinite(r.slope.value) && std::isfinite(r.intercept) && !x.isEmpty()) {
+            // Each stratum's line spans only that stratum's points.
+            const double a = *std::min_element(x.begin(), x.end()), b = *std::max_element(x.begin(), x.end());
             auto* line = plot->addGraph();
             line->setPen(QPen(c, 2));
-            line->setData(QVector<double>{xmin, xmax},
-                          QVector<double>{r.intercept + r.slope.value * xmin, r.intercept + r.slope.value * xmax});
+            line->setData(QVector<double>{a, b}, QVector<double>{r.intercept + r.slope.value * a, r.intercept + r.slope.value * b});
             line->removeFromLegend();
         }
     }
@@ -276,7 +277,8 @@ void draw_scatter(QCustomPlot* plot, const FindingView& f) {
     plot->rescaleAxes();
     plot->xAxis->setLabel(f.focal);
     plot->yAxis->setLabel(f.reference);
-    plot->legend->setVisible(true);
+    plot->legend->setVisible(f.slope_rows.size() <= 8);
+    plot->axisRect()->insetLayout()->setInsetAlignment(0, Qt::AlignLeft | Qt::AlignTop);
     title(plot, QObject::tr("Pooled and within-stratum slopes by %1").arg(f.strata_label()),
           f.points_note.isEmpty() ? QObject::tr("every point drawn") : f.points_note);
 }
@@ -297,7 +299,7 @@ void draw_small_multiples(QCustomPlot* plot, const FindingView& f) {
         auto* g = plot->addGraph(rect->axis(QCPAxis::atBottom), rect->axis(QCPAxis::atLeft));
         g->setLineStyle(QCPGraph::lsNone);
         g->setScatterStyle(QCPScatterStyle(QCPScatterStyle::ssCircle, QPen(c), QBrush(Qt::NoBrush), 4));
-        g->setData(x, y, true);
+        g->setData(x, y);
         g->rescaleAxes();
         const SlopeRow& r = f.slope_rows[std::size_t(s)];
         if (!x.isEmpty() && std::isfinite(r.slope.value)) {

@@ -35,6 +35,18 @@ bool spin_until(const std::function<bool()>& done, int timeout_ms) {
     }
     return true;
 }
+/// Opens on the highest-ranked finding with a single stratifier: its story is the easiest to read.
+void select_top_single(MainWindow& w) {
+    FindingsPage* page = w.findings_page();
+    page->select_top();
+    for (int r = 0; r < page->list()->model()->rowCount(); ++r) {
+        const int row = page->filter()->mapToSource(page->list()->model()->index(r, 0)).row();
+        if (w.findings_model()->at(row)->strata.size() == 1) {
+            page->select(row);
+            return;
+        }
+    }
+}
 }  // namespace
 
 QString find_sample(const QString& name) {
@@ -47,6 +59,16 @@ QString find_sample(const QString& name) {
         if (QFileInfo(p).isFile()) return QDir::cleanPath(p);
     }
     return {};
+}
+
+/// Seeds the diagram for the selected finding, then replaces it with the sample's own diagram
+/// file when there is one (the scenario's story as its author drew it).
+static void load_sample_diagram(MainWindow& w, const QString& name) {
+    const QString path = find_sample(name);
+    if (path.isEmpty()) return;
+    w.go_to(MainWindow::Diagram);
+    w.diagram_page()->open_file(path);
+    w.go_to(MainWindow::Findings);
 }
 
 QString prepare_demo(MainWindow& w, int timeout_ms) {
@@ -84,16 +106,31 @@ QString prepare_demo(MainWindow& w, int timeout_ms) {
     QApplication::processEvents();
     if (w.findings_model()->size() == 0) return QObject::tr("the demo scan found nothing: %1").arg(w.scan_page()->status());
     w.go_to(MainWindow::Findings);
-    // Open on the highest-ranked finding with a single stratifier: its story is the easiest to read.
-    FindingsPage* page = w.findings_page();
-    page->select_top();
-    for (int r = 0; r < page->list()->model()->rowCount(); ++r) {
-        const int row = page->filter()->mapToSource(page->list()->model()->index(r, 0)).row();
-        if (w.findings_model()->at(row)->strata.size() == 1) {
-            page->select(row);
-            break;
-        }
-    }
+    select_top_single(w);
+    load_sample_diagram(w, QStringLiteral("lender_approvals.diagram.json"));
+    return {};
+}
+
+QString prepare_slope_demo(MainWindow& w, int timeout_ms) {
+    SourcePage* src = w.source_page();
+    const QString csv = find_sample(QStringLiteral("retail_weeks.csv"));
+    if (csv.isEmpty()) return QObject::tr("sample_data/retail_weeks.csv not found");
+    src->open_path(csv);
+    if (!spin_until([&] { return !src->loading(); }, timeout_ms)) return QObject::tr("loading the demo timed out");
+    if (!src->table()) return QObject::tr("the demo data did not load: %1").arg(src->message());
+    QuestionSpec q = w.question_page()->spec();
+    q.slope = true;
+    q.outcome = QStringLiteral("weekly_sales");
+    q.exposure = QStringLiteral("promo_spend");
+    w.question_page()->set_spec(q);
+    if (!w.question_page()->problems().isEmpty()) return w.question_page()->problems().join(QLatin1Char(' '));
+    if (!w.start_scan()) return QObject::tr("the scan did not start");
+    if (!spin_until([&] { return !w.scan_page()->running(); }, timeout_ms)) return QObject::tr("the demo scan timed out");
+    QApplication::processEvents();
+    if (w.findings_model()->size() == 0) return QObject::tr("the demo scan found nothing: %1").arg(w.scan_page()->status());
+    w.go_to(MainWindow::Findings);
+    select_top_single(w);
+    load_sample_diagram(w, QStringLiteral("retail_weeks.diagram.json"));
     return {};
 }
 

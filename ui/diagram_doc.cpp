@@ -57,6 +57,26 @@ void DiagramDoc::seed(const QString& exposure, const QString& outcome, const QSt
     emit structure_changed();
 }
 
+void DiagramDoc::replace(const causal::Diagram& d) {
+    d_ = d;
+    d_.exposure = ss(exposure_);
+    d_.outcome = ss(outcome_);
+    for (const QString& name : {exposure_, outcome_})
+        if (!name.isEmpty() && d_.find_node(ss(name)) < 0) d_.nodes.push_back({ss(name), true, 0.0, 0.0});
+    emit structure_changed();
+}
+
+bool DiagramDoc::crowded() const {
+    for (std::size_t i = 0; i < d_.nodes.size(); ++i)
+        for (std::size_t j = i + 1; j < d_.nodes.size(); ++j) {
+            const auto& a = d_.nodes[i];
+            const auto& b = d_.nodes[j];
+            if (!a.x || !a.y || !b.x || !b.y) return true;
+            if (std::abs(*a.x - *b.x) < 170 && std::abs(*a.y - *b.y) < 80) return true;
+        }
+    return false;
+}
+
 void DiagramDoc::set_strata(const QStringList& strata) {
     strata_ = strata;
     emit structure_changed();

@@ -45,6 +45,11 @@ public:
 
     /// Starts a new diagram: exposure → outcome, each stratifier pointing at both.
     void seed(const QString& exposure, const QString& outcome, const QStringList& strata);
+    /// Replaces the graph with `d` (a diagram read from a file). The current exposure and
+    /// outcome stay the question's: they are added as observed nodes if `d` lacks them.
+    void replace(const causal::Diagram& d);
+    /// True when two nodes sit closer than a node's size (positions from elsewhere).
+    bool crowded() const;
     /// The finding's stratifiers the verdict is about.
     void set_strata(const QStringList& strata);
 

@@ -1,6 +1,11 @@
 #include "ui/diagram_page.h"
 
 #include <QApplication>
+#include <QFileDialog>
+#include <QFileInfo>
+#include <QMessageBox>
+#include <QSaveFile>
+#include <QSettings>
 #include <QComboBox>
 #include <QGraphicsView>
 #include <QHBoxLayout>
@@ -15,6 +20,7 @@
 #include <QUndoStack>
 #include <QVBoxLayout>
 
+#include "core/causal/diagram_file.h"
 #include "ui/caution_band.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_scene.h"
@@ -148,6 +154,7 @@ DiagramPage::DiagramPage(QWidget* parent)
                 undo_->push(new MoveNodesCommand(doc_, before, after, tr("move")));
             });
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_verdict);
+    connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refill_columns);
     refresh_verdict();
 }
 
@@ -162,13 +169,65 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
                        const QStringList& columns) {
     undo_->clear();
     doc_->seed(exposure, outcome, strata);
-    columns_->clear();
-    for (const QString& c : columns)
-        if (!doc_->node(c)) columns_->addItem(c);
+    data_columns_ = columns;
+    refill_columns();  // the seed above ran before the columns were known
     show_message({});
     auto_layout();
     undo_->clear();
     fit_view();
+}
+
+Status DiagramPage::open_file(const QString& path) {
+    auto d = causal::read_diagram(path.toStdString());
+    if (!d) return d.error();
+    doc_->replace(*d);
+    if (doc_->crowded()) {
+        const QHash<QString, QPointF> pos = doc_->layout();
+        for (auto it = pos.begin(); it != pos.end(); ++it) doc_->move_node(it.key(), it.value());
+    }
+    undo_->clear();
+    refill_columns();
+    show_message({});
+    fit_view();
+    return Ok{};
+}
+
+Status DiagramPage::save_file(const QString& path) const { return causal::write_diagram(doc_->diagram(), path.toStdString()); }
+
+Status DiagramPage::export_dot(const QString& path) const {
+    QSaveFile f(path);
+    const std::string dot = causal::diagram_to_dot(doc_->diagram());
+    if (!f.open(QIODevice::WriteOnly) || f.write(dot.data(), qint64(dot.size())) != qint64(dot.size()) || !f.commit())
+        return make_error("could not write the DOT file", path.toStdString());
+    return Ok{};
+}
+
+void DiagramPage::open_dialog() {
+    const QString path = QFileDialog::getOpenFileName(this, tr("Open diagram"), QSettings().value("diagram/last_dir").toString(),
+                                                      tr("Diagrams (*.diagram.json *.json);;All files (*)"));
+    if (path.isEmpty()) return;
+    QSettings().setValue("diagram/last_dir", QFileInfo(path).absolutePath());
+    const Status st = open_file(path);
+    if (!st) QMessageBox::warning(this, tr("Open diagram"), QString::fromStdString(st.error().to_string()));
+}
+
+void DiagramPage::save_dialog() {
+    QString path = QFileDialog::getSaveFileName(this, tr("Save diagram"), QSettings().value("diagram/last_dir").toString(),
+                                                tr("Diagrams (*.diagram.json)"));
+    if (path.isEmpty()) return;
+    if (!path.endsWith(QLatin1String(".json"))) path += QStringLiteral(".diagram.json");
+    QSettings().setValue("diagram/last_dir", QFileInfo(path).absolutePath());
+    const Status st = save_file(path);
+    if (!st) QMessageBox::warning(this, tr("Save diagram"), QString::fromStdString(st.error().to_string()));
+}
+
+void DiagramPage::export_dot_dialog() {
+    QString path = QFileDialog::getSaveFileName(this, tr("Export diagram as DOT"), QSettings().value("diagram/last_dir").toString(),
+                                                tr("Graphviz DOT (*.dot *.gv)"));
+    if (path.isEmpty()) return;
+    if (QFileInfo(path).suffix().isEmpty()) path += QStringLiteral(".dot");
+    const Status st = export_dot(path);
+    if (!st) QMessageBox::warning(this, tr("Export DOT"), QString::fromStdString(st.error().to_string()));
 }
 
 void DiagramPage::fit_view() {
@@ -183,6 +242,12 @@ void DiagramPage::fit_view() {
 void DiagramPage::showEvent(QShowEvent* e) {
     QWidget::showEvent(e);
     fit_view();
+}
+
+void DiagramPage::refill_columns() {
+    columns_->clear();
+    for (const QString& c : data_columns_)
+        if (!doc_->node(c)) columns_->addItem(c);
 }
 
 QPointF DiagramPage::free_spot() const {
@@ -209,7 +274,6 @@ bool DiagramPage::add_observed(const QString& column) {
     }
     show_message({});
     undo_->push(new AddNodeCommand(doc_, DiagramNode{column, true, free_spot()}));
-    columns_->removeItem(columns_->findText(column));
     return true;
 }
 
@@ -240,10 +304,7 @@ void DiagramPage::delete_selected() {
     undo_->beginMacro(tr("delete"));
     for (const auto& e : edges)
         if (!nodes.contains(e.first) && !nodes.contains(e.second)) undo_->push(new RemoveEdgeCommand(doc_, e.first, e.second));
-    for (const QString& n : nodes) {
-        undo_->push(new RemoveNodeCommand(doc_, n));
-        if (!doc_->node(n) && n != doc_->exposure()) columns_->addItem(n);
-    }
+    for (const QString& n : nodes) undo_->push(new RemoveNodeCommand(doc_, n));
     undo_->endMacro();
     show_message({});
 }

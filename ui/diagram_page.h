@@ -4,6 +4,7 @@
 // sets, the view to quote and why. Every edit is undoable.
 #include <QWidget>
 
+#include "core/common/error.h"
 #include "ui/diagram_doc.h"
 
 class QComboBox;
@@ -45,6 +46,17 @@ public slots:
     void delete_selected();
     void auto_layout();
     void set_connect_mode(bool on);
+    /// Reads a NAME.diagram.json file into the editor (clears the undo history); Error names
+    /// the file and what is wrong. Crowded positions are tidied.
+    Status open_file(const QString& path);
+    /// Writes the diagram atomically as NAME.diagram.json.
+    Status save_file(const QString& path) const;
+    /// Writes the diagram as Graphviz DOT (atomically).
+    Status export_dot(const QString& path) const;
+    /// Asks for a file, then opens / saves / exports; errors go to a message box.
+    void open_dialog();
+    void save_dialog();
+    void export_dot_dialog();
     /// Shows the whole diagram at natural size, shrinking only when it does not fit.
     void fit_view();
 
@@ -58,6 +70,7 @@ private:
     void refresh_verdict();
     void show_message(const QString& text);
     QPointF free_spot() const;
+    void refill_columns();
 
     DiagramDoc* doc_;
     DiagramScene* scene_;
@@ -69,6 +82,7 @@ private:
     QLabel *verdict_label_, *message_;
     QSplitter* split_;
     DiagramVerdict verdict_;
+    QStringList data_columns_;
 };
 
 }  // namespace foldline::ui

@@ -3,6 +3,8 @@
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
+#include "core/scan/slope_scan.h"
+#include "core/stats/fdr.h"
 
 #include "ui/engine.h"
 
@@ -100,6 +102,157 @@ FindingView to_view(const RateFinding& r) {
     return f;
 }
 
+/// Up to this many points of a slope finding are drawn; more are thinned evenly.
+constexpr std::size_t kMaxPoints = 4000;
+
+FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<const Column*>& strata) {
+    FindingView f;
+    f.slope = true;
+    f.cls = sf.finding_class;
+    for (const auto& s : sf.strata) f.strata << qs(s);
+    f.focal = qs(sf.x);
+    f.reference = qs(sf.y);
+    f.effect_name = sf.linear_probability ? QObject::tr("slope (difference in probability)") : QObject::tr("slope");
+    f.adjusted_name = QObject::tr("within-stratum slope");
+    const bool adj = sf.adjusted;
+    f.crude = adj ? Estimate{sf.adjusted_pooled.slope, sf.adjusted_pooled.ci_low, sf.adjusted_pooled.ci_high}
+                  : Estimate{sf.pooled.slope, sf.pooled.ci_low, sf.pooled.ci_high};
+    f.adjusted = adj ? Estimate{sf.adjusted_within.slope, sf.adjusted_within.ci_low, sf.adjusted_within.ci_high}
+                     : Estimate{sf.within.slope, sf.within.ci_low, sf.within.ci_high};
+    f.p_value = sf.p_reversal;
+    f.q_value = sf.q_value;
+    f.stability = sf.stability_draws > 0 ? sf.stability : kNaN;
+    f.more = {
+        {QObject::tr("Pooled correlation r"),
+         QStringLiteral("%1 [%2, %3]").arg(num(sf.pooled.r), num(sf.pooled.r_ci_low), num(sf.pooled.r_ci_high)),
+         QObject::tr("Correlation of the two columns with every stratum pooled, with its 95% interval")},
+        {QObject::tr("Pooled slope, robust SE (HC3)"), num(sf.pooled.se_robust, 4),
+         QObject::tr("Standard error of the pooled slope that tolerates unequal spread (HC3)")},
+        {QObject::tr("Equal-slopes test p"), pval(sf.equal_slopes.p),
+         QObject::tr("F-test that every stratum has the same slope; small values mean the strata disagree")},
+        {QObject::tr("Reversal p / q"), pval(sf.p_reversal) + QStringLiteral(" / ") + pval(sf.q_value),
+         QObject::tr("Evidence that pooled and within slopes point opposite ways (intersection-union p) and its q-value")},
+        {QObject::tr("Observations used"), QString::number(sf.n, 'f', 0), QObject::tr("Rows with x, y and the strata present (weighted)")},
+    };
+    // Points and per-stratum centres for drawing: a line of known slope needs one point it
+    // passes through, and a least-squares line passes through the group's mean (x, y).
+    const Column* xc = t.column(sf.x);
+    const Column* yc = t.column(sf.y);
+    std::size_t groups = sf.groups.size();
+    std::vector<double> sx(groups, 0), sy(groups, 0), sn(groups, 0);
+    double px = 0, py = 0, pn = 0;
+    std::size_t usable = 0;
+    // Joint code of the strata → index of the finding's group, built once from the level labels.
+    std::vector<std::size_t> radix;
+    std::size_t combos = 1;
+    for (const Column* c : strata) {
+        radix.push_back(combos);
+        combos *= c->levels.size() + 1;
+    }
+    std::vector<int> group_at(combos, -1);
+    for (std::size_t k = 0; k < combos && !strata.empty(); ++k) {
+        std::vector<std::string> labels;
+        for (std::size_t s = 0; s < strata.size(); ++s) {
+            const std::size_t code = (k / radix[s]) % (strata[s]->levels.size() + 1);
+            labels.push_back(code < strata[s]->levels.size() ? strata[s]->levels[code] : std::string("(missing)"));
+        }
+        for (std::size_t g = 0; g < groups; ++g)
+            if (sf.groups[g].levels == labels) group_at[k] = int(g);
+    }
+    auto group_of = [&](std::size_t i) -> int {
+        if (strata.empty()) return -1;
+        std::size_t k = 0;
+        for (std::size_t s = 0; s < strata.size(); ++s) k += radix[s] * strata[s]->code(i);
+        return group_at[k];
+    };
+    if (xc && yc && xc->is_numeric() && yc->is_numeric()) {
+        for (std::size_t i = 0; i < t.rows; ++i)
+            if (!std::isnan(xc->values[i]) && !std::isnan(yc->values[i])) ++usable;
+        const std::size_t stride = std::max<std::size_t>(1, usable / kMaxPoints + (usable % kMaxPoints ? 1 : 0));
+        std::size_t k = 0;
+        for (std::size_t i = 0; i < t.rows; ++i) {
+            const double x = xc->values[i], y = yc->values[i];
+            if (std::isnan(x) || std::isnan(y)) continue;
+            const int g = group_of(i);
+            const double w = t.weight(i);
+            if (g >= 0) sx[std::size_t(g)] += w * x, sy[std::size_t(g)] += w * y, sn[std::size_t(g)] += w;
+            px += w * x, py += w * y, pn += w;
+            if (k++ % stride == 0) {
+                f.points.push_back({x, y});
+                f.point_stratum.push_back(g);
+            }
+        }
+        f.points_note = stride > 1 ? QObject::tr("%L1 of %L2 points drawn (1 row in %3); the lines are fitted to every row")
+                                         .arg(qulonglong(f.points.size())).arg(qulonglong(usable)).arg(stride)
+                                   : QObject::tr("all %L1 points drawn").arg(qulonglong(usable));
+    }
+    if (pn > 0 && std::isfinite(f.crude.value)) f.pooled_intercept = py / pn - f.crude.value * px / pn;
+    for (std::size_t g = 0; g < groups; ++g) {
+        const SlopeGroup& sg = sf.groups[g];
+        SlopeRow r;
+        r.level = qs(sg.level);
+        r.n = sg.n;
+        r.slope = {sg.slope, sg.ci_low, sg.ci_high};
+        if (sn[g] > 0 && std::isfinite(sg.slope)) r.intercept = sy[g] / sn[g] - sg.slope * sx[g] / sn[g];
+        f.slope_rows.push_back(std::move(r));
+    }
+    return f;
+}
+
+Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
+                                   const std::function<void(FindingView)>& on_provisional) {
+    SlopeQuestion sq;
+    sq.x = q.exposure.toStdString();
+    sq.y = q.outcome.toStdString();
+    sq.alpha = q.alpha;
+    sq.bootstrap = q.bootstrap;
+    sq.seed = q.seed;
+    CandidateOptions copts;
+    copts.bins = q.bins;
+    for (const QString& c : q.candidates) copts.columns.push_back(c.toStdString());
+    auto candidates = select_candidates(t, {sq.x, sq.y}, copts, nullptr);
+    if (!candidates) return candidates.error();
+    std::vector<const Column*> cols;
+    for (const Candidate& c : candidates->candidates) cols.push_back(c.column);
+    auto findings = scan_slopes(t, sq, cols, q.pairs, work);
+    ScanOutcome out;
+    if (!findings) {
+        if (work.cancelled()) {
+            out.cancelled = true;
+            return out;
+        }
+        return findings.error();
+    }
+    // Benjamini-Hochberg over the scan, then each class re-decided with its q-value.
+    std::vector<double> p;
+    for (const SlopeFinding& f : *findings) p.push_back(std::isfinite(f.p_reversal) ? f.p_reversal : 1.0);
+    const std::vector<double> qv = stats::benjamini_hochberg(p);
+    for (std::size_t i = 0; i < findings->size(); ++i) {
+        (*findings)[i].q_value = qv[i];
+        classify((*findings)[i], q.alpha);
+    }
+    std::vector<std::size_t> order(findings->size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+        const auto& fa = (*findings)[a];
+        const auto& fb = (*findings)[b];
+        if (fa.finding_class != fb.finding_class) return rank(fa.finding_class) < rank(fb.finding_class);
+        return fa.q_value < fb.q_value;
+    });
+    for (std::size_t i : order) {
+        const SlopeFinding& f = (*findings)[i];
+        std::vector<const Column*> strata;
+        for (const auto& name : f.strata)
+            for (const Candidate& c : candidates->candidates)
+                if (c.name == name) strata.push_back(c.column);
+        FindingView v = to_view(f, t, strata);
+        if (on_provisional) on_provisional(v);
+        out.findings.push_back(std::move(v));
+    }
+    for (const Exclusion& e : candidates->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
+    return out;
+}
+
 }  // namespace
 
 bool reader_available() { return true; }
@@ -122,15 +275,18 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     if (!q.exposure.isEmpty()) skip.push_back(q.exposure.toStdString());
     CandidateOptions opts;
     opts.bins = q.bins;
-    auto set = select_candidates(t, skip, opts, t.column(q.exposure.toStdString()));
+    auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
     if (!set) return out;
     for (const Column& c : t.columns) {
         const std::string& name = c.name;
-        CandidateView v{qs(name), false, {}};
+        CandidateView v{qs(name), false, {}, {}};
         if (std::find(skip.begin(), skip.end(), name) != skip.end()) {
             v.reason = qs(name) == q.outcome ? QObject::tr("the outcome") : QObject::tr("the compared groups");
-        } else if (std::any_of(set->candidates.begin(), set->candidates.end(), [&](const Candidate& k) { return k.name == name; })) {
+        } else if (auto it = std::find_if(set->candidates.begin(), set->candidates.end(),
+                                          [&](const Candidate& k) { return k.name == name; });
+                   it != set->candidates.end()) {
             v.usable = true;
+            v.origin = qs(it->origin);
         } else {
             for (const Exclusion& e : set->excluded)
                 if (e.column == name) v.reason = qs(e.reason);
@@ -143,6 +299,18 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
 
 QStringList check_question(const Table& t, const QuestionSpec& q) {
     QStringList problems;
+    if (q.slope) {
+        const Column* x = t.column(q.exposure.toStdString());
+        const Column* y = t.column(q.outcome.toStdString());
+        if (!y) problems << QObject::tr("Choose the numeric outcome (y).");
+        else if (!y->is_numeric()) problems << QObject::tr("The outcome \"%1\" is not numeric; a trend needs numbers.").arg(q.outcome);
+        if (!x) problems << QObject::tr("Choose the numeric exposure (x).");
+        else if (!x->is_numeric()) problems << QObject::tr("The exposure \"%1\" is not numeric; a trend needs numbers.").arg(q.exposure);
+        if (x && x == y) problems << QObject::tr("The outcome and the exposure must be different columns.");
+        if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
+        if (q.alpha <= 0 || q.alpha >= 0.5) problems << QObject::tr("Alpha must lie between 0 and 0.5.");
+        return problems;
+    }
     if (q.outcome.isEmpty()) problems << QObject::tr("Choose the outcome column.");
     if (q.exposure.isEmpty()) problems << QObject::tr("Choose the column that holds the compared groups.");
     if (!problems.isEmpty()) return problems;
@@ -159,6 +327,7 @@ bool scan_available() { return true; }
 
 Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
                              const std::function<void(FindingView)>& on_provisional) {
+    if (q.slope) return run_slope_scan(t, q, work, on_provisional);
     auto question = resolve_question(t, core_spec(q));
     if (!question) return question.error();
     CandidateOptions copts;

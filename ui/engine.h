@@ -29,6 +29,8 @@ bool reader_available();
 Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work);
 
 struct QuestionSpec {
+    bool slope = false;             ///< false: rates of a binary outcome between two groups;
+                                    ///< true: trend of numeric `outcome` (y) on numeric `exposure` (x)
     QString outcome, positive;      ///< binary outcome and its positive level
     QString exposure, focal, reference;
     QStringList candidates;         ///< chosen stratifiers
@@ -44,6 +46,7 @@ struct CandidateView {
     QString column;
     bool usable = true;
     QString reason;
+    QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
 };
 
 /// Columns that could stratify the question, each with the reason any is left out.

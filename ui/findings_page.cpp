@@ -357,7 +357,11 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
 void FindingsPage::fill_slope_tables(const FindingView& f) {
     pooled_->clear();
     set_headers(pooled_, {tr("Estimate"), tr("Value [95% CI]")}, {});
-    pooled_->setRowCount(2);
+    pooled_->setRowCount(2 + int(f.more.size()));
+    for (int i = 0; i < int(f.more.size()); ++i) {
+        put(pooled_, 2 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
+        put(pooled_, 2 + i, 1, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
+    }
     put(pooled_, 0, 0, tr("Pooled slope"));
     put(pooled_, 0, 1, format_estimate(f.crude), false, tr("Slope of the line fitted to all points together"));
     put(pooled_, 1, 0, f.adjusted_name.isEmpty() ? tr("Within-stratum slope") : f.adjusted_name);

@@ -247,6 +247,19 @@ void MainWindow::build_menus() {
             &QAction::triggered, findings_, &FindingsPage::save_chart);
 
     QMenu* diagram = menuBar()->addMenu(tr("&Diagram"));
+    connect(add(diagram, make_action("action_open_diagram", tr("&Open diagram…"), QKeySequence(tr("Ctrl+Shift+O")),
+                                     tr("Read a diagram file (NAME.diagram.json) into the editor"))),
+            &QAction::triggered, this, [this] {
+                go_to(Diagram);
+                diagram_->open_dialog();
+            });
+    connect(add(diagram, make_action("action_save_diagram", tr("&Save diagram as…"), QKeySequence(tr("Ctrl+Alt+S")),
+                                     tr("Write the diagram as NAME.diagram.json"))),
+            &QAction::triggered, diagram_, &DiagramPage::save_dialog);
+    connect(add(diagram, make_action("action_export_dot", tr("Export as &DOT…"), QKeySequence(tr("Ctrl+Alt+D")),
+                                     tr("Write the diagram in Graphviz DOT for other drawing tools"))),
+            &QAction::triggered, diagram_, &DiagramPage::export_dot_dialog);
+    diagram->addSeparator();
     QAction* draw = make_action("action_draw_arrows", tr("&Draw arrows"), QKeySequence(tr("Ctrl+D")),
                                 tr("Drag from node to node to draw an arrow"));
     draw->setCheckable(true);

@@ -26,7 +26,10 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     auto esc = [](const QString& s) { return s.toHtmlEscaped(); };
     QString h = tr("<h2>Audit memo (preview)</h2><p>%1</p>").arg(QDateTime::currentDateTime().toString(Qt::ISODate));
     h += tr("<p><b>Data:</b> %1</p>").arg(source.isEmpty() ? tr("none yet") : esc(source));
-    if (q && !q->outcome.isEmpty())
+    if (q && q->slope)
+        h += tr("<p><b>Question:</b> does <i>%1</i> rise or fall with <i>%2</i>, and does the answer change within "
+                "strata of %3?</p>").arg(esc(q->outcome), esc(q->exposure), esc(q->candidates.join(QStringLiteral(", "))));
+    else if (q && !q->outcome.isEmpty())
         h += tr("<p><b>Question:</b> is the rate of <i>%1 = %2</i> different for <i>%3</i> than for <i>%4</i> "
                 "(column <i>%5</i>), and does the answer change within strata of %6?</p>")
                  .arg(esc(q->outcome), esc(q->positive), esc(q->focal), esc(q->reference), esc(q->exposure),

@@ -9,6 +9,7 @@
 #include <QLabel>
 #include <QListWidget>
 #include <QPushButton>
+#include <QRadioButton>
 #include <QSpinBox>
 #include <QVBoxLayout>
 
@@ -48,8 +49,17 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     reference_->setObjectName(QStringLiteral("reference"));
     reference_->setToolTip(tr("The group the focal group is compared with (by default the largest)"));
 
+    rates_ = new QRadioButton(tr("Rates: a yes/no outcome between two groups"));
+    rates_->setObjectName(QStringLiteral("kind_rates"));
+    rates_->setChecked(true);
+    slopes_ = new QRadioButton(tr("Trend: a numeric outcome against a numeric exposure"));
+    slopes_->setObjectName(QStringLiteral("kind_slopes"));
+    slopes_->setToolTip(tr("Is the slope of the outcome on the exposure different within strata than pooled?"));
+    connect(slopes_, &QRadioButton::toggled, this, [this](bool on) { set_kind(on); });
     auto* who = new QGroupBox(tr("What is compared"));
-    auto* f = new QFormLayout(who);
+    auto* f = who_form_ = new QFormLayout(who);
+    f->addRow(rates_);
+    f->addRow(slopes_);
     f->addRow(tr("Outcome"), outcome_);
     f->addRow(tr("Counts as positive"), positive_);
     f->addRow(tr("Groups column"), exposure_);
@@ -191,36 +201,76 @@ void QuestionPage::set_table(std::shared_ptr<const Table> table) {
     focal_->clear();
     reference_->clear();
     if (table_) {
-        QString first_binary, group_guess;
-        for (const Column& c : table_->columns) {
-            const QString name = QString::fromStdString(c.name);
-            if (c.is_binary()) outcome_->addItem(name);
-            if (c.is_categorical() && c.levels.size() >= 2) exposure_->addItem(name);
+        bool has_binary = false;
+        for (const Column& c : table_->columns) has_binary = has_binary || c.is_binary();
+        filling_ = false;
+        if (!has_binary && !slopes_->isChecked()) slopes_->setChecked(true);  // calls fill_columns
+        else fill_columns();
+    }
+    filling_ = false;
+    refresh_candidates();
+    validate();
+}
+
+void QuestionPage::set_kind(bool slope) {
+    who_form_->setRowVisible(positive_, !slope);
+    who_form_->setRowVisible(focal_, !slope);
+    who_form_->setRowVisible(reference_, !slope);
+    who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : tr("Outcome"));
+    who_form_->labelForField(exposure_)->setProperty("text", slope ? tr("Exposure (x)") : tr("Groups column"));
+    fill_columns();
+}
+
+void QuestionPage::fill_columns() {
+    filling_ = true;
+    outcome_->clear();
+    exposure_->clear();
+    positive_->clear();
+    focal_->clear();
+    reference_->clear();
+    if (!table_) {
+        filling_ = false;
+        return;
+    }
+    const bool slope = slopes_->isChecked();
+    QString outcome_guess, group_guess;
+    for (const Column& c : table_->columns) {
+        const QString name = QString::fromStdString(c.name);
+        if (slope) {
+            if (c.is_numeric()) outcome_->addItem(name), exposure_->addItem(name);
+            continue;
         }
+        if (c.is_binary()) outcome_->addItem(name);
+        if (c.is_categorical() && c.levels.size() >= 2) exposure_->addItem(name);
+    }
+    if (slope) {
+        // Default: the last numeric column as y, the first other one as x.
+        if (outcome_->count()) outcome_guess = outcome_->itemText(outcome_->count() - 1);
+        for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i)
+            if (exposure_->itemText(i) != outcome_guess) group_guess = exposure_->itemText(i);
+    } else {
         // Default outcome: a binary column with a positive-looking level, else the last one.
         for (int i = 0; i < outcome_->count(); ++i) {
             const Column* c = table_->column(outcome_->itemText(i).toStdString());
-            bool pos = false;
+            bool pos = c->is_numeric();
             for (const auto& l : c->levels) pos = pos || looks_positive(QString::fromStdString(l));
-            if (c->is_numeric()) pos = true;
-            if (pos) first_binary = outcome_->itemText(i);
+            if (pos) outcome_guess = outcome_->itemText(i);
         }
-        if (first_binary.isEmpty() && outcome_->count()) first_binary = outcome_->itemText(outcome_->count() - 1);
+        if (outcome_guess.isEmpty() && outcome_->count()) outcome_guess = outcome_->itemText(outcome_->count() - 1);
         for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i) {
             const QString n = exposure_->itemText(i).toLower();
-            if (n != first_binary.toLower() && (n.contains("group") || n.contains("sex") || n.contains("gender") ||
-                                                 n.contains("arm") || n.contains("cohort")))
+            if (n != outcome_guess.toLower() && (n.contains("group") || n.contains("sex") || n.contains("gender") ||
+                                                  n.contains("arm") || n.contains("cohort") || n.contains("treatment")))
                 group_guess = exposure_->itemText(i);
         }
         for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i)
-            if (exposure_->itemText(i) != first_binary) group_guess = exposure_->itemText(i);
-        outcome_->setCurrentIndex(-1);
-        exposure_->setCurrentIndex(-1);
-        filling_ = false;
-        outcome_->setCurrentText(first_binary);
-        exposure_->setCurrentText(group_guess);
+            if (exposure_->itemText(i) != outcome_guess) group_guess = exposure_->itemText(i);
     }
+    outcome_->setCurrentIndex(-1);
+    exposure_->setCurrentIndex(-1);
     filling_ = false;
+    outcome_->setCurrentText(outcome_guess);
+    exposure_->setCurrentText(group_guess);
     refresh_candidates();
     validate();
 }
@@ -234,10 +284,16 @@ void QuestionPage::refresh_candidates() {
     candidates_->clear();
     if (table_) {
         QuestionSpec q;
+        q.slope = slopes_->isChecked();
         q.outcome = outcome_->currentText();
         q.exposure = exposure_->currentText();
-        for (const CandidateView& c : propose_candidates(*table_, q)) {
-            auto* item = new QListWidgetItem(c.usable ? c.column : tr("%1 — left out: %2").arg(c.column, c.reason));
+        q.bins = bins_->value();
+        std::vector<CandidateView> all = propose_candidates(*table_, q);
+        std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
+        for (const CandidateView& c : all) {
+            const QString shown = c.origin.isEmpty() || c.origin == QLatin1String("categorical")
+                                      ? c.column : tr("%1  (%2)").arg(c.column, c.origin);
+            auto* item = new QListWidgetItem(c.usable ? shown : tr("%1 — left out: %2").arg(c.column, c.reason));
             item->setData(Qt::UserRole, c.column);
             if (c.usable) {
                 item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsUserCheckable | Qt::ItemIsSelectable);
@@ -254,11 +310,12 @@ void QuestionPage::refresh_candidates() {
 
 QuestionSpec QuestionPage::spec() const {
     QuestionSpec q;
+    q.slope = slopes_->isChecked();
     q.outcome = outcome_->currentText();
-    q.positive = positive_->currentText();
+    q.positive = q.slope ? QString() : positive_->currentText();
     q.exposure = exposure_->currentText();
-    q.focal = focal_->currentText();
-    q.reference = reference_->currentText();
+    q.focal = q.slope ? QString() : focal_->currentText();
+    q.reference = q.slope ? QString() : reference_->currentText();
     for (int i = 0; i < candidates_->count(); ++i)
         if (candidates_->item(i)->checkState() == Qt::Checked) q.candidates << candidates_->item(i)->data(Qt::UserRole).toString();
     q.pairs = pairs_->isChecked();
@@ -270,6 +327,7 @@ QuestionSpec QuestionPage::spec() const {
 }
 
 void QuestionPage::set_spec(const QuestionSpec& q) {
+    if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
     outcome_->setCurrentText(q.outcome);
     positive_->setCurrentText(q.positive);
     exposure_->setCurrentText(q.exposure);

@@ -9,6 +9,8 @@
 #include "ui/engine.h"
 
 class QCheckBox;
+class QFormLayout;
+class QRadioButton;
 class QComboBox;
 class QDoubleSpinBox;
 class QLabel;
@@ -40,9 +42,13 @@ private:
     void fill_levels(QComboBox* box, const QString& column);
     void refresh_candidates();
     void validate();
+    void fill_columns();
+    void set_kind(bool slope);
 
     std::shared_ptr<const Table> table_;
     QComboBox *outcome_, *positive_, *exposure_, *focal_, *reference_;
+    QRadioButton *rates_, *slopes_;
+    QFormLayout* who_form_;
     QListWidget* candidates_;
     QCheckBox* pairs_;
     QSpinBox *bins_, *bootstrap_, *seed_;

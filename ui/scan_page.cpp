@@ -111,6 +111,12 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q) 
         inbox_.clear();
     }
     table_ = std::move(table);
+    if (q.slope)
+        question_->setText(tr("Trend of <b>%1</b> on <b>%2</b>, pooled and within strata of %3 candidate(s)%4.")
+                               .arg(q.outcome.toHtmlEscaped(), q.exposure.toHtmlEscaped())
+                               .arg(q.candidates.size())
+                               .arg(q.pairs ? tr(" and their pairs") : QString()));
+    else
     question_->setText(tr("Rate of <b>%1 = %2</b> for <b>%3</b> against <b>%4</b> (column %5), stratified by %6 candidate(s)%7.")
                            .arg(q.outcome.toHtmlEscaped(), q.positive.toHtmlEscaped(), q.focal.toHtmlEscaped(),
                                 q.reference.toHtmlEscaped(), q.exposure.toHtmlEscaped())

@@ -2,11 +2,19 @@
 
 #include <QApplication>
 #include <QCommandLineParser>
+#include <QDir>
+#include <QIcon>
+#include <QTabWidget>
 #include <QTimer>
 #include <cstdio>
 
 #include "ui/demo.h"
+#include "ui/findings_page.h"
 #include "ui/main_window.h"
+
+// The resources live in a static library: register them before first use. Outside any
+// namespace, as Q_INIT_RESOURCE requires.
+static void init_foldline_resources() { Q_INIT_RESOURCE(foldline); }
 
 namespace foldline::ui {
 
@@ -15,6 +23,8 @@ int run_workbench(int argc, char** argv) {
     QApplication::setApplicationName(QStringLiteral("Foldline"));
     QApplication::setOrganizationName(QStringLiteral("Foldline"));
     QApplication::setApplicationVersion(QStringLiteral("0.1.0"));
+    init_foldline_resources();
+    QApplication::setWindowIcon(QIcon(QStringLiteral(":/foldline/icon.svg")));
 
     QCommandLineParser parser;
     parser.setApplicationDescription(QStringLiteral("Foldline workbench"));
@@ -51,7 +61,17 @@ int run_workbench(int argc, char** argv) {
         window.show();
         const QString err = prepare_demo(window);
         if (!err.isEmpty()) std::fprintf(stderr, "foldline: demo: %s\n", qPrintable(err));
-        const int n = save_screenshots(window, parser.value(shots));
+        int n = save_screenshots(window, parser.value(shots));
+        // A trend audit too: the scatter with pooled and within-stratum lines.
+        const QString slope_err = prepare_slope_demo(window);
+        if (!slope_err.isEmpty()) std::fprintf(stderr, "foldline: trend demo: %s\n", qPrintable(slope_err));
+        else {
+            QApplication::processEvents();
+            if (window.grab().save(QDir(parser.value(shots)).absoluteFilePath(QStringLiteral("08-trend-findings.png")))) ++n;
+            window.findings_page()->chart_tabs()->setCurrentIndex(4);
+            QApplication::processEvents();
+            if (window.grab().save(QDir(parser.value(shots)).absoluteFilePath(QStringLiteral("09-trend-per-stratum.png")))) ++n;
+        }
         std::printf("foldline: wrote %d screenshots to %s\n", n, qPrintable(parser.value(shots)));
         return n > 0 ? 0 : 1;
     }

@@ -18,6 +18,7 @@
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
+#include "core/scan/slope_scan.h"
 
 namespace foldline::cli {
 namespace {
@@ -51,9 +52,11 @@ std::string pct(double x) { return std::isfinite(x) ? fmt(100 * x, "%.1f%%") : "
 void print_summary(std::ostream& os, const ScanResult& r, const std::string& path, std::size_t top) {
     const auto& q = r.question;
     os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows\n";
-    os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
-    for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
-    os << " against " << q.reference << "\n";
+    if (!q.outcome.empty()) {
+        os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
+        for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
+        os << " against " << q.reference << "\n";
+    }
     os << "Stratifiers (" << r.candidates.size() << "):";
     for (std::size_t i = 0; i < r.candidates.size(); ++i) os << (i ? ", " : " ") << r.candidates[i];
     os << "\n";
@@ -65,6 +68,8 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     }
     int counts[5] = {0, 0, 0, 0, 0};
     for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
+    char line[512];
+    if (!q.outcome.empty()) {
     os << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
        << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable"
        << " (FDR " << r.alpha << ")\n";
@@ -74,7 +79,6 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
            << pct(f0.crude.rate_reference) << " (on the rows of the first finding)\n";
     }
     os << "\n";
-    char line[512];
     std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n", "class", "strata", "crude RD",
                   "MH RD", "std RD", "MH OR (CI)", "q", "stab.");
     os << line;
@@ -98,6 +102,31 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     if (shown == 0) os << "(no comparison changes under stratification)\n";
     const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
     if (flagged > shown) os << "... " << flagged - shown << " more flagged (see the JSON)\n";
+    }
+    if (!r.slope_findings.empty()) {
+        int sc[5] = {0, 0, 0, 0, 0};
+        for (const auto& f : r.slope_findings) ++sc[rank(f.finding_class)];
+        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x << ": " << r.slope_findings.size()
+           << " checks: " << sc[0] << " reversal, " << sc[1] << " explained, " << sc[2] << " masked, " << sc[3]
+           << " heterogeneous, " << sc[4] << " stable\n";
+        std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n", "class", "strata", "pooled",
+                      "within", "q", "stab.");
+        os << line;
+        std::size_t n = 0;
+        for (const auto& f : r.slope_findings) {
+            if (f.finding_class == FindingClass::Stable || n >= top) continue;
+            ++n;
+            std::string label;
+            for (std::size_t i = 0; i < f.strata.size(); ++i) label += (i ? " \u00d7 " : "") + f.strata[i];
+            std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
+                          std::string(to_string(f.finding_class)).c_str(), label.c_str(),
+                          fmt(f.pooled.slope, "%+.4g").c_str(), fmt(f.within.slope, "%+.4g").c_str(),
+                          fmt(f.q_value, "%.2g").c_str(),
+                          f.stability_draws > 0 ? fmt(f.stability, "%.2f").c_str() : "-");
+            os << line;
+        }
+        if (n == 0) os << "(no slope changes under stratification)\n";
+    }
     if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
     os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
           "counsel and licensed practice.\n";
@@ -113,6 +142,7 @@ int run(int argc, char** argv) {
         {"json", true, "FILE|-"},            {"threads", true, "N"},
         {"top", true, "N"},                  {"delimiter", true, "CHAR"},
         {"timings", false, ""},              {"help", false, ""},
+        {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
     };
     Args a;
@@ -121,7 +151,10 @@ int run(int argc, char** argv) {
         std::cout << "foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
                      "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
-                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n";
+                     "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
+                     "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
+                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
+                     "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
         return kOk;
     }
     if (a.positional().size() != 1) return fail(kName, kUsage, "expected one DATA file (CSV or TSV)");
@@ -177,21 +210,77 @@ int run(int argc, char** argv) {
     if (!digest) return fail(kName, kInput, digest.error().to_string());
     const auto t1 = clock::now();
 
-    // Both outcome and exposure numeric with many values asks for slopes, not rates.
+    // Slope checks: a numeric outcome on a numeric exposure (with many values) is a slope
+    // question; --trend X:Y adds slope checks of Y on X to a rate scan.
     const Column* oc = table->column(spec.outcome);
     const Column* ec = table->column(spec.exposure);
-    if (oc && ec && oc->is_numeric() && ec->is_numeric() && !spec.positive &&
-        ec->distinct_count() > copt.max_levels)
-        return fail(kName, kUsage, "outcome and exposure are both numeric: that is a slope question, which this "
-                                   "build's scan does not answer yet");
+    const bool slope_only = oc && ec && oc->is_numeric() && ec->is_numeric() && !spec.positive &&
+                            ec->distinct_count() > copt.max_levels;
+    SlopeQuestion sq;
+    sq.alpha = sopt.alpha;
+    // Slope stability resamples rows (cost grows with the row count), so it is opt-in.
+    double slope_boot = 0;
+    if (!number("slope-bootstrap", 0, 1e6, slope_boot))
+        return fail(kName, kUsage, "--slope-bootstrap needs a whole number >= 0");
+    sq.bootstrap = static_cast<int>(slope_boot);
+    sq.seed = sopt.seed;
+    if (slope_only) {
+        sq.x = spec.exposure;
+        sq.y = spec.outcome;
+    } else if (a.has("trend")) {
+        const std::string t = *a.get("trend");
+        const auto colon = t.find(':');
+        if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
+        sq.x = t.substr(0, colon);
+        sq.y = t.substr(colon + 1);
+        for (const auto& c : {sq.x, sq.y}) {
+            const Column* col = table->column(c);
+            if (!col) return fail(kName, kUsage, "--trend column '" + c + "' not found");
+            if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
+        }
+    }
+    // A slope-only scan honours --pairs; --trend checks each single stratifier.
+    auto slope_checks = [&](const CandidateSet& cs) -> Result<std::vector<SlopeFinding>> {
+        if (sq.x.empty()) return std::vector<SlopeFinding>{};
+        std::vector<const Column*> cols;
+        for (const auto& c : cs.candidates)
+            if (c.name != sq.x && c.name != sq.y) cols.push_back(c.column);
+        return scan_slopes(*table, sq, cols, slope_only && sopt.pairs);
+    };
 
-    auto q = resolve_question(*table, spec);
-    if (!q) return fail(kName, kUsage, q.error().to_string());
-    auto cands = select_candidates(*table, {spec.outcome, spec.exposure}, copt, ec);
-    if (!cands) return fail(kName, kUsage, cands.error().to_string());
-    if (cands->candidates.empty()) return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
-    auto result = rate_scan(*table, *q, *cands, sopt);
-    if (!result) return fail(kName, kInternal, result.error().to_string());
+    Result<ScanResult> result = make_error("not run");
+    if (slope_only) {
+        auto cands = select_candidates(*table, {sq.x, sq.y}, copt, nullptr);
+        if (!cands) return fail(kName, kUsage, cands.error().to_string());
+        auto slopes = slope_checks(*cands);
+        if (!slopes) return fail(kName, kInput, slopes.error().to_string());
+        ScanResult r;
+        r.slope_question = sq;
+        r.excluded = cands->excluded;
+        for (const auto& c : cands->candidates) {
+            r.candidates.push_back(c.name);
+            r.candidate_origin.push_back(c.origin);
+        }
+        r.rows = table->total_weight();
+        r.alpha = sopt.alpha;
+        r.bootstrap = sopt.bootstrap;
+        r.seed = sopt.seed;
+        r.slope_findings = std::move(*slopes);
+        apply_fdr(r);
+        rank_findings(r);
+        result = std::move(r);
+    } else {
+        auto q = resolve_question(*table, spec);
+        if (!q) return fail(kName, kUsage, q.error().to_string());
+        auto cands = select_candidates(*table, {spec.outcome, spec.exposure}, copt, ec);
+        if (!cands) return fail(kName, kUsage, cands.error().to_string());
+        if (cands->candidates.empty()) return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
+        auto slopes = slope_checks(*cands);
+        if (!slopes) return fail(kName, kInput, slopes.error().to_string());
+        result = rate_scan(*table, *q, *cands, sopt, {}, {}, std::move(*slopes));
+        if (!result) return fail(kName, kInternal, result.error().to_string());
+        if (!sq.x.empty()) result->slope_question = sq;
+    }
     const auto t2 = clock::now();
 
     DataInfo info{path, *digest, static_cast<double>(table->rows)};

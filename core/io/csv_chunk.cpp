@@ -135,7 +135,7 @@ void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work) {
     };
 
     // One cell of column c in the current row; false (with chunk.error set) on bad input.
-    auto process = [&](std::size_t c, const CsvField& f) -> bool {
+    auto process = [&](std::size_t c, const CsvField& f) __attribute__((always_inline)) -> bool {
         ChunkColumn& col = chunk.cols[c];
         if (col.categorical) {
             const std::size_t before = col.dict.size();

@@ -18,7 +18,7 @@ std::uint64_t LevelDictionary::long_tail(const char* p, std::size_t n) {
     return mix(load64(p + n - 8) ^ 0x8EBC6AF09C88C6E3ull, seed ^ n);
 }
 
-LevelDictionary::LevelDictionary() : slots_(16), mask_(15) {}
+LevelDictionary::LevelDictionary() : slots_(64), mask_(63) {}
 
 void LevelDictionary::grow() {
     std::vector<Slot> slots(slots_.size() * 2);
@@ -42,7 +42,9 @@ std::uint32_t LevelDictionary::insert(std::uint64_t slot, std::string_view text,
     }
     levels_.push_back(text);
     slots_[slot] = Slot{a, b, static_cast<std::uint32_t>(text.size()), code + 1, h};
-    if (levels_.size() * 2 > slots_.size()) grow();
+    // Sparse while small (few collisions, so the per-cell probe rarely loops), denser when large.
+    const std::size_t spread = slots_.size() <= 4096 ? 8 : 2;
+    if (levels_.size() * spread > slots_.size()) grow();
     return code;
 }
 

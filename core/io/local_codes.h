@@ -14,7 +14,7 @@ public:
 
     /// Appends code (must be below the dictionary size); widens when it does not fit. A new
     /// LocalCodes is one byte wide and empty.
-    void push(std::uint32_t code) {
+    [[gnu::always_inline]] void push(std::uint32_t code) {
         if (width_ == 1) {
             if (code < 0xFFu) {
                 c8_.push_back(static_cast<std::uint8_t>(code));
@@ -57,7 +57,7 @@ public:
     }
 
 private:
-    void widen() {
+    [[gnu::noinline]] void widen() {
         if (width_ == 1) {
             c16_.reserve(c8_.capacity());
             for (auto c : c8_) c16_.push_back(c == 0xFFu ? 0xFFFFu : c);

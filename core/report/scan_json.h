@@ -19,13 +19,19 @@ struct DataInfo {
 
 inline constexpr int kScanJsonVersion = 1;
 
-/// The whole document. An empty result gives a document with empty lists.
+/// The whole document: "findings" lists the rate findings (kind "rate", ranked) and then the
+/// slope findings (kind "slope", ranked; core/report/slope_json.h). An empty result gives a
+/// document with empty lists.
 nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
 
 /// One finding as it appears in "findings".
 nlohmann::json rate_finding_to_json(const RateFinding& f);
 
-/// scan_to_json(...).dump(1): one key per line, compact enough to diff.
+/// The "summary" object alone (counts by class, reversals); zero counts for an empty result.
+nlohmann::json scan_to_json_summary(const ScanResult& result);
+
+/// The same document as scan_to_json, as compact text with a final newline (rate findings are
+/// streamed rather than built as a tree: several times faster on large scans).
 std::string scan_json_text(const ScanResult& result, const DataInfo& data);
 
 }  // namespace foldline

@@ -110,4 +110,42 @@ json to_json(const LatentFinding& f) {
     return j;
 }
 
+json slope_scan_to_json(const SlopeScanResult& r, const DataInfo& data) {
+    json j;
+    j["version"] = kScanJsonVersion;
+    j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
+    const auto& q = r.question;
+    const bool lp = !r.findings.empty() && r.findings.front().linear_probability;
+    j["question"] = {{"kind", "slope"},
+                     {"outcome", q.y},
+                     {"exposure", q.x},
+                     {"covariates", q.covariates},
+                     {"linear_probability", lp}};
+    j["settings"] = {{"alpha", q.alpha}, {"bootstrap", q.bootstrap}, {"seed", q.seed}};
+    json cands = json::array();
+    for (std::size_t i = 0; i < r.candidates.size(); ++i)
+        cands.push_back({{"column", r.candidates[i]},
+                         {"origin", i < r.candidate_origin.size() ? r.candidate_origin[i] : ""}});
+    j["candidates"] = std::move(cands);
+    json ex = json::array();
+    for (const auto& e : r.excluded) ex.push_back({{"column", e.column}, {"reason", e.reason}});
+    j["excluded"] = std::move(ex);
+    json counts = json::object();
+    for (auto c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
+                   FindingClass::Heterogeneous, FindingClass::Stable})
+        counts[std::string(to_string(c))] = 0;
+    json reversals = json::array();
+    json findings = json::array();
+    for (const auto& f : r.findings) {
+        const std::string c(to_string(f.finding_class));
+        counts[c] = counts[c].get<int>() + 1;
+        if (f.reversal) reversals.push_back(f.strata);
+        findings.push_back(to_json(f));
+    }
+    if (r.latent) findings.push_back(to_json(*r.latent));
+    j["summary"] = {{"checks", r.findings.size()}, {"classes", counts}, {"reversals", reversals}};
+    j["findings"] = std::move(findings);
+    return j;
+}
+
 }  // namespace foldline

@@ -167,13 +167,20 @@ double class_stability(const stats::Strata& strata, FindingClass cls, double alp
 
 void apply_fdr(ScanResult& r) {
     std::vector<double> p;
-    p.reserve(r.rate_findings.size());
+    p.reserve(r.rate_findings.size() + r.slope_findings.size());
     for (const auto& f : r.rate_findings) p.push_back(f.p_reversal);
+    for (const auto& f : r.slope_findings) p.push_back(f.p_reversal);
     const auto q = stats::benjamini_hochberg(p);
-    for (std::size_t i = 0; i < q.size(); ++i) {
+    const std::size_t nr = r.rate_findings.size();
+    for (std::size_t i = 0; i < nr; ++i) {
         auto& f = r.rate_findings[i];
         f.q_value = std::isnan(q[i]) ? 1.0 : q[i];
         f.cls = classify(f.class_inputs, f.q_value, r.alpha);
+    }
+    for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
+        auto& f = r.slope_findings[i];
+        f.q_value = q[nr + i];
+        classify(f, r.alpha);
     }
 }
 
@@ -185,10 +192,23 @@ void rank_findings(ScanResult& r) {
         if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
         return a.label() < b.label();
     });
+    auto change = [](const SlopeFinding& f) {
+        const double c = std::fabs(f.pooled.slope - f.within.slope);
+        return std::isnan(c) ? 0.0 : c;
+    };
+    auto qv = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
+    std::stable_sort(r.slope_findings.begin(), r.slope_findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
+        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
+        if (qv(a) != qv(b)) return qv(a) < qv(b);
+        if (change(a) != change(b)) return change(a) > change(b);
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return a.strata < b.strata;
+    });
 }
 
 Result<ScanResult> rate_scan(const Table& table, const Question& q, const CandidateSet& cands,
-                             const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding) {
+                             const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding,
+                             std::vector<SlopeFinding> slope_findings) {
     if (q.outcome_column >= table.columns.size() || q.exposure_column >= table.columns.size() ||
         table.columns[q.exposure_column].name != q.exposure)
         return make_error("the question does not belong to this table");
@@ -285,6 +305,7 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
             kept_strata.push_back(std::move(cube_strata[t * ncomp + comp]));
         }
     }
+    result.slope_findings = std::move(slope_findings);
     apply_fdr(result);
 
     // Stability of flagged findings: bootstrap the cube, in parallel, seeded per finding.

@@ -45,9 +45,11 @@ double class_stability(const stats::Strata& strata, FindingClass cls, double alp
 
 /// Runs the scan. The table, question and candidates must come from the same table. Errors
 /// only for inconsistent input (a question or candidate from another table). Findings come
-/// back FDR-adjusted, bootstrapped (flagged ones) and ranked.
+/// back FDR-adjusted, bootstrapped (flagged ones) and ranked. `slope_findings` (optional) are
+/// slope checks of the same scan: they join the FDR step and come back in the result.
 Result<ScanResult> rate_scan(const Table& table, const Question& question, const CandidateSet& candidates,
                              const RateScanOptions& options = {}, const Work& work = {},
-                             const RateFindingCallback& on_finding = {});
+                             const RateFindingCallback& on_finding = {},
+                             std::vector<SlopeFinding> slope_findings = {});
 
 }  // namespace foldline

@@ -1,12 +1,14 @@
 #pragma once
-// Everything one scan produced, in plain structs. Rate findings live here; slope findings are
-// added beside them by the slope scan, and apply_fdr/rank_findings then treat both kinds alike.
+// Everything one scan produced, in plain structs: rate findings and slope findings side by side;
+// apply_fdr controls the false discovery rate over both kinds together and rank_findings orders
+// each list.
 #include <string>
 #include <vector>
 
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_finding.h"
+#include "core/scan/slope_scan.h"
 
 namespace foldline {
 
@@ -17,18 +19,21 @@ struct ScanResult {
     std::vector<Exclusion> excluded;
     double rows = 0;                         ///< weighted rows in the table
     std::vector<RateFinding> rate_findings;  ///< ranked (see rank_findings)
+    std::vector<SlopeFinding> slope_findings;  ///< trend checks of the same scan, ranked
+    SlopeQuestion slope_question;            ///< what the slope findings answer (x, y empty if none)
     double alpha = 0.05;
     int bootstrap = 0;
     unsigned long long seed = 0;
     bool cancelled = false;                  ///< stopped early: findings are incomplete
 };
 
-/// BH q-values over every finding's p_reversal, then each class recomputed with its q-value.
-/// No-op on an empty result.
+/// BH q-values over every finding's p_reversal (rate and slope findings together; a NaN p gets
+/// no q-value and does not count), then each class recomputed with its q-value. No-op on an
+/// empty result.
 void apply_fdr(ScanResult& result);
 
-/// Orders findings by class (reversal first), then q-value, then size of the change (largest
-/// first), then label for a stable order.
+/// Orders each list by class (reversal first), then q-value, then size of the change (largest
+/// first: |crude RD - MH RD| for rates, |pooled - within slope| for slopes), then label.
 void rank_findings(ScanResult& result);
 
 }  // namespace foldline

@@ -1,5 +1,6 @@
 #include "core/scan/slope_scan.h"
 
+#include "core/stats/fdr.h"
 #include "core/stats/mixture.h"
 
 #include <algorithm>
@@ -11,7 +12,7 @@ namespace foldline {
 namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-constexpr std::size_t kMaxStrata = std::size_t{1} << 22;
+constexpr std::size_t kMaxStrata = std::size_t{1} << 20;
 const std::string kMissingLabel = "(missing)";
 
 // Rows of the scan in compact form: only rows with x, y and every covariate present and a
@@ -212,7 +213,7 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
     std::mt19937_64 rng(mix(q.seed ^ mix(name_hash(f.strata))));
     const Eigen::Index dim = static_cast<Eigen::Index>(d.p + 2);
     std::vector<double> z(d.p + 2);
-    int same = 0, draws = 0;
+    int draws = 0;
     for (int b = 0; b < q.bootstrap; ++b) {
         if (work.cancelled()) break;
         StratumMoments acc(strata);
@@ -260,10 +261,11 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
         const SlopeFinding r = figures(ms, d.p > 0 ? &mm : nullptr, pooled, d.p > 0 ? &pm : nullptr,
                                        kNaN, q.alpha);
         ++draws;
-        if (r.finding_class == f.finding_class) ++same;
+        ++f.draws_by_class[static_cast<std::size_t>(rank(r.finding_class))];
     }
     f.stability_draws = draws;
-    f.stability = draws > 0 ? static_cast<double>(same) / draws : 0.0;
+    f.stability = draws > 0 ? static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) / draws
+                            : 0.0;
 }
 
 struct Scan {
@@ -337,9 +339,10 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
     return f;
 }
 
-// All checks of a scan share one pass over the rows in chunks: each chunk of x and y stays in
-// cache while every check folds it into its own per-stratum sums, so the rows are read from
-// memory once rather than once per check. (With covariates each check runs on its own.)
+// The checks of a scan share passes over the rows in chunks: each chunk of x and y stays in
+// cache while every check of the batch folds it into its own per-stratum sums, so the rows are
+// read from memory once per batch rather than once per check. (With covariates each check
+// runs on its own.)
 template <typename T>
 Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<const Column*>& cands,
                                            bool pairs, const Work& work) {
@@ -360,44 +363,55 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
             return st.error();
     const double total = static_cast<double>(checks.size());
 
-    std::vector<std::vector<BivariateMoments>> moments(checks.size());
-    if (s.d.p == 0) {
-        std::vector<StratumMoments> acc;
-        acc.reserve(checks.size());
-        for (const auto& c : checks) {
-            const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
-            acc.emplace_back((cands[c.a]->levels.size() + 1) * kb);
-        }
-        const std::size_t n = s.d.x.size(), chunk = 16384;
-        const double* w = s.d.wptr();
-        for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
-            if (work.cancelled()) return make_error("cancelled");
-            const std::size_t len = std::min(chunk, n - i0);
-            for (std::size_t c = 0; c < checks.size(); ++c) {
-                const bool pair = checks[c].b != checks[c].a;
-                const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
-                acc[c].add_rows(codes[checks[c].a].data() + i0,
-                                pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
-                                kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
-            }
-            work.report(0.5 * total * static_cast<double>(i0 + len) / static_cast<double>(n), total,
-                        "slope checks");
-        }
-        for (std::size_t c = 0; c < checks.size(); ++c) moments[c] = acc[c].finish();
-    }
-
+    auto strata_of = [&](const Check& c) {
+        const std::size_t kb = c.b != c.a ? cands[c.b]->levels.size() + 1 : 1;
+        return (cands[c.a]->levels.size() + 1) * kb;
+    };
+    // Checks run in batches whose accumulators fit a memory budget; each batch reads the rows
+    // once, and its findings are built before the next batch starts.
+    constexpr std::size_t kBudgetBytes = std::size_t{64} << 20;
+    constexpr std::size_t kBytesPerStratum = 5 * 9 * sizeof(double);  // 4 lanes + the total
+    const std::size_t n = s.d.x.size(), chunk = 16384;
+    const double* w = s.d.wptr();
     std::vector<SlopeFinding> out;
     out.reserve(checks.size());
-    for (std::size_t c = 0; c < checks.size(); ++c) {
-        if (work.cancelled()) return make_error("cancelled");
-        const bool pair = checks[c].b != checks[c].a;
-        auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
-                              codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
-                              s.d.p == 0 ? &moments[c] : nullptr);
-        if (!r) return r.error();
-        out.push_back(std::move(r.value()));
-        work.report((s.d.p == 0 ? 0.5 * total : 0.0) + (s.d.p == 0 ? 0.5 : 1.0) * static_cast<double>(c + 1),
-                    total, "slope checks");
+    for (std::size_t c0 = 0; c0 < checks.size();) {
+        std::size_t c1 = c0 + 1, bytes = strata_of(checks[c0]) * kBytesPerStratum;
+        while (c1 < checks.size() && bytes + strata_of(checks[c1]) * kBytesPerStratum <= kBudgetBytes)
+            bytes += strata_of(checks[c1++]) * kBytesPerStratum;
+        std::vector<std::vector<BivariateMoments>> moments(c1 - c0);
+        if (s.d.p == 0) {
+            std::vector<StratumMoments> acc;
+            acc.reserve(c1 - c0);
+            for (std::size_t c = c0; c < c1; ++c) acc.emplace_back(strata_of(checks[c]));
+            for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
+                if (work.cancelled()) return make_error("cancelled");
+                const std::size_t len = std::min(chunk, n - i0);
+                for (std::size_t c = c0; c < c1; ++c) {
+                    const bool pair = checks[c].b != checks[c].a;
+                    const std::size_t kb = pair ? cands[checks[c].b]->levels.size() + 1 : 1;
+                    acc[c - c0].add_rows(codes[checks[c].a].data() + i0,
+                                         pair ? codes[checks[c].b].data() + i0 : static_cast<const T*>(nullptr),
+                                         kb, s.d.x.data() + i0, s.d.y.data() + i0, w ? w + i0 : nullptr, len);
+                }
+                work.report(static_cast<double>(c0) + 0.5 * static_cast<double>(c1 - c0) *
+                                                          static_cast<double>(i0 + len) / static_cast<double>(n),
+                            total, "slope checks");
+            }
+            for (std::size_t c = c0; c < c1; ++c) moments[c - c0] = acc[c - c0].finish();
+        }
+        for (std::size_t c = c0; c < c1; ++c) {
+            if (work.cancelled()) return make_error("cancelled");
+            const bool pair = checks[c].b != checks[c].a;
+            auto r = run_check<T>(s, cands[checks[c].a], pair ? cands[checks[c].b] : nullptr,
+                                  codes[checks[c].a], pair ? &codes[checks[c].b] : nullptr,
+                                  s.d.p == 0 ? &moments[c - c0] : nullptr);
+            if (!r) return r.error();
+            out.push_back(std::move(r.value()));
+            moments[c - c0] = {};
+            work.report(static_cast<double>(c + 1), total, "slope checks");
+        }
+        c0 = c1;
     }
     return out;
 }
@@ -419,17 +433,17 @@ FindingClass classify(SlopeFinding& f, double alpha) {
         const double a = one_sided_p(ps, pse, pdf, sign), b = one_sided_p(ws, wse, wdf, -sign);
         if (!std::isnan(a) && !std::isnan(b)) f.p_reversal = std::max(a, b);
     }
-    const bool q_ok = std::isnan(f.q_value) || f.q_value < alpha;
-    f.reversal = f.p_reversal < alpha && q_ok;
+    const bool q_ok = std::isnan(f.q_value) || f.q_value <= alpha;
+    f.reversal = f.p_reversal <= alpha && q_ok;
     bool up = false, down = false;
     for (const auto& g : f.groups) {
-        if (!g.informative || !(g.p < alpha)) continue;
+        if (!g.informative || !(g.p <= alpha)) continue;
         up = up || g.slope > 0;
         down = down || g.slope < 0;
     }
-    const bool pooled_sig = pp < alpha, within_sig = wp < alpha;
+    const bool pooled_sig = pp <= alpha, within_sig = wp <= alpha;
     if (f.reversal) f.finding_class = FindingClass::Reversal;
-    else if (up && down && f.equal_slopes.p < alpha) f.finding_class = FindingClass::Heterogeneous;
+    else if (up && down && f.equal_slopes.p <= alpha) f.finding_class = FindingClass::Heterogeneous;
     else if (pooled_sig && !within_sig) f.finding_class = FindingClass::Explained;
     else if (!pooled_sig && within_sig) f.finding_class = FindingClass::Masked;
     else f.finding_class = FindingClass::Stable;
@@ -469,6 +483,50 @@ Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQue
     if (widest <= 0xFFu) return run_scan<std::uint8_t>(s, candidates, pairs, work);
     if (widest <= 0xFFFFu) return run_scan<std::uint16_t>(s, candidates, pairs, work);
     return run_scan<std::uint32_t>(s, candidates, pairs, work);
+}
+
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const CandidateSet& candidates, bool pairs,
+                                              const Work& work) {
+    std::vector<const Column*> columns;
+    for (const auto& c : candidates.candidates) columns.push_back(c.column);
+    return scan_slopes(table, q, columns, pairs, work);
+}
+
+void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {
+    if (findings.empty()) return;
+    std::vector<double> p;
+    for (const auto& f : findings) p.push_back(f.p_reversal);
+    const std::vector<double> qv = stats::benjamini_hochberg(p);
+    for (std::size_t i = 0; i < findings.size(); ++i) {
+        SlopeFinding& f = findings[i];
+        f.q_value = qv[i];
+        classify(f, alpha);
+        if (f.stability_draws > 0)
+            f.stability = static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) /
+                          f.stability_draws;
+    }
+}
+
+void rank_findings(std::vector<SlopeFinding>& findings) {
+    auto change = [](const SlopeFinding& f) {
+        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope
+                                    : f.within.slope - f.pooled.slope;
+        return std::isnan(c) ? -1.0 : std::abs(c);
+    };
+    auto label = [](const SlopeFinding& f) {
+        std::string s;
+        for (const auto& n : f.strata) s += n + "\x1f";
+        return s;
+    };
+    auto q = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
+    std::stable_sort(findings.begin(), findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
+        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
+        if (q(a) != q(b)) return q(a) < q(b);
+        if (change(a) != change(b)) return change(a) > change(b);
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return label(a) < label(b);
+    });
 }
 
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
@@ -533,6 +591,36 @@ Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, st
                  "groups.";
     }
     return f;
+}
+
+Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
+                                       const CandidateOptions& options, bool pairs, bool groups,
+                                       const Work& work) {
+    std::vector<std::string> skip = {q.x, q.y};
+    skip.insert(skip.end(), q.covariates.begin(), q.covariates.end());
+    auto cands = select_candidates(table, skip, options);
+    if (!cands) return cands.error();
+    if (cands->candidates.empty() && !groups)
+        return make_error("no column qualifies as a stratifier", table.source);
+    SlopeScanResult r;
+    r.question = q;
+    r.excluded = cands->excluded;
+    r.rows = table.total_weight();
+    for (const auto& c : cands->candidates) {
+        r.candidates.push_back(c.name);
+        r.candidate_origin.push_back(c.origin);
+    }
+    auto found = scan_slopes(table, q, *cands, pairs, work);
+    if (!found) return found.error();
+    r.findings = std::move(found.value());
+    apply_fdr(r.findings, q.alpha);
+    rank_findings(r.findings);
+    if (groups) {
+        auto latent = find_groups(table, q, q.seed, work);
+        if (!latent) return latent.error();
+        r.latent = std::move(latent.value());
+    }
+    return r;
 }
 
 }  // namespace foldline

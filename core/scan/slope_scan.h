@@ -2,32 +2,38 @@
 // The slope scan: is the pooled trend of a numeric outcome y on a numeric exposure x reversed,
 // explained, masked or split by a stratifier (or a pair of them)?
 //
-// One pass over the rows per check builds per-stratum moment sums (core/stats/moments.h); every
-// figure of a finding is computed from those, except the HC3 robust SE of the pooled slope,
-// which needs row leverages and is computed once per scan in its own pass. Rows are used when
-// x, y and every covariate are present and the row weight is positive; a missing stratifier
-// cell is a stratum of its own, labelled "(missing)", so every check of a scan compares the
-// same rows and the pooled figures are identical across the scan.
+// One pass over the rows (shared by a batch of checks) builds each check's per-stratum moment
+// sums (core/stats/moments.h); every figure of a finding is computed from those, except the
+// HC3 robust SE of the pooled slope, which needs row leverages and is computed once per scan
+// in its own pass. Rows are used when x, y and every covariate are present and the row weight
+// is positive; a missing stratifier cell is a stratum of its own, labelled "(missing)", so
+// every check of a scan compares the same rows and the pooled figures are identical across
+// the scan.
 //
-// Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p < alpha
-// on the classical SE; with covariates the adjusted pooled and within slopes are used):
+// Classification (alpha = SlopeQuestion::alpha; "significant" = two-sided Student t p <= alpha
+// on the classical SE; with covariates the adjusted pooled and within slopes are used, while
+// the stratum slopes and the equal-slopes test stay unadjusted):
 //   reversal      the pooled and the within slope lie significantly on opposite sides of zero:
 //                 intersection-union test, p_reversal = the larger of the two one-sided p-values
-//                 (pooled in its own direction, within in the opposite one) < alpha, and, once
-//                 the caller has filled q_value, q_value < alpha as well;
+//                 (pooled in its own direction, within in the opposite one) <= alpha, and, once
+//                 q_value is filled (apply_fdr), q_value <= alpha as well;
 //   heterogeneous at least one stratum slope is significantly positive and one significantly
 //                 negative, and the F-test of equal slopes rejects;
 //   explained     the pooled slope is significant, the within slope is not;
 //   masked        the pooled slope is not significant, the within slope is;
 //   stable        none of these. The rules are tried in this order.
 // A 0/1 outcome is analysed as a linear probability model (flagged in the finding).
+// Stability (SlopeQuestion::bootstrap > 0) is computed for findings that are not stable.
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/scan/candidates.h"
 #include "core/scan/finding_class.h"
 #include "core/stats/regression.h"
 #include "core/table/table.h"
 
+#include <array>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -77,6 +83,7 @@ struct SlopeFinding {
     double q_value = 0;      ///< NaN until the caller fills it (Benjamini-Hochberg over the scan)
     double stability = 0;    ///< share of resamples keeping the class; 0 when not computed
     int stability_draws = 0; ///< resamples behind `stability` (0: not computed)
+    std::array<int, 5> draws_by_class{};  ///< resamples per class, indexed by rank(FindingClass)
     PooledSlope pooled;      ///< unadjusted
     WithinSlope within;      ///< unadjusted
     bool adjusted = false;   ///< covariates given: the two figures below drive the class
@@ -97,9 +104,23 @@ FindingClass classify(SlopeFinding& f, double alpha);
 /// One check: y on x stratified by the joint levels of `strata` (1 or 2 categorical columns of
 /// `table`'s length). Errors: x or y missing or not numeric, a covariate missing or not
 /// numeric, a stratifier of the wrong length or type, no usable rows, too many joint strata
-/// (> 4,194,304), cancellation. q_value is NaN.
+/// (> 1,048,576), cancellation. q_value is NaN.
 Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
                                  const std::vector<const Column*>& strata, const Work& work = {});
+
+/// The same over the stratifiers chosen by select_candidates (core/scan/candidates.h).
+Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQuestion& q,
+                                              const CandidateSet& candidates, bool pairs,
+                                              const Work& work = {});
+
+/// Benjamini-Hochberg q-values over every finding's p_reversal (core/stats/fdr.h), then each
+/// class recomputed with its q-value and its stability re-read for the new class from
+/// draws_by_class. No-op on an empty vector.
+void apply_fdr(std::vector<SlopeFinding>& findings, double alpha);
+
+/// Orders findings by class (reversal first), then q-value, then the size of the change
+/// |within − pooled| (largest first), then fewer stratifiers, then label.
+void rank_findings(std::vector<SlopeFinding>& findings);
 
 /// Every check for a candidate list: each candidate alone and, if `pairs`, every pair (i < j),
 /// singles first, in candidate order. q-values are left NaN for the caller. An empty candidate
@@ -137,5 +158,23 @@ struct LatentFinding {
 /// numeric, fewer than 12 usable rows, cancellation.
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
                                   const Work& work = {});
+
+/// A whole slope scan, as `foldline scan` with a numeric outcome and exposure runs it.
+struct SlopeScanResult {
+    SlopeQuestion question;
+    std::vector<std::string> candidates;        ///< stratifier names
+    std::vector<std::string> candidate_origin;  ///< as select_candidates says
+    std::vector<Exclusion> excluded;
+    std::vector<SlopeFinding> findings;         ///< q-values filled, ranked
+    std::optional<LatentFinding> latent;        ///< with find_groups only
+    double rows = 0;                            ///< Σ weights of the table
+};
+
+/// select_candidates (skipping x, y and the covariates), scan_slopes, apply_fdr, rank_findings
+/// and, when `groups` is true, find_groups with q.seed. Errors: those of the steps, and no
+/// column qualifying as a stratifier while `groups` is false.
+Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
+                                       const CandidateOptions& options, bool pairs, bool groups,
+                                       const Work& work = {});
 
 }  // namespace foldline

@@ -2,19 +2,40 @@
 // Parametric resampling of a count cube: each group's rows are redrawn as one multinomial over
 // its (stratum, outcome) cells with the observed cell shares, keeping the group's total fixed.
 // This is the row bootstrap done on sufficient statistics (cost independent of the row count).
-// Deterministic for a given seed (std::mt19937_64 and conditional binomials; a given standard
-// library gives the same stream on every run).
+// Cells with n p (1 - p) >= 50 are drawn jointly from the normal approximation of the
+// multinomial (same covariance, exact total, rounded); the other cells, and how many rows go to
+// the large cells, are drawn exactly by conditional binomials. Random numbers come
+// from xoshiro256** (Blackman & Vigna 2018) seeded through splitmix64, normal deviates from the
+// ziggurat method, so a seed gives the same draws on every run and thread.
 #include <cstdint>
 #include <functional>
-#include <random>
+#include <limits>
 
 #include "core/stats/stratified.h"
 
 namespace foldline::stats {
 
+/// xoshiro256** generator; satisfies UniformRandomBitGenerator.
+class Xoshiro256 {
+public:
+    using result_type = std::uint64_t;
+    explicit Xoshiro256(std::uint64_t seed);
+    static constexpr result_type min() { return 0; }
+    static constexpr result_type max() { return std::numeric_limits<result_type>::max(); }
+    result_type operator()();
+    /// Uniform double in [0, 1) with 53 random bits.
+    double uniform() { return static_cast<double>((*this)() >> 11) * 0x1.0p-53; }
+    /// Standard normal deviate (ziggurat method of Marsaglia & Tsang 2000, 128 layers; the layer
+    /// index and the value come from separate bits of one 64-bit draw).
+    double normal();
+
+private:
+    std::uint64_t s_[4];
+};
+
 /// One multinomial redraw of both groups. Weighted (non-integer) totals are rounded to the
 /// nearest count. Empty strata -> empty result.
-Strata resample_strata(const Strata& strata, std::mt19937_64& rng);
+Strata resample_strata(const Strata& strata, Xoshiro256& rng);
 
 /// Share of `draws` resamples (seeded with `seed`) for which `holds` is true. NaN when draws <= 0.
 double bootstrap_share(const Strata& strata, int draws, std::uint64_t seed,

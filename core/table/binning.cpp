@@ -28,7 +28,7 @@ std::optional<Column> integer_levels(const Column& numeric, std::size_t max_leve
     }
     if (!any) return std::nullopt;
     std::vector<double> distinct;
-    std::vector<std::uint32_t> codes(v.size());
+    std::vector<std::uint32_t> codes;
     if (hi - lo < 1 << 20) {
         // Small range: direct table from value to code.
         std::vector<std::uint32_t> slot(static_cast<std::size_t>(hi - lo) + 1, 0);
@@ -42,6 +42,7 @@ std::optional<Column> integer_levels(const Column& numeric, std::size_t max_leve
             slot[i] = next++;
         }
         const std::uint32_t miss = next;
+        codes.resize(v.size());
         for (std::size_t i = 0; i < v.size(); ++i)
             codes[i] = std::isnan(v[i]) ? miss : slot[static_cast<std::size_t>(v[i] - lo)];
     } else {
@@ -55,6 +56,7 @@ std::optional<Column> integer_levels(const Column& numeric, std::size_t max_leve
         std::sort(distinct.begin(), distinct.end());
         for (std::uint32_t i = 0; i < distinct.size(); ++i) seen[distinct[i]] = i;
         const auto miss = static_cast<std::uint32_t>(distinct.size());
+        codes.resize(v.size());
         for (std::size_t i = 0; i < v.size(); ++i) codes[i] = std::isnan(v[i]) ? miss : seen[v[i]];
     }
     std::vector<std::string> labels;

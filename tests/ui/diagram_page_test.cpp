@@ -1,6 +1,8 @@
 // tests/ui/diagram_page_test.cpp <-> ui/diagram_page.h, ui/diagram_scene.h, ui/diagram_doc.h,
 // ui/diagram_commands.h
+#include <QFile>
 #include <QGraphicsView>
+#include <QTemporaryDir>
 #include <QMouseEvent>
 #include <QUndoStack>
 #include <QtTest>
@@ -8,6 +10,7 @@
 #include "ui/diagram_page.h"
 #include "ui/diagram_scene.h"
 
+using namespace foldline;
 using namespace foldline::ui;
 
 class DiagramPageTest : public QObject {
@@ -97,6 +100,39 @@ private slots:
         QVERIFY(page.doc()->has_edge("Z", "Y"));
         page.undo_stack()->undo();
         QVERIFY(!page.doc()->has_edge("Z", "Y"));
+    }
+
+    void saves_opens_and_exports() {
+        QTemporaryDir dir;
+        DiagramPage page;
+        page.seed("X", "Y", {"S"}, {});
+        QVERIFY(page.add_unobserved("U \"hidden\""));
+        QVERIFY(page.request_edge("U \"hidden\"", "Y"));
+        const QString path = dir.filePath("audit.diagram.json");
+        QVERIFY(page.save_file(path).ok());
+        QVERIFY(page.export_dot(dir.filePath("audit.dot")).ok());
+        QFile dot(dir.filePath("audit.dot"));
+        QVERIFY(dot.open(QIODevice::ReadOnly));
+        const QByteArray text = dot.readAll();
+        QVERIFY(text.startsWith("digraph"));
+        QVERIFY(text.contains("\"U \\\"hidden\\\"\""));  // DOT escapes the inner quotes
+
+        DiagramPage other;
+        other.seed("X", "Y", {"S"}, {});
+        QVERIFY(other.open_file(path).ok());
+        QCOMPARE(int(other.doc()->nodes().size()), 4);
+        QVERIFY(other.doc()->has_edge("U \"hidden\"", "Y"));
+        QCOMPARE(other.doc()->node("U \"hidden\"")->observed, false);
+        QCOMPARE(other.undo_stack()->count(), 0);
+        // A broken file is an error naming the file, and the diagram is left as it was.
+        QFile bad(dir.filePath("bad.diagram.json"));
+        QVERIFY(bad.open(QIODevice::WriteOnly));
+        bad.write("{\"nodes\": [ {\"name\": 3} ]}");
+        bad.close();
+        const Status st = other.open_file(bad.fileName());
+        QVERIFY(!st.ok());
+        QVERIFY(QString::fromStdString(st.error().to_string()).contains("bad.diagram.json"));
+        QCOMPARE(int(other.doc()->nodes().size()), 4);
     }
 };
 

@@ -133,25 +133,52 @@ private slots:
         const QString before = d->verdict().answer;
         const QString exposure = w.question_page()->spec().exposure;
         const QString stratum = f->strata.first();
-        // Seeded as a confounder (stratum → exposure, stratum → outcome). Reversing the first arrow
-        // makes the stratum a mediator (exposure → stratum → outcome), so the answer must change:
-        // the back-door criterion (Pearl 2009, Causality, sec. 3.3.1) admits a confounder and
-        // excludes a descendant of the exposure.
-        QCOMPARE(d->verdict().roles.value(stratum), QStringLiteral("confounder"));
-        QCOMPARE(before, QStringLiteral("stratified"));
+        // Whichever way the arrow between the stratifier and the exposure points, reversing it
+        // swaps confounder and mediator, and with them the answer: the back-door criterion
+        // (Pearl 2009, Causality, sec. 3.3.1) admits a confounder and excludes a descendant of
+        // the exposure. The sample diagram draws the product as a mediator (sample_data/README.md).
+        const bool was_mediator = d->doc()->has_edge(exposure, stratum);
+        const QString role_before = d->verdict().roles.value(stratum);
+        QCOMPARE(role_before, was_mediator ? QStringLiteral("mediator") : QStringLiteral("confounder"));
+        QCOMPARE(before, was_mediator ? QStringLiteral("pooled") : QStringLiteral("stratified"));
+        const QString from = was_mediator ? exposure : stratum, to = was_mediator ? stratum : exposure;
         d->undo_stack()->beginMacro("reverse");
-        d->undo_stack()->push(new RemoveEdgeCommand(d->doc(), stratum, exposure));
-        QVERIFY(d->request_edge(exposure, stratum));
+        d->undo_stack()->push(new RemoveEdgeCommand(d->doc(), from, to));
+        QVERIFY(d->request_edge(to, from));
         d->undo_stack()->endMacro();
-        QCOMPARE(d->verdict().roles.value(stratum), QStringLiteral("mediator"));
-        QCOMPARE(d->verdict().answer, QStringLiteral("pooled"));
-        // Drawing the reverse arrow back closes a cycle and is refused.
-        QVERIFY(!d->request_edge(stratum, exposure));
+        QCOMPARE(d->verdict().roles.value(stratum), was_mediator ? QStringLiteral("confounder") : QStringLiteral("mediator"));
+        QCOMPARE(d->verdict().answer, was_mediator ? QStringLiteral("stratified") : QStringLiteral("pooled"));
+        // Drawing the old arrow back as well would close a cycle: refused with a message.
+        QVERIFY(!d->request_edge(from, to));
         QVERIFY(d->message().contains("cycle"));
         d->undo_stack()->undo();
-        QVERIFY(!d->doc()->has_edge(exposure, stratum));
-        QVERIFY(d->doc()->has_edge(stratum, exposure));
+        QVERIFY(d->doc()->has_edge(from, to));
+        QVERIFY(!d->doc()->has_edge(to, from));
+        QCOMPARE(d->verdict().roles.value(stratum), role_before);
         QCOMPARE(d->verdict().answer, before);
+    }
+
+    void trend_path_on_the_retail_sample() {
+        if (find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_weeks.csv not found");
+        MainWindow w;
+        const QString err = prepare_slope_demo(w, 120000);
+        QVERIFY2(err.isEmpty(), qPrintable(err));
+        const FindingView* f = w.findings_model()->at(w.findings_page()->selected());
+        QVERIFY(f && f->slope);
+        // The sample's planted story (sample_data/README.md): weekly sales rise with promotion
+        // spend pooled, and fall within every store format.
+        QCOMPARE(f->strata, QStringList{"store_format"});
+        QCOMPARE(f->cls, FindingClass::Reversal);
+        QVERIFY(f->crude.value > 0);
+        QVERIFY(f->adjusted.value < 0);
+        QTableWidget* s = w.findings_page()->strata_table();
+        QCOMPARE(s->rowCount(), int(f->slope_rows.size()));
+        for (int i = 0; i < s->rowCount(); ++i) {
+            QCOMPARE(s->item(i, 2)->text(), format_estimate(f->slope_rows[std::size_t(i)].slope));
+            QVERIFY(f->slope_rows[std::size_t(i)].slope.value < 0);
+        }
+        QVERIFY(f->points.size() <= 4000 && !f->points.empty());
+        QVERIFY(f->points_note.contains("drawn"));
     }
 };
 

@@ -67,3 +67,27 @@ TEST(ScanJson, DocumentedKeysAndNulls) {
     const auto parsed = nlohmann::json::parse(scan_json_text(*r, DataInfo{}));
     EXPECT_EQ(parsed["findings"].size(), 3u);
 }
+
+// The streamed text is the same document as the tree (every key and value), including labels
+// that need escaping and undefined numbers.
+TEST(ScanJson, StreamedTextEqualsTree) {
+    foldline::testing::TableBuilder b({"group", "approved", "site \"north\""});
+    for (int i = 0; i < 400; ++i)
+        b.add_row({i % 2 ? "B" : "A", (i * 7) % 5 < 2 ? "1" : "0", i % 3 == 0 ? "back\\slash" : "tab\there"});
+    for (int i = 0; i < 5; ++i) b.add_row({"B", "1", "only \"B\"\n"});
+    Table t = b.build();
+    QuestionSpec s;
+    parse_outcome_arg("approved=1", s);
+    parse_exposure_arg("group=B,A", s);
+    auto q = resolve_question(t, s);
+    ASSERT_TRUE(q.ok());
+    auto c = select_candidates(t, {"approved", "group"}, CandidateOptions{}, t.column("group"));
+    ASSERT_TRUE(c.ok());
+    auto r = rate_scan(t, *q, *c, RateScanOptions{});
+    ASSERT_TRUE(r.ok());
+    const DataInfo info{"d.csv", "00ff", 405};
+    const auto tree = scan_to_json(*r, info);
+    const auto text = nlohmann::json::parse(scan_json_text(*r, info));
+    EXPECT_EQ(text, tree) << nlohmann::json::diff(tree, text).dump();
+    EXPECT_EQ(text["findings"][0]["strata"][0], "site \"north\"");
+}

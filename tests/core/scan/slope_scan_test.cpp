@@ -3,6 +3,9 @@
 // or R's documentation, [calc] recomputed with R / statsmodels), and planted synthetic data.
 #include "core/scan/slope_scan.h"
 
+#include "core/io/csv_reader.h"
+#include "core/scan/candidates.h"
+
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -15,55 +18,12 @@ using namespace foldline;
 
 namespace {
 
-// A tiny reader for the two simple shipped CSV files (no quotes, "NA" = missing). Columns
-// listed in `categorical` become categorical; the rest numeric.
-Table read_simple_csv(const std::string& path, std::vector<std::string> header_override,
-                      const std::vector<std::string>& categorical) {
-    std::ifstream in(path);
-    Table t;
-    t.source = path;
-    std::string line;
-    std::getline(in, line);
-    std::vector<std::string> names = header_override;
-    if (names.empty()) {
-        std::stringstream ss(line);
-        for (std::string f; std::getline(ss, f, ',');) names.push_back(f);
-    }
-    std::vector<std::vector<std::string>> cells(names.size());
-    while (std::getline(in, line)) {
-        if (line.empty()) continue;
-        std::stringstream ss(line);
-        std::size_t j = 0;
-        for (std::string f; std::getline(ss, f, ',') && j < names.size(); ++j) cells[j].push_back(f);
-        for (; j < names.size(); ++j) cells[j].push_back("NA");
-        ++t.rows;
-    }
-    for (std::size_t j = 0; j < names.size(); ++j) {
-        const bool cat = std::find(categorical.begin(), categorical.end(), names[j]) != categorical.end();
-        if (cat) {
-            std::vector<std::string> levels;
-            std::map<std::string, std::uint32_t> index;
-            std::vector<std::uint32_t> codes;
-            for (const auto& s : cells[j]) {
-                if (s == "NA" || s.empty()) {
-                    codes.push_back(UINT32_MAX);
-                    continue;
-                }
-                auto [it, fresh] = index.emplace(s, static_cast<std::uint32_t>(levels.size()));
-                if (fresh) levels.push_back(s);
-                codes.push_back(it->second);
-            }
-            for (auto& c : codes)
-                if (c == UINT32_MAX) c = static_cast<std::uint32_t>(levels.size());
-            t.columns.push_back(Column::categorical(names[j], levels, codes));
-        } else {
-            std::vector<double> v;
-            for (const auto& s : cells[j])
-                v.push_back(s == "NA" || s.empty() ? std::nan("") : std::stod(s));
-            t.columns.push_back(Column::numeric(names[j], v));
-        }
-    }
-    return t;
+Table load(const std::string& path, const std::map<std::string, ColumnType>& types = {}) {
+    CsvOptions o;
+    o.type_overrides = types;
+    auto t = read_csv(path, o, nullptr);
+    EXPECT_TRUE(t.ok()) << (t.ok() ? "" : t.error().to_string());
+    return t.ok() ? std::move(t.value()) : Table{};
 }
 
 const SlopeGroup& group(const SlopeFinding& f, const std::string& level) {
@@ -109,13 +69,15 @@ Table planted(int per_group, std::vector<double> cx, std::vector<double> cy, std
 TEST(SlopeScan, IrisSepalWidthOnLengthReversesWithinSpecies) {
     const std::string path = "/usr/lib/python3/dist-packages/sklearn/datasets/data/iris.csv";
     if (!std::ifstream(path).good()) GTEST_SKIP() << path << " not installed (python3-sklearn)";
-    Table t = read_simple_csv(path, {"sepal_length", "sepal_width", "petal_length", "petal_width", "species"},
-                              {"species"});
+    // The file's header line is "150,4,setosa,versicolor,virginica" (row count, column count,
+    // class names), so the columns carry those names: "150" sepal length, "4" sepal width,
+    // "virginica" the species code 0/1/2.
+    Table t = load(path, {{"virginica", ColumnType::Categorical}});
     ASSERT_EQ(t.rows, 150u);
     SlopeQuestion q;
-    q.x = "sepal_length";
-    q.y = "sepal_width";
-    auto r = check_slope(t, q, {t.column("species")});
+    q.x = "150";
+    q.y = "4";
+    auto r = check_slope(t, q, {t.column("virginica")});
     ASSERT_TRUE(r.ok()) << r.error().to_string();
     const SlopeFinding& f = *r;
     EXPECT_NEAR(f.pooled.slope, -0.0618848, 5e-8);
@@ -146,7 +108,7 @@ TEST(SlopeScan, IrisSepalWidthOnLengthReversesWithinSpecies) {
 TEST(SlopeScan, PenguinsBillDepthOnLengthIsAReversal) {
     const std::string path = "/usr/lib/R/site-library/palmerpenguins/extdata/penguins.csv";
     if (!std::ifstream(path).good()) GTEST_SKIP() << path << " not installed (r-cran-palmerpenguins)";
-    Table t = read_simple_csv(path, {}, {"species", "island", "sex"});
+    Table t = load(path);
     ASSERT_EQ(t.rows, 344u);
     SlopeQuestion q;
     q.x = "bill_length_mm";
@@ -191,7 +153,7 @@ TEST(SlopeScan, PenguinsBillDepthOnLengthIsAReversal) {
 // prints +21.5657 pooled, −3.7186 to −4.3224 within).
 TEST(SlopeScan, RetailSampleHasItsPlantedReversal) {
     const std::string path = std::string(FOLDLINE_SOURCE_DIR) + "/sample_data/retail_weeks.csv";
-    Table t = read_simple_csv(path, {}, {"store_format", "region", "quarter"});
+    Table t = load(path);
     ASSERT_EQ(t.rows, 5000u);
     SlopeQuestion q;
     q.x = "promo_spend";
@@ -205,6 +167,33 @@ TEST(SlopeScan, RetailSampleHasItsPlantedReversal) {
     for (const auto& g : f.groups) EXPECT_LT(g.ci_high, 0) << g.level;
     EXPECT_NEAR(group(f, "mall").slope, -3.7186, 1e-4);
     EXPECT_EQ((*r)[1].finding_class, FindingClass::Stable);  // region: noise
+
+    // Through the scan's own candidate selection (footfall is cut into quantile bins), FDR and
+    // ranking: store_format and every pair holding it are reversals and rank first.
+    auto cands = select_candidates(t, {q.x, q.y}, CandidateOptions{});
+    ASSERT_TRUE(cands.ok());
+    ASSERT_EQ(cands->candidates.size(), 4u);
+    auto all = scan_slopes(t, q, *cands, true);
+    ASSERT_TRUE(all.ok());
+    ASSERT_EQ(all->size(), 10u);
+    apply_fdr(*all, q.alpha);
+    rank_findings(*all);
+    EXPECT_EQ(all->front().strata.front(), "store_format");
+    int reversals = 0;
+    for (const auto& g : *all) {
+        EXPECT_FALSE(std::isnan(g.q_value));
+        EXPECT_GE(g.q_value, g.p_reversal);
+        const bool has_format = std::find(g.strata.begin(), g.strata.end(), "store_format") != g.strata.end();
+        reversals += g.finding_class == FindingClass::Reversal;
+        if (has_format) {
+            EXPECT_EQ(g.finding_class, FindingClass::Reversal) << g.strata.back();
+        }
+    }
+    // footfall follows sales, so within its bins the promo slope can turn too: at least the 4
+    // checks holding store_format, and classes stay ordered.
+    EXPECT_GE(reversals, 4);
+    for (std::size_t i = 1; i < all->size(); ++i)
+        EXPECT_LE(rank((*all)[i - 1].finding_class), rank((*all)[i].finding_class));
 }
 
 // Planted structures (synthetic, seeded): each class arises where it is planted.
@@ -256,7 +245,7 @@ TEST(SlopeScan, ScanRunsSinglesAndPairsAndHonoursQValues) {
     EXPECT_NE(classify(f, 0.05), FindingClass::Reversal);
     EXPECT_FALSE(f.reversal);
 
-    auto none = scan_slopes(t, q, {}, true);
+    auto none = scan_slopes(t, q, std::vector<const Column*>{}, true);
     ASSERT_TRUE(none.ok());
     EXPECT_TRUE(none->empty());
 }
@@ -441,4 +430,72 @@ TEST(SlopeScan, ScanEqualsSeparateChecks) {
         EXPECT_EQ((*all)[2].groups.back().level, "(missing)");
         EXPECT_EQ((*all)[0].adjusted, with_cov);
     }
+}
+
+// Benjamini-Hochberg (1995): with 20 checks, a reversal at p 0.02 among 19 at p 0.9 has q 0.4 and
+// loses its class; the stability is then read for the new class from the resample counts.
+TEST(SlopeScan, FdrDemotesAWeakReversalAmongManyChecks) {
+    SlopeFinding f;
+    f.q_value = std::nan("");
+    // Pooled +1 (SE 0.4, df 100) and within −1 (SE 0.4): both one-sided p ≈ 0.007.
+    f.pooled.slope = 1;
+    f.pooled.se = 0.4;
+    f.pooled.df = 100;
+    f.pooled.p = 0.014;
+    f.within.slope = -1;
+    f.within.se = 0.4;
+    f.within.df = 100;
+    f.within.p = 0.014;
+    ASSERT_EQ(classify(f, 0.05), FindingClass::Reversal);
+    f.stability_draws = 10;
+    f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Reversal))] = 7;
+    f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Stable))] = 3;
+    f.stability = 0.7;
+    std::vector<SlopeFinding> all(20, f);
+    for (std::size_t i = 1; i < all.size(); ++i) {
+        all[i].pooled.slope = 0.01;
+        all[i].pooled.p = 0.98;
+        all[i].stability_draws = 0;
+        classify(all[i], 0.05);
+    }
+    const double p = all[0].p_reversal;
+    EXPECT_NEAR(p, 0.00701, 1e-4);
+    apply_fdr(all, 0.05);
+    EXPECT_NEAR(all[0].q_value, std::min(1.0, 20 * p), 1e-12);  // the smallest p: q = m p / 1
+    EXPECT_FALSE(all[0].reversal);
+    // Both slopes stay significant, so neither "explained" nor "masked" holds: stable.
+    EXPECT_EQ(all[0].finding_class, FindingClass::Stable);
+    EXPECT_DOUBLE_EQ(all[0].stability, 0.3);
+}
+
+// Pairs of 400-level stratifiers (160,801 joint strata each) overflow one batch's memory budget,
+// so the scan splits its checks into several passes; findings must still match single checks.
+TEST(SlopeScan, LargeJointStrataAreBatchedAndStillMatch) {
+    Table t = planted(4000, {0, 2, 4}, {0, 3, 6}, {-0.5, -0.5, -0.5}, 0.5, 13);
+    std::mt19937_64 rng(4);
+    std::vector<std::string> levels;
+    for (int l = 0; l < 400; ++l) {
+        std::string level = "v";
+        level += std::to_string(l);
+        levels.push_back(level);
+    }
+    for (const char* name : {"wide1", "wide2", "wide3"}) {
+        std::vector<std::uint32_t> codes;
+        for (std::size_t i = 0; i < t.rows; ++i) codes.push_back(static_cast<std::uint32_t>(rng() % 400));
+        t.columns.push_back(Column::categorical(name, levels, codes));
+    }
+    SlopeQuestion q;
+    q.x = "x";
+    q.y = "y";
+    std::vector<const Column*> cands = {t.column("wide1"), t.column("wide2"), t.column("wide3")};
+    auto all = scan_slopes(t, q, cands, true);
+    ASSERT_TRUE(all.ok());
+    ASSERT_EQ(all->size(), 6u);
+    auto one = check_slope(t, q, {cands[1], cands[2]});
+    ASSERT_TRUE(one.ok());
+    const SlopeFinding& a = all->back();
+    EXPECT_EQ(a.groups.size(), one->groups.size());
+    EXPECT_NEAR(a.within.slope, one->within.slope, 1e-12);
+    EXPECT_EQ(a.uninformative.size(), one->uninformative.size());
+    EXPECT_GT(a.uninformative.size(), 1000u);  // most joint strata hold a row or two
 }
