@@ -196,6 +196,10 @@ FindingKey rate_key(const std::vector<std::string>& strata, const std::string& f
     return FindingKey{"rate", strata, focal + " vs " + reference};
 }
 
+FindingKey slope_key(const std::vector<std::string>& strata, const std::string& x, const std::string& y) {
+    return FindingKey{"slope", strata, y + " on " + x};
+}
+
 std::string_view to_string(PageSize p) { return p == PageSize::Letter ? "Letter" : "A4"; }
 
 const causal::Diagram* Project::diagram() const {

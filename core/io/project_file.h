@@ -76,6 +76,8 @@ std::string describe(const FindingKey& key);
 
 /// The key of a rate finding: kind "rate", its strata, comparison "FOCAL vs REFERENCE".
 FindingKey rate_key(const std::vector<std::string>& strata, const std::string& focal, const std::string& reference);
+/// The key of a slope finding: kind "slope", its strata, comparison "Y on X".
+FindingKey slope_key(const std::vector<std::string>& strata, const std::string& x, const std::string& y);
 
 struct FindingReview {
     FindingKey key;

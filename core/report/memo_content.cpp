@@ -202,6 +202,75 @@ MemoDiagram diagram_of(const causal::Diagram& d, const std::string& name, const 
     return md;
 }
 
+std::string slope(double x) { return std::isfinite(x) ? fmt("%+.4g", x) : "n/a"; }
+
+std::string slope_interval(double lo, double hi) {
+    if (!std::isfinite(lo) || !std::isfinite(hi)) return "n/a";
+    return slope(lo) + " to " + slope(hi);
+}
+
+std::string slope_strata_words(const SlopeFinding& f) { return joined(f.strata, " × "); }
+
+std::string slope_lead(const SlopeFinding& f) {
+    std::string s = "Pooled, " + f.y + " changes by " + slope(f.pooled.slope) + " per unit of " + f.x + " (95% CI " +
+                    slope_interval(f.pooled.ci_low, f.pooled.ci_high) + ", p " + p_text(f.pooled.p) + "); within " +
+                    slope_strata_words(f) + " (" + std::to_string(f.within.strata) + " strata), by " +
+                    slope(f.within.slope) + " (" + slope_interval(f.within.ci_low, f.within.ci_high) + ", p " +
+                    p_text(f.within.p) + ").";
+    switch (f.finding_class) {
+        case FindingClass::Reversal: s += " The trend reverses within the strata."; break;
+        case FindingClass::Explained: s += " Within the strata no clear trend is left."; break;
+        case FindingClass::Masked: s += " A trend hidden in the pooled data appears within the strata."; break;
+        case FindingClass::Heterogeneous:
+            s += " The strata's trends point in opposite directions, so no single within slope should be quoted.";
+            break;
+        case FindingClass::Stable: s += " Stratifying changes little."; break;
+    }
+    if (f.linear_probability) s += " The outcome is 0/1: slopes are differences in probability per unit.";
+    if (f.adjusted) s += " Slopes are adjusted for " + joined(f.covariates, ", ") + ".";
+    return s;
+}
+
+MemoTable slope_figures(const SlopeFinding& f, double alpha) {
+    MemoTable t;
+    t.header = {"Measure", "Estimate", fmt("%.0f%% CI", 100 * (1 - alpha))};
+    t.widths = {3, 1.4, 2.2};
+    t.numeric = {false, true, true};
+    t.rows = {
+        {"Pooled slope", slope(f.pooled.slope), slope_interval(f.pooled.ci_low, f.pooled.ci_high)},
+        {"Within slope (one intercept per stratum)", slope(f.within.slope),
+         slope_interval(f.within.ci_low, f.within.ci_high)},
+        {"Precision-weighted mean of stratum slopes", slope(f.within.precision_weighted.slope),
+         slope_interval(f.within.precision_weighted.ci_low, f.within.precision_weighted.ci_high)},
+        {"Pooled correlation r", fixed(f.pooled.r, 3), std::isfinite(f.pooled.r_ci_low)
+                                                           ? fixed(f.pooled.r_ci_low, 3) + " to " + fixed(f.pooled.r_ci_high, 3)
+                                                           : "n/a"},
+    };
+    if (f.adjusted) {
+        t.rows.push_back({"Adjusted pooled slope", slope(f.adjusted_pooled.slope),
+                          slope_interval(f.adjusted_pooled.ci_low, f.adjusted_pooled.ci_high)});
+        t.rows.push_back({"Adjusted within slope", slope(f.adjusted_within.slope),
+                          slope_interval(f.adjusted_within.ci_low, f.adjusted_within.ci_high)});
+    }
+    t.rows.push_back({"Equal slopes F-test p", p_text(f.equal_slopes.p), ""});
+    t.rows.push_back({"Reversal q-value", p_text(f.q_value), ""});
+    t.rows.push_back({"Stability (bootstrap)", f.stability_draws > 0 ? percent(f.stability) : "not run", ""});
+    return t;
+}
+
+MemoTable slope_strata(const SlopeFinding& f) {
+    MemoTable t;
+    t.header = {"Stratum", "n", "Slope", "95% CI", "r", "Note"};
+    t.widths = {2.6, 1.0, 1.3, 2.4, 0.8, 1.8};
+    t.numeric = {false, true, true, true, true, false};
+    t.rows.push_back({"All (pooled)", count(f.pooled.n), slope(f.pooled.slope),
+                      slope_interval(f.pooled.ci_low, f.pooled.ci_high), fixed(f.pooled.r, 2), ""});
+    for (const auto& g : f.groups)
+        t.rows.push_back({g.level, count(g.n), slope(g.slope), slope_interval(g.ci_low, g.ci_high), fixed(g.r, 2),
+                          g.informative ? "" : g.reason});
+    return t;
+}
+
 std::string decomposition_sentence(const RateFinding& f) {
     const auto& d = f.decomposition;
     if (!std::isfinite(d.crude_gap)) return "The pooled gap cannot be decomposed (a group has no rows).";
@@ -254,11 +323,21 @@ std::string p_text(double p) {
     return fmt("%.2f", p);
 }
 
-bool included_in_memo(const RateFinding& f, const project::Project* project) {
-    const auto* r = review_of(f, project);
+namespace {
+bool included(const project::FindingReview* r, FindingClass cls, const project::Project* project) {
     if (project && project->memo.findings == "chosen") return r && r->in_memo && *r->in_memo;
     if (r && r->in_memo) return *r->in_memo;
-    return f.cls != FindingClass::Stable;
+    return cls != FindingClass::Stable;
+}
+}  // namespace
+
+bool included_in_memo(const RateFinding& f, const project::Project* project) {
+    return included(review_of(f, project), f.cls, project);
+}
+
+bool included_in_memo(const SlopeFinding& f, const project::Project* project) {
+    const auto* r = project ? project->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
+    return included(r, f.finding_class, project);
 }
 
 MemoContent build_memo(const MemoInput& in) {
@@ -283,6 +362,14 @@ MemoContent build_memo(const MemoInput& in) {
     m.question = "Is the rate of " + outcome_words(q) + " different for " + joined(q.focal, ", ") + " than for " +
                  q.reference + " (column " + q.exposure + "), and does the answer change when the comparison is " +
                  "made within levels of another column?";
+    const SlopeQuestion& sq = r.slope_question;
+    const bool rates = !q.outcome.empty();
+    const bool slopes = !sq.x.empty();
+    const std::string trend_question = "does " + sq.y + " rise or fall with " + sq.x +
+                                       ", and does the trend change when it is measured within levels of another "
+                                       "column?";
+    if (!rates && slopes) m.question = capitalised(trend_question);
+    else if (slopes) m.question += " Also: " + trend_question;
     m.facts.push_back({"Question", m.question});
 
     // Counts by class.
@@ -291,7 +378,9 @@ MemoContent build_memo(const MemoInput& in) {
     const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
 
     // Summary.
-    std::string s = "Foldline compared the rate of " + outcome_words(q) + " between " +
+    std::string s;
+    if (rates) {
+    s = "Foldline compared the rate of " + outcome_words(q) + " between " +
                     joined(q.focal, ", ") + " and " + q.reference + " on " + count(in.data.rows) +
                     " rows, pooled and within each of " + std::to_string(r.candidates.size()) + " candidate columns" +
                     (r.candidates.size() > 1 && !r.rate_findings.empty() &&
@@ -320,12 +409,27 @@ MemoContent build_memo(const MemoInput& in) {
             s += " No causal diagram was given, so the memo does not say which view answers the question.";
         }
     }
+    }
+    int slope_counts[5] = {0, 0, 0, 0, 0};
+    for (const auto& f : r.slope_findings) ++slope_counts[rank(f.finding_class)];
+    const std::size_t slope_flagged = r.slope_findings.size() - static_cast<std::size_t>(slope_counts[4]);
+    if (slopes) {
+        s += (s.empty() ? "" : " ") + std::string("Foldline measured the trend of ") + sq.y + " on " + sq.x + " on " +
+             count(in.data.rows) + " rows, pooled and within candidate columns: " +
+             std::to_string(r.slope_findings.size()) + " checks, " + std::to_string(slope_counts[0]) + " reversal, " +
+             std::to_string(slope_counts[1]) + " explained, " + std::to_string(slope_counts[2]) + " masked, " +
+             std::to_string(slope_counts[3]) + " heterogeneous.";
+        if (slope_flagged > 0) {
+            const SlopeFinding& top = r.slope_findings.front();
+            s += " The strongest, by " + slope_strata_words(top) + ": pooled slope " + slope(top.pooled.slope) +
+                 ", within " + slope(top.within.slope) + ".";
+        }
+    }
     m.summary = s;
 
     // Findings table: every flagged finding, or all of them when none is flagged.
-    m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled diff.", "Adjusted diff.", "q", "Stability",
-                         "Decision"};
-    m.findings.widths = {0.45, 1.55, 2.1, 1.3, 1.05, 1.05, 0.85, 0.95, 1.0};
+    m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled", "Adjusted", "q", "Stability", "Decision"};
+    m.findings.widths = {0.45, 1.55, 2.0, 1.3, 1.0, 1.0, 1.05, 0.95, 1.0};
     m.findings.numeric = {true, false, false, false, true, true, true, true, false};
     std::vector<std::size_t> section_of;
     std::size_t listed = 0;
@@ -341,15 +445,38 @@ MemoContent build_memo(const MemoInput& in) {
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
         if (included_in_memo(f, p)) section_of.push_back(i);
     }
+    std::vector<std::size_t> slope_section_of;
+    for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
+        const auto& f = r.slope_findings[i];
+        if (slope_flagged > 0 && f.finding_class == FindingClass::Stable && !included_in_memo(f, p)) continue;
+        if (slope_flagged == 0 && flagged > 0) continue;
+        ++listed;
+        const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
+        m.findings.rows.push_back({"s" + std::to_string(i + 1), std::string(to_string(f.finding_class)),
+                                   slope_strata_words(f), f.y + " on " + f.x, slope(f.pooled.slope),
+                                   slope(f.within.slope), p_text(f.q_value),
+                                   f.stability_draws > 0 ? percent(f.stability) : "-",
+                                   rv ? std::string(to_string(rv->decision)) : "undecided"});
+        if (included_in_memo(f, p)) slope_section_of.push_back(i);
+    }
     const std::size_t with_section = std::min(section_of.size(), in.max_sections);
-    m.findings_note = "Listed: " + std::to_string(listed) + " of " + std::to_string(r.rate_findings.size()) +
-                      " comparisons (" + (flagged > 0 ? "those not stable" : "none is flagged, so all") +
-                      "); # is the rank in the scan. Differences in percentage points, " + q.focal.front() +
-                      (q.focal.size() > 1 ? " etc." : "") + " minus " + q.reference + ". " +
-                      std::to_string(with_section) + " finding" + (with_section == 1 ? " has" : "s have") +
+    const std::size_t slope_with_section =
+        std::min(slope_section_of.size(), in.max_sections > with_section ? in.max_sections - with_section : 0);
+    const std::size_t total_findings = r.rate_findings.size() + r.slope_findings.size();
+    const std::size_t total_chosen = section_of.size() + slope_section_of.size();
+    const std::size_t total_sections = with_section + slope_with_section;
+    m.findings_note = "Listed: " + std::to_string(listed) + " of " + std::to_string(total_findings) +
+                      " checks (" + (flagged + slope_flagged > 0 ? "those not stable" : "none is flagged, so all") +
+                      "); # is the rank in the scan (s: a slope check)." +
+                      (rates ? " Rate differences in percentage points, " + q.focal.front() +
+                                   (q.focal.size() > 1 ? " etc." : "") + " minus " + q.reference + "."
+                             : std::string()) +
+                      (slopes ? " Slopes in units of " + sq.y + " per unit of " + sq.x + "; adjusted = within strata."
+                              : std::string()) +
+                      " " + std::to_string(total_sections) + " finding" + (total_sections == 1 ? " has" : "s have") +
                       " a section below" +
-                      (section_of.size() > with_section
-                           ? "; " + std::to_string(section_of.size() - with_section) +
+                      (total_chosen > total_sections
+                           ? "; " + std::to_string(total_chosen - total_sections) +
                                  " more chosen findings are in the table only (see the JSON or CSV export)."
                            : ".");
 
@@ -405,6 +532,47 @@ MemoContent build_memo(const MemoInput& in) {
         m.sections.push_back(std::move(sec));
     }
 
+    for (std::size_t k = 0; k < slope_with_section; ++k) {
+        const auto& f = r.slope_findings[slope_section_of[k]];
+        MemoSection sec;
+        sec.finding_class = std::string(to_string(f.finding_class));
+        sec.heading = std::to_string(with_section + k + 1) + ". " + capitalised(to_string(f.finding_class)) +
+                      ": " + slope_strata_words(f) + " (" + f.y + " on " + f.x + ")";
+        sec.lead = slope_lead(f);
+        sec.figures = slope_figures(f, r.alpha);
+        sec.strata = slope_strata(f);
+        std::optional<causal::Verdict> v;
+        std::string why;
+        if (graph) {
+            auto attempt = causal::decide(*graph, f.x, f.y, f.strata);
+            if (attempt) v = std::move(*attempt);
+            else why = attempt.error().message;
+        }
+        if (diagram) {
+            std::vector<causal::NamedRole> roles;
+            if (graph)
+                if (auto rep = causal::analyse_adjustment(*graph, f.x, f.y)) roles = rep->roles;
+            sec.diagram = diagram_of(*diagram, diagram_name, v ? &*v : nullptr, roles, f.strata);
+        }
+        if (v) {
+            const std::string answer = v->answer == causal::Answer::Stratified
+                                           ? "the within-strata slope (by " + slope_strata_words(f) + ")"
+                                       : v->answer == causal::Answer::Pooled ? "the pooled slope"
+                                       : v->answer == causal::Answer::Both   ? "both slopes (they estimate the same effect)"
+                                                                             : "neither slope as shown";
+            sec.verdict = "Which view answers the question: " + answer + ". " + v->reason;
+        } else if (diagram) {
+            sec.verdict = "The diagram cannot judge this finding: " + (why.empty() ? "the diagram is not valid" : why) + ".";
+        } else {
+            sec.verdict = "No causal diagram was given: whether the pooled or the within-strata trend answers the "
+                          "question depends on how the columns cause each other, which the data alone cannot say.";
+        }
+        const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
+        sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+        if (rv) sec.note = rv->note;
+        m.sections.push_back(std::move(sec));
+    }
+
     // Method notes: enough to reproduce.
     m.method_notes = {
         "Rates carry Wilson score intervals (Wilson 1927); differences of two rates, Newcombe's hybrid score "
@@ -437,6 +605,15 @@ MemoContent build_memo(const MemoInput& in) {
         "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
             ". The audit re-runs from its project file with `foldline run PROJECT`.",
     };
+    if (slopes)
+        m.method_notes.push_back(
+            "Trends: ordinary least squares slope of " + sq.y + " on " + sq.x +
+            ", pooled and with one intercept per stratum (fixed effects); Student t intervals; the F-test of equal "
+            "slopes; a reversal needs both slopes significant on opposite sides (intersection-union test), with "
+            "the same false discovery rate control." +
+            (sq.bootstrap > 0 ? " Stability from " + std::to_string(sq.bootstrap) + " resamples, seed " +
+                                    std::to_string(sq.seed) + "."
+                              : ""));
     if (r.cancelled) m.method_notes.push_back("The scan was stopped early: the findings are incomplete.");
     m.caution = kMemoCaution;
     return m;

@@ -89,6 +89,7 @@ struct MemoInput {
     DataInfo data;                                    ///< path, SHA-256, rows read
     const project::Project* project = nullptr;        ///< title, analyst, reviews, diagram, page size
     std::vector<std::optional<causal::Verdict>> verdicts;  ///< per rate finding (scan order); may be empty
+                                                      ///< (slope verdicts are decided from the diagram)
     std::string date;                                 ///< "2026-12-02"; the caller's clock, for reproducibility
     std::string data_change;                          ///< DataChange::message when changed, else empty
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
@@ -99,9 +100,14 @@ inline constexpr const char* kMemoCaution =
     "This memo is a statistical screen, not a legal or clinical determination. Read it with local law, "
     "counsel and licensed practice.";
 
-/// Builds the memo. A scan with no findings gives a memo with an empty table, no sections and a
+/// Builds the memo: rate findings first, then slope findings (ScanResult::slope_findings, a
+/// trend of a numeric outcome on a numeric exposure; sections without charts, decomposition or
+/// E-value, which are rate figures). A scan with no findings gives a memo with an empty table, no sections and a
 /// summary saying nothing was flagged; input.scan == nullptr gives an empty MemoContent.
 MemoContent build_memo(const MemoInput& input);
+
+/// The same rule for a slope finding (keyed by project::slope_key).
+bool included_in_memo(const SlopeFinding& f, const project::Project* project);
 
 /// Whether a finding gets a section: memo setting "chosen" → the review's in_memo is true;
 /// "flagged" (default, also without project) → class is not stable and in_memo is not false.

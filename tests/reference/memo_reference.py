@@ -117,6 +117,9 @@ try:
         check(("Page 1 of %d" % pages) in text and ("Page %d of %d" % (pages, pages)) in text, "page numbers")
         check(page in info["Page size"], "page size %s (%s)" % (page, info["Page size"].strip()))
         check(fonts_embedded(os.path.join(work, "m.pdf")), "every font embedded (pdffonts)")
+        images = subprocess.run(["pdfimages", "-list", os.path.join(work, "m.pdf")], capture_output=True,
+                                text=True, check=True).stdout.splitlines()[2:]
+        check(len(images) == 0, "charts and diagram are vector graphics: no raster image in the PDF (pdfimages)")
         check(renders_pages_1_and_2(os.path.join(work, "m.pdf"), work), "pdftoppm renders pages 1 and 2")
 
         doc = json.load(open(os.path.join(work, "x.json")))
@@ -168,6 +171,16 @@ try:
     rc, out, err = run(["run", "lender_audit.foldline", "--memo", "lender_audit.foldline"], work)
     check(rc == 2 and open(os.path.join(work, "lender_audit.foldline"), "rb").read() == before,
           "an output naming the project file is refused (2) and the project is untouched")
+    # A slope scan's memo: scipy's linregress gives the pooled slope the memo must quote.
+    from scipy.stats import linregress
+    shutil.copy(os.path.join(SAMPLES, "retail_weeks.csv"), work)
+    rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
+                        "--bootstrap", "0", "--memo", "retail.pdf"], work)
+    rw = pd.read_csv(os.path.join(work, "retail_weeks.csv")).dropna(subset=["promo_spend", "weekly_sales"])
+    pooled = linregress(rw["promo_spend"], rw["weekly_sales"]).slope
+    text = pdf_text(os.path.join(work, "retail.pdf")) if rc == 0 else ""
+    check(rc == 0 and ("%+.4g" % pooled) in text and "Reversal: store_format" in text,
+          "slope memo quotes the pooled slope %+.4g (scipy) and the store_format reversal" % pooled)
     rc, out, err = run(["run", "no_such.foldline"], work)
     check(rc == 3 and "cannot open the project file" in err, "a missing project is an input error (3)")
     open(os.path.join(work, "bad.foldline"), "w").write('{"format": "foldline-project", "version": 99}')

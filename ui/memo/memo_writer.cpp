@@ -9,6 +9,7 @@
 #include <QBuffer>
 #include <QFont>
 #include <QFontMetricsF>
+#include <QImage>
 #include <QPainter>
 #include <QPainterPath>
 #include <QPdfWriter>
@@ -81,8 +82,10 @@ QString elided(const QString& s, int max) { return s.size() <= max ? s : s.left(
 // pages, then again to draw.
 class Flow {
 public:
-    Flow(QPdfWriter& pdf, QPainter* painter, const MemoContent& memo, int total_pages)
-        : pdf_(pdf), p_(painter), memo_(memo), total_(total_pages) {
+    /// `only_page` 0: draw every page onto the PDF; n > 0: draw page n alone (a preview image;
+    /// the painter then paints on the image, the PDF writer only supplies the metrics).
+    Flow(QPdfWriter& pdf, QPainter* painter, const MemoContent& memo, int total_pages, int only_page = 0)
+        : pdf_(pdf), p_(painter), memo_(memo), total_(total_pages), only_page_(only_page) {
         page_ = QRectF(0, 0, pdf.width(), pdf.height());
         body_ = page_.adjusted(pt(54), pt(62), -pt(54), -pt(58));
         y_ = body_.top();
@@ -90,6 +93,7 @@ public:
     }
 
     int pages() const { return page_no_; }
+    bool drawing() const { return p_ && (only_page_ == 0 || page_no_ == only_page_); }
     double width() const { return body_.width(); }
     double left() const { return body_.left(); }
     QPaintDevice* device() const { return &pdf_; }
@@ -97,7 +101,9 @@ public:
 
     QFont font(double size, bool bold = false, bool italic = false) const {
         QFont f(QStringLiteral("DejaVu Sans"));
-        f.setPointSizeF(size);
+        // Pixel size in PDF device units: the same font then draws at the same size on a preview
+        // image whose painter is scaled to the page (a point size would follow that device's DPI).
+        f.setPixelSize(static_cast<int>(std::lround(pt(size))));
         f.setBold(bold);
         f.setItalic(italic);
         f.setHintingPreference(QFont::PreferNoHinting);
@@ -113,7 +119,7 @@ public:
     }
 
     void new_page() {
-        if (p_) pdf_.newPage();
+        if (p_ && only_page_ == 0) pdf_.newPage();
         ++page_no_;
         y_ = body_.top();
         begin_page();
@@ -157,7 +163,7 @@ public:
             for (int i = 0; i < l->lineCount(); ++i) {
                 QTextLine line = l->lineAt(i);
                 ensure(line.height());
-                if (p_) {
+                if (drawing()) {
                     p_->setPen(color);
                     line.draw(p_, QPointF(left() + indent, y_ - line.position().y()));
                 }
@@ -202,7 +208,7 @@ public:
             return h + 2 * pad;
         };
         auto draw_row = [&](std::vector<std::unique_ptr<QTextLayout>>& ls, double h, bool header, bool shade) {
-            if (p_) {
+            if (drawing()) {
                 if (header) p_->fillRect(QRectF(left(), y_, width(), h), kBand);
                 else if (shade) p_->fillRect(QRectF(left(), y_, width(), h), QColor(0xF8, 0xF9, 0xFA));
                 p_->setPen(QPen(kRule, pt(0.5)));
@@ -235,7 +241,7 @@ public:
     // A drawing of fixed height, kept on one page.
     void block(double height, const std::function<void(QPainter&, const QRectF&)>& draw) {
         ensure(height);
-        if (p_) {
+        if (drawing()) {
             p_->save();
             draw(*p_, QRectF(left(), y_, width(), height));
             p_->restore();
@@ -245,7 +251,7 @@ public:
 
 private:
     void begin_page() {
-        if (!p_) return;
+        if (!drawing()) return;
         QPainter& p = *p_;
         const QFont small = font(7.5);
         p.setFont(small);
@@ -272,6 +278,7 @@ private:
     QPainter* p_;
     const MemoContent& memo_;
     int total_;
+    int only_page_;
     int page_no_ = 1;
     QRectF page_, body_;
     double y_ = 0;
@@ -578,8 +585,8 @@ void render(Flow& flow, const MemoContent& m) {
         flow.paragraph(QStringLiteral("Pooled and adjusted figures"), flow.font(10, true), kInk, 0, 3);
         flow.table(s.figures, 8);
         flow.labelled(QStringLiteral("Verdict"), q(s.verdict));
-        flow.labelled(QStringLiteral("Decomposition"), q(s.decomposition));
-        flow.labelled(QStringLiteral("Sensitivity to unmeasured confounding"), q(s.e_value));
+        if (!s.decomposition.empty()) flow.labelled(QStringLiteral("Decomposition"), q(s.decomposition));
+        if (!s.e_value.empty()) flow.labelled(QStringLiteral("Sensitivity to unmeasured confounding"), q(s.e_value));
         flow.labelled(QStringLiteral("Review"), q(s.decision));
         if (!s.note.empty()) flow.labelled(QStringLiteral("Reviewer's note"), q(s.note));
         flow.space(4);
@@ -688,6 +695,32 @@ QByteArray memo_pdf(const MemoContent& memo) {
         painter.end();
     }
     return out.data();
+}
+
+QImage memo_page_image(const MemoContent& memo, int page, int width_px) {
+    ensure_memo_application();
+    QBuffer scratch;
+    scratch.open(QIODevice::WriteOnly);
+    QPdfWriter pdf(&scratch);
+    setup(pdf, memo);
+    int total = 1;
+    {
+        Flow dry(pdf, nullptr, memo, 0);
+        render(dry, memo);
+        total = dry.pages();
+    }
+    if (page < 1 || page > total || width_px <= 0) return {};
+    const double scale = static_cast<double>(width_px) / pdf.width();
+    QImage image(width_px, static_cast<int>(std::lround(pdf.height() * scale)), QImage::Format_RGB32);
+    image.fill(Qt::white);
+    QPainter painter(&image);
+    painter.setRenderHint(QPainter::Antialiasing, true);
+    painter.setRenderHint(QPainter::TextAntialiasing, true);
+    painter.scale(scale, scale);
+    Flow flow(pdf, &painter, memo, total, page);
+    render(flow, memo);
+    painter.end();
+    return image;
 }
 
 Status write_memo_pdf(const MemoContent& memo, const std::string& path) {

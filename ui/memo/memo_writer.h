@@ -14,6 +14,7 @@
 #include "core/report/memo_content.h"
 
 #include <QByteArray>
+#include <QImage>
 
 namespace foldline::ui {
 
@@ -24,6 +25,10 @@ void ensure_memo_application();
 
 /// The memo as PDF bytes. An empty MemoContent gives a one-page PDF with the caution.
 QByteArray memo_pdf(const report::MemoContent& memo);
+
+/// Page `page` (1-based) of the memo as an image `width_px` wide, for a preview beside the
+/// menu action. Null image when the page does not exist or width_px <= 0.
+QImage memo_page_image(const report::MemoContent& memo, int page, int width_px);
 
 /// Writes the memo atomically to `path`. Error names the file and the reason (missing or
 /// read-only folder); a previous file at `path` is then left as it was.

@@ -222,3 +222,52 @@ TEST(MemoContent, EmptyScanAndNumberFormats) {
     EXPECT_EQ(p_text(0.41), "0.41");
     EXPECT_EQ(fixed(std::nan(""), 2), "n/a");
 }
+
+TEST(MemoContent, SlopeFindingsGetTheirOwnSections) {
+    // iris (R datasets) [src, methods.md]: pooled slope of Sepal.Width on Sepal.Length -0.0618848,
+    // species fixed effects 0.3498801 [calc]; the figures are set directly, the memo only words them.
+    ScanResult r;
+    r.slope_question.x = "Sepal.Length";
+    r.slope_question.y = "Sepal.Width";
+    SlopeFinding f;
+    f.x = "Sepal.Length";
+    f.y = "Sepal.Width";
+    f.strata = {"Species"};
+    f.finding_class = FindingClass::Reversal;
+    f.pooled.slope = -0.0618848;
+    f.pooled.n = 150;
+    f.within.slope = 0.3498801;
+    f.within.strata = 3;
+    f.q_value = 0.0001;
+    SlopeGroup g;
+    g.level = "setosa";
+    g.n = 50;
+    g.slope = 0.7985283;
+    g.informative = true;
+    f.groups = {g};
+    SlopeFinding stable = f;
+    stable.strata = {"petal_bin"};
+    stable.finding_class = FindingClass::Stable;
+    r.slope_findings = {f, stable};
+    MemoInput in;
+    in.scan = &r;
+    const MemoContent m = build_memo(in);
+    EXPECT_NE(m.question.find("Does Sepal.Width rise or fall with Sepal.Length"), std::string::npos) << m.question;
+    ASSERT_EQ(m.sections.size(), 1u);
+    const auto& s = m.sections[0];
+    EXPECT_EQ(s.heading, "1. Reversal: Species (Sepal.Width on Sepal.Length)");
+    EXPECT_EQ((*row_named(s.figures, "Pooled slope"))[1], "-0.06188");
+    EXPECT_EQ((*row_named(s.figures, "Within slope (one intercept per stratum)"))[1], "+0.3499");
+    EXPECT_EQ(s.strata.rows.size(), 2u);
+    EXPECT_EQ(s.strata.rows[1][0], "setosa");
+    EXPECT_EQ(s.strata.rows[1][2], "+0.7985");
+    EXPECT_TRUE(s.chart.points.empty());  // no rate chart for a trend
+    EXPECT_TRUE(s.e_value.empty());
+    EXPECT_NE(s.lead.find("The trend reverses"), std::string::npos) << s.lead;
+    ASSERT_EQ(m.findings.rows.size(), 1u);
+    EXPECT_EQ(m.findings.rows[0][0], "s1");
+    project::Project p;
+    p.review_for(project::slope_key({"petal_bin"}, "Sepal.Length", "Sepal.Width")).in_memo = true;
+    EXPECT_TRUE(included_in_memo(stable, &p));
+    EXPECT_FALSE(included_in_memo(stable, nullptr));
+}

@@ -63,6 +63,23 @@ private slots:
         QCOMPARE(page_count(empty), 1);
     }
 
+    void previewImageOfPageOne() {
+        const auto memo = sample_memo(project::PageSize::A4);
+        const QImage img = ui::memo_page_image(memo, 1, 600);
+        QVERIFY(!img.isNull());
+        if (qEnvironmentVariableIsSet("FOLDLINE_SAVE_PREVIEW"))  // to look at it by eye
+            img.save(qEnvironmentVariable("FOLDLINE_SAVE_PREVIEW"));
+        QCOMPARE(img.width(), 600);
+        QVERIFY(std::abs(img.height() - 600 * 842 / 595) <= 1);  // A4 aspect, 595 x 842 pt
+        int dark = 0;
+        for (int y = 0; y < img.height(); y += 2)
+            for (int x = 0; x < img.width(); x += 2)
+                if (qGray(img.pixel(x, y)) < 128) ++dark;
+        QVERIFY2(dark > 500, qPrintable(QString::number(dark)));  // text was drawn
+        QVERIFY(ui::memo_page_image(memo, 99, 600).isNull());
+        QVERIFY(ui::memo_page_image(memo, 0, 600).isNull());
+    }
+
     void writesAtomically() {
         QTemporaryDir dir;
         QVERIFY(dir.isValid());
