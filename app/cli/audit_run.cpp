@@ -13,6 +13,7 @@
 #include "core/io/csv_reader.h"
 #include "core/report/csv_export.h"
 #include "core/report/memo_content.h"
+#include "core/report/verdict_json.h"
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
@@ -72,13 +73,13 @@ Result<AuditRun> run_audit(const project::Project& p, const std::string& data_ov
     if (!result) return result.error();
     run.result = std::move(*result);
     run.info = DataInfo{path, *digest, static_cast<double>(run.table.rows)};
-    if (const auto* d = p.diagram()) run.verdicts = attach_verdicts(run.result, *d, run.diagram_problem);
+    if (const auto* d = p.diagram()) run.verdicts = attach_verdicts(run.result, run.table, *d, run.diagram_problem);
     exit_code = kOk;
     return run;
 }
 
-std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, const causal::Diagram& diagram,
-                                                            std::string& problem) {
+std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, const Table& table,
+                                                            const causal::Diagram& diagram, std::string& problem) {
     std::vector<std::optional<causal::Verdict>> out;
     if (diagram.nodes.empty()) return out;
     auto cg = causal::CausalGraph::build(diagram);
@@ -87,6 +88,7 @@ std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, 
         return out;
     }
     const auto& q = result.question;
+    const RowCells rows = q.outcome.empty() ? RowCells{} : encode_rows(table, q);
     out.resize(result.rate_findings.size());
     for (std::size_t i = 0; i < result.rate_findings.size(); ++i) {
         auto& f = result.rate_findings[i];
@@ -96,7 +98,16 @@ std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, 
             continue;
         }
         f.verdict = std::string(causal::to_string(v->answer));
+        f.verdict_detail = report::rate_verdict_json(table, rows, f, *v, result.alpha).dump();
         out[i] = std::move(*v);
+    }
+    for (auto& f : result.slope_findings) {
+        auto v = causal::decide(*cg, f.x, f.y, f.strata);
+        if (!v) {
+            if (problem.empty()) problem = v.error().message;
+            continue;
+        }
+        f.verdict_detail = report::slope_verdict_json(table, result.slope_question, f, *v).dump();
     }
     return out;
 }

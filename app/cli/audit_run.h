@@ -34,9 +34,11 @@ Result<AuditRun> run_audit(const project::Project& p, const std::string& data_ov
                            int& exit_code);
 
 /// Verdicts for each rate finding under `diagram` (nullopt where the diagram cannot judge one);
-/// also fills RateFinding::verdict with the answer's name. Empty diagram → empty vector.
-std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, const causal::Diagram& diagram,
-                                                            std::string& problem);
+/// also fills RateFinding::verdict with the answer's name, and the verdict_detail JSON of rate
+/// and slope findings (with the adjusted estimate the verdict points to, computed on `table`).
+/// Empty diagram → empty vector.
+std::vector<std::optional<causal::Verdict>> attach_verdicts(ScanResult& result, const Table& table,
+                                                            const causal::Diagram& diagram, std::string& problem);
 
 struct ClassChange {
     project::FindingKey key;

@@ -11,6 +11,8 @@
 #include "app/cli/args.h"
 #include "app/cli/audit_run.h"
 #include "app/cli/command.h"
+#include "core/causal/diagram.h"
+#include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -147,6 +149,7 @@ int run(int argc, char** argv) {
         {"timings", false, ""},              {"help", false, ""},
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
+        {"diagram", true, "DIAGRAM.json"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -157,6 +160,7 @@ int run(int argc, char** argv) {
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
                      "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
+                     "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
                      "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
         return kOk;
     }
@@ -284,6 +288,21 @@ int run(int argc, char** argv) {
         if (!result) return fail(kName, kInternal, result.error().to_string());
         if (!sq.x.empty()) result->slope_question = sq;
     }
+    if (a.has("diagram")) {
+        // Diagram nodes are matched to data columns by name; an observed node missing from the
+        // data is an input error that names it.
+        const std::string dpath = *a.get("diagram");
+        auto diagram = causal::read_diagram(dpath);
+        if (!diagram) return fail(kName, kInput, diagram.error().to_string());
+        auto graph = causal::CausalGraph::build(*diagram, dpath);
+        if (!graph) return fail(kName, kInput, graph.error().to_string());
+        std::vector<std::string> names;
+        for (const auto& c : table->columns) names.push_back(c.name);
+        if (auto st = causal::check_columns(*graph, names, dpath); !st) return fail(kName, kInput, st.error().to_string());
+        std::string problem;
+        attach_verdicts(*result, *table, *diagram, problem);
+        if (!problem.empty()) std::cerr << "foldline scan: the diagram cannot judge every finding: " << problem << '\n';
+    }
     const auto t2 = clock::now();
 
     DataInfo info{path, *digest, static_cast<double>(table->rows)};
@@ -312,7 +331,7 @@ int run(int argc, char** argv) {
 const CommandRegistration reg{Command{
     "scan",
     "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
-    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-]",
+    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf]",
     "search every stratifier and pair for reversals of the outcome rate between groups",
     run}};
 

@@ -102,7 +102,8 @@ json rate_finding_to_json(const RateFinding& f) {
     j["strata_table"] = std::move(rows);
     j["uninformative"] = f.uninformative;
     j["informative_strata"] = f.informative_strata;
-    j["verdict"] = f.verdict.empty() ? json(nullptr) : json(f.verdict);
+    if (!f.verdict_detail.empty()) j["verdict"] = json::parse(f.verdict_detail);
+    else j["verdict"] = f.verdict.empty() ? json(nullptr) : json({{"answer", f.verdict}});
     return j;
 }
 
@@ -355,8 +356,15 @@ void write_rate_finding(Writer& w, const RateFinding& f) {
     w.raw(",");
     w.field("informative_strata", static_cast<double>(f.informative_strata));
     w.key("verdict");
-    if (f.verdict.empty()) w.raw("null");
-    else w.str(f.verdict);
+    if (!f.verdict_detail.empty()) {
+        w.raw(f.verdict_detail);
+    } else if (f.verdict.empty()) {
+        w.raw("null");
+    } else {
+        w.raw("{\"answer\":");
+        w.str(f.verdict);
+        w.raw("}");
+    }
     w.raw("}");
 }
 

@@ -80,6 +80,7 @@ json to_json(const SlopeFinding& f) {
     }
     j["groups"] = std::move(groups);
     j["uninformative"] = f.uninformative;
+    j["verdict"] = f.verdict_detail.empty() ? json(nullptr) : json::parse(f.verdict_detail);
     return j;
 }
 

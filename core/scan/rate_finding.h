@@ -79,6 +79,9 @@ struct RateFinding {
     /// Filled by the causal layer when a diagram is given (which view answers the question);
     /// empty otherwise.
     std::string verdict;
+    /// The full verdict as a compact JSON object (answer, roles, valid sets, adjusted estimate,
+    /// reason) when a diagram was given; empty otherwise. Written by core/report/verdict_json.
+    std::string verdict_detail;
 
     bool reversal() const { return cls == FindingClass::Reversal; }
     /// "product" or "product × branch"; "" when no stratifier is named.

@@ -90,6 +90,9 @@ struct SlopeFinding {
     SlopeEstimate adjusted_pooled;
     SlopeEstimate adjusted_within;
     EqualSlopesTest equal_slopes;
+    /// A diagram's verdict on this finding as a compact JSON object (core/report/verdict_json);
+    /// empty when no diagram was given.
+    std::string verdict_detail;
     bool linear_probability = false;  ///< y is 0/1: slopes are differences in probability
     std::vector<SlopeGroup> groups;   ///< non-empty strata, in code order
     std::vector<std::string> uninformative;  ///< labels of groups with informative == false
