@@ -103,3 +103,34 @@ TEST(AtomicFile, FullDiskLeavesPreviousFileIntact) {
     EXPECT_EQ(slurp(f), "previous");
     EXPECT_EQ(entries(d.path), 1u);
 }
+
+// A device target is written in place, never replaced: renaming over /dev/null would turn it
+// into an ordinary file for every process on the machine.
+TEST(AtomicFile, DeviceTargetIsWrittenInPlaceNotReplaced) {
+    struct stat before {};
+    ASSERT_EQ(::stat("/dev/null", &before), 0);
+    ASSERT_TRUE(S_ISCHR(before.st_mode));
+    ASSERT_TRUE(write_file_atomically("/dev/null", "discarded").ok());
+    struct stat after {};
+    ASSERT_EQ(::stat("/dev/null", &after), 0);
+    EXPECT_TRUE(S_ISCHR(after.st_mode));
+    EXPECT_EQ(before.st_ino, after.st_ino);
+}
+
+TEST(AtomicFile, SymbolicLinkKeepsPointingAtTheReplacedFile) {
+    TempDir d;
+    auto target = d.path / "real.foldline";
+    auto link = d.path / "link.foldline";
+    ASSERT_TRUE(write_file_atomically(target.string(), "one").ok());
+    fs::create_symlink(target, link);
+    ASSERT_TRUE(write_file_atomically(link.string(), "two").ok());
+    EXPECT_TRUE(fs::is_symlink(link));
+    EXPECT_EQ(slurp(target), "two");
+}
+
+TEST(AtomicFile, FolderTargetIsRefused) {
+    TempDir d;
+    auto st = write_file_atomically(d.path.string(), "x");
+    ASSERT_FALSE(st.ok());
+    EXPECT_NE(st.error().message.find("folder"), std::string::npos);
+}
