@@ -198,7 +198,7 @@ def expect_error(name, args, words, code=3, env=env):
     elif r.stdout.strip():
         failures.append(f"{name}: wrote output despite the error")
     else:
-        print(f"ok   {name}: {r.stderr.strip().splitlines()[-1][:160]}")
+        print(f"ok   {name}: {' '.join(r.stderr.split())[:300]}")
 
 
 q = ["--outcome", "hired=yes", "--exposure", "team=north,south"]
@@ -226,7 +226,7 @@ out, err = proc.communicate(timeout=60)
 if proc.returncode != 3 or out.strip() or "connection" not in err.lower():
     failures.append(f"dropped connection: exit {proc.returncode}, message: {err.strip()[:300]}")
 else:
-    print(f"ok   dropped connection: {err.strip().splitlines()[-1][:160]}")
+    print(f"ok   dropped connection: {' '.join(err.split())[:300]}")
 
 cleanup()
 for f in failures:
