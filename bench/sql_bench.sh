@@ -31,6 +31,7 @@ PSQL=(psql -X -q -h 127.0.0.1 -p "$PORT" -U admin -d postgres -v ON_ERROR_STOP=1
          (ARRAY['S1','S2','S3','S4','S5'])[1 + (i % 5)] AS site,
          (i % 7)::bigint AS tenure
   FROM generate_series(1, $ROWS) AS i"
+"${PSQL[@]}" -c "VACUUM ANALYZE staffing"   # a settled table, as in a warehouse
 CONN="odbc:Driver=$DRIVER;Server=127.0.0.1;Port=$PORT;Database=postgres;Uid=admin;"
 Q=(--outcome hired=yes --exposure team=north,south --bootstrap 0)
 median() { sort -n | awk '{a[NR]=$1} END {print a[int((NR+1)/2)]}'; }
