@@ -165,8 +165,7 @@ int run(int argc, char** argv) {
     if (from_db ? !a.positional().empty() : a.positional().size() != 1)
         return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both" : "expected one DATA file (CSV or TSV)");
     std::string path = from_db ? std::string() : a.positional()[0];
-    if (from_db && (a.has("count-column") || a.has("delimiter")))
-        return fail(kName, kUsage, "--count-column and --delimiter apply to files, not to --source");
+    if (from_db && a.has("delimiter")) return fail(kName, kUsage, "--delimiter applies to files, not to --source");
     if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
     if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
 
@@ -220,7 +219,7 @@ int run(int argc, char** argv) {
         std::vector<std::string> required = {spec.outcome, spec.exposure};
         for (const auto& c : copt.columns) required.push_back(c);
         auto loaded = load_database_source(*a.get("source"), a.get_or("table", ""), a.get_or("query", ""), required,
-                                           copt.columns.empty(), copt);
+                                           copt.columns.empty(), copt, ropt.count_column);
         if (loaded) {
             db = std::move(*loaded);
             path = db.description;

@@ -10,7 +10,8 @@ namespace foldline::cli {
 
 Result<DatabaseSource> load_database_source(const std::string& source, const std::string& table,
                                             const std::string& query, const std::vector<std::string>& required,
-                                            bool all_columns, const CandidateOptions& copt) {
+                                            bool all_columns, const CandidateOptions& copt,
+                                            const std::string& count_column) {
 #ifdef FOLDLINE_HAS_ODBC
     if (source.rfind("odbc:", 0) != 0)
         return make_error("--source must start with odbc: (for example odbc:DSN=warehouse;)");
@@ -23,6 +24,7 @@ Result<DatabaseSource> load_database_source(const std::string& source, const std
     o.all_columns = all_columns;
     o.max_levels = copt.max_levels;
     o.max_missing_share = copt.max_missing_share;
+    o.count_column = count_column;
     auto r = read_odbc_cells(o);
     if (!r) return r.error();
     DatabaseSource d;
@@ -36,7 +38,7 @@ Result<DatabaseSource> load_database_source(const std::string& source, const std
     d.table = std::move(r->table);
     return d;
 #else
-    (void)source, (void)table, (void)query, (void)required, (void)all_columns, (void)copt;
+    (void)source, (void)table, (void)query, (void)required, (void)all_columns, (void)copt, (void)count_column;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
 }

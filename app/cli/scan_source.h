@@ -25,7 +25,8 @@ struct DatabaseSource {
 /// ODBC support, when both or neither of table/query are given, or from the database.
 Result<DatabaseSource> load_database_source(const std::string& source, const std::string& table,
                                             const std::string& query, const std::vector<std::string>& required,
-                                            bool all_columns, const CandidateOptions& options);
+                                            bool all_columns, const CandidateOptions& options,
+                                            const std::string& count_column = {});
 
 /// Puts `left_out` into `excluded` and orders the list by the columns' positions in `columns`.
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

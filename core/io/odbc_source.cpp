@@ -329,6 +329,12 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     for (const auto& r : o.required)
         if (std::none_of(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == r; }))
             return make_error("column '" + r + "' not found in the source " + out.source_text);
+    if (!o.count_column.empty()) {
+        const auto it = std::find_if(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == o.count_column; });
+        if (it == cols.end()) return make_error("count column '" + o.count_column + "' not found in the source " + out.source_text);
+        if (!it->numeric) return make_error("count column '" + o.count_column + "' is not numeric in the source");
+        cols.erase(it);
+    }
     work.report(1, 3, "profiling columns");
 
     // 2. Profile: rows, non-missing and distinct values of every candidate column.
@@ -400,7 +406,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     std::vector<std::vector<std::pair<std::string, bool>>> text_cells(keep.size());
     std::vector<double> weights;
     const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(keep.size() + 1);
-    if (auto st = s.run(sql::cells_sql(*from, names, o.first_appearance), "counting the cells",
+    if (auto st = s.run(sql::cells_sql(*from, names, o.first_appearance, o.count_column), "counting the cells",
                         [&](SQLHSTMT h, SQLSMALLINT) -> Status {
                             for (std::size_t i = 0; i < keep.size(); ++i) {
                                 const SQLUSMALLINT col = static_cast<SQLUSMALLINT>(i + 1);
@@ -428,6 +434,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     t.rows = weights.size();
     t.weights = std::move(weights);
     t.source = "odbc: " + out.source_text;
+    t.weight_column = o.count_column;
     for (std::size_t i = 0; i < keep.size(); ++i) {
         if (keep[i].numeric) {
             t.columns.push_back(Column::numeric(keep[i].name, std::move(values[i])));

@@ -34,6 +34,7 @@ struct OdbcOptions {
     double max_missing_share = 0.5; ///< columns missing in more of the rows are left out (all_columns)
     bool first_appearance = true;   ///< number levels in order of first appearance (ROW_NUMBER() OVER ())
     long timeout_seconds = 0;       ///< per-statement timeout; 0 = none
+    std::string count_column;       ///< pre-counted source: rows per source row (summed, never fetched as a column)
 };
 
 /// A column that was not fetched, and why (same wording as the candidate selection).

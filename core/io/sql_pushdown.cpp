@@ -161,15 +161,18 @@ std::string profile_sql(const std::string& from, const std::vector<std::string>&
     return s + " FROM " + from;
 }
 
-std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance) {
+std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
+                      const std::string& count_column) {
     if (columns.empty()) return {};
     const std::string cols = join_quoted(columns);
-    const std::string count = std::string("COUNT(*) AS ") + quote_identifier(kCountColumn);
+    const std::string w = count_column.empty() ? std::string() : quote_identifier(count_column);
+    const std::string count =
+        (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") + " AS " + quote_identifier(kCountColumn);
     if (!first_appearance) return "SELECT " + cols + ", " + count + " FROM " + from + " GROUP BY " + cols;
     const std::string pos = quote_identifier(kFirstRowColumn);
     return "SELECT " + cols + ", " + count + ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + cols +
-           ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from + ") AS numbered GROUP BY " + cols + " ORDER BY " +
-           pos;
+           (w.empty() ? "" : ", " + w) + ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from +
+           ") AS numbered GROUP BY " + cols + " ORDER BY " + pos;
 }
 
 std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,

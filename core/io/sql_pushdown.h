@@ -63,8 +63,11 @@ inline constexpr const char* kCountColumn = "foldline_rows";
 /// The joint cells of `columns`: one row per distinct combination (NULL kept as a value) with
 /// the columns, COUNT(*) AS foldline_rows, and — when `first_appearance` — the smallest
 /// ROW_NUMBER() OVER () of the cell AS foldline_first_row, ordered by it (so levels can be
-/// numbered in order of first appearance). `columns` must not be empty (returns "" if it is).
-std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance);
+/// numbered in order of first appearance). With a `count_column` (a pre-counted source) the
+/// cell's rows are SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*) (NULL counts add
+/// nothing). `columns` must not be empty (returns "" if it is).
+std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
+                      const std::string& count_column = {});
 
 /// Every count cube of a rate scan in one pass: GROUP BY GROUPING SETS with one set
 /// (outcome, exposure, s) per stratifier s, and — when `pairs` — one set (outcome, exposure,

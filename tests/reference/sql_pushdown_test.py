@@ -140,12 +140,13 @@ with open(big, "w", newline="") as f:
 load("lender", os.path.join(root, "sample_data/lender_approvals.csv"))
 load("clinic", os.path.join(root, "sample_data/clinic_outcomes.csv"))
 load("staffing", big)
+load("clinic_counts", os.path.join(root, "sample_data/clinic_outcomes_counts.csv"))
 psql('CREATE TABLE payroll (team TEXT, hired TEXT, salary BIGINT)')
 psql("INSERT INTO payroll VALUES ('north', 'yes', 1), ('south', 'no', 2)")
 psql('CREATE TABLE blobs (team TEXT, hired TEXT, doc JSON)')
 psql("""INSERT INTO blobs VALUES ('north', 'yes', '{"a":1}'), ('south', 'no', '{"a":2}')""")
 psql("CREATE ROLE reader LOGIN PASSWORD 'reader-secret'")
-psql("GRANT SELECT ON lender, clinic, staffing, blobs TO reader")   # not payroll
+psql("GRANT SELECT ON lender, clinic, staffing, blobs, clinic_counts TO reader")   # not payroll
 
 conn = f"odbc:Driver={driver};Server=127.0.0.1;Port={port};Database=audit;Uid=reader;"
 env = dict(os.environ, FOLDLINE_ODBC_PASSWORD="reader-secret")
@@ -159,9 +160,9 @@ def scan(args, env=env):
     return r, time.time() - t
 
 
-def compare(name, csv_path, table, question):
-    a, ta = scan([csv_path, *question])
-    b, tb = scan(["--source", conn, "--table", table, *question])
+def compare(name, csv_path, table, question, extra=()):
+    a, ta = scan([csv_path, *question, *extra])
+    b, tb = scan(["--source", conn, "--table", table, *question, *extra])
     if a.returncode or b.returncode:
         failures.append(f"{name}: exit codes file {a.returncode}, database {b.returncode}: {b.stderr.strip()}")
         return
@@ -187,6 +188,9 @@ compare("lender", os.path.join(root, "sample_data/lender_approvals.csv"), "lende
         ["--outcome", "approved=1", "--exposure", "applicant_group=B,A"])
 compare("clinic", os.path.join(root, "sample_data/clinic_outcomes.csv"), "clinic",
         ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"])
+compare("clinic pre-counted (count column)", os.path.join(root, "sample_data/clinic_outcomes_counts.csv"),
+        "clinic_counts", ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"],
+        ["--count-column", "patients"])
 compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=yes", "--exposure", "team=north,south"])
 
 

@@ -84,6 +84,11 @@ TEST(SqlText, CellsGroupEveryColumnAndKeepFirstAppearance) {
               "FROM (SELECT \"o\", ROW_NUMBER() OVER () AS \"foldline_first_row\" FROM \"t\" AS src) AS numbered "
               "GROUP BY \"o\" ORDER BY \"foldline_first_row\"");
     EXPECT_EQ(cells_sql("\"t\" AS src", {}, true), "");
+    // A pre-counted source sums its count column.
+    EXPECT_EQ(cells_sql("\"t\" AS src", {"o"}, false, "n"),
+              "SELECT \"o\", SUM(CAST(\"n\" AS DOUBLE PRECISION)) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY \"o\"");
+    EXPECT_NE(cells_sql("\"t\" AS src", {"o"}, true, "n").find("SELECT \"o\", \"n\", ROW_NUMBER() OVER ()"),
+              std::string::npos);
 }
 
 TEST(SqlText, CubesUseOneGroupingSetPerStratifierAndPair) {
