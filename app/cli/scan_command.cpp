@@ -13,6 +13,7 @@
 #include "app/cli/command.h"
 #include "core/causal/diagram.h"
 #include "core/causal/diagram_file.h"
+#include "app/cli/scan_source.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -150,6 +151,8 @@ int run(int argc, char** argv) {
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
         {"diagram", true, "DIAGRAM.json"},
+        {"source", true, "odbc:CONN"},       {"table", true, "T"},
+        {"query", true, "SQL"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -161,11 +164,15 @@ int run(int argc, char** argv) {
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
                      "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
                      "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
+                     "foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to the database)\n"
                      "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
         return kOk;
     }
-    if (a.positional().size() != 1) return fail(kName, kUsage, "expected one DATA file (CSV or TSV)");
-    const std::string path = a.positional()[0];
+    const bool from_db = a.has("source");
+    if (from_db ? !a.positional().empty() : a.positional().size() != 1)
+        return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both" : "expected one DATA file (CSV or TSV)");
+    std::string path = from_db ? std::string() : a.positional()[0];
+    if (from_db && a.has("delimiter")) return fail(kName, kUsage, "--delimiter applies to files, not to --source");
     if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
     if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
 
@@ -203,7 +210,9 @@ int run(int argc, char** argv) {
     const auto t0 = clock::now();
     // The file's digest goes in the JSON; compute it beside the parse.
     Result<std::string> digest = std::string();
-    std::thread hasher([&] { digest = sha256_file(path); });
+    std::thread hasher([&] {
+        if (!from_db) digest = sha256_file(path);
+    });
     CsvOptions ropt;
     ropt.count_column = a.get_or("count-column", "");
     ropt.threads = sopt.threads;
@@ -211,7 +220,21 @@ int run(int argc, char** argv) {
         const auto d = *a.get("delimiter");
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
     }
-    auto table = read_csv(path, ropt);
+    DatabaseSource db;
+    auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
+    if (from_db) {
+        std::vector<std::string> required = {spec.outcome, spec.exposure};
+        for (const auto& c : copt.columns) required.push_back(c);
+        auto loaded = load_database_source(*a.get("source"), a.get_or("table", ""), a.get_or("query", ""), required,
+                                           copt.columns.empty(), copt, ropt.count_column);
+        if (loaded) {
+            db = std::move(*loaded);
+            path = db.description;
+            table = std::move(db.table);
+        } else {
+            table = loaded.error();
+        }
+    }
     hasher.join();
     if (!table) return fail(kName, kInput, table.error().to_string());
     if (!digest) return fail(kName, kInput, digest.error().to_string());
@@ -303,9 +326,10 @@ int run(int argc, char** argv) {
         attach_verdicts(*result, *table, *diagram, problem);
         if (!problem.empty()) std::cerr << "foldline scan: the diagram cannot judge every finding: " << problem << '\n';
     }
+    if (from_db) merge_left_out(result->excluded, db.left_out, db.columns);
     const auto t2 = clock::now();
 
-    DataInfo info{path, *digest, static_cast<double>(table->rows)};
+    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows)};
     const std::string json_dest = a.get_or("json", "");
     std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
     if (!json_dest.empty()) {

@@ -1,0 +1,465 @@
+#include "core/io/odbc_source.h"
+
+#include <sql.h>
+#include <sqlext.h>
+
+#include <algorithm>
+#include <atomic>
+#include <cctype>
+#include <chrono>
+#include <cmath>
+#include <condition_variable>
+#include <cstdlib>
+#include <ctime>
+#include <functional>
+#include <limits>
+#include <mutex>
+#include <thread>
+#include <unordered_map>
+
+namespace foldline {
+namespace {
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+std::string lower(std::string_view s) {
+    std::string out(s);
+    for (auto& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    return out;
+}
+
+bool good(SQLRETURN rc) { return rc == SQL_SUCCESS || rc == SQL_SUCCESS_WITH_INFO; }
+
+struct Diagnostic {
+    std::string state;
+    std::string text;
+};
+
+Diagnostic diagnose(SQLSMALLINT type, SQLHANDLE h) {
+    Diagnostic d;
+    for (SQLSMALLINT i = 1; i <= 5; ++i) {
+        SQLCHAR state[6] = {0};
+        SQLCHAR msg[1024] = {0};
+        SQLINTEGER native = 0;
+        SQLSMALLINT len = 0;
+        if (!good(SQLGetDiagRec(type, h, i, state, &native, msg, sizeof msg, &len))) break;
+        if (d.state.empty()) d.state = reinterpret_cast<const char*>(state);
+        std::string m = reinterpret_cast<const char*>(msg);
+        while (!m.empty() && (m.back() == '\n' || m.back() == ' ')) m.pop_back();
+        if (!d.text.empty()) d.text += "; ";
+        d.text += m;
+    }
+    return d;
+}
+
+/// Plain words for the SQLSTATE classes a user can cause.
+std::string explain(const Diagnostic& d, const std::string& what) {
+    const std::string& s = d.state;
+    std::string head;
+    const std::string text = lower(d.text);
+    if (s.rfind("08", 0) == 0 || s == "57P01" || s == "HYT01" || text.find("server closed the connection") != std::string::npos ||
+        (text.find("connection") != std::string::npos && text.find("lost") != std::string::npos) ||
+        text.find("could not send data") != std::string::npos || text.find("no connection") != std::string::npos)
+        head = "the connection to the database failed or was lost while " + what;
+    else if (s == "42501" || text.find("permission denied") != std::string::npos)
+        head = "permission denied while " + what + " (the account needs SELECT on the source)";
+    else if (s == "42P01" || s == "42S02" || text.find("does not exist") != std::string::npos)
+        head = "the table, view or column does not exist (" + what + ")";
+    else if (s == "42883" || s == "42804" || text.find("equality operator") != std::string::npos)
+        head = "a column's type cannot be grouped or counted by the engine while " + what +
+               " (leave it out with --strata, or convert it in a --query)";
+    else if (s == "HY008")
+        head = "cancelled while " + what;
+    else
+        head = "database error while " + what;
+    return head + " [SQLSTATE " + (s.empty() ? "?" : s) + "]: " + (d.text.empty() ? "no message from the driver" : d.text);
+}
+
+struct Handles {
+    SQLHENV env = SQL_NULL_HENV;
+    SQLHDBC dbc = SQL_NULL_HDBC;
+    bool connected = false;
+    ~Handles() {
+        if (connected) SQLDisconnect(dbc);
+        if (dbc != SQL_NULL_HDBC) SQLFreeHandle(SQL_HANDLE_DBC, dbc);
+        if (env != SQL_NULL_HENV) SQLFreeHandle(SQL_HANDLE_ENV, env);
+    }
+};
+
+struct Statement {
+    SQLHSTMT h = SQL_NULL_HSTMT;
+    ~Statement() {
+        if (h != SQL_NULL_HSTMT) SQLFreeHandle(SQL_HANDLE_STMT, h);
+    }
+};
+
+/// Calls SQLCancel on `stmt` when the stop token fires, until destroyed.
+class CancelWatch {
+public:
+    CancelWatch(SQLHSTMT stmt, const Work& work) {
+        thread_ = std::thread([this, stmt, stop = work.stop] {
+            std::unique_lock<std::mutex> lock(m_);
+            while (!done_) {
+                if (stop.stop_requested()) {
+                    SQLCancel(stmt);
+                    cancelled_ = true;
+                    return;
+                }
+                cv_.wait_for(lock, std::chrono::milliseconds(50));
+            }
+        });
+    }
+    ~CancelWatch() {
+        {
+            std::lock_guard<std::mutex> lock(m_);
+            done_ = true;
+        }
+        cv_.notify_all();
+        thread_.join();
+    }
+    bool cancelled() const { return cancelled_; }
+
+private:
+    std::mutex m_;
+    std::condition_variable cv_;
+    bool done_ = false;
+    std::atomic<bool> cancelled_{false};
+    std::thread thread_;
+};
+
+bool numeric_type(SQLSMALLINT t) {
+    switch (t) {
+        case SQL_NUMERIC: case SQL_DECIMAL: case SQL_INTEGER: case SQL_SMALLINT: case SQL_FLOAT:
+        case SQL_REAL: case SQL_DOUBLE: case SQL_BIGINT: case SQL_TINYINT:
+            return true;
+        default:
+            return false;
+    }
+}
+
+bool groupable_type(SQLSMALLINT t) {
+    return t != SQL_BINARY && t != SQL_VARBINARY && t != SQL_LONGVARBINARY;
+}
+
+struct SourceColumn {
+    std::string name;
+    SQLSMALLINT type = 0;
+    bool numeric = false;
+};
+
+std::string utc_now() {
+    const std::time_t t = std::time(nullptr);
+    std::tm tm{};
+    gmtime_r(&t, &tm);
+    char buf[32];
+    std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", &tm);
+    return buf;
+}
+
+class Session {
+public:
+    Session(const OdbcOptions& o, const Work& w, OdbcTable& out) : o_(o), work_(w), out_(out) {}
+
+    Status connect() {
+        if (!good(SQLAllocHandle(SQL_HANDLE_ENV, SQL_NULL_HANDLE, &h_.env)))
+            return make_error("ODBC: cannot allocate an environment (is unixODBC installed?)");
+        SQLSetEnvAttr(h_.env, SQL_ATTR_ODBC_VERSION, reinterpret_cast<SQLPOINTER>(SQL_OV_ODBC3), 0);
+        if (!good(SQLAllocHandle(SQL_HANDLE_DBC, h_.env, &h_.dbc))) return make_error("ODBC: cannot allocate a connection");
+        SQLSetConnectAttr(h_.dbc, SQL_ATTR_LOGIN_TIMEOUT, reinterpret_cast<SQLPOINTER>(15), 0);
+        const std::string cs = odbc_connection_string(o_.connection);
+        if (cs.empty()) return make_error("no ODBC connection string (expected odbc:DSN=NAME; or odbc:Driver=...;...)");
+        SQLCHAR outbuf[1024];
+        SQLSMALLINT outlen = 0;
+        const SQLRETURN rc = SQLDriverConnect(h_.dbc, nullptr, reinterpret_cast<SQLCHAR*>(const_cast<char*>(cs.c_str())),
+                                              SQL_NTS, outbuf, sizeof outbuf, &outlen, SQL_DRIVER_NOPROMPT);
+        if (!good(rc)) {
+            const Diagnostic d = diagnose(SQL_HANDLE_DBC, h_.dbc);
+            return make_error("cannot connect with '" + redact_connection_string(cs) + "' [SQLSTATE " + d.state +
+                              "]: " + d.text);
+        }
+        h_.connected = true;
+        // Read-only access mode: the driver may refuse any change (only SELECTs are sent anyway).
+        SQLSetConnectAttr(h_.dbc, SQL_ATTR_ACCESS_MODE, reinterpret_cast<SQLPOINTER>(SQL_MODE_READ_ONLY), 0);
+        char buf[256];
+        SQLSMALLINT len = 0;
+        if (good(SQLGetInfo(h_.dbc, SQL_DRIVER_NAME, buf, sizeof buf, &len))) out_.driver = buf;
+        if (good(SQLGetInfo(h_.dbc, SQL_DRIVER_VER, buf, sizeof buf, &len))) out_.driver += std::string(" ") + buf;
+        if (good(SQLGetInfo(h_.dbc, SQL_DBMS_NAME, buf, sizeof buf, &len)))
+            out_.driver += std::string(" (") + buf + ")";
+        if (good(SQLGetInfo(h_.dbc, SQL_DATABASE_NAME, buf, sizeof buf, &len))) out_.database = buf;
+        return Ok{};
+    }
+
+    /// Runs one statement; `on_row` reads the current row with the statement handle.
+    Status run(const std::string& sql, const char* what, const std::function<Status(SQLHSTMT, SQLSMALLINT)>& on_row,
+               std::vector<SourceColumn>* describe = nullptr) {
+        if (work_.cancelled()) return make_error("cancelled before " + std::string(what));
+        out_.statements.push_back(sql);
+        Statement st;
+        if (!good(SQLAllocHandle(SQL_HANDLE_STMT, h_.dbc, &st.h))) {
+            return make_error(explain(diagnose(SQL_HANDLE_DBC, h_.dbc), what));
+        }
+        if (o_.timeout_seconds > 0)
+            SQLSetStmtAttr(st.h, SQL_ATTR_QUERY_TIMEOUT, reinterpret_cast<SQLPOINTER>(o_.timeout_seconds), 0);
+        CancelWatch watch(st.h, work_);
+        SQLRETURN rc = SQLExecDirect(st.h, reinterpret_cast<SQLCHAR*>(const_cast<char*>(sql.c_str())), SQL_NTS);
+        auto failure = [&]() -> Error {
+            if (watch.cancelled() || work_.cancelled()) return make_error(std::string("cancelled while ") + what);
+            return make_error(explain(diagnose(SQL_HANDLE_STMT, st.h), what));
+        };
+        if (!good(rc) && rc != SQL_NO_DATA) return failure();
+        SQLSMALLINT ncols = 0;
+        if (!good(SQLNumResultCols(st.h, &ncols))) return failure();
+        if (describe) {
+            for (SQLSMALLINT c = 1; c <= ncols; ++c) {
+                SQLCHAR name[512] = {0};
+                SQLSMALLINT nlen = 0, type = 0, digits = 0, nullable = 0;
+                SQLULEN size = 0;
+                if (!good(SQLDescribeCol(st.h, static_cast<SQLUSMALLINT>(c), name, sizeof name, &nlen, &type, &size,
+                                         &digits, &nullable)))
+                    return failure();
+                describe->push_back({reinterpret_cast<const char*>(name), type, numeric_type(type)});
+            }
+        }
+        while (true) {
+            rc = SQLFetch(st.h);
+            if (rc == SQL_NO_DATA) break;
+            if (!good(rc)) return failure();
+            if (auto s = on_row(st.h, ncols); !s) return s;
+        }
+        if (watch.cancelled()) return make_error(std::string("cancelled while ") + what);
+        return Ok{};
+    }
+
+    Result<double> get_double(SQLHSTMT h, SQLUSMALLINT col) {
+        double v = 0;
+        SQLLEN ind = 0;
+        if (!good(SQLGetData(h, col, SQL_C_DOUBLE, &v, sizeof v, &ind)))
+            return make_error(explain(diagnose(SQL_HANDLE_STMT, h), "reading a number"));
+        out_.bytes_fetched += sizeof v;
+        return ind == SQL_NULL_DATA ? kNaN : v;
+    }
+
+    /// Text of the cell; `null` set when the cell is NULL.
+    Result<std::string> get_text(SQLHSTMT h, SQLUSMALLINT col, bool& null) {
+        std::string s;
+        null = false;
+        char buf[4096];
+        while (true) {
+            SQLLEN ind = 0;
+            const SQLRETURN rc = SQLGetData(h, col, SQL_C_CHAR, buf, sizeof buf, &ind);
+            if (rc == SQL_NO_DATA) break;
+            if (!good(rc)) return make_error(explain(diagnose(SQL_HANDLE_STMT, h), "reading a text value"));
+            if (ind == SQL_NULL_DATA) {
+                null = true;
+                return s;
+            }
+            const std::size_t got = ind == SQL_NO_TOTAL || ind >= static_cast<SQLLEN>(sizeof buf)
+                                        ? sizeof buf - 1
+                                        : static_cast<std::size_t>(ind);
+            s.append(buf, got);
+            if (rc == SQL_SUCCESS) break;
+        }
+        out_.bytes_fetched += static_cast<double>(s.size());
+        return s;
+    }
+
+private:
+    const OdbcOptions& o_;
+    const Work& work_;
+    OdbcTable& out_;
+    Handles h_;
+};
+
+}  // namespace
+
+std::string odbc_connection_string(std::string_view text) {
+    std::string s(text);
+    if (lower(s.substr(0, 5)) == "odbc:") s = s.substr(5);
+    if (s.empty()) return s;
+    const std::string l = lower(s);
+    const bool has_pwd = l.rfind("pwd=", 0) == 0 || l.find(";pwd=") != std::string::npos ||
+                         l.rfind("password=", 0) == 0 || l.find(";password=") != std::string::npos;
+    if (!has_pwd) {
+        if (const char* p = std::getenv("FOLDLINE_ODBC_PASSWORD"); p && *p) {
+            if (s.back() != ';') s += ';';
+            s += "PWD={" + std::string(p) + "};";
+        }
+    }
+    return s;
+}
+
+std::string redact_connection_string(std::string_view text) {
+    std::string out;
+    std::size_t i = 0;
+    const std::string s(text);
+    while (i < s.size()) {
+        std::size_t end = s.find(';', i);
+        if (end == std::string::npos) end = s.size();
+        std::string part = s.substr(i, end - i);
+        const std::string key = lower(part.substr(0, part.find('=')));
+        auto trim = [](std::string k) {
+            while (!k.empty() && k.front() == ' ') k.erase(k.begin());
+            while (!k.empty() && k.back() == ' ') k.pop_back();
+            return k;
+        };
+        if (part.find('=') != std::string::npos && (trim(key) == "pwd" || trim(key) == "password"))
+            part = part.substr(0, part.find('=') + 1) + "***";
+        out += part;
+        if (end < s.size()) out += ';';
+        i = end + 1;
+    }
+    return out;
+}
+
+Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
+    OdbcTable out;
+    auto from = sql::from_clause(o.source);
+    if (!from) return from.error();
+    out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
+    Session s(o, work, out);
+    if (auto st = s.connect(); !st) return st.error();
+
+    // 1. The source's columns.
+    std::vector<SourceColumn> cols;
+    auto none = [](SQLHSTMT, SQLSMALLINT) -> Status { return Ok{}; };
+    if (auto st = s.run(sql::describe_sql(*from), "describing the source's columns", none, &cols); !st)
+        return st.error();
+    for (const auto& c : cols) out.source_columns.push_back(c.name);
+    for (const auto& r : o.required)
+        if (std::none_of(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == r; }))
+            return make_error("column '" + r + "' not found in the source " + out.source_text);
+    if (!o.count_column.empty()) {
+        const auto it = std::find_if(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == o.count_column; });
+        if (it == cols.end()) return make_error("count column '" + o.count_column + "' not found in the source " + out.source_text);
+        if (!it->numeric) return make_error("count column '" + o.count_column + "' is not numeric in the source");
+        cols.erase(it);
+    }
+    work.report(1, 3, "profiling columns");
+
+    // 2. Profile: rows, non-missing and distinct values of every candidate column.
+    std::vector<SourceColumn> keep;
+    std::vector<std::string> profiled;
+    auto is_required = [&](const std::string& n) { return std::find(o.required.begin(), o.required.end(), n) != o.required.end(); };
+    for (const auto& c : cols) {
+        if (is_required(c.name)) continue;
+        if (!o.all_columns) continue;
+        if (!groupable_type(c.type)) {
+            out.left_out.push_back({c.name, "binary column type (cannot be grouped)"});
+            continue;
+        }
+        profiled.push_back(c.name);
+    }
+    std::vector<double> prof;
+    if (auto st = s.run(sql::profile_sql(*from, profiled), "counting rows and distinct values",
+                        [&](SQLHSTMT h, SQLSMALLINT n) -> Status {
+                            for (SQLSMALLINT i = 1; i <= n; ++i) {
+                                auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
+                                if (!v) return v.error();
+                                prof.push_back(*v);
+                            }
+                            return Ok{};
+                        });
+        !st)
+        return st.error();
+    if (prof.size() != 1 + 2 * profiled.size()) return make_error("the profile query returned an unexpected shape");
+    out.source_rows = prof[0];
+    const double rows = prof[0];
+    for (const auto& c : cols) {
+        if (is_required(c.name)) {
+            keep.push_back(c);
+            continue;
+        }
+        const auto it = std::find(profiled.begin(), profiled.end(), c.name);
+        if (it == profiled.end()) continue;
+        const std::size_t k = static_cast<std::size_t>(it - profiled.begin());
+        const double present = prof[1 + 2 * k], distinct = prof[2 + 2 * k];
+        const double missing = rows - present;
+        if (rows > 0 && missing > o.max_missing_share * rows) {
+            out.left_out.push_back({c.name, "mostly missing (" + std::to_string(static_cast<long long>(missing)) + " of " +
+                                                std::to_string(static_cast<long long>(rows)) + " rows)"});
+            continue;
+        }
+        if (!c.numeric && distinct >= 2 && distinct == present && rows > static_cast<double>(o.max_levels)) {
+            out.left_out.push_back({c.name, "one value per row"});
+            continue;
+        }
+        if (!c.numeric && distinct > static_cast<double>(o.max_levels)) {
+            out.left_out.push_back({c.name, "too many levels (" + std::to_string(static_cast<long long>(distinct)) +
+                                                " > " + std::to_string(o.max_levels) + ")"});
+            continue;
+        }
+        keep.push_back(c);
+    }
+    work.report(2, 3, "counting cells in the database");
+    if (keep.empty()) return make_error("no column of the source can be fetched");
+
+    // 3. The joint cells.
+    std::vector<std::string> names;
+    for (const auto& c : keep) names.push_back(c.name);
+    out.queried_at = utc_now();
+    std::vector<std::vector<std::uint32_t>> codes(keep.size());
+    std::vector<std::vector<double>> values(keep.size());
+    std::vector<std::vector<std::string>> levels(keep.size());
+    std::vector<std::unordered_map<std::string, std::uint32_t>> index(keep.size());
+    std::vector<std::pair<std::string, bool>> pending;  // text values of the row until the level count is known
+    std::vector<std::vector<std::pair<std::string, bool>>> text_cells(keep.size());
+    std::vector<double> weights;
+    const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(keep.size() + 1);
+    if (auto st = s.run(sql::cells_sql(*from, names, o.first_appearance, o.count_column), "counting the cells",
+                        [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+                            for (std::size_t i = 0; i < keep.size(); ++i) {
+                                const SQLUSMALLINT col = static_cast<SQLUSMALLINT>(i + 1);
+                                if (keep[i].numeric) {
+                                    auto v = s.get_double(h, col);
+                                    if (!v) return v.error();
+                                    values[i].push_back(*v);
+                                } else {
+                                    bool null = false;
+                                    auto t = s.get_text(h, col, null);
+                                    if (!t) return t.error();
+                                    text_cells[i].emplace_back(std::move(*t), null);
+                                }
+                            }
+                            auto w = s.get_double(h, count_col);
+                            if (!w) return w.error();
+                            weights.push_back(*w);
+                            if (work.cancelled()) return make_error("cancelled while reading the cells");
+                            return Ok{};
+                        });
+        !st)
+        return st.error();
+
+    Table& t = out.table;
+    t.rows = weights.size();
+    t.weights = std::move(weights);
+    t.source = "odbc: " + out.source_text;
+    t.weight_column = o.count_column;
+    for (std::size_t i = 0; i < keep.size(); ++i) {
+        if (keep[i].numeric) {
+            t.columns.push_back(Column::numeric(keep[i].name, std::move(values[i])));
+            continue;
+        }
+        std::vector<std::uint32_t> c32;
+        c32.reserve(text_cells[i].size());
+        std::vector<std::size_t> missing_rows;
+        for (std::size_t r = 0; r < text_cells[i].size(); ++r) {
+            auto& [text, null] = text_cells[i][r];
+            if (null) {
+                c32.push_back(0);
+                missing_rows.push_back(r);
+                continue;
+            }
+            auto [it, inserted] = index[i].try_emplace(text, static_cast<std::uint32_t>(levels[i].size()));
+            if (inserted) levels[i].push_back(text);
+            c32.push_back(it->second);
+        }
+        const auto miss = static_cast<std::uint32_t>(levels[i].size());
+        for (auto r : missing_rows) c32[r] = miss;
+        t.columns.push_back(Column::categorical(keep[i].name, std::move(levels[i]), c32));
+    }
+    work.report(3, 3, "cells received");
+    return out;
+}
+
+}  // namespace foldline

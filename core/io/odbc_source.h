@@ -1,0 +1,75 @@
+#pragma once
+// A database table (or one read-only query) as a scan source, through ODBC (unixODBC). The
+// counting is pushed down: the engine groups the rows by every column the scan needs and only
+// the cells come back, as a pre-counted Table (one row per distinct combination, weights =
+// COUNT(*)). Every count cube the rate scan builds from that Table equals the cube of the
+// row-level data, so the statistics run unchanged and the findings are those of a scan of a CSV
+// export of the same rows.
+//
+// Read-only by construction: only SELECT statements are sent (the user's query is checked and
+// wrapped, see core/io/sql_pushdown.h) and the connection is put in read-only access mode.
+// Credentials come only from the connection string the caller passes or the environment
+// variable FOLDLINE_ODBC_PASSWORD (added as PWD= when the string has none); the source
+// description kept for reports never contains them.
+//
+// Built only when unixODBC is found (CMake option FOLDLINE_ODBC; FOLDLINE_HAS_ODBC is then 1).
+#include <cstddef>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/common/error.h"
+#include "core/common/progress.h"
+#include "core/io/sql_pushdown.h"
+#include "core/table/table.h"
+
+namespace foldline {
+
+struct OdbcOptions {
+    std::string connection;         ///< ODBC connection string, "DSN=...;" or "Driver=...;...", "odbc:" prefix allowed
+    sql::SqlSource source;          ///< table or read-only query
+    std::vector<std::string> required;  ///< columns always fetched (outcome, exposure, named stratifiers)
+    bool all_columns = true;        ///< also every other groupable column (automatic stratifiers)
+    std::size_t max_levels = 50;    ///< text columns above this many distinct values are left out (all_columns)
+    double max_missing_share = 0.5; ///< columns missing in more of the rows are left out (all_columns)
+    bool first_appearance = true;   ///< number levels in order of first appearance (ROW_NUMBER() OVER ())
+    long timeout_seconds = 0;       ///< per-statement timeout; 0 = none
+    std::string count_column;       ///< pre-counted source: rows per source row (summed, never fetched as a column)
+};
+
+/// A column that was not fetched, and why (same wording as the candidate selection).
+struct OdbcLeftOut {
+    std::string column;
+    std::string reason;
+};
+
+struct OdbcTable {
+    Table table;                          ///< the cells: weights = rows per cell
+    std::vector<std::string> source_columns;  ///< every column of the source, in its order
+    std::vector<OdbcLeftOut> left_out;    ///< columns of the source not fetched, in source order
+    double source_rows = 0;               ///< COUNT(*) of the source
+    std::string driver;                   ///< driver name and version as the driver reports them
+    std::string database;                 ///< database (catalog) name
+    std::string source_text;              ///< table name or the query text
+    std::string queried_at;               ///< UTC time the cells query started, ISO 8601
+    std::vector<std::string> statements;  ///< every statement sent, in order
+    double bytes_fetched = 0;             ///< bytes of result data received (cell values and counts)
+};
+
+/// The connection string with an "odbc:" prefix removed and, when it has no PWD= and the
+/// environment variable FOLDLINE_ODBC_PASSWORD is set, PWD=<that value> appended. "" stays "".
+std::string odbc_connection_string(std::string_view text);
+
+/// The connection string with every PWD=/PASSWORD= value replaced by "***" (for messages).
+std::string redact_connection_string(std::string_view text);
+
+/// Connects, discovers the columns (a `WHERE 1 = 0` describe), profiles them (COUNT, COUNT
+/// DISTINCT), fetches the joint cells of the columns kept and builds the pre-counted Table.
+/// Errors (as values, with the driver's SQLSTATE and message): no connection, a lost
+/// connection, a permission error, a missing table or column, a column type the engine cannot
+/// group by, a refused query, a required column absent from the source. A stop request
+/// cancels the running statement (SQLCancel) and returns an error "cancelled". An empty source
+/// gives a Table with no rows. Progress reports statements done out of 3.
+Result<OdbcTable> read_odbc_cells(const OdbcOptions& options, const Work& work = {});
+
+}  // namespace foldline

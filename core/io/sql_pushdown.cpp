@@ -1,0 +1,223 @@
+#include "core/io/sql_pushdown.h"
+
+#include <array>
+#include <cctype>
+#include <cmath>
+#include <cstdio>
+
+namespace foldline::sql {
+namespace {
+
+bool is_word_char(char c) {
+    return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '$';
+}
+
+std::string upper(std::string_view s) {
+    std::string out(s);
+    for (auto& c : out) c = static_cast<char>(std::toupper(static_cast<unsigned char>(c)));
+    return out;
+}
+
+std::string trim(std::string_view s) {
+    std::size_t b = 0, e = s.size();
+    while (b < e && std::isspace(static_cast<unsigned char>(s[b]))) ++b;
+    while (e > b && std::isspace(static_cast<unsigned char>(s[e - 1]))) --e;
+    return std::string(s.substr(b, e - b));
+}
+
+std::string number17(double v) {
+    if (!std::isfinite(v)) v = 0;
+    char buf[40];
+    std::snprintf(buf, sizeof buf, "%.17g", v);
+    return buf;
+}
+
+std::string as_double(const std::string& quoted) { return "CAST(" + quoted + " AS DOUBLE PRECISION)"; }
+
+std::string join_quoted(const std::vector<std::string>& names) {
+    std::string out;
+    for (std::size_t i = 0; i < names.size(); ++i) out += (i ? ", " : "") + quote_identifier(names[i]);
+    return out;
+}
+
+}  // namespace
+
+std::string quote_identifier(std::string_view name) {
+    std::string out;
+    out.reserve(name.size() + 2);
+    out += '"';
+    for (char c : name) {
+        if (c == '"') out += '"';
+        out += c;
+    }
+    out += '"';
+    return out;
+}
+
+Result<std::string> quote_table_name(std::string_view name) {
+    if (name.empty()) return make_error("empty table name");
+    std::string out;
+    std::size_t start = 0;
+    while (true) {
+        const std::size_t dot = name.find('.', start);
+        const std::string_view part = name.substr(start, dot == std::string_view::npos ? name.npos : dot - start);
+        if (part.empty())
+            return make_error("table name '" + std::string(name) + "' has an empty part (expected TABLE or SCHEMA.TABLE)");
+        if (!out.empty()) out += '.';
+        out += quote_identifier(part);
+        if (dot == std::string_view::npos) break;
+        start = dot + 1;
+    }
+    return out;
+}
+
+Result<std::string> checked_query(std::string_view raw) {
+    const std::string q = trim(raw);
+    if (q.empty()) return make_error("empty query (expected one SELECT or WITH statement)");
+    static const std::array<const char*, 18> kRefused = {
+        "INSERT", "UPDATE", "DELETE", "MERGE", "INTO",   "CREATE",  "DROP", "ALTER", "TRUNCATE",
+        "GRANT",  "REVOKE", "COPY",   "CALL",  "EXEC",   "EXECUTE", "LOCK", "SET",   "VACUUM"};
+    auto where = [](std::size_t i) { return " (character " + std::to_string(i + 1) + ")"; };
+    std::string first_word;
+    std::size_t i = 0;
+    while (i < q.size()) {
+        const char c = q[i];
+        if (c == '\'' || c == '"' || c == '`') {
+            const std::size_t open = i++;
+            while (true) {
+                if (i >= q.size()) return make_error(std::string("unterminated quote ") + c + " in the query" + where(open));
+                if (q[i] == c) {
+                    if (i + 1 < q.size() && q[i + 1] == c) {
+                        i += 2;
+                        continue;
+                    }
+                    ++i;
+                    break;
+                }
+                ++i;
+            }
+            if (first_word.empty()) return make_error("the query must start with SELECT or WITH");
+            continue;
+        }
+        if (c == '-' && i + 1 < q.size() && q[i + 1] == '-') {
+            while (i < q.size() && q[i] != '\n') ++i;
+            continue;
+        }
+        if (c == '/' && i + 1 < q.size() && q[i + 1] == '*') {
+            const std::size_t open = i;
+            const std::size_t end = q.find("*/", i + 2);
+            if (end == std::string::npos) return make_error("unterminated /* comment in the query" + where(open));
+            i = end + 2;
+            continue;
+        }
+        if (c == ';')
+            return make_error("the query contains ';'" + where(i) +
+                              ": give one SELECT or WITH statement without a semicolon");
+        if (is_word_char(c)) {
+            const std::size_t b = i;
+            while (i < q.size() && is_word_char(q[i])) ++i;
+            const std::string w = upper(std::string_view(q).substr(b, i - b));
+            if (first_word.empty()) {
+                first_word = w;
+                if (w != "SELECT" && w != "WITH")
+                    return make_error("the query must start with SELECT or WITH, not '" + q.substr(b, i - b) + "'" +
+                                      where(b));
+            }
+            for (const char* k : kRefused)
+                if (w == k)
+                    return make_error("the query uses " + w + where(b) +
+                                      ": only a read-only SELECT or WITH statement is accepted");
+            continue;
+        }
+        if (first_word.empty() && c != '(' && !std::isspace(static_cast<unsigned char>(c)))
+            return make_error("the query must start with SELECT or WITH" + where(i));
+        ++i;
+    }
+    if (first_word.empty()) return make_error("the query has no statement (expected SELECT or WITH)");
+    return q;
+}
+
+Result<std::string> from_clause(const SqlSource& s) {
+    if (s.table.empty() == s.query.empty())
+        return make_error(s.table.empty() ? "no source: give a table or a query" : "give a table or a query, not both");
+    if (!s.table.empty()) {
+        auto t = quote_table_name(s.table);
+        if (!t) return t.error();
+        return *t + " AS src";
+    }
+    auto q = checked_query(s.query);
+    if (!q) return q.error();
+    return "(" + *q + ") AS src";
+}
+
+std::string describe_sql(const std::string& from) { return "SELECT * FROM " + from + " WHERE 1 = 0"; }
+
+std::string profile_sql(const std::string& from, const std::vector<std::string>& columns) {
+    std::string s = "SELECT COUNT(*)";
+    for (const auto& c : columns) {
+        const std::string q = quote_identifier(c);
+        s += ", COUNT(" + q + "), COUNT(DISTINCT " + q + ")";
+    }
+    return s + " FROM " + from;
+}
+
+std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
+                      const std::string& count_column) {
+    if (columns.empty()) return {};
+    const std::string cols = join_quoted(columns);
+    const std::string w = count_column.empty() ? std::string() : quote_identifier(count_column);
+    const std::string count =
+        (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") + " AS " + quote_identifier(kCountColumn);
+    if (!first_appearance) return "SELECT " + cols + ", " + count + " FROM " + from + " GROUP BY " + cols;
+    const std::string pos = quote_identifier(kFirstRowColumn);
+    return "SELECT " + cols + ", " + count + ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + cols +
+           (w.empty() ? "" : ", " + w) + ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from +
+           ") AS numbered GROUP BY " + cols + " ORDER BY " + pos;
+}
+
+std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
+                      const std::vector<std::string>& strata, bool pairs) {
+    const std::string o = quote_identifier(outcome), e = quote_identifier(exposure);
+    std::string s = "SELECT " + o + ", " + e;
+    for (const auto& c : strata) s += ", " + quote_identifier(c);
+    for (std::size_t i = 0; i < strata.size(); ++i)
+        s += ", GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i);
+    s += std::string(", COUNT(*) AS ") + quote_identifier(kCountColumn) + " FROM " + from + " GROUP BY GROUPING SETS (";
+    if (strata.empty()) return s + "(" + o + ", " + e + "))";
+    bool first = true;
+    for (const auto& c : strata) {
+        s += std::string(first ? "" : ", ") + "(" + o + ", " + e + ", " + quote_identifier(c) + ")";
+        first = false;
+    }
+    if (pairs)
+        for (std::size_t i = 0; i < strata.size(); ++i)
+            for (std::size_t j = i + 1; j < strata.size(); ++j)
+                s += ", (" + o + ", " + e + ", " + quote_identifier(strata[i]) + ", " + quote_identifier(strata[j]) + ")";
+    return s + ")";
+}
+
+std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y) {
+    const std::string qx = quote_identifier(x), qy = quote_identifier(y);
+    return "SELECT COUNT(*), AVG(" + as_double(qx) + "), AVG(" + as_double(qy) + ") FROM " + from + " WHERE " + qx +
+           " IS NOT NULL AND " + qy + " IS NOT NULL";
+}
+
+std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
+                              const std::vector<std::string>& strata, double mean_x, double mean_y) {
+    const std::string qx = quote_identifier(x), qy = quote_identifier(y);
+    std::string inner = "SELECT ";
+    for (const auto& c : strata) inner += quote_identifier(c) + ", ";
+    inner += as_double(qx) + " - " + number17(mean_x) + " AS dx, " + as_double(qy) + " - " + number17(mean_y) +
+             " AS dy FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy + " IS NOT NULL";
+    std::string s = "SELECT ";
+    for (const auto& c : strata) s += quote_identifier(c) + ", ";
+    for (std::size_t i = 0; i < strata.size(); ++i)
+        s += "GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i) + ", ";
+    s += "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
+         "SUM(dy * dy) AS syy FROM (" +
+         inner + ") AS centred GROUP BY GROUPING SETS (()";
+    for (const auto& c : strata) s += ", (" + quote_identifier(c) + ")";
+    return s + ")";
+}
+
+}  // namespace foldline::sql

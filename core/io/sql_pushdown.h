@@ -1,0 +1,94 @@
+#pragma once
+// SQL text for scanning a table where it lives: the counting runs inside the database engine and
+// only small summaries come back. Pure string building (no database access), so every query can
+// be checked without a server.
+//
+// The user's source is either a table name or one read-only query; a query is never
+// concatenated with other statements: it is checked (a single SELECT or WITH statement, no `;`
+// outside quotes or comments, no data-changing keyword) and wrapped as a derived table,
+// `... FROM (<query>) AS src`. Identifiers are always quoted with double quotes (a double quote
+// inside a name is doubled), so names with spaces, quotes or reserved words work.
+//
+// SQL features relied on: derived tables, COUNT / COUNT(DISTINCT), SUM in double precision
+// (CAST ... AS DOUBLE PRECISION), GROUP BY GROUPING SETS and GROUPING() (SQL:1999), and, for
+// level order by first appearance only, ROW_NUMBER() OVER ().
+#include <cstddef>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "core/common/error.h"
+
+namespace foldline::sql {
+
+/// `name` in double quotes with every `"` doubled: `a "b"` -> `"a ""b"""`. "" -> `""` (which
+/// engines reject: callers never pass an empty name).
+std::string quote_identifier(std::string_view name);
+
+/// A possibly schema-qualified table name ("sales.loans" -> `"sales"."loans"`): split on `.`,
+/// each part quoted. Error for an empty name or an empty part ("a..b", ".t").
+Result<std::string> quote_table_name(std::string_view name);
+
+/// The query itself (trimmed of surrounding white space) when it is one read-only statement:
+/// it starts (after comments and opening parentheses) with SELECT or WITH, has no `;` outside
+/// quotes and comments, no unterminated quote or comment, and none of the keywords INSERT,
+/// UPDATE, DELETE, MERGE, INTO, CREATE, DROP, ALTER, TRUNCATE, GRANT, REVOKE, COPY, CALL, EXEC,
+/// EXECUTE, LOCK, SET outside quotes (so `SELECT ... INTO` and data-changing WITH parts are
+/// refused too). Error (with the 1-based character position where it applies) otherwise;
+/// an empty query is an error.
+Result<std::string> checked_query(std::string_view query);
+
+/// Where the rows come from: exactly one of `table` or `query` is set.
+struct SqlSource {
+    std::string table;  ///< table name, optionally schema-qualified with `.`
+    std::string query;  ///< one read-only SELECT / WITH statement
+};
+
+/// The FROM item for the source: `"schema"."table" AS src` or `(<checked query>) AS src`.
+/// Error when both or neither are set, or when the name or the query is refused (see above).
+Result<std::string> from_clause(const SqlSource& source);
+
+/// `SELECT * FROM <from> WHERE 1 = 0`: no rows, only the result's column descriptions.
+std::string describe_sql(const std::string& from);
+
+/// One row: COUNT(*), then for each column COUNT(c) and COUNT(DISTINCT c), in that order
+/// (1 + 2 * columns.size() values). No columns: just COUNT(*).
+std::string profile_sql(const std::string& from, const std::vector<std::string>& columns);
+
+/// Name of the extra column holding each cell's first row position (first_appearance only).
+inline constexpr const char* kFirstRowColumn = "foldline_first_row";
+/// Name of the extra column holding each cell's row count.
+inline constexpr const char* kCountColumn = "foldline_rows";
+
+/// The joint cells of `columns`: one row per distinct combination (NULL kept as a value) with
+/// the columns, COUNT(*) AS foldline_rows, and — when `first_appearance` — the smallest
+/// ROW_NUMBER() OVER () of the cell AS foldline_first_row, ordered by it (so levels can be
+/// numbered in order of first appearance). With a `count_column` (a pre-counted source) the
+/// cell's rows are SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*) (NULL counts add
+/// nothing). `columns` must not be empty (returns "" if it is).
+std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
+                      const std::string& count_column = {});
+
+/// Every count cube of a rate scan in one pass: GROUP BY GROUPING SETS with one set
+/// (outcome, exposure, s) per stratifier s, and — when `pairs` — one set (outcome, exposure,
+/// s, t) per pair s < t. Columns: outcome, exposure, each stratifier, then GROUPING(s) for each
+/// stratifier (as g0, g1, ...; 0 where the stratifier belongs to the row's set, so a NULL with
+/// flag 0 is a genuinely missing value), then COUNT(*) AS foldline_rows. No stratifiers: one
+/// set (outcome, exposure).
+std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
+                      const std::vector<std::string>& strata, bool pairs);
+
+/// One row: COUNT of rows where x and y are both present, AVG(x) and AVG(y) over those rows
+/// (in double precision). The means centre the moment query.
+std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y);
+
+/// Per-stratum moment sums of (x, y) on values centred by (mean_x, mean_y), rows where x or y
+/// is missing left out: GROUP BY GROUPING SETS with one set per stratifier (plus the empty set
+/// for the whole table). Columns: each stratifier, GROUPING(s) flags (g0, g1, ...), then
+/// COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx*dx) AS sxx, SUM(dx*dy) AS sxy,
+/// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision. The means are
+/// written with 17 significant digits (exact round trip); a non-finite mean is written as 0.
+std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
+                              const std::vector<std::string>& strata, double mean_x, double mean_y);
+
+}  // namespace foldline::sql

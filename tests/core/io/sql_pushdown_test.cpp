@@ -1,0 +1,127 @@
+// SQL text of the push-down scan (core/io/sql_pushdown.h). No database needed: the quoting rule
+// is the one of SQL:1999 delimited identifiers (PostgreSQL manual, 4.1.1 "Identifiers and Key
+// Words": a double quote inside a quoted identifier is written twice) [from memory]; the
+// queries are run against a real PostgreSQL server by tests/reference/sql_pushdown_test.sh.
+#include "core/io/sql_pushdown.h"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+namespace foldline::sql {
+namespace {
+
+TEST(SqlQuote, DoublesEmbeddedQuotesAndKeepsSpacesAndReservedWords) {
+    EXPECT_EQ(quote_identifier("branch"), "\"branch\"");
+    EXPECT_EQ(quote_identifier("loan amount"), "\"loan amount\"");
+    EXPECT_EQ(quote_identifier("select"), "\"select\"");
+    EXPECT_EQ(quote_identifier("a\"b"), "\"a\"\"b\"");
+    EXPECT_EQ(quote_identifier("\"\""), "\"\"\"\"\"\"");
+    EXPECT_EQ(quote_identifier("x; DROP TABLE t"), "\"x; DROP TABLE t\"");
+}
+
+TEST(SqlQuote, TableNamesSplitOnDots) {
+    EXPECT_EQ(*quote_table_name("loans"), "\"loans\"");
+    EXPECT_EQ(*quote_table_name("audit.loans"), "\"audit\".\"loans\"");
+    EXPECT_EQ(*quote_table_name("my table"), "\"my table\"");
+    EXPECT_FALSE(quote_table_name("").ok());
+    EXPECT_FALSE(quote_table_name("a..b").ok());
+    EXPECT_FALSE(quote_table_name(".t").ok());
+    EXPECT_FALSE(quote_table_name("t.").ok());
+}
+
+TEST(SqlQuery, AcceptsOneReadOnlyStatement) {
+    EXPECT_EQ(*checked_query("  SELECT * FROM loans \n"), "SELECT * FROM loans");
+    EXPECT_TRUE(checked_query("select a from t where b = 'x;y'").ok());
+    EXPECT_TRUE(checked_query("WITH r AS (SELECT 1 AS \"semi;colon\") SELECT * FROM r").ok());
+    EXPECT_TRUE(checked_query("-- a comment; with a semicolon\nSELECT 1").ok());
+    EXPECT_TRUE(checked_query("/* update; */ (SELECT 1)").ok());
+    EXPECT_TRUE(checked_query("SELECT 'it''s; fine' AS \"update\"").ok());
+    EXPECT_TRUE(checked_query("SELECT updated_at, offset_days FROM t").ok());
+}
+
+TEST(SqlQuery, RefusesSemicolonsOtherStatementsAndWrites) {
+    auto semi = checked_query("SELECT 1; DROP TABLE loans");
+    ASSERT_FALSE(semi.ok());
+    EXPECT_NE(semi.error().message.find("';'"), std::string::npos);
+    EXPECT_NE(semi.error().message.find("character 9"), std::string::npos);
+    EXPECT_FALSE(checked_query("SELECT 1;").ok());
+    EXPECT_FALSE(checked_query("DELETE FROM loans").ok());
+    EXPECT_FALSE(checked_query("INSERT INTO t VALUES (1)").ok());
+    EXPECT_FALSE(checked_query("SELECT * INTO copy_of_loans FROM loans").ok());
+    EXPECT_FALSE(checked_query("WITH d AS (DELETE FROM t RETURNING *) SELECT * FROM d").ok());
+    EXPECT_FALSE(checked_query("VALUES (1)").ok());
+    EXPECT_FALSE(checked_query("").ok());
+    EXPECT_FALSE(checked_query("   -- only a comment").ok());
+    EXPECT_FALSE(checked_query("SELECT 'unterminated").ok());
+    EXPECT_FALSE(checked_query("SELECT \"unterminated").ok());
+    EXPECT_FALSE(checked_query("SELECT 1 /* open").ok());
+    EXPECT_FALSE(checked_query("'x' SELECT").ok());
+}
+
+TEST(SqlSourceClause, WrapsTheQueryAsADerivedTable) {
+    EXPECT_EQ(*from_clause({"loans", ""}), "\"loans\" AS src");
+    EXPECT_EQ(*from_clause({"", "SELECT * FROM loans WHERE year = 2024"}),
+              "(SELECT * FROM loans WHERE year = 2024) AS src");
+    EXPECT_FALSE(from_clause({"", ""}).ok());
+    EXPECT_FALSE(from_clause({"t", "SELECT 1"}).ok());
+    EXPECT_FALSE(from_clause({"", "SELECT 1; SELECT 2"}).ok());
+}
+
+TEST(SqlText, DescribeAndProfile) {
+    EXPECT_EQ(describe_sql("\"t\" AS src"), "SELECT * FROM \"t\" AS src WHERE 1 = 0");
+    EXPECT_EQ(profile_sql("\"t\" AS src", {"a b", "c"}),
+              "SELECT COUNT(*), COUNT(\"a b\"), COUNT(DISTINCT \"a b\"), COUNT(\"c\"), COUNT(DISTINCT \"c\") "
+              "FROM \"t\" AS src");
+    EXPECT_EQ(profile_sql("\"t\" AS src", {}), "SELECT COUNT(*) FROM \"t\" AS src");
+}
+
+TEST(SqlText, CellsGroupEveryColumnAndKeepFirstAppearance) {
+    EXPECT_EQ(cells_sql("\"t\" AS src", {"o", "e"}, false),
+              "SELECT \"o\", \"e\", COUNT(*) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY \"o\", \"e\"");
+    EXPECT_EQ(cells_sql("\"t\" AS src", {"o"}, true),
+              "SELECT \"o\", COUNT(*) AS \"foldline_rows\", MIN(\"foldline_first_row\") AS \"foldline_first_row\" "
+              "FROM (SELECT \"o\", ROW_NUMBER() OVER () AS \"foldline_first_row\" FROM \"t\" AS src) AS numbered "
+              "GROUP BY \"o\" ORDER BY \"foldline_first_row\"");
+    EXPECT_EQ(cells_sql("\"t\" AS src", {}, true), "");
+    // A pre-counted source sums its count column.
+    EXPECT_EQ(cells_sql("\"t\" AS src", {"o"}, false, "n"),
+              "SELECT \"o\", SUM(CAST(\"n\" AS DOUBLE PRECISION)) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY \"o\"");
+    EXPECT_NE(cells_sql("\"t\" AS src", {"o"}, true, "n").find("SELECT \"o\", \"n\", ROW_NUMBER() OVER ()"),
+              std::string::npos);
+}
+
+TEST(SqlText, CubesUseOneGroupingSetPerStratifierAndPair) {
+    const std::string s = cubes_sql("\"t\" AS src", "approved", "group", {"branch", "term"}, true);
+    EXPECT_EQ(s,
+              "SELECT \"approved\", \"group\", \"branch\", \"term\", GROUPING(\"branch\") AS g0, "
+              "GROUPING(\"term\") AS g1, COUNT(*) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY GROUPING SETS "
+              "((\"approved\", \"group\", \"branch\"), (\"approved\", \"group\", \"term\"), "
+              "(\"approved\", \"group\", \"branch\", \"term\"))");
+    const std::string singles = cubes_sql("\"t\" AS src", "o", "e", {"a", "b", "c"}, false);
+    EXPECT_EQ(singles.find("\"a\", \"b\")"), std::string::npos);
+    // 3 stratifiers with pairs: 3 + 3 sets.
+    const std::string all = cubes_sql("\"t\" AS src", "o", "e", {"a", "b", "c"}, true);
+    std::size_t sets = 0;
+    for (std::size_t p = all.find("(\"o\", \"e\""); p != std::string::npos; p = all.find("(\"o\", \"e\"", p + 1)) ++sets;
+    EXPECT_EQ(sets, 6u);
+    EXPECT_EQ(cubes_sql("x", "o", "e", {}, true),
+              "SELECT \"o\", \"e\", COUNT(*) AS \"foldline_rows\" FROM x GROUP BY GROUPING SETS ((\"o\", \"e\"))");
+}
+
+TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
+    EXPECT_EQ(slope_means_sql("x", "spend", "sales"),
+              "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)) "
+              "FROM x WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL");
+    const std::string m = slope_moments_sql("x", "spend", "sales", {"region"}, 0.1, 1e300);
+    EXPECT_NE(m.find("CAST(\"spend\" AS DOUBLE PRECISION) - 0.10000000000000001 AS dx"), std::string::npos);
+    EXPECT_NE(m.find("- 1.0000000000000001e+300 AS dy"), std::string::npos);
+    EXPECT_NE(m.find("GROUPING(\"region\") AS g0"), std::string::npos);
+    EXPECT_NE(m.find("SUM(dx * dy) AS sxy"), std::string::npos);
+    EXPECT_NE(m.find("GROUP BY GROUPING SETS ((), (\"region\"))"), std::string::npos);
+    const std::string nan = slope_moments_sql("x", "a", "b", {}, std::nan(""), 2);
+    EXPECT_NE(nan.find("AS DOUBLE PRECISION) - 0 AS dx"), std::string::npos);
+}
+
+}  // namespace
+}  // namespace foldline::sql

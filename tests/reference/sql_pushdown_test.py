@@ -1,0 +1,238 @@
+#!/usr/bin/python3
+"""Push-down scan against a real PostgreSQL server (Debian's postgresql + odbc-postgresql).
+
+Starts a throwaway cluster in a temporary directory (as an unprivileged user when run as root),
+listening on 127.0.0.1 on a free port only; loads the sample scenarios with COPY and a generated
+100,000-row table; runs `foldline scan --source odbc:... --table T` and compares its JSON with
+`foldline scan FILE.csv` on the same rows: the documents must be identical apart from the
+"data" block (the oracle is the file scan, itself checked against statsmodels by
+reference_scan_statsmodels). Then the hostile cases: a missing table, a permission error, a
+refused query, a column type the engine cannot group by, and a dropped connection (server
+stopped). The cluster is always stopped (finally + atexit).
+
+Usage: sql_pushdown_test.py FOLDLINE SOURCE_DIR      (exit 77 = skipped: no PostgreSQL/driver)
+"""
+import atexit
+import csv
+import glob
+import json
+import os
+import random
+import shutil
+import socket
+import subprocess
+import sys
+import tempfile
+import time
+
+SKIP = 77
+foldline, root = sys.argv[1], sys.argv[2]
+
+bins = sorted(glob.glob("/usr/lib/postgresql/*/bin/initdb"))
+if not bins or not os.path.exists("/usr/lib/x86_64-linux-gnu/odbc/psqlodbcw.so") and not glob.glob(
+        "/usr/lib/*/odbc/psqlodbcw.so"):
+    print("skipped: PostgreSQL server or its ODBC driver is not installed")
+    sys.exit(SKIP)
+pgbin = os.path.dirname(bins[-1])
+driver = glob.glob("/usr/lib/*/odbc/psqlodbcw.so")[0]
+
+work = tempfile.mkdtemp(prefix="foldline-pg-")
+os.chmod(work, 0o755)
+as_root = os.geteuid() == 0
+runner = ["runuser", "-u", "nobody", "--"] if as_root else []   # the server refuses to run as root
+data = os.path.join(work, "data")
+run = os.path.join(work, "run")   # log and socket, writable by the server's user
+os.makedirs(data)
+os.makedirs(run)
+if as_root:
+    for d in (data, run):
+        shutil.chown(d, "nobody", "nogroup")
+    os.chmod(data, 0o700)
+with socket.socket() as s:
+    s.bind(("127.0.0.1", 0))
+    port = s.getsockname()[1]
+pwfile = os.path.join(work, "pw")
+with open(pwfile, "w") as f:
+    f.write("admin-secret\n")
+os.chmod(pwfile, 0o644)
+started = False
+
+
+def pg(*args, check=True, **kw):
+    return subprocess.run(runner + [os.path.join(pgbin, args[0]), *args[1:]], check=check,
+                          stdout=subprocess.PIPE, stderr=subprocess.STDOUT, text=True, **kw)
+
+
+def stop():
+    global started
+    if started:
+        pg("pg_ctl", "-D", data, "-m", "immediate", "-w", "stop", check=False)
+        started = False
+
+
+def cleanup():
+    stop()
+    shutil.rmtree(work, ignore_errors=True)
+
+
+atexit.register(cleanup)
+
+pg("initdb", "-D", data, "-U", "admin", "--pwfile", pwfile, "-A", "scram-sha-256", "--no-sync", "-E", "UTF8",
+   "--locale", "C")
+pg("pg_ctl", "-D", data, "-l", os.path.join(run, "log"), "-w", "-o",
+   f"-c listen_addresses=127.0.0.1 -p {port} -k {run} -c fsync=off -c full_page_writes=off", "start")
+started = True
+env_admin = dict(os.environ, PGPASSWORD="admin-secret")
+
+
+def psql(sql, db="audit", check=True):
+    r = subprocess.run(["psql", "-X", "-q", "-v", "ON_ERROR_STOP=1", "-h", "127.0.0.1", "-p", str(port), "-U", "admin",
+                        "-d", db, "-c", sql], env=env_admin, stdout=subprocess.PIPE, stderr=subprocess.STDOUT,
+                       text=True)
+    if check and r.returncode:
+        raise SystemExit("psql failed: " + r.stdout)
+    return r.stdout
+
+
+psql("CREATE DATABASE audit", db="postgres")
+
+
+def column_types(path):
+    """SQL type per column: BIGINT when every value is an integer, DOUBLE PRECISION when every
+    value is a number, TEXT otherwise (empty cells are NULL)."""
+    with open(path, newline="") as f:
+        rows = list(csv.reader(f))
+    header, body = rows[0], rows[1:]
+    types = []
+    for j in range(len(header)):
+        vals = [r[j] for r in body if r[j] != ""]
+        def all_num(conv):
+            try:
+                for v in vals:
+                    conv(v)
+                return True
+            except ValueError:
+                return False
+        types.append("BIGINT" if all_num(int) else "DOUBLE PRECISION" if all_num(float) else "TEXT")
+    return header, types
+
+
+def load(table, path):
+    header, types = column_types(path)
+    cols = ", ".join('"%s" %s' % (h.replace('"', '""'), t) for h, t in zip(header, types))
+    psql(f'CREATE TABLE "{table}" ({cols})')
+    psql(f"\\copy \"{table}\" FROM '{path}' WITH (FORMAT csv, HEADER true)")
+
+
+# A generated table of 100,000 rows with awkward column names (space, quote, reserved word).
+rnd = random.Random(20261202)
+big = os.path.join(work, "big.csv")
+with open(big, "w", newline="") as f:
+    w = csv.writer(f)
+    w.writerow(["team", "hired", "job family", 'site "code"', "select", "tenure"])
+    for _ in range(100_000):
+        fam = rnd.choice(["ops", "eng", "sales", "care"])
+        team = "north" if rnd.random() < (0.7 if fam in ("ops", "care") else 0.3) else "south"
+        p = {"ops": 0.2, "eng": 0.5, "sales": 0.35, "care": 0.1}[fam] + (0.04 if team == "north" else 0.0)
+        w.writerow([team, "yes" if rnd.random() < p else "no", fam, rnd.choice(["S1", "S2", "S3"]),
+                    rnd.choice(["a", "b", ""]), rnd.randint(0, 6)])
+
+load("lender", os.path.join(root, "sample_data/lender_approvals.csv"))
+load("clinic", os.path.join(root, "sample_data/clinic_outcomes.csv"))
+load("staffing", big)
+load("clinic_counts", os.path.join(root, "sample_data/clinic_outcomes_counts.csv"))
+psql('CREATE TABLE payroll (team TEXT, hired TEXT, salary BIGINT)')
+psql("INSERT INTO payroll VALUES ('north', 'yes', 1), ('south', 'no', 2)")
+psql('CREATE TABLE blobs (team TEXT, hired TEXT, doc JSON)')
+psql("""INSERT INTO blobs VALUES ('north', 'yes', '{"a":1}'), ('south', 'no', '{"a":2}')""")
+psql("CREATE ROLE reader LOGIN PASSWORD 'reader-secret'")
+psql("GRANT SELECT ON lender, clinic, staffing, blobs, clinic_counts TO reader")   # not payroll
+
+conn = f"odbc:Driver={driver};Server=127.0.0.1;Port={port};Database=audit;Uid=reader;"
+env = dict(os.environ, FOLDLINE_ODBC_PASSWORD="reader-secret")
+failures = []
+
+
+def scan(args, env=env):
+    t = time.time()
+    r = subprocess.run([foldline, "scan", *args, "--json", "-", "--bootstrap", "200", "--threads", "2"],
+                       env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, timeout=300)
+    return r, time.time() - t
+
+
+def compare(name, csv_path, table, question, extra=()):
+    a, ta = scan([csv_path, *question, *extra])
+    b, tb = scan(["--source", conn, "--table", table, *question, *extra])
+    if a.returncode or b.returncode:
+        failures.append(f"{name}: exit codes file {a.returncode}, database {b.returncode}: {b.stderr.strip()}")
+        return
+    if "reader-secret" in b.stdout or "reader-secret" in b.stderr:
+        failures.append(f"{name}: the password appears in the output")
+    da, db = json.loads(a.stdout), json.loads(b.stdout)
+    data_a, data_b = da.pop("data", None), db.pop("data", None)
+    if da != db:
+        for k in da:
+            if da.get(k) != db.get(k):
+                failures.append(f"{name}: JSON differs in '{k}'")
+                break
+        else:
+            failures.append(f"{name}: JSON differs")
+    elif data_b.get("rows") != data_a.get("rows"):
+        failures.append(f"{name}: rows {data_b.get('rows')} != {data_a.get('rows')}")
+    else:
+        n = len(da.get("findings", []))
+        print(f"ok   {name}: {n} findings identical (file {ta:.2f} s, database {tb:.2f} s)")
+
+
+compare("lender", os.path.join(root, "sample_data/lender_approvals.csv"), "lender",
+        ["--outcome", "approved=1", "--exposure", "applicant_group=B,A"])
+compare("clinic", os.path.join(root, "sample_data/clinic_outcomes.csv"), "clinic",
+        ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"])
+compare("clinic pre-counted (count column)", os.path.join(root, "sample_data/clinic_outcomes_counts.csv"),
+        "clinic_counts", ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"],
+        ["--count-column", "patients"])
+compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=yes", "--exposure", "team=north,south"])
+
+
+def expect_error(name, args, words, code=3, env=env):
+    r, _ = scan(args, env=env)
+    msg = r.stderr.lower()
+    if r.returncode != code or not all(w in msg for w in words):
+        failures.append(f"{name}: exit {r.returncode}, message: {r.stderr.strip()[:300]}")
+    elif r.stdout.strip():
+        failures.append(f"{name}: wrote output despite the error")
+    else:
+        print(f"ok   {name}: {' '.join(r.stderr.split())[:300]}")
+
+
+q = ["--outcome", "hired=yes", "--exposure", "team=north,south"]
+expect_error("missing table", ["--source", conn, "--table", "no_such_table", *q], ["does not exist", "42p01"])
+expect_error("permission", ["--source", conn, "--table", "payroll", *q], ["permission denied", "42501"])
+expect_error("refused query", ["--source", conn, "--query", "SELECT * FROM staffing; DROP TABLE staffing", *q], [";"])
+expect_error("ungroupable type", ["--source", conn, "--table", "blobs", *q, "--strata", "doc"], ["cannot be grouped"])
+expect_error("wrong password", ["--source", conn, "--table", "staffing", *q], ["cannot connect", "uid=reader"],
+             env=dict(os.environ, FOLDLINE_ODBC_PASSWORD="wrong"))
+# A query source gives the same findings as the table it selects from.
+a, _ = scan(["--source", conn, "--table", "staffing", *q])
+b, _ = scan(["--source", conn, "--query", 'SELECT * FROM staffing WHERE "select" IS NULL OR "select" <> \'zz\'', *q])
+if a.returncode or b.returncode or json.loads(a.stdout)["findings"] != json.loads(b.stdout)["findings"]:
+    failures.append("query source: findings differ from the table source")
+else:
+    print("ok   query source: same findings as the table")
+
+# Dropped connection: the server stops while the scan's statement runs (pg_sleep in the query).
+slow = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(3)) AS pause'
+proc = subprocess.Popen([foldline, "scan", "--source", conn, "--query", slow, *q, "--json", "-"], env=env,
+                        stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+time.sleep(1.5)
+stop()
+out, err = proc.communicate(timeout=60)
+if proc.returncode != 3 or out.strip() or "connection" not in err.lower():
+    failures.append(f"dropped connection: exit {proc.returncode}, message: {err.strip()[:300]}")
+else:
+    print(f"ok   dropped connection: {' '.join(err.split())[:300]}")
+
+cleanup()
+for f in failures:
+    print("FAIL", f)
+sys.exit(1 if failures else 0)
