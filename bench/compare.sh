@@ -15,7 +15,7 @@ ROWS=${1:-1000000}
 RUNS=${2:-5}
 PY=/usr/bin/python3
 SHARED=${FOLDLINE_SHARED:-../shared/bench}
-[ -d "$SHARED" ] || SHARED=/work/shared/bench
+[ -d "$SHARED" ] || SHARED=../../shared/bench   # from a git worktree one level deeper
 DATA=${DATA:-/tmp/foldline_bench}
 BIN=${FOLDLINE_BIN:-build/app/foldline}
 mkdir -p "$DATA"

@@ -7,8 +7,12 @@ set -eu
 BUILD=${1:?build directory}
 ROWS=${2:-1000000}
 RUNS=${3:-5}
-PEER=$(cd "$(dirname "$0")/../../../shared/bench" 2>/dev/null && pwd || true)
-[ -n "$PEER" ] && [ -f "$PEER/peer_pandas_scan.py" ] || PEER=/work/shared/bench
+# The peer lives in ../shared/bench beside the repository (one level further up from a worktree).
+PEER=${FOLDLINE_SHARED:-}
+for d in "$(dirname "$0")/../../shared/bench" "$(dirname "$0")/../../../shared/bench"; do
+    [ -n "$PEER" ] || { [ -f "$d/peer_pandas_scan.py" ] && PEER=$(cd "$d" && pwd); }
+done
+[ -n "$PEER" ] || { echo "peer scripts not found: set FOLDLINE_SHARED" >&2; exit 2; }
 DATA=$(mktemp -d)
 trap 'rm -rf "$DATA"' EXIT
 /usr/bin/python3 "$PEER/gen_audit_data.py" --rows "$ROWS" --seed 42 --out "$DATA/audit.csv" >/dev/null

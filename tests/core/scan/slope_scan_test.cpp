@@ -1,5 +1,5 @@
 // Tests of core/scan/slope_scan.h. Each check names its source: open datasets shipped by Debian
-// packages with values from /work/shared/reference/methods.md ([src] located in a publication
+// packages with values from the project's reference notes (shared/reference/methods.md) ([src] located in a publication
 // or R's documentation, [calc] recomputed with R / statsmodels), and planted synthetic data.
 #include "core/scan/slope_scan.h"
 
