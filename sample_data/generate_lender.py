@@ -1,7 +1,7 @@
 #!/usr/bin/python3
 """Generate sample_data/lender_approvals.csv: an invented lender's approval decisions.
 
-Scenario (fictional): Marrowby Valley Credit Co-op reviews personal-finance applications from
+Scenario (fictional): Harrowgate Credit Co-op reviews personal-finance applications from
 two applicant groups, A and B, across eight branches and six products.
 
 Planted structure:
