@@ -407,7 +407,11 @@ Result<Table> read_csv_text(std::string_view text, const std::string& name, cons
 Result<Table> read_csv(const std::string& path, const CsvOptions& opts, CsvReport* report, const Work& work) {
     auto file = MappedFile::open(path);
     if (!file) return file.error();
-    return read_impl(file->bytes(), path, opts, report, work, &*file);
+    auto table = read_impl(file->bytes(), path, opts, report, work, &*file);
+    if (file->changed_since_open())
+        return make_error("the file changed while being read (truncated, rewritten or appended to); "
+                          "read it again once it is no longer being written", path);
+    return table;
 }
 
 }  // namespace foldline
