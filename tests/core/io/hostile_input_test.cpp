@@ -107,6 +107,14 @@ std::vector<Hostile> hostile_cases() {
         for (int i = 0; i < 100000; ++i) header += (i ? ",c" : "c") + std::to_string(i);
         v.push_back({"columns_100000_raised_cap", header + "\n" + repeat("1,", 99999) + "1\n", o, false});
     }
+    // Found by fuzzing (tests/fuzz/fuzz_csv_reader.cpp): a doubled quote straddling the end of
+    // the field-size window sent the quote search past the end of the text.
+    {
+        CsvOptions o;
+        o.max_field_bytes = 4;
+        v.push_back({"doubled_quote_at_field_cap", "a\n\"xxxx\"\"" + std::string(64, 'y'), o, true,
+                     "field longer than 4 bytes (limit max_field_bytes)", 2, 1});
+    }
     v.push_back({"ends_inside_quote", "a,b\n1,\"open\n2,3\n", {}, true, "never closed", 2, 2});
     // Invalid UTF-8 in a level (0xC3 followed by an ASCII byte).
     v.push_back({"invalid_utf8_level", "a,b\n1,ok\n2,bad\xC3(\n", {}, true, "invalid UTF-8 byte", 3, 2});
@@ -160,6 +168,17 @@ TEST_P(HostileInput, GivesItsErrorOrDocumentedBehaviour) {
 
 INSTANTIATE_TEST_SUITE_P(Cases, HostileInput, ::testing::ValuesIn(hostile_cases()),
                          [](const auto& info) { return info.param.name; });
+
+TEST(HostileRegression, DoubledQuoteAtTheFieldCapInMemory) {
+    // Same as the file case above, on a heap buffer with nothing after it, so an overrun of the
+    // quote search is caught by AddressSanitizer (found by the csv_reader fuzz target).
+    CsvOptions o;
+    o.max_field_bytes = 4;
+    const std::string text = "a\n\"xxxx\"\"" + std::string(64, 'y');
+    auto r = read_csv_text(text, "mem.csv", o);
+    ASSERT_FALSE(r.ok());
+    EXPECT_NE(r.error().message.find("field longer than 4 bytes"), std::string::npos) << r.error().to_string();
+}
 
 // Documented behaviours that are not errors.
 
