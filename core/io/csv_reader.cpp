@@ -253,6 +253,10 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
                        header_line);
         }
         count_index = static_cast<std::size_t>(it - names.begin());
+        if (names.size() == 1)
+            return err("count column '" + opts.count_column +
+                           "' is the only column (expected at least one column to count by)",
+                       header_line);
         plan.kinds[count_index] = ColumnKind::Count;
     }
 

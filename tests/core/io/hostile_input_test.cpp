@@ -133,6 +133,8 @@ std::vector<Hostile> hostile_cases() {
         v.push_back({"count_2pow53_accepted", "g,y,n\na,1,5\nb,0,9007199254740992\n", o, false});
         v.push_back({"count_inf", "g,y,n\na,1,5\nb,0,inf\n", o, true, "not a number", 3, 3});
         v.push_back({"count_nan", "g,y,n\na,1,5\nb,0,NaN\n", o, true, "not a number", 3, 3});
+        // Found by fuzzing: a header holding only the count column gave a table of no columns.
+        v.push_back({"count_column_only", "n\n2\n3\n", o, true, "is the only column", 1});
         v.push_back({"count_1e400", "g,y,n\na,1,5\nb,0,1e400\n", o, true, "beyond the range", 3, 3});
     }
     return v;
