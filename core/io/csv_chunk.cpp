@@ -160,6 +160,9 @@ void parse_chunk(const ChunkPlan& plan, Chunk& chunk, const Work& work) {
                     return fail(line, c + 1, "count " + quoted_cell(v) + " is negative (expected a whole number of 0 or more)");
                 if (x != std::floor(x))
                     return fail(line, c + 1, "count " + quoted_cell(v) + " is fractional (expected a whole number of 0 or more)");
+                if (x > 9007199254740992.0)  // 2^53: beyond it doubles no longer count one by one
+                    return fail(line, c + 1, "count " + quoted_cell(v) +
+                                                 " is beyond 2^53 = 9007199254740992 (expected a count a double holds exactly)");
             }
             col.values.push_back(x);
             return true;

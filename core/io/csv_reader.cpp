@@ -253,6 +253,10 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
                        header_line);
         }
         count_index = static_cast<std::size_t>(it - names.begin());
+        if (names.size() == 1)
+            return err("count column '" + opts.count_column +
+                           "' is the only column (expected at least one column to count by)",
+                       header_line);
         plan.kinds[count_index] = ColumnKind::Count;
     }
 
@@ -408,7 +412,11 @@ Result<Table> read_csv_text(std::string_view text, const std::string& name, cons
 Result<Table> read_csv(const std::string& path, const CsvOptions& opts, CsvReport* report, const Work& work) {
     auto file = MappedFile::open(path);
     if (!file) return file.error();
-    return read_impl(file->bytes(), path, opts, report, work, &*file);
+    auto table = read_impl(file->bytes(), path, opts, report, work, &*file);
+    if (file->changed_since_open())
+        return make_error("the file changed while being read (truncated, rewritten or appended to); "
+                          "read it again once it is no longer being written", path);
+    return table;
 }
 
 }  // namespace foldline

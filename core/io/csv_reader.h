@@ -17,7 +17,8 @@
 // (or skips them when asked), an unclosed quote (reported at the line where it opened), a
 // stray quote inside an unquoted field, a number beyond the double range in a Numeric column
 // (1e400; in a Categorical column it is just a level), missing, negative, fractional or
-// non-numeric counts in the count column, and fields or rows beyond the hostile-input caps.
+// non-numeric counts or counts above 2^53 in the count column, a file that changed while
+// being read (see mapping_guard.h: a shrinking file cannot raise SIGBUS), and fields or rows beyond the hostile-input caps.
 //
 // Files are opened read-only and memory-mapped. The body is cut into chunks after a newline;
 // chunks are parsed in parallel into per-chunk columns (numbers, or chunk-local dictionary

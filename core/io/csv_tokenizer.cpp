@@ -87,6 +87,9 @@ CsvTokenizer::FieldEnd CsvTokenizer::quoted_field(CsvField& f, std::size_t colum
     const std::size_t room = static_cast<std::size_t>(end_ - start);
     const char* window_end = room > max_field_ + 1 ? start + max_field_ + 1 : end_;
     while (!close) {
+        // A doubled quote straddling the window's end leaves p_ one past it: the field is then
+        // already longer than the cap (and the search length must not go negative).
+        if (p_ > window_end) p_ = window_end;
         const void* q = std::memchr(p_, '"', static_cast<std::size_t>(window_end - p_));
         const char* qq = q ? static_cast<const char*>(q) : window_end;
         line_ += static_cast<std::size_t>(std::count(p_, qq, '\n'));

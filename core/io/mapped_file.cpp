@@ -1,5 +1,7 @@
 #include "core/io/mapped_file.h"
 
+#include "core/io/mapping_guard.h"
+
 #include <cerrno>
 #include <cstring>
 #include <utility>
@@ -39,25 +41,47 @@ Result<MappedFile> MappedFile::open(const std::string& path) {
         }
         ::madvise(p, f.size_, MADV_SEQUENTIAL);
         f.data_ = static_cast<const char*>(p);
+        guard_mapping(p, f.size_);
     }
-    ::close(fd);  // the mapping keeps the file open
+    f.fd_ = fd;  // kept to notice a change after reading
+    f.mtime_ns_ = static_cast<long long>(st.st_mtim.tv_sec) * 1000000000LL + st.st_mtim.tv_nsec;
     return f;
 }
 
 MappedFile::MappedFile(MappedFile&& other) noexcept
-    : data_(std::exchange(other.data_, nullptr)), size_(std::exchange(other.size_, 0)) {}
+    : data_(std::exchange(other.data_, nullptr)), size_(std::exchange(other.size_, 0)),
+      fd_(std::exchange(other.fd_, -1)), mtime_ns_(other.mtime_ns_) {}
 
 MappedFile& MappedFile::operator=(MappedFile&& other) noexcept {
     if (this != &other) {
-        if (data_) ::munmap(const_cast<char*>(data_), size_);
+        if (data_) {
+            unguard_mapping(data_);
+            ::munmap(const_cast<char*>(data_), size_);
+        }
+        if (fd_ >= 0) ::close(fd_);
         data_ = std::exchange(other.data_, nullptr);
         size_ = std::exchange(other.size_, 0);
+        fd_ = std::exchange(other.fd_, -1);
+        mtime_ns_ = other.mtime_ns_;
     }
     return *this;
 }
 
 MappedFile::~MappedFile() {
-    if (data_) ::munmap(const_cast<char*>(data_), size_);
+    if (data_) {
+        unguard_mapping(data_);
+        ::munmap(const_cast<char*>(data_), size_);
+    }
+    if (fd_ >= 0) ::close(fd_);
+}
+
+bool MappedFile::changed_since_open() const {
+    if (data_ && mapping_faulted(data_)) return true;
+    if (fd_ < 0) return false;
+    struct stat st {};
+    if (::fstat(fd_, &st) != 0) return true;
+    const long long mtime = static_cast<long long>(st.st_mtim.tv_sec) * 1000000000LL + st.st_mtim.tv_nsec;
+    return static_cast<std::size_t>(st.st_size) != size_ || mtime != mtime_ns_;
 }
 
 void MappedFile::release(std::size_t begin, std::size_t end) const {

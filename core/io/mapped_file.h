@@ -28,9 +28,16 @@ public:
     /// read back from the page cache if touched again. No effect for an empty or sub-page range.
     void release(std::size_t begin, std::size_t end) const;
 
+    /// Whether the file changed since it was mapped: it shrank under the mapping (the lost pages
+    /// read as zeros instead of raising SIGBUS, see mapping_guard.h), or its size or modification
+    /// time differ now. False for an empty file that is still empty.
+    bool changed_since_open() const;
+
 private:
     const char* data_ = nullptr;
     std::size_t size_ = 0;
+    int fd_ = -1;               ///< kept open to compare the file's status after reading
+    long long mtime_ns_ = 0;
 };
 
 }  // namespace foldline
