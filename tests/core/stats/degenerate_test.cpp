@@ -45,7 +45,13 @@ void expect_same(const Estimate& x, const Estimate& y, const char* what) {
 
 RateFinding analyse(const Strata& s) {
     std::vector<std::vector<std::string>> labels;
-    for (std::size_t k = 0; k < s.size(); ++k) labels.push_back({"s" + std::to_string(k)});
+    // Built with append(), not "s" + std::to_string(k): GCC 12 reports a false -Wrestrict on the
+    // latter (GCC bug 105329).
+    for (std::size_t k = 0; k < s.size(); ++k) {
+        std::string label = "s";
+        label.append(std::to_string(k));
+        labels.push_back({label});
+    }
     return analyse_strata(s, labels, {"stratum"}, 0.05);
 }
 
