@@ -6,6 +6,7 @@
 #include <nlohmann/json.hpp>
 
 #include "core/common/atomic_file.h"
+#include "core/common/text_position.h"
 
 namespace foldline::causal {
 
@@ -13,19 +14,7 @@ using nlohmann::json;
 
 namespace {
 
-// 1-based line and column of a 1-based byte offset (as reported by the JSON parser).
-std::pair<std::size_t, std::size_t> line_column(std::string_view text, std::size_t byte) {
-    std::size_t line = 1, col = 1;
-    for (std::size_t i = 0; i + 1 < byte && i < text.size(); ++i) {
-        if (text[i] == '\n') {
-            ++line;
-            col = 1;
-        } else {
-            ++col;
-        }
-    }
-    return {line, col};
-}
+using foldline::line_column;
 
 Result<std::string> get_string(const json& obj, const char* key, const std::string& where, bool required,
                                const std::string& source) {

@@ -12,6 +12,7 @@
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
+#include "core/common/text_position.h"
 #include "core/io/csv_reader.h"
 
 namespace foldline::project {
@@ -21,18 +22,7 @@ namespace fs = std::filesystem;
 
 namespace {
 
-std::pair<std::size_t, std::size_t> line_column(std::string_view text, std::size_t byte) {
-    std::size_t line = 1, col = 1;
-    for (std::size_t i = 0; i + 1 < byte && i < text.size(); ++i) {
-        if (text[i] == '\n') {
-            ++line;
-            col = 1;
-        } else {
-            ++col;
-        }
-    }
-    return {line, col};
-}
+using foldline::line_column;
 
 fs::path folder_of(const std::string& project_path) {
     fs::path p = fs::absolute(fs::path(project_path)).lexically_normal();
