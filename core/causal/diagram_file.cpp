@@ -6,15 +6,13 @@
 #include <nlohmann/json.hpp>
 
 #include "core/common/atomic_file.h"
-#include "core/common/text_position.h"
+#include "core/common/json_text.h"
 
 namespace foldline::causal {
 
 using nlohmann::json;
 
 namespace {
-
-using foldline::line_column;
 
 Result<std::string> get_string(const json& obj, const char* key, const std::string& where, bool required,
                                const std::string& source) {
@@ -30,16 +28,9 @@ Result<std::string> get_string(const json& obj, const char* key, const std::stri
 }  // namespace
 
 Result<Diagram> parse_diagram(std::string_view text, const std::string& source) {
-    json doc;
-    try {
-        doc = json::parse(text.begin(), text.end());
-    } catch (const json::parse_error& e) {
-        auto [line, col] = line_column(text, e.byte);
-        std::string what = e.what();
-        // Keep the parser's own explanation (after "parse error at ...: "), drop its prefix.
-        if (auto p = what.find("syntax error"); p != std::string::npos) what = what.substr(p);
-        return make_error("not valid JSON: " + what, source, line, col);
-    }
+    auto parsed = parse_json_text(text, source, "not valid JSON: ");
+    if (!parsed) return parsed.error();
+    json doc = std::move(*parsed);
     if (!doc.is_object()) return make_error("expected a JSON object with \"nodes\" and \"edges\"", source, 1, 1);
     Diagram d;
     auto nodes = doc.find("nodes");

@@ -12,7 +12,7 @@
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
-#include "core/common/text_position.h"
+#include "core/common/json_text.h"
 #include "core/io/csv_reader.h"
 
 namespace foldline::project {
@@ -21,8 +21,6 @@ using nlohmann::json;
 namespace fs = std::filesystem;
 
 namespace {
-
-using foldline::line_column;
 
 fs::path folder_of(const std::string& project_path) {
     fs::path p = fs::absolute(fs::path(project_path)).lexically_normal();
@@ -291,15 +289,9 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
 Result<Project> parse_project(std::string_view text, const std::string& project_path) {
     const std::string& src = project_path;
     if (text.empty()) return make_error("empty file (expected a Foldline project, JSON)", src);
-    json doc;
-    try {
-        doc = json::parse(text.begin(), text.end());
-    } catch (const json::parse_error& e) {
-        auto [line, col] = line_column(text, e.byte);
-        std::string what = e.what();
-        if (auto pos = what.find("syntax error"); pos != std::string::npos) what = what.substr(pos);
-        return make_error("not a readable project (damaged or not JSON): " + what, src, line, col);
-    }
+    auto parsed = parse_json_text(text, src, "not a readable project (damaged or not JSON): ");
+    if (!parsed) return parsed.error();
+    json doc = std::move(*parsed);
     if (!doc.is_object()) return make_error("expected a JSON object (a Foldline project)", src, 1, 1);
     auto fmt = doc.find("format");
     if (fmt == doc.end() || !fmt->is_string() || fmt->get<std::string>() != kProjectFormat)
