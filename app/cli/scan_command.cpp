@@ -162,7 +162,8 @@ int run(int argc, char** argv) {
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
-                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
+                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
+                     "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
                      "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
                      "foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to the database)\n"
                      "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
