@@ -142,15 +142,7 @@ bool Autosave::write_now() {
     if (!dirty_) return true;
     const std::optional<project::Project> p = provider_ ? provider_() : std::nullopt;
     if (!p) return true;  // nothing worth recovering yet; keep the change pending
-    if (!QDir().mkpath(folder_)) {
-        error_ = tr("cannot create the recovery folder %1").arg(folder_);
-        return false;
-    }
-    if (!lock_) {
-        lock_ = std::make_unique<QLockFile>(lock_path(path()));
-        lock_->setStaleLockTime(0);
-        if (!lock_->tryLock(0)) lock_.reset();  // still write: recovery matters more than the lock
-    }
+    if (!ensure_folder_and_lock()) return false;
     const QString anchor = project_file_.isEmpty() ? path() : project_file_;
     const std::string text = recovery_text(*p, project_file_, anchor, QDateTime::currentDateTimeUtc());
     QSaveFile f(path());
@@ -162,6 +154,30 @@ bool Autosave::write_now() {
     error_.clear();
     dirty_ = false;
     emit written(path());
+    return true;
+}
+
+bool Autosave::ensure_folder_and_lock() {
+    if (!QDir().mkpath(folder_)) {
+        error_ = tr("cannot create the recovery folder %1").arg(folder_);
+        return false;
+    }
+    if (!lock_) {
+        lock_ = std::make_unique<QLockFile>(lock_path(path()));
+        lock_->setStaleLockTime(0);
+        if (!lock_->tryLock(0)) lock_.reset();  // still write: recovery matters more than the lock
+    }
+    return true;
+}
+
+bool Autosave::adopt(const QString& recovery) {
+    if (!ensure_folder_and_lock()) return false;
+    if (QFileInfo(recovery).absoluteFilePath() == QFileInfo(path()).absoluteFilePath()) return true;
+    QFile::remove(path());
+    if (!QFile::rename(recovery, path())) {
+        error_ = tr("cannot take over the recovery file %1").arg(recovery);
+        return false;
+    }
     return true;
 }
 

@@ -84,6 +84,11 @@ public slots:
     /// A clean save or close: nothing to recover, the file is removed and pending changes
     /// dropped.
     void discard();
+    /// Takes over a recovery file being restored: it becomes this session's file (renamed,
+    /// locked), so it survives until this session writes, saves or closes cleanly, and a crash
+    /// during the restore leaves it to offer again. False (and the file left where it was) when
+    /// it cannot be moved.
+    bool adopt(const QString& recovery);
 
 public:
     QString last_error() const { return error_; }
@@ -100,6 +105,7 @@ private:
     QString error_;
     std::unique_ptr<QLockFile> lock_;
     bool dirty_ = false;
+    bool ensure_folder_and_lock();
 };
 
 }  // namespace foldline::ui

@@ -405,8 +405,14 @@ Result<project::Project> MainWindow::current_project() const {
     const std::string data = source_->source().toStdString();
     p.data = project::DataSource{};
     p.data.path = data;
-    p.data.size = std::uint64_t(QFileInfo(source_->source()).size());
-    if (auto h = sha256_file(data)) p.data.sha256 = *h;
+    const QFileInfo info(source_->source());
+    p.data.size = std::uint64_t(info.size());
+    // Autosave asks for the document every interval: hash a file once per version of it.
+    if (digest_.path != source_->source() || digest_.size != info.size() || digest_.modified != info.lastModified()) {
+        auto h = sha256_file(data);
+        digest_ = {source_->source(), info.size(), info.lastModified(), h ? *h : std::string()};
+    }
+    p.data.sha256 = digest_.sha256;
     p.data.rows = source_->table()->rows;
     for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
     const LoadOptions o = source_->options();
@@ -510,9 +516,11 @@ std::optional<RecoveryChoice> MainWindow::check_recovery() {
         QFile::remove(offer->path);
         statusBar()->showMessage(tr("Discarded the kept copy of the unsaved audit"), 8000);
     } else if (c == RecoveryChoice::Restore) {
+        // The copy becomes this session's recovery file before anything else happens, so a
+        // failed or interrupted restore loses nothing.
+        if (!autosave_->adopt(offer->path))
+            statusBar()->showMessage(autosave_->last_error(), 8000);
         open_project_document(offer->project, offer->project_file);
-        // The copy now lives in this session: its own autosave takes over once restored.
-        QFile::remove(offer->path);
         autosave_->mark_changed();
         statusBar()->showMessage(tr("Restoring the unsaved audit…"), 8000);
     }

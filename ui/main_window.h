@@ -7,6 +7,7 @@
 #include "ui/engine.h"
 #include "ui/recovery_dialog.h"
 
+#include <QDateTime>
 #include <QHash>
 #include <QMainWindow>
 #include <functional>
@@ -118,6 +119,13 @@ private:
     RecoveryPrompt prompt_;
     QString project_path_;
     std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit
+    struct Digest {
+        QString path;
+        qint64 size = -1;
+        QDateTime modified;
+        std::string sha256;
+    };
+    mutable Digest digest_;  ///< the data file's SHA-256, computed once per version of the file
 };
 
 }  // namespace foldline::ui

@@ -180,7 +180,10 @@ private slots:
         QCOMPARE(asked, 1);
         QCOMPARE(seen.path, recovery);
         QVERIFY(seen.project_file.isEmpty());
+        // The copy became the new session's own recovery file (a crash while restoring loses
+        // nothing).
         QVERIFY(!QFile::exists(recovery));
+        QVERIFY(QFile::exists(again.autosave()->path()));
         auto restored = [&] {
             for (const FindingView& g : again.findings_model()->findings())
                 if (g.strata == strata) return g.decision == Decision::FollowUp && g.note == kNote;
@@ -192,8 +195,11 @@ private slots:
         MainWindow third;
         third.autosave()->set_folder(folder);
         third.set_recovery_prompt([](const RecoveryOffer&) { return RecoveryChoice::Restore; });
-        // The second window's own autosave (its restore counts as a change) is held by it.
+        // The second window holds the adopted copy: a third one does not offer it.
         QVERIFY(!third.check_recovery().has_value());
+        QVERIFY(QFile::exists(again.autosave()->path()));
+        QVERIFY(again.close());
+        QVERIFY(!QFile::exists(again.autosave()->path()));
     }
 
     void later_keeps_the_copy_and_discard_removes_it() {
