@@ -118,7 +118,8 @@ Autosave::~Autosave() {
     if (lock_) lock_->unlock();
 }
 
-void Autosave::set_folder(const QString& folder) {
+void Autosave::set_folder(const QString& wanted) {
+    const QString folder = wanted.isEmpty() ? default_recovery_folder() : wanted;
     if (folder == folder_) return;
     if (QFileInfo::exists(path())) {
         QFile::remove(path());
@@ -128,7 +129,7 @@ void Autosave::set_folder(const QString& folder) {
     folder_ = folder;
 }
 
-void Autosave::set_interval(int ms) { timer_.setInterval(ms); }
+void Autosave::set_interval(int ms) { timer_.setInterval(ms > 0 ? ms : 0); }
 
 QString Autosave::path() const { return QDir(folder_).filePath(file_name_); }
 

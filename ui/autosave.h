@@ -60,11 +60,12 @@ public:
     explicit Autosave(Provider provider, QObject* parent = nullptr);
     ~Autosave() override;
 
-    /// Where recovery files go; the default is default_recovery_folder(). Takes effect for the
-    /// next write (a file already written in the old folder is removed).
+    /// Where recovery files go; empty → default_recovery_folder(). Takes effect for the next
+    /// write (a file already written in the old folder is removed).
     void set_folder(const QString& folder);
     QString folder() const { return folder_; }
-    /// Milliseconds from the first change to the write (default 30,000).
+    /// Milliseconds from the first change to the write (default 30,000); 0 or less → the next
+    /// turn of the event loop.
     void set_interval(int ms);
     int interval() const { return timer_.interval(); }
     /// The project file the audit belongs to (recorded in the recovery file); empty: unsaved.

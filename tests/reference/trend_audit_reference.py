@@ -115,8 +115,40 @@ try:
     rc2, out2, err2 = run(["run", "retail_audit.foldline"], work)
     check(rc == 4 and rc2 == 0, "--update records the new class, then run exits 0 (got %d, %d)" % (rc, rc2))
 
-    print("-- scan --trend beside a rate question")
+    print("-- covariates in a saved slope question")
+    proj["question"]["covariates"] = ["footfall"]
+    proj["findings"] = []
+    json.dump(proj, open(os.path.join(work, "covariates.foldline"), "w"), indent=2)
+    rc, out, err = run(["run", "covariates.foldline", "--csv", "c"], work)
+    check(rc == 0, "a slope question with a covariate runs (got %d: %s)" % (rc, err.strip()))
+    cov = [f for f in rows(os.path.join(work, "c-slope-findings.csv")) if f["strata"] == "store_format"]
+    used = retail.dropna(subset=["promo_spend", "weekly_sales", "footfall"])
+    pooled_adj = smf.ols("weekly_sales ~ promo_spend + footfall", data=used).fit().params["promo_spend"]
+    within_adj = smf.ols("weekly_sales ~ promo_spend + footfall + C(store_format)", data=used).fit().params["promo_spend"]
+    check(len(cov) == 1 and cov[0]["covariates"] == "footfall" and int(cov[0]["rows_used"]) == len(used),
+          "the covariate is recorded and rows missing it are left out (%d rows)" % len(used))
+    check(len(cov) == 1 and close(float(cov[0]["adjusted_pooled_slope"]), pooled_adj) and
+          close(float(cov[0]["adjusted_within_slope"]), within_adj),
+          "adjusted pooled %.6g and within %.6g slopes are statsmodels' OLS with footfall" % (pooled_adj, within_adj))
+
+    print("-- trend checks saved beside a rate question")
     shutil.copy(os.path.join(SAMPLES, "lender_approvals.csv"), work)
+    lp = json.load(open(os.path.join(SAMPLES, "lender_audit.foldline")))
+    lp["version"] = 2
+    lp["trend"] = {"x": "income", "y": "loan_amount", "covariates": []}
+    lp["scan"]["bootstrap"] = 0
+    json.dump(lp, open(os.path.join(work, "lender_trend.foldline"), "w"), indent=2)
+    rc, out, err = run(["run", "lender_trend.foldline", "--csv", "lt"], work)
+    check(rc == 4 and "slope: " in out and "(not saved) ->" in out,
+          "new slope findings of a rate audit count as changes until recorded (got %d)" % rc)
+    check(all(os.path.exists(os.path.join(work, "lt-" + n)) for n in
+              ("findings.csv", "strata.csv", "slope-findings.csv", "slope-strata.csv")),
+          "run --csv on a rate audit with trend checks writes both pairs")
+    rc, out, err = run(["run", "lender_trend.foldline", "--update"], work)
+    rc2, out2, err2 = run(["run", "lender_trend.foldline"], work)
+    check(rc2 == 0, "after --update the rate-and-trend audit re-runs as saved (got %d)" % rc2)
+
+    print("-- scan --trend beside a rate question")
     lender = pd.read_csv(os.path.join(work, "lender_approvals.csv"))
     rc, out, err = run(["scan", "lender_approvals.csv", "--outcome", "approved=1", "--exposure", "applicant_group=B,A",
                         "--bootstrap", "0", "--no-pairs", "--trend", "income:loan_amount", "--csv", "l"], work)
