@@ -150,6 +150,7 @@ bool Autosave::write_now() {
     if (!f.open(QIODevice::WriteOnly) || f.write(text.data(), qint64(text.size())) != qint64(text.size()) ||
         !f.commit()) {
         error_ = tr("cannot write the recovery file %1: %2").arg(path(), f.errorString());
+        emit failed(error_);
         return false;
     }
     error_.clear();
@@ -161,6 +162,7 @@ bool Autosave::write_now() {
 bool Autosave::ensure_folder_and_lock() {
     if (!QDir().mkpath(folder_)) {
         error_ = tr("cannot create the recovery folder %1").arg(folder_);
+        emit failed(error_);
         return false;
     }
     if (!lock_) {

@@ -96,6 +96,8 @@ public:
 
 signals:
     void written(const QString& path);
+    /// A write failed (folder missing or read-only, disk full); `reason` names the file.
+    void failed(const QString& reason);
 
 private:
     Provider provider_;

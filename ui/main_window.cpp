@@ -140,6 +140,9 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(autosave_, &Autosave::written, this, [this] {
         statusBar()->showMessage(tr("Unsaved changes kept for recovery"), 3000);
     });
+    connect(autosave_, &Autosave::failed, this, [this](const QString& reason) {
+        statusBar()->showMessage(tr("Autosave failed: %1. Save the audit to keep your changes.").arg(reason), 15000);
+    });
     go_to(Source);
 }
 

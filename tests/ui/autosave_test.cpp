@@ -6,6 +6,7 @@
 #include <QFile>
 #include <QFileInfo>
 #include <QSettings>
+#include <QSignalSpy>
 #include <QTemporaryDir>
 #include <QtTest>
 
@@ -224,6 +225,30 @@ private slots:
         QCOMPARE(w.check_recovery().value(), RecoveryChoice::Discard);
         QVERIFY(!QFile::exists(copy));
         QVERIFY(!w.check_recovery().has_value());
+    }
+
+    void a_failed_write_is_reported_and_stays_pending() {
+        // A regular file where the folder should be: the folder cannot be made.
+        QTemporaryDir dir;
+        QFile blocker(dir.filePath("not_a_folder"));
+        QVERIFY(blocker.open(QIODevice::WriteOnly));
+        blocker.close();
+        project::Project p;
+        p.question.outcome = "sales";
+        p.question.exposure = "promo";
+        Autosave a([p] { return std::optional<project::Project>(p); });
+        a.set_folder(dir.filePath("not_a_folder/recovery"));
+        QSignalSpy failed(&a, &Autosave::failed);
+        a.mark_changed();
+        QVERIFY(!a.write_now());
+        QCOMPARE(failed.count(), 1);
+        QVERIFY(a.last_error().contains("not_a_folder"));
+        QVERIFY(a.pending());  // the change is not forgotten: the next write tries again
+        a.set_folder(dir.filePath("recovery"));
+        QVERIFY(a.write_now());
+        QVERIFY(QFile::exists(a.path()));
+        a.discard();
+        QVERIFY(!QFile::exists(a.path()));
     }
 
     void a_clean_close_removes_the_recovery_file() {
