@@ -42,6 +42,7 @@ struct MainWindow::PendingProject {
     project::Project project;
     QString path;
     bool scanned = false;
+    QString data_change;  ///< what changed in the data since the save; empty when unchanged
 };
 
 namespace {
@@ -535,8 +536,15 @@ void MainWindow::restore_pending() {
     const project::Project& p = pending->project;
     if (!pending->scanned) {
         // The data is in: warn when it changed since the save, then ask the saved question.
-        if (auto h = sha256_file(p.data.path); h && !p.data.sha256.empty() && *h != p.data.sha256)
-            statusBar()->showMessage(tr("The data file changed since the audit was saved (SHA-256 differs)."), 15000);
+        // The table is already read, so rows and columns are compared without reading it again.
+        if (auto h = sha256_file(p.data.path)) {
+            const auto change = project::compare_data(p.data, *h, std::uint64_t(QFileInfo(QString::fromStdString(p.data.path)).size()),
+                                                      source_->table().get());
+            if (change.changed) {
+                pending->data_change = QString::fromStdString(change.message);
+                statusBar()->showMessage(tr("Warning: %1.").arg(pending->data_change), 15000);
+            }
+        }
         QuestionSpec q = question_->spec();
         q.slope = p.question.kind == project::QuestionKind::Slope;
         q.outcome = QString::fromStdString(p.question.outcome);
@@ -576,7 +584,10 @@ void MainWindow::restore_pending() {
         diagram_->doc()->replace(*d);
         diagram_->undo_stack()->clear();
     }
-    statusBar()->showMessage(pending->path.isEmpty() ? tr("Restored the unsaved audit") : tr("Opened %1").arg(pending->path), 8000);
+    QString done = pending->path.isEmpty() ? tr("Restored the unsaved audit") : tr("Opened %1").arg(pending->path);
+    if (!pending->data_change.isEmpty()) done += tr(". Warning: %1.").arg(pending->data_change);
+    data_change_ = pending->data_change;
+    statusBar()->showMessage(done, pending->data_change.isEmpty() ? 8000 : 0);
 }
 
 void MainWindow::save_project_dialog() {

@@ -51,6 +51,9 @@ public:
     Autosave* autosave() const { return autosave_; }
     /// The project file the audit was opened from or last saved to; empty when never saved.
     QString project_path() const { return project_path_; }
+    /// What changed in the data file since the opened project was saved (rows, columns,
+    /// digest), as shown in the status bar; empty when unchanged or no project was opened.
+    QString data_change() const { return data_change_; }
     /// The audit as a project document (data source, question, settings, diagram, decisions,
     /// notes, memo settings; no rows). Error when no data file is open (typed-in counts have
     /// no file to point to).
@@ -118,6 +121,7 @@ private:
     Autosave* autosave_ = nullptr;
     RecoveryPrompt prompt_;
     QString project_path_;
+    QString data_change_;
     std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit
     struct Digest {
         QString path;

@@ -256,6 +256,24 @@ private slots:
         QCOMPARE(p->memo.analyst, std::string("Trading analytics desk (fictional)"));
         const auto* r = p->review(project::slope_key({"store_format"}, "promo_spend", "weekly_sales"));
         QVERIFY(r && r->decision == Decision::Upheld && r->saved_class == FindingClass::Reversal);
+        QVERIFY(w.data_change().isEmpty());
+
+        // The data file grew by one row since the save: the reopened audit says what changed.
+        QFile::copy(find_sample("retail_weeks.csv"), dir.filePath("retail_weeks.csv"));
+        {
+            QFile data(dir.filePath("retail_weeks.csv"));
+            QVERIFY(data.open(QIODevice::Append));
+            data.write("kiosk,Lowmarch,Q1,300.5,7000.25,240\n");
+        }
+        auto moved = project::load_project(audit.toStdString());
+        QVERIFY(moved.ok());
+        moved->data.path = dir.filePath("retail_weeks.csv").toStdString();
+        QVERIFY(project::save_project(*moved, dir.filePath("grown.foldline").toStdString()).ok());
+        MainWindow again;
+        QVERIFY(again.open_project(dir.filePath("grown.foldline")).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(!again.data_change().isEmpty(), 120000);
+        QVERIFY2(again.data_change().contains(QStringLiteral("rows: 5,000 \u2192 5,001")), qPrintable(again.data_change()));
+        QVERIFY(again.data_change().contains(QStringLiteral("same columns")));
     }
 };
 
