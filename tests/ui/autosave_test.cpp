@@ -128,10 +128,18 @@ private slots:
         QVERIFY2(saved.ok(), saved.ok() ? "" : saved.error().to_string().c_str());
         QVERIFY(!QFile::exists(w.autosave()->path()));  // a clean save leaves nothing to recover
         const QByteArray before = slurp(audit);
+        // Nothing changed since the save: nothing is written.
+        QTest::qWait(3 * w.autosave()->interval());
+        QVERIFY(!QFile::exists(w.autosave()->path()));
 
+        // Two edits in quick succession make one write.
+        QSignalSpy written(w.autosave(), &Autosave::written);
+        w.findings_model()->set_decision(row, Decision::SetAside, kNote);
         w.findings_model()->set_decision(row, Decision::Upheld, kNote + QStringLiteral(" (second look)"));
         QVERIFY(w.autosave()->pending());
         QTRY_VERIFY_WITH_TIMEOUT(QFile::exists(w.autosave()->path()), 5000);
+        QTest::qWait(3 * w.autosave()->interval());
+        QCOMPARE(written.count(), 1);
         QVERIFY(!w.autosave()->pending());
         QCOMPARE(slurp(audit), before);  // the user's project file is never written by autosave
         auto copy = read_recovery(w.autosave()->path());
