@@ -19,6 +19,7 @@
 #include "core/io/csv_reader.h"
 #include "core/report/scan_json.h"
 #include "core/scan/candidates.h"
+#include "core/scan/grouped_cubes.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
@@ -220,19 +221,44 @@ int run(int argc, char** argv) {
         const auto d = *a.get("delimiter");
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
     }
-    DatabaseSource db;
+    DatabaseInfo db;
+    DatabaseCounts counted;
+    bool from_cubes = false;
     auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
     if (from_db) {
-        std::vector<std::string> required = {spec.outcome, spec.exposure};
-        for (const auto& c : copt.columns) required.push_back(c);
-        auto loaded = load_database_source(*a.get("source"), a.get_or("table", ""), a.get_or("query", ""), required,
-                                           copt.columns.empty(), copt, ropt.count_column);
-        if (loaded) {
-            db = std::move(*loaded);
-            path = db.description;
-            table = std::move(db.table);
-        } else {
-            table = loaded.error();
+        DatabaseRequest req;
+        req.source = *a.get("source");
+        req.table = a.get_or("table", "");
+        req.query = a.get_or("query", "");
+        req.required = {spec.outcome, spec.exposure};
+        for (const auto& c : copt.columns) req.required.push_back(c);
+        req.all_columns = copt.columns.empty();
+        req.count_column = ropt.count_column;
+        // A rate question runs on the cubes of one GROUPING SETS query. The diagram's verdicts
+        // and the trend checks need rows (joint strata of any set, per-row x and y), so those
+        // scans load the joint cells instead.
+        const bool cells = a.has("diagram") || a.has("trend");
+        if (!cells) {
+            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive);
+            if (!c) {
+                table = c.error();
+            } else if (!c->numeric_question) {
+                counted = std::move(*c);
+                db = counted;
+                path = db.description;
+                table = counted.counts.pooled;
+                from_cubes = true;
+            }
+        }
+        if (!from_cubes && (cells || table.error().message.empty())) {
+            auto loaded = load_database_source(req, copt);
+            if (loaded) {
+                db = *loaded;
+                path = db.description;
+                table = std::move(loaded->table);
+            } else {
+                table = loaded.error();
+            }
         }
     }
     hasher.join();
@@ -299,6 +325,13 @@ int run(int argc, char** argv) {
         apply_fdr(r);
         rank_findings(r);
         result = std::move(r);
+    } else if (from_cubes) {
+        auto in = cubes_from_groups(counted.counts, spec, copt, sopt.pairs);
+        if (!in) return fail(kName, kUsage, in.error().to_string());
+        if (in->cubes.stratifiers.empty())
+            return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
+        result = rate_scan(in->cubes, in->question, sopt);
+        if (!result) return fail(kName, kInternal, result.error().to_string());
     } else {
         auto q = resolve_question(*table, spec);
         if (!q) return fail(kName, kUsage, q.error().to_string());

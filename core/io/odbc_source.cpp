@@ -158,7 +158,7 @@ std::string utc_now() {
 
 class Session {
 public:
-    Session(const OdbcOptions& o, const Work& w, OdbcTable& out) : o_(o), work_(w), out_(out) {}
+    Session(const OdbcOptions& o, const Work& w, OdbcSourceInfo& out) : o_(o), work_(w), out_(out) {}
 
     Status connect() {
         if (!good(SQLAllocHandle(SQL_HANDLE_ENV, SQL_NULL_HANDLE, &h_.env)))
@@ -267,7 +267,7 @@ public:
 private:
     const OdbcOptions& o_;
     const Work& work_;
-    OdbcTable& out_;
+    OdbcSourceInfo& out_;
     Handles h_;
 };
 
@@ -312,18 +312,28 @@ std::string redact_connection_string(std::string_view text) {
     return out;
 }
 
-Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
-    OdbcTable out;
+namespace {
+
+/// The source's FROM item and the columns worth fetching.
+struct Plan {
+    std::string from;
+    std::vector<SourceColumn> keep;  ///< in source order
+};
+
+/// Describes the source (its columns), checks the required columns, and profiles the others
+/// (rows, present and distinct values) to leave out what a scan would leave out anyway.
+Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, const Work& work) {
+    Plan plan;
     auto from = sql::from_clause(o.source);
     if (!from) return from.error();
+    plan.from = *from;
     out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
-    Session s(o, work, out);
     if (auto st = s.connect(); !st) return st.error();
 
     // 1. The source's columns.
     std::vector<SourceColumn> cols;
     auto none = [](SQLHSTMT, SQLSMALLINT) -> Status { return Ok{}; };
-    if (auto st = s.run(sql::describe_sql(*from), "describing the source's columns", none, &cols); !st)
+    if (auto st = s.run(sql::describe_sql(plan.from), "describing the source's columns", none, &cols); !st)
         return st.error();
     for (const auto& c : cols) out.source_columns.push_back(c.name);
     for (const auto& r : o.required)
@@ -338,7 +348,6 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     work.report(1, 3, "profiling columns");
 
     // 2. Profile: rows, non-missing and distinct values of every candidate column.
-    std::vector<SourceColumn> keep;
     std::vector<std::string> profiled;
     auto is_required = [&](const std::string& n) { return std::find(o.required.begin(), o.required.end(), n) != o.required.end(); };
     for (const auto& c : cols) {
@@ -351,7 +360,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
         profiled.push_back(c.name);
     }
     std::vector<double> prof;
-    if (auto st = s.run(sql::profile_sql(*from, profiled), "counting rows and distinct values",
+    if (auto st = s.run(sql::profile_sql(plan.from, profiled), "counting rows and distinct values",
                         [&](SQLHSTMT h, SQLSMALLINT n) -> Status {
                             for (SQLSMALLINT i = 1; i <= n; ++i) {
                                 auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
@@ -367,7 +376,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     const double rows = prof[0];
     for (const auto& c : cols) {
         if (is_required(c.name)) {
-            keep.push_back(c);
+            plan.keep.push_back(c);
             continue;
         }
         const auto it = std::find(profiled.begin(), profiled.end(), c.name);
@@ -389,76 +398,209 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
                                                 " > " + std::to_string(o.max_levels) + ")"});
             continue;
         }
-        keep.push_back(c);
+        plan.keep.push_back(c);
     }
-    work.report(2, 3, "counting cells in the database");
-    if (keep.empty()) return make_error("no column of the source can be fetched");
+    work.report(2, 3, "counting in the database");
+    if (plan.keep.empty()) return make_error("no column of the source can be fetched");
+    return plan;
+}
+
+/// One value of a result row.
+struct Cell {
+    double number = kNaN;
+    std::string text;
+    bool null = false;
+};
+
+Result<Cell> read_cell(Session& s, SQLHSTMT h, SQLUSMALLINT col, bool numeric) {
+    Cell c;
+    if (numeric) {
+        auto v = s.get_double(h, col);
+        if (!v) return v.error();
+        c.number = *v;
+        c.null = std::isnan(*v);
+        return c;
+    }
+    auto t = s.get_text(h, col, c.null);
+    if (!t) return t.error();
+    c.text = std::move(*t);
+    return c;
+}
+
+/// Collects result rows into a pre-counted Table: text columns become categorical (levels in
+/// order of first appearance among the rows, NULL missing), numeric ones stay numeric.
+class TableBuilder {
+public:
+    explicit TableBuilder(std::vector<SourceColumn> columns) : columns_(std::move(columns)), cells_(columns_.size()) {}
+    /// Adds a row: one cell per column (in the builder's column order) and its count.
+    void add(const std::vector<const Cell*>& row, double weight) {
+        for (std::size_t i = 0; i < columns_.size(); ++i) cells_[i].push_back(*row[i]);
+        weights_.push_back(weight);
+    }
+    Table finish(const std::string& source, const std::string& weight_column) {
+        Table t;
+        t.rows = weights_.size();
+        t.weights = std::move(weights_);
+        t.source = source;
+        t.weight_column = weight_column;
+        for (std::size_t i = 0; i < columns_.size(); ++i) {
+            if (columns_[i].numeric) {
+                std::vector<double> v;
+                v.reserve(cells_[i].size());
+                for (const auto& c : cells_[i]) v.push_back(c.number);
+                t.columns.push_back(Column::numeric(columns_[i].name, std::move(v)));
+                continue;
+            }
+            std::vector<std::string> levels;
+            std::unordered_map<std::string, std::uint32_t> index;
+            std::vector<std::uint32_t> codes;
+            codes.reserve(cells_[i].size());
+            std::vector<std::size_t> missing_rows;
+            for (std::size_t r = 0; r < cells_[i].size(); ++r) {
+                const Cell& c = cells_[i][r];
+                if (c.null) {
+                    codes.push_back(0);
+                    missing_rows.push_back(r);
+                    continue;
+                }
+                auto [it, inserted] = index.try_emplace(c.text, static_cast<std::uint32_t>(levels.size()));
+                if (inserted) levels.push_back(c.text);
+                codes.push_back(it->second);
+            }
+            const auto miss = static_cast<std::uint32_t>(levels.size());
+            for (auto r : missing_rows) codes[r] = miss;
+            t.columns.push_back(Column::categorical(columns_[i].name, std::move(levels), codes));
+            cells_[i].clear();
+        }
+        return t;
+    }
+
+private:
+    std::vector<SourceColumn> columns_;
+    std::vector<std::vector<Cell>> cells_;
+    std::vector<double> weights_;
+};
+
+}  // namespace
+
+Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
+    OdbcTable out;
+    Session s(o, work, out);
+    auto plan = plan_source(s, o, out, work);
+    if (!plan) return plan.error();
+    const auto& keep = plan->keep;
 
     // 3. The joint cells.
     std::vector<std::string> names;
     for (const auto& c : keep) names.push_back(c.name);
     out.queried_at = utc_now();
-    std::vector<std::vector<std::uint32_t>> codes(keep.size());
-    std::vector<std::vector<double>> values(keep.size());
-    std::vector<std::vector<std::string>> levels(keep.size());
-    std::vector<std::unordered_map<std::string, std::uint32_t>> index(keep.size());
-    std::vector<std::pair<std::string, bool>> pending;  // text values of the row until the level count is known
-    std::vector<std::vector<std::pair<std::string, bool>>> text_cells(keep.size());
-    std::vector<double> weights;
+    TableBuilder cells(keep);
+    std::vector<Cell> row(keep.size());
+    std::vector<const Cell*> ptrs(keep.size());
+    for (std::size_t i = 0; i < keep.size(); ++i) ptrs[i] = &row[i];
     const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(keep.size() + 1);
-    if (auto st = s.run(sql::cells_sql(*from, names, o.first_appearance, o.count_column), "counting the cells",
+    if (auto st = s.run(sql::cells_sql(plan->from, names, o.first_appearance, o.count_column), "counting the cells",
                         [&](SQLHSTMT h, SQLSMALLINT) -> Status {
                             for (std::size_t i = 0; i < keep.size(); ++i) {
-                                const SQLUSMALLINT col = static_cast<SQLUSMALLINT>(i + 1);
-                                if (keep[i].numeric) {
-                                    auto v = s.get_double(h, col);
-                                    if (!v) return v.error();
-                                    values[i].push_back(*v);
-                                } else {
-                                    bool null = false;
-                                    auto t = s.get_text(h, col, null);
-                                    if (!t) return t.error();
-                                    text_cells[i].emplace_back(std::move(*t), null);
-                                }
+                                auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), keep[i].numeric);
+                                if (!c) return c.error();
+                                row[i] = std::move(*c);
                             }
                             auto w = s.get_double(h, count_col);
                             if (!w) return w.error();
-                            weights.push_back(*w);
+                            cells.add(ptrs, *w);
                             if (work.cancelled()) return make_error("cancelled while reading the cells");
                             return Ok{};
                         });
         !st)
         return st.error();
-
-    Table& t = out.table;
-    t.rows = weights.size();
-    t.weights = std::move(weights);
-    t.source = "odbc: " + out.source_text;
-    t.weight_column = o.count_column;
-    for (std::size_t i = 0; i < keep.size(); ++i) {
-        if (keep[i].numeric) {
-            t.columns.push_back(Column::numeric(keep[i].name, std::move(values[i])));
-            continue;
-        }
-        std::vector<std::uint32_t> c32;
-        c32.reserve(text_cells[i].size());
-        std::vector<std::size_t> missing_rows;
-        for (std::size_t r = 0; r < text_cells[i].size(); ++r) {
-            auto& [text, null] = text_cells[i][r];
-            if (null) {
-                c32.push_back(0);
-                missing_rows.push_back(r);
-                continue;
-            }
-            auto [it, inserted] = index[i].try_emplace(text, static_cast<std::uint32_t>(levels[i].size()));
-            if (inserted) levels[i].push_back(text);
-            c32.push_back(it->second);
-        }
-        const auto miss = static_cast<std::uint32_t>(levels[i].size());
-        for (auto r : missing_rows) c32[r] = miss;
-        t.columns.push_back(Column::categorical(keep[i].name, std::move(levels[i]), c32));
-    }
+    out.table = cells.finish("odbc: " + out.source_text, o.count_column);
     work.report(3, 3, "cells received");
+    return out;
+}
+
+Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& outcome, const std::string& exposure,
+                                    bool pairs, bool numeric_outcome_question, const Work& work) {
+    OdbcGroups out;
+    Session s(o, work, out);
+    auto plan = plan_source(s, o, out, work);
+    if (!plan) return plan.error();
+    auto find = [&](const std::string& n) {
+        return std::find_if(plan->keep.begin(), plan->keep.end(), [&](const SourceColumn& c) { return c.name == n; });
+    };
+    const auto oc = find(outcome), ec = find(exposure);
+    if (oc == plan->keep.end() || ec == plan->keep.end())
+        return make_error("the outcome and the exposure must be among the columns fetched");
+    if (numeric_outcome_question && oc->numeric && ec->numeric) {
+        out.numeric_question = true;
+        return out;
+    }
+    // Columns of the query: outcome, exposure, then every stratifier in source order.
+    std::vector<SourceColumn> cols{*oc, *ec};
+    sql::CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    for (const auto& c : plan->keep)
+        if (c.name != outcome && c.name != exposure) {
+            cols.push_back(c);
+            q.strata.push_back(c.name);
+        }
+    q.pairs = pairs;
+    q.pooled = true;
+    q.first_appearance = o.first_appearance;
+    q.count_column = o.count_column;
+    const std::size_t n = q.strata.size();
+
+    TableBuilder pooled({cols[0], cols[1]});
+    std::vector<TableBuilder> singles;
+    for (std::size_t i = 0; i < n; ++i) singles.emplace_back(std::vector<SourceColumn>{cols[0], cols[1], cols[2 + i]});
+    std::vector<TableBuilder> pair_sets;
+    std::vector<std::size_t> pair_at(n * n, 0);
+    if (pairs)
+        for (std::size_t i = 0; i < n; ++i)
+            for (std::size_t j = i + 1; j < n; ++j) {
+                pair_at[i * n + j] = pair_sets.size();
+                pair_sets.emplace_back(std::vector<SourceColumn>{cols[0], cols[1], cols[2 + i], cols[2 + j]});
+            }
+
+    out.queried_at = utc_now();
+    std::vector<Cell> row(cols.size());
+    std::vector<std::size_t> in_set;
+    const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(cols.size() + n + 1);
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < cols.size(); ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), cols[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(cols.size() + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);  // GROUPING() is 0 where the column belongs to the row's set
+        }
+        auto w = s.get_double(h, count_col);
+        if (!w) return w.error();
+        if (in_set.empty()) {
+            pooled.add({&row[0], &row[1]}, *w);
+        } else if (in_set.size() == 1) {
+            singles[in_set[0]].add({&row[0], &row[1], &row[2 + in_set[0]]}, *w);
+        } else if (in_set.size() == 2 && pairs) {
+            pair_sets[pair_at[in_set[0] * n + in_set[1]]].add({&row[0], &row[1], &row[2 + in_set[0]], &row[2 + in_set[1]]},
+                                                             *w);
+        } else {
+            return make_error("the grouping sets query returned a row of no requested set");
+        }
+        if (work.cancelled()) return make_error("cancelled while reading the counts");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::cubes_sql(plan->from, q), "counting the grouping sets", on_row); !st) return st.error();
+    const std::string source = "odbc: " + out.source_text;
+    out.counts.pooled = pooled.finish(source, o.count_column);
+    for (auto& b : singles) out.counts.singles.push_back(b.finish(source, o.count_column));
+    for (auto& b : pair_sets) out.counts.pairs.push_back(b.finish(source, o.count_column));
+    out.counts.weighted_source = !o.count_column.empty();
+    work.report(3, 3, "counts received");
     return out;
 }
 

@@ -21,6 +21,7 @@
 #include "core/common/error.h"
 #include "core/common/progress.h"
 #include "core/io/sql_pushdown.h"
+#include "core/table/grouped_counts.h"
 #include "core/table/table.h"
 
 namespace foldline {
@@ -43,17 +44,29 @@ struct OdbcLeftOut {
     std::string reason;
 };
 
-struct OdbcTable {
-    Table table;                          ///< the cells: weights = rows per cell
+/// Where the counts came from, for reports (never a credential).
+struct OdbcSourceInfo {
     std::vector<std::string> source_columns;  ///< every column of the source, in its order
     std::vector<OdbcLeftOut> left_out;    ///< columns of the source not fetched, in source order
     double source_rows = 0;               ///< COUNT(*) of the source
     std::string driver;                   ///< driver name and version as the driver reports them
     std::string database;                 ///< database (catalog) name
     std::string source_text;              ///< table name or the query text
-    std::string queried_at;               ///< UTC time the cells query started, ISO 8601
+    std::string queried_at;               ///< UTC time the counting query started, ISO 8601
     std::vector<std::string> statements;  ///< every statement sent, in order
     double bytes_fetched = 0;             ///< bytes of result data received (cell values and counts)
+};
+
+struct OdbcTable : OdbcSourceInfo {
+    Table table;                          ///< the cells: weights = rows per cell
+};
+
+/// The cells of every grouping set of a rate question (core/table/grouped_counts.h).
+struct OdbcGroups : OdbcSourceInfo {
+    GroupedCounts counts;
+    /// The outcome and the exposure are both numeric and no positive outcome level was given: a
+    /// slope question may be meant, so no counting query was sent (counts are empty).
+    bool numeric_question = false;
 };
 
 /// The connection string with an "odbc:" prefix removed and, when it has no PWD= and the
@@ -71,5 +84,16 @@ std::string redact_connection_string(std::string_view text);
 /// cancels the running statement (SQLCancel) and returns an error "cancelled". An empty source
 /// gives a Table with no rows. Progress reports statements done out of 3.
 Result<OdbcTable> read_odbc_cells(const OdbcOptions& options, const Work& work = {});
+
+/// Connects, describes and profiles as read_odbc_cells, then sends one GROUP BY GROUPING SETS
+/// query (sql::cubes_sql, first appearance kept) over `outcome`, `exposure` and every other
+/// column kept: the pooled cells, the cells of each stratifier and, when `pairs`, of each pair.
+/// `options.required` must hold the outcome and the exposure (plus named stratifiers). With
+/// `numeric_outcome_question` set and both the outcome and the exposure numeric, stops before
+/// counting and returns numeric_question = true. Errors, cancellation and progress as for
+/// read_odbc_cells (an empty source gives empty tables).
+Result<OdbcGroups> read_odbc_groups(const OdbcOptions& options, const std::string& outcome,
+                                    const std::string& exposure, bool pairs, bool numeric_outcome_question,
+                                    const Work& work = {});
 
 }  // namespace foldline

@@ -177,23 +177,42 @@ std::string cells_sql(const std::string& from, const std::vector<std::string>& c
 
 std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
                       const std::vector<std::string>& strata, bool pairs) {
-    const std::string o = quote_identifier(outcome), e = quote_identifier(exposure);
-    std::string s = "SELECT " + o + ", " + e;
-    for (const auto& c : strata) s += ", " + quote_identifier(c);
-    for (std::size_t i = 0; i < strata.size(); ++i)
-        s += ", GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i);
-    s += std::string(", COUNT(*) AS ") + quote_identifier(kCountColumn) + " FROM " + from + " GROUP BY GROUPING SETS (";
-    if (strata.empty()) return s + "(" + o + ", " + e + "))";
-    bool first = true;
-    for (const auto& c : strata) {
-        s += std::string(first ? "" : ", ") + "(" + o + ", " + e + ", " + quote_identifier(c) + ")";
-        first = false;
-    }
-    if (pairs)
-        for (std::size_t i = 0; i < strata.size(); ++i)
-            for (std::size_t j = i + 1; j < strata.size(); ++j)
-                s += ", (" + o + ", " + e + ", " + quote_identifier(strata[i]) + ", " + quote_identifier(strata[j]) + ")";
-    return s + ")";
+    CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    q.strata = strata;
+    q.pairs = pairs;
+    return cubes_sql(from, q);
+}
+
+std::string cubes_sql(const std::string& from, const CubesQuery& q) {
+    const std::string o = quote_identifier(q.outcome), e = quote_identifier(q.exposure);
+    std::vector<std::string> cols{q.outcome, q.exposure};
+    cols.insert(cols.end(), q.strata.begin(), q.strata.end());
+    std::string s = "SELECT " + join_quoted(cols);
+    for (std::size_t i = 0; i < q.strata.size(); ++i)
+        s += ", GROUPING(" + quote_identifier(q.strata[i]) + ") AS g" + std::to_string(i);
+    const std::string w = q.count_column.empty() ? std::string() : quote_identifier(q.count_column);
+    s += ", " + (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") + " AS " +
+         quote_identifier(kCountColumn);
+    const std::string pos = quote_identifier(kFirstRowColumn);
+    if (q.first_appearance)
+        s += ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + join_quoted(cols) + (w.empty() ? "" : ", " + w) +
+             ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from + ") AS numbered";
+    else
+        s += " FROM " + from;
+    s += " GROUP BY GROUPING SETS (";
+    std::string sets;
+    auto add = [&](const std::string& set) { sets += (sets.empty() ? "(" : ", (") + o + ", " + e + set + ")"; };
+    if (q.pooled || q.strata.empty()) add("");
+    for (const auto& c : q.strata) add(", " + quote_identifier(c));
+    if (q.pairs)
+        for (std::size_t i = 0; i < q.strata.size(); ++i)
+            for (std::size_t j = i + 1; j < q.strata.size(); ++j)
+                add(", " + quote_identifier(q.strata[i]) + ", " + quote_identifier(q.strata[j]));
+    s += sets + ")";
+    if (q.first_appearance) s += " ORDER BY " + pos;
+    return s;
 }
 
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y) {

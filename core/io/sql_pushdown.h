@@ -78,6 +78,23 @@ std::string cells_sql(const std::string& from, const std::vector<std::string>& c
 std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
                       const std::vector<std::string>& strata, bool pairs);
 
+/// What cubes_sql(from, CubesQuery) groups.
+struct CubesQuery {
+    std::string outcome;
+    std::string exposure;
+    std::vector<std::string> strata;
+    bool pairs = true;             ///< one set per pair s < t
+    bool pooled = false;           ///< also the set (outcome, exposure), first
+    bool first_appearance = false; ///< MIN(ROW_NUMBER() OVER ()) AS foldline_first_row, rows ordered by it
+    std::string count_column;      ///< pre-counted source: SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*)
+};
+
+/// The same query with the options above: columns outcome, exposure, each stratifier, the
+/// GROUPING flags g0, g1, ..., foldline_rows, and foldline_first_row when first_appearance
+/// (computed over `(SELECT the columns, ROW_NUMBER() OVER () ... FROM <from>) AS numbered`,
+/// one numbering shared by every set, and the result ordered by it).
+std::string cubes_sql(const std::string& from, const CubesQuery& query);
+
 /// One row: COUNT of rows where x and y are both present, AVG(x) and AVG(y) over those rows
 /// (in double precision). The means centre the moment query.
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y);

@@ -80,7 +80,8 @@ atexit.register(cleanup)
 pg("initdb", "-D", data, "-U", "admin", "--pwfile", pwfile, "-A", "scram-sha-256", "--no-sync", "-E", "UTF8",
    "--locale", "C")
 pg("pg_ctl", "-D", data, "-l", os.path.join(run, "log"), "-w", "-o",
-   f"-c listen_addresses=127.0.0.1 -p {port} -k {run} -c fsync=off -c full_page_writes=off", "start")
+   f"-c listen_addresses=127.0.0.1 -p {port} -k {run} -c fsync=off -c full_page_writes=off "
+   "-c log_statement=all", "start")
 started = True
 env_admin = dict(os.environ, PGPASSWORD="admin-secret")
 
@@ -192,6 +193,15 @@ compare("clinic pre-counted (count column)", os.path.join(root, "sample_data/cli
         "clinic_counts", ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"],
         ["--count-column", "patients"])
 compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=yes", "--exposure", "team=north,south"])
+
+
+# The rate scans above ran on the cubes of one GROUPING SETS query (the server logs every statement).
+with open(os.path.join(run, "log"), errors="replace") as f:
+    log = f.read()
+if "GROUP BY GROUPING SETS" not in log or "GROUPING(" not in log:
+    failures.append("the database scans did not send the GROUPING SETS query")
+else:
+    print("ok   the rate scans counted their cubes with one GROUPING SETS query")
 
 
 def expect_error(name, args, words, code=3, env=env):

@@ -1,0 +1,166 @@
+#include "core/scan/grouped_cubes.h"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <unordered_map>
+#include <utility>
+
+#include "core/scan/cube.h"
+
+namespace foldline {
+namespace {
+
+/// Weighted rows of the table whose column `c` is missing.
+double missing_weight(const Table& t, const Column& c) {
+    double m = 0;
+    for (std::size_t i = 0; i < t.rows; ++i)
+        if (c.is_missing(i)) m += t.weight(i);
+    return m;
+}
+
+bool same_levels(const Column& a, const Column& b) {
+    return a.type == b.type && a.levels == b.levels;
+}
+
+struct Chosen {
+    std::size_t set = 0;             // index in counts.singles
+    Candidate candidate;             // points into counts.singles[set]
+};
+
+/// Codes over the rows of `pair` column `col` in the chosen candidate's level space.
+Result<std::vector<std::uint32_t>> recode(const Table& pair, std::size_t col, const Table& single, const Candidate& c) {
+    const Column& src = pair.columns[col];
+    const Column& own = single.columns[2];
+    const std::uint32_t miss = static_cast<std::uint32_t>(c.column->levels.size());
+    std::vector<std::uint32_t> out(pair.rows, miss);
+    if (src.is_categorical() != own.is_categorical()) return make_error("column '" + c.name + "' changed type between grouping sets");
+    if (src.is_categorical()) {
+        // The candidate is the stratifier's own column: match level labels.
+        std::unordered_map<std::string, std::uint32_t> at;
+        for (std::size_t k = 0; k < c.column->levels.size(); ++k)
+            at.emplace(c.column->levels[k], static_cast<std::uint32_t>(k));
+        for (std::size_t i = 0; i < pair.rows; ++i) {
+            if (src.is_missing(i)) continue;
+            const auto it = at.find(src.levels[src.code(i)]);
+            if (it == at.end()) return make_error("level '" + src.levels[src.code(i)] + "' of '" + c.name + "' is absent from its own grouping set");
+            out[i] = it->second;
+        }
+        return out;
+    }
+    // A numeric column: every value has the level (integer level or quantile bin) the
+    // candidate gave it in the stratifier's own set.
+    std::unordered_map<double, std::uint32_t> at;
+    for (std::size_t i = 0; i < single.rows; ++i)
+        if (!std::isnan(own.values[i])) at.emplace(own.values[i], c.column->code(i));
+    for (std::size_t i = 0; i < pair.rows; ++i) {
+        const double v = src.values[i];
+        if (std::isnan(v)) continue;
+        const auto it = at.find(v);
+        if (it == at.end()) return make_error("a value of '" + c.name + "' is absent from its own grouping set");
+        out[i] = it->second;
+    }
+    return out;
+}
+
+}  // namespace
+
+Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& g, const QuestionSpec& spec,
+                                           const CandidateOptions& options, bool pairs) {
+    if (g.pooled.columns.size() != 2) return make_error("the pooled cells need the outcome and exposure columns");
+    auto q = resolve_question(g.pooled, spec);
+    if (!q) return q.error();
+    GroupedScanInput out;
+    out.question = *q;
+    out.cubes.rows = g.pooled.total_weight();
+
+    for (const auto& t : g.singles)
+        if (t.columns.size() != 3 || !same_levels(t.columns[0], g.pooled.columns[0]) ||
+            !same_levels(t.columns[1], g.pooled.columns[1]))
+            return make_error("the grouping sets disagree on the outcome or exposure levels");
+
+    std::vector<std::size_t> order;
+    if (options.columns.empty()) {
+        for (std::size_t k = 0; k < g.singles.size(); ++k) order.push_back(k);
+    } else {
+        for (const auto& name : options.columns) {
+            if (name == spec.outcome || name == spec.exposure)
+                return make_error("column '" + name + "' is the outcome or the exposure and cannot stratify");
+            const auto it = std::find_if(g.singles.begin(), g.singles.end(),
+                                         [&](const Table& t) { return t.columns[2].name == name; });
+            if (it == g.singles.end()) return make_error("stratifier column '" + name + "' not found", g.pooled.source);
+            const auto k = static_cast<std::size_t>(it - g.singles.begin());
+            if (std::find(order.begin(), order.end(), k) == order.end()) order.push_back(k);
+        }
+    }
+
+    // Each stratifier decided on its own set: the same rules as select_candidates, with the
+    // shares that it counts in rows counted here in weighted rows (cells stand for many rows).
+    CandidateOptions one = options;
+    one.max_missing_share = 1.0;  // checked below in rows
+    std::vector<Chosen> chosen;
+    for (std::size_t k : order) {
+        const Table& t = g.singles[k];
+        const Column& c = t.columns[2];
+        const double rows = t.total_weight(), missing = missing_weight(t, c);
+        auto exclude = [&](std::string why) { out.cubes.excluded.push_back({c.name, std::move(why)}); };
+        if (rows > 0 && missing > options.max_missing_share * rows) {
+            exclude("mostly missing (" + std::to_string(static_cast<std::size_t>(missing)) + " of " +
+                    std::to_string(static_cast<std::size_t>(rows)) + " rows)");
+            continue;
+        }
+        // Every level of a set has a cell, so the levels in use are the levels (as in
+        // select_candidates, a column with fewer than two is "constant", decided there).
+        const double used = static_cast<double>(c.levels.size());
+        if (c.is_categorical() && !g.weighted_source && used >= 2 && used == rows - missing &&
+            rows > static_cast<double>(options.max_levels)) {
+            exclude("one value per row");
+            continue;
+        }
+        one.columns = {c.name};
+        auto cs = select_candidates(t, {spec.outcome, spec.exposure}, one, &t.columns[1]);
+        if (!cs) return cs.error();
+        for (auto& e : cs->excluded) out.cubes.excluded.push_back(std::move(e));
+        for (auto& cand : cs->candidates) chosen.push_back({k, std::move(cand)});
+    }
+
+    for (const auto& ch : chosen) {
+        const Table& t = g.singles[ch.set];
+        out.cubes.stratifiers.push_back({ch.candidate.name, ch.candidate.origin, ch.candidate.column->levels});
+        out.cubes.singles.push_back(build_cube(*ch.candidate.column, encode_rows(t, *q), t.weights));
+    }
+    if (!pairs) return out;
+
+    // Pair sets by their two column names (either order).
+    std::map<std::pair<std::string, std::string>, std::size_t> pair_at;
+    for (std::size_t p = 0; p < g.pairs.size(); ++p) {
+        const Table& t = g.pairs[p];
+        if (t.columns.size() != 4 || !same_levels(t.columns[0], g.pooled.columns[0]) ||
+            !same_levels(t.columns[1], g.pooled.columns[1]))
+            return make_error("the grouping sets disagree on the outcome or exposure levels");
+        pair_at[{t.columns[2].name, t.columns[3].name}] = p;
+    }
+    for (std::size_t i = 0; i < chosen.size(); ++i)
+        for (std::size_t j = i + 1; j < chosen.size(); ++j) {
+            const Candidate& a = chosen[i].candidate;
+            const Candidate& b = chosen[j].candidate;
+            std::size_t ca = 2, cb = 3;
+            auto it = pair_at.find({a.name, b.name});
+            if (it == pair_at.end()) {
+                it = pair_at.find({b.name, a.name});
+                std::swap(ca, cb);
+            }
+            if (it == pair_at.end()) return make_error("no grouping set for the pair '" + a.name + "', '" + b.name + "'");
+            const Table& t = g.pairs[it->second];
+            auto codes_a = recode(t, ca, g.singles[chosen[i].set], a);
+            if (!codes_a) return codes_a.error();
+            auto codes_b = recode(t, cb, g.singles[chosen[j].set], b);
+            if (!codes_b) return codes_b.error();
+            const Column col_a = Column::categorical(a.name, a.column->levels, *codes_a);
+            const Column col_b = Column::categorical(b.name, b.column->levels, *codes_b);
+            out.cubes.pairs.push_back(build_pair_cube(col_a, col_b, encode_rows(t, *q), t.weights));
+        }
+    return out;
+}
+
+}  // namespace foldline

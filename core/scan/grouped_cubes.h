@@ -1,0 +1,37 @@
+#pragma once
+// From counts grouped elsewhere to a rate scan's count cubes. A database answers one
+// GROUP BY GROUPING SETS query with the cells of (outcome, exposure), of (outcome, exposure, s)
+// for every stratifier s and of (outcome, exposure, s, t) for every pair; each grouping set
+// arrives here as a small pre-counted table. The question is resolved, the candidates chosen
+// and their levels formed exactly as a scan of the rows themselves would (the same rules of
+// core/scan/candidates.h, applied to each stratifier's own set), so the cubes, and every
+// finding computed from them, equal those of the row-level scan.
+#include <string>
+#include <vector>
+
+#include "core/common/error.h"
+#include "core/scan/candidates.h"
+#include "core/scan/question.h"
+#include "core/scan/rate_scan.h"
+#include "core/table/grouped_counts.h"
+#include "core/table/table.h"
+
+namespace foldline {
+
+/// What the rate scan of cubes needs: the checked question and the cubes.
+struct GroupedScanInput {
+    Question question;
+    CubeSet cubes;
+};
+
+/// Resolves `spec` on the pooled cells (resolve_question), selects the stratifiers among the
+/// singles' columns (`options.columns` empty = all, in singles order; else in the list's order)
+/// with the rules and reasons of select_candidates (shares of missing rows and "one value per
+/// row" counted in rows, not cells), and builds each single cube and, when `pairs` is set, each
+/// pair cube over the candidates' levels. Errors: those of resolve_question and
+/// select_candidates, a named stratifier without its set, a missing pair set, grouping sets whose
+/// outcome or exposure levels disagree. No stratifier qualifying gives a CubeSet with none.
+Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& counts, const QuestionSpec& spec,
+                                           const CandidateOptions& options, bool pairs);
+
+}  // namespace foldline
