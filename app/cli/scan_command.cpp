@@ -1,5 +1,6 @@
 // foldline scan: the rate-reversal scan from the command line. Prints a ranked summary and
 // writes the JSON document (core/report/scan_json.h).
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -20,6 +21,7 @@
 #include "core/report/scan_json.h"
 #include "core/scan/candidates.h"
 #include "core/scan/grouped_cubes.h"
+#include "core/scan/grouped_slopes.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
@@ -234,12 +236,24 @@ int run(int argc, char** argv) {
         for (const auto& c : copt.columns) req.required.push_back(c);
         req.all_columns = copt.columns.empty();
         req.count_column = ropt.count_column;
-        // A rate question runs on the cubes of one GROUPING SETS query. The diagram's verdicts
-        // and the trend checks need rows (joint strata of any set, per-row x and y), so those
+        // A rate question runs on the cubes of one GROUPING SETS query, and its trend checks
+        // on per-stratum moment sums. The diagram's verdicts (joint strata of any set), slope
+        // stability (resampled rows) and trends of a pre-counted source need rows, so those
         // scans load the joint cells instead.
-        const bool cells = a.has("diagram") || a.has("trend");
+        std::string tx, ty;
+        if (a.has("trend")) {
+            const std::string t = *a.get("trend");
+            const auto colon = t.find(':');
+            if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
+            tx = t.substr(0, colon);
+            ty = t.substr(colon + 1);
+        }
+        const bool cells = a.has("diagram") || (!tx.empty() && (a.has("slope-bootstrap") || !ropt.count_column.empty()));
         if (!cells) {
-            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive);
+            for (const auto& c : {tx, ty})
+                if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
+                    req.required.push_back(c);
+            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive, tx, ty);
             if (!c) {
                 table = c.error();
             } else if (!c->numeric_question) {
@@ -289,7 +303,8 @@ int run(int argc, char** argv) {
         if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
         sq.x = t.substr(0, colon);
         sq.y = t.substr(colon + 1);
-        for (const auto& c : {sq.x, sq.y}) {
+        // (A database source checked the trend columns when it summed their moments.)
+        for (const auto& c : from_cubes ? std::vector<std::string>{} : std::vector<std::string>{sq.x, sq.y}) {
             const Column* col = table->column(c);
             if (!col) return fail(kName, kUsage, "--trend column '" + c + "' not found");
             if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
@@ -330,8 +345,15 @@ int run(int argc, char** argv) {
         if (!in) return fail(kName, kUsage, in.error().to_string());
         if (in->cubes.stratifiers.empty())
             return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
-        result = rate_scan(in->cubes, in->question, sopt);
+        std::vector<SlopeFinding> slopes;
+        if (counted.moments) {
+            auto s = slope_checks_from_groups(*counted.moments, counted.counts, *in, sq);
+            if (!s) return fail(kName, kInput, s.error().to_string());
+            slopes = std::move(*s);
+        }
+        result = rate_scan(in->cubes, in->question, sopt, {}, {}, std::move(slopes));
         if (!result) return fail(kName, kInternal, result.error().to_string());
+        if (!sq.x.empty()) result->slope_question = sq;
     } else {
         auto q = resolve_question(*table, spec);
         if (!q) return fail(kName, kUsage, q.error().to_string());

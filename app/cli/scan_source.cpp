@@ -58,19 +58,22 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& copt,
                                             const std::string& outcome, const std::string& exposure, bool pairs,
-                                            bool may_be_slopes) {
+                                            bool may_be_slopes, const std::string& trend_x,
+                                            const std::string& trend_y) {
 #ifdef FOLDLINE_HAS_ODBC
     auto o = odbc_options(request, copt);
     if (!o) return o.error();
-    auto r = read_odbc_groups(*o, outcome, exposure, pairs, may_be_slopes);
+    auto r = read_odbc_groups(*o, outcome, exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y});
     if (!r) return r.error();
     DatabaseCounts d;
     describe(request, *r, d);
     d.counts = std::move(r->counts);
     d.numeric_question = r->numeric_question;
+    d.moments = std::move(r->moments);
     return d;
 #else
-    (void)request, (void)copt, (void)outcome, (void)exposure, (void)pairs, (void)may_be_slopes;
+    (void)request, (void)copt, (void)outcome, (void)exposure, (void)pairs, (void)may_be_slopes, (void)trend_x,
+        (void)trend_y;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
 }

@@ -4,6 +4,7 @@
 // scan's count cubes (core/scan/grouped_cubes.h); other questions load the pushed-down joint
 // cells as a pre-counted Table (core/io/odbc_source.h). Either way the source is described for
 // the JSON data block without the credentials.
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -30,6 +31,7 @@ struct DatabaseSource : DatabaseInfo {
 struct DatabaseCounts : DatabaseInfo {
     GroupedCounts counts;               ///< the cells of every grouping set
     bool numeric_question = false;      ///< outcome and exposure numeric, no positive level: not counted
+    std::optional<GroupedMoments> moments;  ///< per-stratum moment sums of the trend, when asked
 };
 
 /// Where to read and what to fetch. `required`: outcome, exposure and named stratifiers (always
@@ -49,10 +51,12 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 
 /// Counts the grouping sets of a rate question (pooled, each stratifier, each pair when
 /// `pairs`). With `may_be_slopes` and a numeric outcome and exposure nothing is counted and
-/// numeric_question is set. Errors as for load_database_source.
+/// numeric_question is set. A `trend_x`/`trend_y` pair (both in request.required) also sums the
+/// trend's moments per stratum. Errors as for load_database_source.
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& options,
                                             const std::string& outcome, const std::string& exposure, bool pairs,
-                                            bool may_be_slopes);
+                                            bool may_be_slopes, const std::string& trend_x = {},
+                                            const std::string& trend_y = {});
 
 /// Puts `left_out` into `excluded` and orders the list by the columns' positions in `columns`.
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

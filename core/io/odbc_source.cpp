@@ -17,6 +17,8 @@
 #include <thread>
 #include <unordered_map>
 
+#include "core/stats/moments.h"
+
 namespace foldline {
 namespace {
 
@@ -481,6 +483,92 @@ private:
     std::vector<double> weights_;
 };
 
+/// The slope's shift, per-stratum centred sums and HC3 sum (three statements).
+Result<GroupedMoments> read_moments(Session& s, const std::string& from, const OdbcSlope& slope,
+                                    const std::vector<std::string>& strata, const std::vector<SourceColumn>& cols,
+                                    const Work& work) {
+    GroupedMoments m;
+    std::vector<double> means;
+    auto numbers = [&](std::vector<double>& into) {
+        return [&s, &into](SQLHSTMT h, SQLSMALLINT n) -> Status {
+            for (SQLSMALLINT i = 1; i <= n; ++i) {
+                auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
+                if (!v) return v.error();
+                into.push_back(*v);
+            }
+            return Ok{};
+        };
+    };
+    if (auto st = s.run(sql::slope_means_sql(from, slope.x, slope.y), "averaging the trend columns", numbers(means)); !st)
+        return st.error();
+    if (means.size() != 4) return make_error("the trend means query returned an unexpected shape");
+    if (!(means[0] > 0)) return make_error("no row has both '" + slope.x + "' and '" + slope.y + "'");
+    m.shift_x = means[1];
+    m.shift_y = means[2];
+    m.zero_one = means[3] == 0;
+
+    const std::size_t n = strata.size();
+    std::vector<TableBuilder> values;
+    for (std::size_t i = 0; i < n; ++i) values.emplace_back(std::vector<SourceColumn>{cols[i]});
+    m.sums.resize(n);
+    std::vector<Cell> row(n);
+    std::vector<std::size_t> in_set;
+    bool pooled_seen = false;
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < n; ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), cols[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(n + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);
+        }
+        double v[10];
+        for (std::size_t k = 0; k < 10; ++k) {
+            auto x = s.get_double(h, static_cast<SQLUSMALLINT>(2 * n + 1 + k));
+            if (!x) return x.error();
+            v[k] = *x;
+        }
+        CentredSums sums{v[0], v[1], v[2], v[3], v[4], v[5], v[6] == v[7], v[8] == v[9]};
+        if (in_set.empty()) {
+            m.pooled = sums;
+            pooled_seen = true;
+        } else if (in_set.size() == 1) {
+            values[in_set[0]].add({&row[in_set[0]]}, 1);
+            m.sums[in_set[0]].push_back(sums);
+        } else {
+            return make_error("the moment query returned a row of no requested set");
+        }
+        if (work.cancelled()) return make_error("cancelled while reading the moment sums");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y),
+                        "summing the trend per stratum", on_row);
+        !st)
+        return st.error();
+    if (!pooled_seen) return make_error("the moment query returned no pooled row");
+    for (auto& b : values) m.values.push_back(std::move(b.finish("", "").columns[0]));
+
+    // The pooled slope's HC3 robust SE needs each row's leverage: one more pass in the engine.
+    const auto p = BivariateMoments::from_centred_sums(m.pooled.n, m.pooled.sx, m.pooled.sy, m.pooled.sxx, m.pooled.sxy,
+                                                       m.pooled.syy, m.shift_x, m.shift_y, m.pooled.x_constant,
+                                                       m.pooled.y_constant);
+    m.hc3 = kNaN;
+    if (p.cxx > 0 && p.w >= 3) {
+        std::vector<double> h3;
+        if (auto st = s.run(sql::slope_hc3_sql(from, slope.x, slope.y, p.mean_x(), p.mean_y(), p.cxy / p.cxx, 1.0 / p.w,
+                                               1.0 / p.cxx),
+                            "computing the robust standard error", numbers(h3));
+            !st)
+            return st.error();
+        if (h3.size() == 2 && h3[1] > 0) m.hc3 = std::sqrt(h3[0]) / p.cxx;
+    }
+    return m;
+}
+
 }  // namespace
 
 Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
@@ -520,7 +608,8 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
 }
 
 Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& outcome, const std::string& exposure,
-                                    bool pairs, bool numeric_outcome_question, const Work& work) {
+                                    bool pairs, bool numeric_outcome_question, const OdbcSlope& slope,
+                                    const Work& work) {
     OdbcGroups out;
     Session s(o, work, out);
     auto plan = plan_source(s, o, out, work);
@@ -600,6 +689,17 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
     for (auto& b : singles) out.counts.singles.push_back(b.finish(source, o.count_column));
     for (auto& b : pair_sets) out.counts.pairs.push_back(b.finish(source, o.count_column));
     out.counts.weighted_source = !o.count_column.empty();
+    if (!slope.x.empty()) {
+        for (const auto* name : {&slope.x, &slope.y}) {
+            const auto it = find(*name);
+            if (it == plan->keep.end()) return make_error("trend column '" + *name + "' not found in the source " + out.source_text);
+            if (!it->numeric) return make_error("trend column '" + *name + "' is not numeric in the source");
+        }
+        if (!o.count_column.empty()) return make_error("trend checks of a pre-counted source are not pushed down");
+        auto m = read_moments(s, plan->from, slope, q.strata, std::vector<SourceColumn>(cols.begin() + 2, cols.end()), work);
+        if (!m) return m.error();
+        out.moments = std::move(*m);
+    }
     work.report(3, 3, "counts received");
     return out;
 }

@@ -14,6 +14,7 @@
 //
 // Built only when unixODBC is found (CMake option FOLDLINE_ODBC; FOLDLINE_HAS_ODBC is then 1).
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -61,9 +62,16 @@ struct OdbcTable : OdbcSourceInfo {
     Table table;                          ///< the cells: weights = rows per cell
 };
 
+/// A trend of y on x checked beside a rate question: its moment sums are pushed down too.
+struct OdbcSlope {
+    std::string x;  ///< numeric exposure column; empty = no slope
+    std::string y;  ///< numeric outcome column
+};
+
 /// The cells of every grouping set of a rate question (core/table/grouped_counts.h).
 struct OdbcGroups : OdbcSourceInfo {
     GroupedCounts counts;
+    std::optional<GroupedMoments> moments;  ///< with an OdbcSlope: per-stratum moment sums of y on x
     /// The outcome and the exposure are both numeric and no positive outcome level was given: a
     /// slope question may be meant, so no counting query was sent (counts are empty).
     bool numeric_question = false;
@@ -90,10 +98,14 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& options, const Work& work =
 /// column kept: the pooled cells, the cells of each stratifier and, when `pairs`, of each pair.
 /// `options.required` must hold the outcome and the exposure (plus named stratifiers). With
 /// `numeric_outcome_question` set and both the outcome and the exposure numeric, stops before
-/// counting and returns numeric_question = true. Errors, cancellation and progress as for
-/// read_odbc_cells (an empty source gives empty tables).
+/// counting and returns numeric_question = true. With a `slope` (x and y among
+/// options.required), three more statements: the means of x and y (the shift), the centred
+/// moment sums per value of every stratifier (sql::slope_moments_sql) and the HC3 sum
+/// (sql::slope_hc3_sql). Errors, cancellation and progress as for read_odbc_cells (an empty
+/// source gives empty tables); a slope column that is not numeric, a pre-counted source with a
+/// slope, or no row with both x and y is an error.
 Result<OdbcGroups> read_odbc_groups(const OdbcOptions& options, const std::string& outcome,
                                     const std::string& exposure, bool pairs, bool numeric_outcome_question,
-                                    const Work& work = {});
+                                    const OdbcSlope& slope = {}, const Work& work = {});
 
 }  // namespace foldline

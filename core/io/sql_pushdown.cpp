@@ -217,8 +217,8 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
 
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y) {
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
-    return "SELECT COUNT(*), AVG(" + as_double(qx) + "), AVG(" + as_double(qy) + ") FROM " + from + " WHERE " + qx +
-           " IS NOT NULL AND " + qy + " IS NOT NULL";
+    return "SELECT COUNT(*), AVG(" + as_double(qx) + "), AVG(" + as_double(qy) + "), SUM(CASE WHEN " + as_double(qy) +
+           " IN (0, 1) THEN 0 ELSE 1 END) FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy + " IS NOT NULL";
 }
 
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
@@ -226,17 +226,29 @@ std::string slope_moments_sql(const std::string& from, const std::string& x, con
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
     std::string inner = "SELECT ";
     for (const auto& c : strata) inner += quote_identifier(c) + ", ";
-    inner += as_double(qx) + " - " + number17(mean_x) + " AS dx, " + as_double(qy) + " - " + number17(mean_y) +
-             " AS dy FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy + " IS NOT NULL";
+    inner += as_double(qx) + " AS x, " + as_double(qy) + " AS y, " + as_double(qx) + " - " + number17(mean_x) +
+             " AS dx, " + as_double(qy) + " - " + number17(mean_y) + " AS dy FROM " + from + " WHERE " + qx +
+             " IS NOT NULL AND " + qy + " IS NOT NULL";
     std::string s = "SELECT ";
     for (const auto& c : strata) s += quote_identifier(c) + ", ";
     for (std::size_t i = 0; i < strata.size(); ++i)
         s += "GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i) + ", ";
     s += "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
-         "SUM(dy * dy) AS syy FROM (" +
+         "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
          inner + ") AS centred GROUP BY GROUPING SETS (()";
     for (const auto& c : strata) s += ", (" + quote_identifier(c) + ")";
     return s + ")";
+}
+
+std::string slope_hc3_sql(const std::string& from, const std::string& x, const std::string& y, double mean_x,
+                          double mean_y, double slope, double inv_w, double inv_sxx) {
+    const std::string qx = quote_identifier(x), qy = quote_identifier(y);
+    const std::string xt = "(" + as_double(qx) + " - " + number17(mean_x) + ")";
+    const std::string e = "((" + as_double(qy) + " - " + number17(mean_y) + ") - " + number17(slope) + " * " + xt + ")";
+    const std::string omh = "(1 - (" + number17(inv_w) + " + " + xt + " * " + xt + " * " + number17(inv_sxx) + "))";
+    return "SELECT SUM(u * u), MIN(omh) FROM (SELECT CASE WHEN " + omh + " > 0 THEN " + xt + " * " + e + " / " + omh +
+           " ELSE 0 END AS u, " + omh + " AS omh FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy +
+           " IS NOT NULL) AS leverage";
 }
 
 }  // namespace foldline::sql

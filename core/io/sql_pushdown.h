@@ -96,16 +96,26 @@ struct CubesQuery {
 std::string cubes_sql(const std::string& from, const CubesQuery& query);
 
 /// One row: COUNT of rows where x and y are both present, AVG(x) and AVG(y) over those rows
-/// (in double precision). The means centre the moment query.
+/// (in double precision), and how many of those rows have a y other than 0 or 1. The means
+/// centre the moment query.
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y);
 
 /// Per-stratum moment sums of (x, y) on values centred by (mean_x, mean_y), rows where x or y
 /// is missing left out: GROUP BY GROUPING SETS with one set per stratifier (plus the empty set
 /// for the whole table). Columns: each stratifier, GROUPING(s) flags (g0, g1, ...), then
 /// COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx*dx) AS sxx, SUM(dx*dy) AS sxy,
-/// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision. The means are
-/// written with 17 significant digits (exact round trip); a non-finite mean is written as 0.
+/// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision, then MIN and
+/// MAX of x and of y (a constant x or y in a stratum is then known exactly, whatever the
+/// rounding of the sums). The means are written with 17 significant digits (exact round
+/// trip); a non-finite mean is written as 0.
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
                               const std::vector<std::string>& strata, double mean_x, double mean_y);
+
+/// One row for the HC3 robust SE of the pooled slope (as core/stats/regression.h's hc3_slope_se):
+/// SUM(u * u) with u = xt e / (1 - h), xt = x - mean_x, e = (y - mean_y) - slope xt,
+/// h = inv_w + xt² inv_sxx over the rows with x and y present, and MIN(1 - h) (the SE is
+/// undefined when it is not positive). Numbers as in slope_moments_sql.
+std::string slope_hc3_sql(const std::string& from, const std::string& x, const std::string& y, double mean_x,
+                          double mean_y, double slope, double inv_w, double inv_sxx);
 
 }  // namespace foldline::sql

@@ -28,19 +28,18 @@ struct Chosen {
     Candidate candidate;             // points into counts.singles[set]
 };
 
-/// Codes over the rows of `pair` column `col` in the chosen candidate's level space.
-Result<std::vector<std::uint32_t>> recode(const Table& pair, std::size_t col, const Table& single, const Candidate& c) {
-    const Column& src = pair.columns[col];
+/// Codes of the values `src` in the chosen candidate's level space.
+Result<std::vector<std::uint32_t>> recode(const Column& src, const Table& single, const Candidate& c) {
     const Column& own = single.columns[2];
     const std::uint32_t miss = static_cast<std::uint32_t>(c.column->levels.size());
-    std::vector<std::uint32_t> out(pair.rows, miss);
+    std::vector<std::uint32_t> out(src.size(), miss);
     if (src.is_categorical() != own.is_categorical()) return make_error("column '" + c.name + "' changed type between grouping sets");
     if (src.is_categorical()) {
         // The candidate is the stratifier's own column: match level labels.
         std::unordered_map<std::string, std::uint32_t> at;
         for (std::size_t k = 0; k < c.column->levels.size(); ++k)
             at.emplace(c.column->levels[k], static_cast<std::uint32_t>(k));
-        for (std::size_t i = 0; i < pair.rows; ++i) {
+        for (std::size_t i = 0; i < src.size(); ++i) {
             if (src.is_missing(i)) continue;
             const auto it = at.find(src.levels[src.code(i)]);
             if (it == at.end()) return make_error("level '" + src.levels[src.code(i)] + "' of '" + c.name + "' is absent from its own grouping set");
@@ -53,7 +52,7 @@ Result<std::vector<std::uint32_t>> recode(const Table& pair, std::size_t col, co
     std::unordered_map<double, std::uint32_t> at;
     for (std::size_t i = 0; i < single.rows; ++i)
         if (!std::isnan(own.values[i])) at.emplace(own.values[i], c.column->code(i));
-    for (std::size_t i = 0; i < pair.rows; ++i) {
+    for (std::size_t i = 0; i < src.size(); ++i) {
         const double v = src.values[i];
         if (std::isnan(v)) continue;
         const auto it = at.find(v);
@@ -128,6 +127,8 @@ Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& g, const Questio
         const Table& t = g.singles[ch.set];
         out.cubes.stratifiers.push_back({ch.candidate.name, ch.candidate.origin, ch.candidate.column->levels});
         out.cubes.singles.push_back(build_cube(*ch.candidate.column, encode_rows(t, *q), t.weights));
+        out.candidates.push_back(ch.candidate);
+        out.sets.push_back(ch.set);
     }
     if (!pairs) return out;
 
@@ -152,15 +153,22 @@ Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& g, const Questio
             }
             if (it == pair_at.end()) return make_error("no grouping set for the pair '" + a.name + "', '" + b.name + "'");
             const Table& t = g.pairs[it->second];
-            auto codes_a = recode(t, ca, g.singles[chosen[i].set], a);
+            auto codes_a = recode(t.columns[ca], g.singles[chosen[i].set], a);
             if (!codes_a) return codes_a.error();
-            auto codes_b = recode(t, cb, g.singles[chosen[j].set], b);
+            auto codes_b = recode(t.columns[cb], g.singles[chosen[j].set], b);
             if (!codes_b) return codes_b.error();
             const Column col_a = Column::categorical(a.name, a.column->levels, *codes_a);
             const Column col_b = Column::categorical(b.name, b.column->levels, *codes_b);
             out.cubes.pairs.push_back(build_pair_cube(col_a, col_b, encode_rows(t, *q), t.weights));
         }
     return out;
+}
+
+Result<std::vector<std::uint32_t>> stratifier_codes(const GroupedCounts& counts, const GroupedScanInput& input,
+                                                    std::size_t i, const Column& raw) {
+    if (i >= input.candidates.size() || input.sets[i] >= counts.singles.size())
+        return make_error("no such stratifier in the grouped counts");
+    return recode(raw, counts.singles[input.sets[i]], input.candidates[i]);
 }
 
 }  // namespace foldline

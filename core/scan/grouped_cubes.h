@@ -22,6 +22,8 @@ namespace foldline {
 struct GroupedScanInput {
     Question question;
     CubeSet cubes;
+    std::vector<Candidate> candidates;  ///< one per cubes.stratifiers entry; points into the counts' singles
+    std::vector<std::size_t> sets;      ///< the index in GroupedCounts::singles of each candidate's set
 };
 
 /// Resolves `spec` on the pooled cells (resolve_question), selects the stratifiers among the
@@ -33,5 +35,13 @@ struct GroupedScanInput {
 /// outcome or exposure levels disagree. No stratifier qualifying gives a CubeSet with none.
 Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& counts, const QuestionSpec& spec,
                                            const CandidateOptions& options, bool pairs);
+
+/// Codes of `raw` (values of stratifier i's source column, from another query grouped by it)
+/// in the levels of cubes.stratifiers[i]: a text value by its label, a number by the level its
+/// value was given in the stratifier's own set; missing values get levels.size(). `counts` must
+/// be the counts `input` was built from. Error for a value absent from that set or a column
+/// of another type; an empty column gives no codes.
+Result<std::vector<std::uint32_t>> stratifier_codes(const GroupedCounts& counts, const GroupedScanInput& input,
+                                                    std::size_t i, const Column& raw);
 
 }  // namespace foldline

@@ -19,4 +19,28 @@ struct GroupedCounts {
     bool weighted_source = false;  ///< the source rows were pre-counted themselves (a count column)
 };
 
+/// Moment sums of one stratum of a slope question, on values centred by a shift (x - shift_x,
+/// y - shift_y) so that the sums do not lose digits to large values.
+struct CentredSums {
+    double n = 0;    ///< rows (x and y both present)
+    double sx = 0;   ///< Σ dx
+    double sy = 0;   ///< Σ dy
+    double sxx = 0;  ///< Σ dx²
+    double sxy = 0;  ///< Σ dx dy
+    double syy = 0;  ///< Σ dy²
+    bool x_constant = false;  ///< every x of the stratum is the same value (known exactly, not from the sums)
+    bool y_constant = false;  ///< every y of the stratum is the same value
+};
+
+/// Per-stratum moment sums of y on x grouped elsewhere (one GROUPING SETS query: the empty set
+/// and one set per stratifier column), plus the two row-level figures the scan needs.
+struct GroupedMoments {
+    double shift_x = 0, shift_y = 0;    ///< every sum is of values minus these
+    CentredSums pooled;                 ///< every row with x and y present
+    std::vector<Column> values;         ///< per stratifier column: its distinct values (NULL = missing)
+    std::vector<std::vector<CentredSums>> sums;  ///< per stratifier column: the sums of each value's rows
+    double hc3 = 0;                     ///< HC3 robust SE of the pooled slope; NaN when undefined
+    bool zero_one = false;              ///< every y used is 0 or 1 (a linear probability model)
+};
+
 }  // namespace foldline

@@ -109,9 +109,31 @@ TEST(SqlText, CubesUseOneGroupingSetPerStratifierAndPair) {
               "SELECT \"o\", \"e\", COUNT(*) AS \"foldline_rows\" FROM x GROUP BY GROUPING SETS ((\"o\", \"e\"))");
 }
 
+TEST(SqlText, CubesWithThePooledSetFirstAppearanceAndACountColumn) {
+    CubesQuery q;
+    q.outcome = "o";
+    q.exposure = "e";
+    q.strata = {"a b", "c"};
+    q.pooled = true;
+    q.first_appearance = true;
+    EXPECT_EQ(cubes_sql("\"t\" AS src", q),
+              "SELECT \"o\", \"e\", \"a b\", \"c\", GROUPING(\"a b\") AS g0, GROUPING(\"c\") AS g1, "
+              "COUNT(*) AS \"foldline_rows\", MIN(\"foldline_first_row\") AS \"foldline_first_row\" "
+              "FROM (SELECT \"o\", \"e\", \"a b\", \"c\", ROW_NUMBER() OVER () AS \"foldline_first_row\" "
+              "FROM \"t\" AS src) AS numbered GROUP BY GROUPING SETS ((\"o\", \"e\"), (\"o\", \"e\", \"a b\"), "
+              "(\"o\", \"e\", \"c\"), (\"o\", \"e\", \"a b\", \"c\")) ORDER BY \"foldline_first_row\"");
+    q.count_column = "n";
+    q.pairs = false;
+    const std::string w = cubes_sql("x", q);
+    EXPECT_NE(w.find("SUM(CAST(\"n\" AS DOUBLE PRECISION)) AS \"foldline_rows\""), std::string::npos);
+    EXPECT_NE(w.find("\"c\", \"n\", ROW_NUMBER() OVER ()"), std::string::npos);
+    EXPECT_EQ(w.find("\"a b\", \"c\")"), std::string::npos);
+}
+
 TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_EQ(slope_means_sql("x", "spend", "sales"),
-              "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)) "
+              "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)), "
+              "SUM(CASE WHEN CAST(\"sales\" AS DOUBLE PRECISION) IN (0, 1) THEN 0 ELSE 1 END) "
               "FROM x WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL");
     const std::string m = slope_moments_sql("x", "spend", "sales", {"region"}, 0.1, 1e300);
     EXPECT_NE(m.find("CAST(\"spend\" AS DOUBLE PRECISION) - 0.10000000000000001 AS dx"), std::string::npos);
@@ -119,8 +141,17 @@ TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_NE(m.find("GROUPING(\"region\") AS g0"), std::string::npos);
     EXPECT_NE(m.find("SUM(dx * dy) AS sxy"), std::string::npos);
     EXPECT_NE(m.find("GROUP BY GROUPING SETS ((), (\"region\"))"), std::string::npos);
+    EXPECT_NE(m.find("MIN(x) AS x_min, MAX(x) AS x_max"), std::string::npos);
     const std::string nan = slope_moments_sql("x", "a", "b", {}, std::nan(""), 2);
     EXPECT_NE(nan.find("AS DOUBLE PRECISION) - 0 AS dx"), std::string::npos);
+}
+
+TEST(SqlText, RobustSlopeErrorUsesTheLeverageOfEachRow) {
+    const std::string h = slope_hc3_sql("x", "spend", "sales", 1.5, 2, 0.25, 0.01, 0.5);
+    EXPECT_NE(h.find("SELECT SUM(u * u), MIN(omh) FROM (SELECT CASE WHEN (1 - (0.01 + "), std::string::npos);
+    EXPECT_NE(h.find("((CAST(\"sales\" AS DOUBLE PRECISION) - 2) - 0.25 * (CAST(\"spend\" AS DOUBLE PRECISION) - 1.5))"),
+              std::string::npos);
+    EXPECT_NE(h.find("WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL) AS leverage"), std::string::npos);
 }
 
 }  // namespace
