@@ -2,6 +2,7 @@
 // writes the JSON document (core/report/scan_json.h).
 #include <algorithm>
 #include <chrono>
+#include <csignal>
 #include <cmath>
 #include <cstdio>
 #include <iostream>
@@ -30,6 +31,14 @@ namespace foldline::cli {
 namespace {
 
 const char* kName = "scan";
+
+// Ctrl-C (or a TERM signal) during a database scan cancels the statement running in the
+// engine (the driver's SQLCancel, through the stop token) instead of leaving it running there.
+StopToken& interrupt_token() {
+    static StopToken token;
+    return token;
+}
+extern "C" void on_interrupt(int) { interrupt_token().request_stop(); }
 
 std::vector<std::string> split_list(const std::string& s) {
     std::vector<std::string> out;
@@ -248,12 +257,16 @@ int run(int argc, char** argv) {
             tx = t.substr(0, colon);
             ty = t.substr(colon + 1);
         }
+        Work work;
+        work.stop = interrupt_token();
+        std::signal(SIGINT, on_interrupt);
+        std::signal(SIGTERM, on_interrupt);
         const bool cells = a.has("diagram") || (!tx.empty() && (a.has("slope-bootstrap") || !ropt.count_column.empty()));
         if (!cells) {
             for (const auto& c : {tx, ty})
                 if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
                     req.required.push_back(c);
-            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive, tx, ty);
+            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive, tx, ty, work);
             if (!c) {
                 table = c.error();
             } else if (!c->numeric_question) {
@@ -265,7 +278,7 @@ int run(int argc, char** argv) {
             }
         }
         if (!from_cubes && (cells || table.error().message.empty())) {
-            auto loaded = load_database_source(req, copt);
+            auto loaded = load_database_source(req, copt, work);
             if (loaded) {
                 db = *loaded;
                 path = db.description;
@@ -276,6 +289,10 @@ int run(int argc, char** argv) {
         }
     }
     hasher.join();
+    if (from_db) {
+        std::signal(SIGINT, SIG_DFL);
+        std::signal(SIGTERM, SIG_DFL);
+    }
     if (!table) return fail(kName, kInput, table.error().to_string());
     if (!digest) return fail(kName, kInput, digest.error().to_string());
     const auto t1 = clock::now();

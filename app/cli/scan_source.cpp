@@ -40,18 +40,19 @@ void describe(const DatabaseRequest& r, const OdbcSourceInfo& s, DatabaseInfo& d
 }  // namespace
 #endif
 
-Result<DatabaseSource> load_database_source(const DatabaseRequest& request, const CandidateOptions& copt) {
+Result<DatabaseSource> load_database_source(const DatabaseRequest& request, const CandidateOptions& copt,
+                                            const Work& work) {
 #ifdef FOLDLINE_HAS_ODBC
     auto o = odbc_options(request, copt);
     if (!o) return o.error();
-    auto r = read_odbc_cells(*o);
+    auto r = read_odbc_cells(*o, work);
     if (!r) return r.error();
     DatabaseSource d;
     describe(request, *r, d);
     d.table = std::move(r->table);
     return d;
 #else
-    (void)request, (void)copt;
+    (void)request, (void)copt, (void)work;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
 }
@@ -59,11 +60,11 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& copt,
                                             const std::string& outcome, const std::string& exposure, bool pairs,
                                             bool may_be_slopes, const std::string& trend_x,
-                                            const std::string& trend_y) {
+                                            const std::string& trend_y, const Work& work) {
 #ifdef FOLDLINE_HAS_ODBC
     auto o = odbc_options(request, copt);
     if (!o) return o.error();
-    auto r = read_odbc_groups(*o, outcome, exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y});
+    auto r = read_odbc_groups(*o, outcome, exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y}, work);
     if (!r) return r.error();
     DatabaseCounts d;
     describe(request, *r, d);
@@ -73,7 +74,7 @@ Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, cons
     return d;
 #else
     (void)request, (void)copt, (void)outcome, (void)exposure, (void)pairs, (void)may_be_slopes, (void)trend_x,
-        (void)trend_y;
+        (void)trend_y, (void)work;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
 }

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "core/common/error.h"
+#include "core/common/progress.h"
 #include "core/scan/candidates.h"
 #include "core/table/grouped_counts.h"
 #include "core/table/table.h"
@@ -47,7 +48,9 @@ struct DatabaseRequest {
 
 /// Loads the source's joint cells. Error when the build has no ODBC support, when both or
 /// neither of table/query are given, or from the database.
-Result<DatabaseSource> load_database_source(const DatabaseRequest& request, const CandidateOptions& options);
+/// A stop request on `work` cancels the running statement (the driver's SQLCancel).
+Result<DatabaseSource> load_database_source(const DatabaseRequest& request, const CandidateOptions& options,
+                                            const Work& work = {});
 
 /// Counts the grouping sets of a rate question (pooled, each stratifier, each pair when
 /// `pairs`). With `may_be_slopes` and a numeric outcome and exposure nothing is counted and
@@ -56,7 +59,7 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& options,
                                             const std::string& outcome, const std::string& exposure, bool pairs,
                                             bool may_be_slopes, const std::string& trend_x = {},
-                                            const std::string& trend_y = {});
+                                            const std::string& trend_y = {}, const Work& work = {});
 
 /// Puts `left_out` into `excluded` and orders the list by the columns' positions in `columns`.
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

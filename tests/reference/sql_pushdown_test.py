@@ -309,6 +309,29 @@ if a.returncode or b.returncode or json.loads(a.stdout)["findings"] != json.load
 else:
     print("ok   query source: same findings as the table")
 
+# Cancel: an interrupt during a 30-second statement cancels it in the engine (the stop token
+# reaches the driver's SQLCancel): the command ends within seconds, says "cancelled", writes
+# nothing, and the server logs the cancel request.
+import signal
+slow30 = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(30)) AS pause'
+half = os.path.join(work, "cancelled.json")
+proc = subprocess.Popen([foldline, "scan", "--source", conn, "--query", slow30, *q, "--json", half], env=env,
+                        stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+time.sleep(1.5)
+t_cancel = time.time()
+proc.send_signal(signal.SIGINT)
+out, err = proc.communicate(timeout=60)
+took = time.time() - t_cancel
+with open(os.path.join(run, "log"), errors="replace") as f:
+    server_cancelled = "canceling statement due to user request" in f.read()
+if proc.returncode != 3 or "cancelled" not in err.lower() or out.strip() or os.path.exists(half) or took > 5 \
+        or not server_cancelled:
+    failures.append(f"cancel: exit {proc.returncode} after {took:.1f} s, server saw the cancel: {server_cancelled}, "
+                    f"file written: {os.path.exists(half)}, message: {err.strip()[:300]}")
+else:
+    print(f"ok   cancel: ended {took:.2f} s after the interrupt, the server cancelled the statement: "
+          f"{' '.join(err.split())[:200]}")
+
 # Dropped connection: the server stops while the scan's statement runs (pg_sleep in the query).
 slow = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(3)) AS pause'
 proc = subprocess.Popen([foldline, "scan", "--source", conn, "--query", slow, *q, "--json", "-"], env=env,
