@@ -420,6 +420,7 @@ int run(int argc, char** argv) {
         auto s = [](auto d) { return std::chrono::duration<double>(d).count(); };
         std::fprintf(stderr, "timing_s load=%.3f scan=%.3f json=%.3f total=%.3f\n", s(t1 - t0), s(t2 - t1),
                      s(t3 - t2), s(clock::now() - t0));
+        if (from_db) std::fprintf(stderr, "fetched_bytes=%.0f\n", db.bytes_fetched);
     }
     return kOk;
 }
