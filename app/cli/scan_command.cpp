@@ -401,7 +401,8 @@ int run(int argc, char** argv) {
     if (from_db) merge_left_out(result->excluded, db.left_out, db.columns);
     const auto t2 = clock::now();
 
-    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows)};
+    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows), std::nullopt};
+    if (from_db) info.database = db.record;
     const std::string json_dest = a.get_or("json", "");
     std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
     if (!json_dest.empty()) {

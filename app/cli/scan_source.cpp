@@ -35,6 +35,13 @@ void describe(const DatabaseRequest& r, const OdbcSourceInfo& s, DatabaseInfo& d
     d.columns = s.source_columns;
     for (auto& l : s.left_out) d.left_out.push_back({l.column, l.reason});
     d.bytes_fetched = s.bytes_fetched;
+    d.record.connection = redact_connection_string(r.source.substr(5));
+    d.record.driver = s.driver;
+    d.record.database = s.database;
+    d.record.table = r.table;
+    d.record.query = r.query;
+    d.record.rows = s.source_rows;
+    d.record.queried_at = s.queried_at;
 }
 
 }  // namespace

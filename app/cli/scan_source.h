@@ -10,6 +10,7 @@
 
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/io/source_record.h"
 #include "core/scan/candidates.h"
 #include "core/table/grouped_counts.h"
 #include "core/table/table.h"
@@ -23,6 +24,7 @@ struct DatabaseInfo {
     std::vector<std::string> columns;   ///< every column of the source, in order
     std::vector<Exclusion> left_out;    ///< columns not fetched, with the candidate selection's reason
     double bytes_fetched = 0;
+    DatabaseRecord record;              ///< driver, database, table or query, rows, query time (masked connection)
 };
 
 struct DatabaseSource : DatabaseInfo {

@@ -18,6 +18,7 @@
 
 #include "core/causal/diagram.h"
 #include "core/common/error.h"
+#include "core/io/source_record.h"
 #include "core/io/csv_reader.h"
 #include "core/scan/finding_class.h"
 #include "core/table/table.h"
@@ -37,6 +38,7 @@ struct DataSource {
     char delimiter = 0;          ///< 0 = detect
     std::vector<std::string> missing_markers = {"", "NA", "N/A", "NULL", "."};
     std::map<std::string, ColumnType> type_overrides;
+    std::optional<DatabaseRecord> database;  ///< a database source (no size or digest then); never a credential
 };
 
 struct QuestionSettings {

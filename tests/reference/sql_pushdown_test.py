@@ -274,6 +274,22 @@ compare_trend("lender trend income -> loan amount", os.path.join(root, "sample_d
 compare_trend("plant trend at 1e6 (centred sums)", plant, "plant",
               ["--outcome", "defect=yes", "--exposure", "supplier=north,south"], "temp_mk:output_g")
 
+# The JSON records the source instead of a file digest, and a password written into the
+# connection string itself (not only the environment's) appears nowhere in the output.
+conn_pw = conn + "PWD={reader-secret};"
+r, _ = scan(["--source", conn_pw, "--query", "SELECT * FROM clinic", "--outcome", "recovered=yes",
+             "--exposure", "treatment=new_protocol,standard"], env=dict(os.environ))
+rec = json.loads(r.stdout)["data"].get("database", {}) if r.returncode == 0 else {}
+if r.returncode or "reader-secret" in r.stdout + r.stderr:
+    failures.append(f"source record: exit {r.returncode}, password in the output: {'reader-secret' in r.stdout + r.stderr}")
+elif not (rec.get("driver") and rec.get("database") == "audit" and rec.get("query") == "SELECT * FROM clinic"
+          and rec.get("table") is None and rec.get("rows") and rec.get("queried_at", "").endswith("Z")
+          and "PWD=***" in rec.get("connection", "")):
+    failures.append(f"source record incomplete: {rec}")
+else:
+    print(f"ok   source record: {rec['driver']}, database {rec['database']}, {rec['rows']} rows at "
+          f"{rec['queried_at']}, password masked")
+
 # The rate scans above ran on the cubes of one GROUPING SETS query (the server logs every statement).
 with open(os.path.join(run, "log"), errors="replace") as f:
     log = f.read()
