@@ -385,21 +385,35 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
         }
         profiled.push_back(c.name);
     }
-    std::vector<double> prof;
+    // Per profiled column: non-missing rows and distinct non-missing values.
+    const std::size_t np = profiled.size();
+    std::vector<double> present(np, 0), distincts(np, 0);
+    double rows = 0;
     if (auto st = s.run(sql::profile_sql(plan.from, profiled), "counting rows and distinct values",
                         [&](SQLHSTMT h, SQLSMALLINT n) -> Status {
+                            std::vector<double> v;
                             for (SQLSMALLINT i = 1; i <= n; ++i) {
-                                auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
-                                if (!v) return v.error();
-                                prof.push_back(*v);
+                                auto x = s.get_double(h, static_cast<SQLUSMALLINT>(i));
+                                if (!x) return x.error();
+                                v.push_back(*x);
                             }
+                            if (np == 0) {
+                                if (v.size() != 1) return make_error("the profile query returned an unexpected shape");
+                                rows = v[0];
+                                return Ok{};
+                            }
+                            if (v.size() != 3 * np + 1) return make_error("the profile query returned an unexpected shape");
+                            rows = v.back();
+                            for (std::size_t k = 0; k < np; ++k)
+                                if (v[k] == 0) {
+                                    distincts[k] = v[np + 2 * k];
+                                    present[k] = v[np + 2 * k + 1];
+                                }
                             return Ok{};
                         });
         !st)
         return st.error();
-    if (prof.size() != 1 + 2 * profiled.size()) return make_error("the profile query returned an unexpected shape");
-    out.source_rows = prof[0];
-    const double rows = prof[0];
+    out.source_rows = rows;
     for (const auto& c : cols) {
         if (is_required(c.name)) {
             plan.keep.push_back(c);
@@ -408,14 +422,14 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
         const auto it = std::find(profiled.begin(), profiled.end(), c.name);
         if (it == profiled.end()) continue;
         const std::size_t k = static_cast<std::size_t>(it - profiled.begin());
-        const double present = prof[1 + 2 * k], distinct = prof[2 + 2 * k];
-        const double missing = rows - present;
+        const double distinct = distincts[k];
+        const double missing = rows - present[k];
         if (rows > 0 && missing > o.max_missing_share * rows) {
             out.left_out.push_back({c.name, "mostly missing (" + std::to_string(static_cast<long long>(missing)) + " of " +
                                                 std::to_string(static_cast<long long>(rows)) + " rows)"});
             continue;
         }
-        if (!c.numeric && distinct >= 2 && distinct == present && rows > static_cast<double>(o.max_levels)) {
+        if (!c.numeric && distinct >= 2 && distinct == present[k] && rows > static_cast<double>(o.max_levels)) {
             out.left_out.push_back({c.name, "one value per row"});
             continue;
         }

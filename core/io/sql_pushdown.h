@@ -51,8 +51,11 @@ Result<std::string> from_clause(const SqlSource& source);
 /// `SELECT * FROM <from> WHERE 1 = 0`: no rows, only the result's column descriptions.
 std::string describe_sql(const std::string& from);
 
-/// One row: COUNT(*), then for each column COUNT(c) and COUNT(DISTINCT c), in that order
-/// (1 + 2 * columns.size() values). No columns: just COUNT(*).
+/// The profile of `columns` in one pass: GROUP BY GROUPING SETS with one set per column, then one
+/// row per column: the GROUPING flags g0, g1, ... (0 for the row's column), then for each
+/// column k COUNT(c_k) and SUM of the rows where c_k is present (on the row of column k: its
+/// distinct non-missing values and its non-missing rows), then SUM(n) (every row of the source).
+/// An empty source gives no rows. No columns: one row holding COUNT(*).
 std::string profile_sql(const std::string& from, const std::vector<std::string>& columns);
 
 /// Name of the extra column holding each cell's first row position (first_appearance only).
@@ -69,7 +72,8 @@ inline constexpr const char* kCountColumn = "foldline_rows";
 std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
                       const std::string& count_column = {});
 
-/// Every count cube of a rate scan in one pass: GROUP BY GROUPING SETS with one set
+/// Every count cube of a rate scan in one pass (the rows grouped once into their joint cells,
+/// the sets then summed over the cells): GROUP BY GROUPING SETS with one set
 /// (outcome, exposure, s) per stratifier s, and — when `pairs` — one set (outcome, exposure,
 /// s, t) per pair s < t. Columns: outcome, exposure, each stratifier, then GROUPING(s) for each
 /// stratifier (as g0, g1, ...; 0 where the stratifier belongs to the row's set, so a NULL with
