@@ -349,6 +349,9 @@ Status MainWindow::export_memo_to(const QString& path) {
     r.reviewed = model_->findings();
     if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
+    if ((r.database = source_->database_record()))
+        r.title = tr("Audit of %1").arg(QString::fromStdString(r.database->table.empty() ? r.database->database
+                                                                                         : r.database->table));
     return export_memo(r, path);
 }
 

@@ -348,6 +348,21 @@ else:
     print(f"ok   cancel: ended {took:.2f} s after the interrupt, the server cancelled the statement: "
           f"{' '.join(err.split())[:200]}")
 
+# The workbench's database path (tests/ui/database_form_test.cpp), when this build has it:
+# a table counted through the Source step, and Cancel during a slow query.
+ui_test = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(foldline))), "tests", "ui",
+                       "ui_database_form_test")
+if os.path.exists(ui_test):
+    r = subprocess.run([ui_test, "counts_a_table_and_cancels_a_slow_query"], stdout=subprocess.PIPE,
+                       stderr=subprocess.STDOUT, text=True, timeout=120,
+                       env=dict(os.environ, QT_QPA_PLATFORM="offscreen", FOLDLINE_TEST_ODBC=conn[5:],
+                                FOLDLINE_TEST_ODBC_PASSWORD_VAR="FOLDLINE_TEST_PW", FOLDLINE_TEST_PW="reader-secret",
+                                XDG_CONFIG_HOME=os.path.join(work, "ui-config")))
+    if r.returncode or "PASS   : DatabaseFormTest::counts_a_table_and_cancels_a_slow_query" not in r.stdout:
+        failures.append("workbench database path: " + r.stdout[-600:])
+    else:
+        print("ok   workbench database path: a table counted, a slow query cancelled from the Source step")
+
 # Dropped connection: the server stops while the scan's statement runs (pg_sleep in the query).
 slow = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(3)) AS pause'
 proc = subprocess.Popen([foldline, "scan", "--source", conn, "--query", slow, *q, "--json", "-"], env=env,
