@@ -377,9 +377,15 @@ Status MainWindow::save_project_to(const QString& path) {
         return make_error("open a data file first: a project records the file, never the rows", path.toStdString());
     project::Project p;
     const std::string data = source_->source().toStdString();
-    p.data.path = data;
-    p.data.size = std::uint64_t(QFileInfo(source_->source()).size());
-    if (auto h = sha256_file(data)) p.data.sha256 = *h;
+    if ((p.data.database = source_->database_record())) {
+        // A database source: its record (masked connection, table or query, rows, query time)
+        // stands in for the file's path, size and digest.
+        p.data.path.clear();
+    } else {
+        p.data.path = data;
+        p.data.size = std::uint64_t(QFileInfo(source_->source()).size());
+        if (auto h = sha256_file(data)) p.data.sha256 = *h;
+    }
     p.data.rows = source_->table()->rows;
     for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
     const LoadOptions o = source_->options();
