@@ -213,6 +213,11 @@ compare("clinic pre-counted (count column)", os.path.join(root, "sample_data/cli
         "clinic_counts", ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"],
         ["--count-column", "patients"])
 compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=yes", "--exposure", "team=north,south"])
+# Named stratifiers against the column order (pairs follow the list), and no pairs at all.
+compare("staffing, named strata in reverse order", big, "staffing",
+        ["--outcome", "hired=yes", "--exposure", "team=north,south", "--strata", 'tenure,select,site "code"'])
+compare("lender without pairs", os.path.join(root, "sample_data/lender_approvals.csv"), "lender",
+        ["--outcome", "approved=1", "--exposure", "applicant_group=B,A", "--no-pairs"])
 
 
 def close(a, b, path, worst):
