@@ -1,10 +1,12 @@
 #pragma once
 // A database table (or one read-only query) as a scan source, through ODBC (unixODBC). The
-// counting is pushed down: the engine groups the rows by every column the scan needs and only
-// the cells come back, as a pre-counted Table (one row per distinct combination, weights =
-// COUNT(*)). Every count cube the rate scan builds from that Table equals the cube of the
-// row-level data, so the statistics run unchanged and the findings are those of a scan of a CSV
-// export of the same rows.
+// counting is pushed down and only summaries come back, in one of two shapes:
+//   read_odbc_groups  one GROUP BY GROUPING SETS query: the cells of every count cube a rate
+//                     scan needs (core/table/grouped_counts.h; core/scan/grouped_cubes.h turns
+//                     them into cubes), and for a trend the per-stratum moment sums;
+//   read_odbc_cells   the joint cells of every column kept, as a pre-counted Table (one row per
+//                     distinct combination, weights = COUNT(*)), for work that needs rows.
+// Either way every statistic equals that of a scan of a CSV export of the same rows.
 //
 // Read-only by construction: only SELECT statements are sent (the user's query is checked and
 // wrapped, see core/io/sql_pushdown.h) and the connection is put in read-only access mode.
@@ -84,8 +86,8 @@ std::string odbc_connection_string(std::string_view text);
 /// The connection string with every PWD=/PASSWORD= value replaced by "***" (for messages).
 std::string redact_connection_string(std::string_view text);
 
-/// Connects, discovers the columns (a `WHERE 1 = 0` describe), profiles them (COUNT, COUNT
-/// DISTINCT), fetches the joint cells of the columns kept and builds the pre-counted Table.
+/// Connects, discovers the columns (a `WHERE 1 = 0` describe), profiles them (rows, present and
+/// distinct values, sql::profile_sql), fetches the joint cells of the columns kept and builds the pre-counted Table.
 /// Errors (as values, with the driver's SQLSTATE and message): no connection, a lost
 /// connection, a permission error, a missing table or column, a column type the engine cannot
 /// group by, a refused query, a required column absent from the source. A stop request

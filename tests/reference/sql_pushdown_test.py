@@ -216,6 +216,10 @@ compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=y
 # Named stratifiers against the column order (pairs follow the list), and no pairs at all.
 compare("staffing, named strata in reverse order", big, "staffing",
         ["--outcome", "hired=yes", "--exposure", "team=north,south", "--strata", 'tenure,select,site "code"'])
+# With a diagram (verdicts need the joint strata of any set: the joint cells are loaded instead).
+compare("clinic with its diagram", os.path.join(root, "sample_data/clinic_outcomes.csv"), "clinic",
+        ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard",
+         "--diagram", os.path.join(root, "sample_data/clinic_outcomes.diagram.json")])
 compare("lender without pairs", os.path.join(root, "sample_data/lender_approvals.csv"), "lender",
         ["--outcome", "approved=1", "--exposure", "applicant_group=B,A", "--no-pairs"])
 
