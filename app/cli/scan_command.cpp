@@ -266,7 +266,7 @@ int run(int argc, char** argv) {
             for (const auto& c : {tx, ty})
                 if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
                     req.required.push_back(c);
-            auto c = load_database_counts(req, copt, spec.outcome, spec.exposure, sopt.pairs, !spec.positive, tx, ty, work);
+            auto c = load_database_counts(req, copt, spec, sopt.pairs, !spec.positive, tx, ty, work);
             if (!c) {
                 table = c.error();
             } else if (!c->numeric_question) {

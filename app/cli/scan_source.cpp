@@ -4,6 +4,7 @@
 
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
+#include "core/scan/grouped_cubes.h"
 #endif
 
 namespace foldline::cli {
@@ -65,13 +66,25 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 }
 
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& copt,
-                                            const std::string& outcome, const std::string& exposure, bool pairs,
-                                            bool may_be_slopes, const std::string& trend_x,
-                                            const std::string& trend_y, const Work& work) {
+                                            const QuestionSpec& spec, bool pairs, bool may_be_slopes,
+                                            const std::string& trend_x, const std::string& trend_y,
+                                            const Work& work) {
 #ifdef FOLDLINE_HAS_ODBC
     auto o = odbc_options(request, copt);
     if (!o) return o.error();
-    auto r = read_odbc_groups(*o, outcome, exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y}, work);
+    // The stratifiers the single sets qualify, each numeric one with the cuts of its levels.
+    const PairPlanner planner = [&](const GroupedCounts& singles) -> Result<PairPlan> {
+        auto in = cubes_from_groups(singles, spec, copt, false);
+        if (!in) return in.error();
+        PairPlan plan;
+        for (std::size_t i = 0; i < in->cubes.stratifiers.size(); ++i) {
+            plan.strata.push_back(in->cubes.stratifiers[i].name);
+            plan.cuts.push_back(bin_cuts(singles, *in, i));
+        }
+        return plan;
+    };
+    auto r = read_odbc_groups(*o, spec.outcome, spec.exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y}, work,
+                              planner);
     if (!r) return r.error();
     DatabaseCounts d;
     describe(request, *r, d);
@@ -80,7 +93,7 @@ Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, cons
     d.moments = std::move(r->moments);
     return d;
 #else
-    (void)request, (void)copt, (void)outcome, (void)exposure, (void)pairs, (void)may_be_slopes, (void)trend_x,
+    (void)request, (void)copt, (void)spec, (void)pairs, (void)may_be_slopes, (void)trend_x,
         (void)trend_y, (void)work;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif

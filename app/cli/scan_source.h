@@ -12,6 +12,7 @@
 #include "core/common/progress.h"
 #include "core/io/source_record.h"
 #include "core/scan/candidates.h"
+#include "core/scan/question.h"
 #include "core/table/grouped_counts.h"
 #include "core/table/table.h"
 
@@ -58,10 +59,12 @@ Result<DatabaseSource> load_database_source(const DatabaseRequest& request, cons
 /// `pairs`). With `may_be_slopes` and a numeric outcome and exposure nothing is counted and
 /// numeric_question is set. A `trend_x`/`trend_y` pair (both in request.required) also sums the
 /// trend's moments per stratum. Errors as for load_database_source.
+/// The pairs of a table with continuous numeric columns come from a second query in which the
+/// engine bins them with the cut points the single sets gave (grouped_cubes.h, bin_cuts).
 Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& options,
-                                            const std::string& outcome, const std::string& exposure, bool pairs,
-                                            bool may_be_slopes, const std::string& trend_x = {},
-                                            const std::string& trend_y = {}, const Work& work = {});
+                                            const QuestionSpec& spec, bool pairs, bool may_be_slopes,
+                                            const std::string& trend_x = {}, const std::string& trend_y = {},
+                                            const Work& work = {});
 
 /// Puts `left_out` into `excluded` and orders the list by the columns' positions in `columns`.
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

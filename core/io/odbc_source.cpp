@@ -344,6 +344,7 @@ namespace {
 struct Plan {
     std::string from;
     std::vector<SourceColumn> keep;  ///< in source order
+    std::vector<double> distinct;    ///< distinct values of each kept column; NaN when not profiled
 };
 
 /// Describes the source (its columns), checks the required columns, and profiles the others
@@ -417,6 +418,7 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
     for (const auto& c : cols) {
         if (is_required(c.name)) {
             plan.keep.push_back(c);
+            plan.distinct.push_back(kNaN);
             continue;
         }
         const auto it = std::find(profiled.begin(), profiled.end(), c.name);
@@ -439,6 +441,7 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
             continue;
         }
         plan.keep.push_back(c);
+        plan.distinct.push_back(distinct);
     }
     work.report(2, 3, "counting in the database");
     if (plan.keep.empty()) return make_error("no column of the source can be fetched");
@@ -471,7 +474,10 @@ Result<Cell> read_cell(Session& s, SQLHSTMT h, SQLUSMALLINT col, bool numeric) {
 /// order of first appearance among the rows, NULL missing), numeric ones stay numeric.
 class TableBuilder {
 public:
-    explicit TableBuilder(std::vector<SourceColumn> columns) : columns_(std::move(columns)), cells_(columns_.size()) {}
+    explicit TableBuilder(std::vector<SourceColumn> columns)
+        : columns_(std::move(columns)), cells_(columns_.size()), seeds_(columns_.size()) {}
+    /// Text column i starts with these levels, in this order (rows may add more after them).
+    void seed_levels(std::size_t i, std::vector<std::string> levels) { seeds_[i] = std::move(levels); }
     /// Adds a row: one cell per column (in the builder's column order) and its count.
     void add(const std::vector<const Cell*>& row, double weight) {
         for (std::size_t i = 0; i < columns_.size(); ++i) cells_[i].push_back(*row[i]);
@@ -491,8 +497,9 @@ public:
                 t.columns.push_back(Column::numeric(columns_[i].name, std::move(v)));
                 continue;
             }
-            std::vector<std::string> levels;
+            std::vector<std::string> levels = seeds_[i];
             std::unordered_map<std::string, std::uint32_t> index;
+            for (std::size_t k = 0; k < levels.size(); ++k) index.emplace(levels[k], static_cast<std::uint32_t>(k));
             std::vector<std::uint32_t> codes;
             codes.reserve(cells_[i].size());
             std::vector<std::size_t> missing_rows;
@@ -518,6 +525,7 @@ public:
 private:
     std::vector<SourceColumn> columns_;
     std::vector<std::vector<Cell>> cells_;
+    std::vector<std::vector<std::string>> seeds_;
     std::vector<double> weights_;
 };
 
@@ -607,6 +615,72 @@ Result<GroupedMoments> read_moments(Session& s, const std::string& from, const O
     return m;
 }
 
+/// The pair sets of the planned stratifiers, numeric ones binned in the engine (second query).
+Status read_pair_sets(Session& s, const std::string& from, const OdbcOptions& o, const std::string& outcome,
+                      const std::string& exposure, const PairPlan& plan, const std::vector<SourceColumn>& cols,
+                      GroupedCounts& counts, const Work& work) {
+    const std::size_t n = plan.strata.size();
+    if (n < 2) return Ok{};
+    sql::CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    q.strata = plan.strata;
+    q.cuts = plan.cuts;
+    q.cuts.resize(n);
+    q.pairs = true;
+    q.pooled = false;
+    q.singles = false;
+    q.first_appearance = false;  // the level order comes from the pooled and single sets
+    q.count_column = o.count_column;
+    std::vector<SourceColumn> qc{cols[0], cols[1]};
+    for (std::size_t i = 0; i < n; ++i) {
+        const auto it = std::find_if(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == plan.strata[i]; });
+        if (it == cols.end()) return make_error("pair stratifier '" + plan.strata[i] + "' was not fetched");
+        SourceColumn c = *it;
+        if (!q.cuts[i].empty()) {
+            c.numeric = true;  // the bin's number
+            counts.coded_in_pairs.push_back(c.name);
+        }
+        qc.push_back(c);
+    }
+    std::vector<TableBuilder> sets;
+    std::vector<std::size_t> at(n * n, 0);
+    for (std::size_t i = 0; i < n; ++i)
+        for (std::size_t j = i + 1; j < n; ++j) {
+            at[i * n + j] = sets.size();
+            sets.emplace_back(std::vector<SourceColumn>{qc[0], qc[1], qc[2 + i], qc[2 + j]});
+            // Outcome and exposure codes must be those of the pooled set.
+            for (std::size_t k = 0; k < 2; ++k)
+                if (counts.pooled.columns.size() == 2 && counts.pooled.columns[k].is_categorical())
+                    sets.back().seed_levels(k, counts.pooled.columns[k].levels);
+        }
+    std::vector<Cell> row(qc.size());
+    std::vector<std::size_t> in_set;
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < qc.size(); ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), qc[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(qc.size() + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);
+        }
+        auto w = s.get_double(h, static_cast<SQLUSMALLINT>(qc.size() + n + 1));
+        if (!w) return w.error();
+        if (in_set.size() != 2) return make_error("the pair query returned a row of no requested set");
+        sets[at[in_set[0] * n + in_set[1]]].add({&row[0], &row[1], &row[2 + in_set[0]], &row[2 + in_set[1]]}, *w);
+        if (work.cancelled()) return make_error("cancelled while reading the pair counts");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::cubes_sql(from, q), "counting the pairs of stratifiers", on_row); !st) return st;
+    const std::string source = "odbc: pairs";
+    for (auto& b : sets) counts.pairs.push_back(b.finish(source, o.count_column));
+    return Ok{};
+}
+
 }  // namespace
 
 Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
@@ -647,7 +721,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
 
 Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& outcome, const std::string& exposure,
                                     bool pairs, bool numeric_outcome_question, const OdbcSlope& slope,
-                                    const Work& work) {
+                                    const Work& work, const PairPlanner& plan_pairs) {
     OdbcGroups out;
     Session s(o, work, out);
     auto plan = plan_source(s, o, out, work);
@@ -672,7 +746,16 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
             cols.push_back(c);
             q.strata.push_back(c.name);
         }
-    q.pairs = pairs;
+    // A numeric stratifier with many values (or unprofiled) would bring every value into every
+    // pair set: then the pairs wait for a second query, binned in the engine.
+    bool continuous = false;
+    for (std::size_t k = 0; k < plan->keep.size(); ++k) {
+        const auto& c = plan->keep[k];
+        if (c.name == outcome || c.name == exposure || !c.numeric) continue;
+        continuous = continuous || !(plan->distinct[k] <= static_cast<double>(o.max_levels));
+    }
+    const bool second = pairs && plan_pairs && continuous;
+    q.pairs = pairs && !second;
     q.pooled = true;
     q.first_appearance = o.first_appearance;
     q.count_column = o.count_column;
@@ -683,7 +766,7 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
     for (std::size_t i = 0; i < n; ++i) singles.emplace_back(std::vector<SourceColumn>{cols[0], cols[1], cols[2 + i]});
     std::vector<TableBuilder> pair_sets;
     std::vector<std::size_t> pair_at(n * n, 0);
-    if (pairs)
+    if (q.pairs)
         for (std::size_t i = 0; i < n; ++i)
             for (std::size_t j = i + 1; j < n; ++j) {
                 pair_at[i * n + j] = pair_sets.size();
@@ -712,7 +795,7 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
             pooled.add({&row[0], &row[1]}, *w);
         } else if (in_set.size() == 1) {
             singles[in_set[0]].add({&row[0], &row[1], &row[2 + in_set[0]]}, *w);
-        } else if (in_set.size() == 2 && pairs) {
+        } else if (in_set.size() == 2 && q.pairs) {
             pair_sets[pair_at[in_set[0] * n + in_set[1]]].add({&row[0], &row[1], &row[2 + in_set[0]], &row[2 + in_set[1]]},
                                                              *w);
         } else {
@@ -727,6 +810,12 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
     for (auto& b : singles) out.counts.singles.push_back(b.finish(source, o.count_column));
     for (auto& b : pair_sets) out.counts.pairs.push_back(b.finish(source, o.count_column));
     out.counts.weighted_source = !o.count_column.empty();
+    if (second) {
+        auto pp = plan_pairs(out.counts);
+        if (!pp) return pp.error();
+        if (auto st = read_pair_sets(s, plan->from, o, outcome, exposure, *pp, cols, out.counts, work); !st)
+            return st.error();
+    }
     if (!slope.x.empty()) {
         for (const auto* name : {&slope.x, &slope.y}) {
             const auto it = find(*name);

@@ -16,6 +16,7 @@
 //
 // Built only when unixODBC is found (CMake option FOLDLINE_ODBC; FOLDLINE_HAS_ODBC is then 1).
 #include <cstddef>
+#include <functional>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -70,6 +71,15 @@ struct OdbcSlope {
     std::string y;  ///< numeric outcome column
 };
 
+/// Which stratifiers enter the pair sets and how the engine bins each numeric one (ascending
+/// cut points, as sql::CubesQuery::cuts; an empty entry keeps the values).
+struct PairPlan {
+    std::vector<std::string> strata;
+    std::vector<std::vector<double>> cuts;
+};
+/// Decides the pair sets from the pooled and single-stratifier cells.
+using PairPlanner = std::function<Result<PairPlan>(const GroupedCounts& singles)>;
+
 /// The cells of every grouping set of a rate question (core/table/grouped_counts.h).
 struct OdbcGroups : OdbcSourceInfo {
     GroupedCounts counts;
@@ -105,9 +115,13 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& options, const Work& work =
 /// moment sums per value of every stratifier (sql::slope_moments_sql) and the HC3 sum
 /// (sql::slope_hc3_sql). Errors, cancellation and progress as for read_odbc_cells (an empty
 /// source gives empty tables); a slope column that is not numeric, a pre-counted source with a
-/// slope, or no row with both x and y is an error.
+/// slope, or no row with both x and y is an error. With `plan_pairs`, pairs and a numeric
+/// stratifier with more than options.max_levels values (or not profiled), the pair sets come
+/// from a second GROUPING SETS query over the planned stratifiers, binned in the engine, so a
+/// continuous column does not bring its every value into every pair.
 Result<OdbcGroups> read_odbc_groups(const OdbcOptions& options, const std::string& outcome,
                                     const std::string& exposure, bool pairs, bool numeric_outcome_question,
-                                    const OdbcSlope& slope = {}, const Work& work = {});
+                                    const OdbcSlope& slope = {}, const Work& work = {},
+                                    const PairPlanner& plan_pairs = {});
 
 }  // namespace foldline

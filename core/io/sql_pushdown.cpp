@@ -204,6 +204,27 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
     const std::string list = join_quoted(cols);
     const std::string w = q.count_column.empty() ? std::string() : quote_identifier(q.count_column);
     const std::string pos = quote_identifier(kFirstRowColumn), rows = quote_identifier(kCountColumn);
+    // Binned stratifiers: the source is first read through a derived table that replaces each
+    // binned column by its bin under the same name.
+    std::string source = from;
+    bool binned = false;
+    for (const auto& c : q.cuts) binned = binned || !c.empty();
+    if (binned) {
+        std::string sel = "SELECT " + o + ", " + e;
+        for (std::size_t i = 0; i < q.strata.size(); ++i) {
+            const std::string c = quote_identifier(q.strata[i]);
+            if (i >= q.cuts.size() || q.cuts[i].empty()) {
+                sel += ", " + c;
+                continue;
+            }
+            std::string expr = "CASE WHEN " + c + " IS NULL THEN NULL";
+            for (std::size_t k = 0; k < q.cuts[i].size(); ++k)
+                expr += " WHEN " + as_double(c) + " < " + number17(q.cuts[i][k]) + " THEN " + std::to_string(k);
+            sel += ", " + expr + " ELSE " + std::to_string(q.cuts[i].size()) + " END AS " + c;
+        }
+        if (!w.empty()) sel += ", " + w;
+        source = "(" + sel + " FROM " + from + ") AS binned";
+    }
     // The rows are grouped once into their joint cells (one hash per row), and the grouping
     // sets are then summed over the cells, which are far fewer than the rows: hashing every row
     // once per grouping set costs several times more in the engine.
@@ -211,9 +232,9 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
                         " AS " + rows;
     if (q.first_appearance)
         cells += ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + list + (w.empty() ? "" : ", " + w) +
-                 ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from + ") AS numbered";
+                 ", ROW_NUMBER() OVER () AS " + pos + " FROM " + source + ") AS numbered";
     else
-        cells += " FROM " + from;
+        cells += " FROM " + source;
     cells += " GROUP BY " + list;
     std::string s = "SELECT " + list;
     for (std::size_t i = 0; i < q.strata.size(); ++i)
@@ -224,7 +245,8 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
     std::string sets;
     auto add = [&](const std::string& set) { sets += (sets.empty() ? "(" : ", (") + o + ", " + e + set + ")"; };
     if (q.pooled || q.strata.empty()) add("");
-    for (const auto& c : q.strata) add(", " + quote_identifier(c));
+    if (q.singles)
+        for (const auto& c : q.strata) add(", " + quote_identifier(c));
     if (q.pairs)
         for (std::size_t i = 0; i < q.strata.size(); ++i)
             for (std::size_t j = i + 1; j < q.strata.size(); ++j)

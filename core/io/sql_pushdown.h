@@ -91,6 +91,12 @@ struct CubesQuery {
     bool pooled = false;           ///< also the set (outcome, exposure), first
     bool first_appearance = false; ///< MIN(ROW_NUMBER() OVER ()) AS foldline_first_row, rows ordered by it
     std::string count_column;      ///< pre-counted source: SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*)
+    bool singles = true;           ///< one set per stratifier (false: pairs only, with `pooled` unset)
+    /// Per stratifier (empty, or one entry per stratifier): ascending cut points of a numeric
+    /// column; the column is then replaced by its bin, CASE WHEN x IS NULL THEN NULL WHEN
+    /// CAST(x AS DOUBLE PRECISION) < cut1 THEN 0 WHEN ... < cut2 THEN 1 ... ELSE cuts.size() END,
+    /// under its own name. An empty entry keeps the column's values.
+    std::vector<std::vector<double>> cuts;
 };
 
 /// The same query with the options above: columns outcome, exposure, each stratifier, the

@@ -28,12 +28,24 @@ struct Chosen {
     Candidate candidate;             // points into counts.singles[set]
 };
 
-/// Codes of the values `src` in the chosen candidate's level space.
-Result<std::vector<std::uint32_t>> recode(const Column& src, const Table& single, const Candidate& c) {
+/// Codes of the values `src` in the chosen candidate's level space (`coded`: src holds the
+/// codes themselves, binned by the engine).
+Result<std::vector<std::uint32_t>> recode(const Column& src, const Table& single, const Candidate& c,
+                                          bool coded = false) {
     const Column& own = single.columns[2];
     const std::uint32_t miss = static_cast<std::uint32_t>(c.column->levels.size());
     std::vector<std::uint32_t> out(src.size(), miss);
     if (src.is_categorical() != own.is_categorical()) return make_error("column '" + c.name + "' changed type between grouping sets");
+    if (coded && src.is_numeric()) {
+        for (std::size_t i = 0; i < src.size(); ++i) {
+            const double v = src.values[i];
+            if (std::isnan(v)) continue;
+            if (!(v >= 0 && v < miss) || v != std::floor(v))
+                return make_error("the engine's bin of '" + c.name + "' is not one of its levels");
+            out[i] = static_cast<std::uint32_t>(v);
+        }
+        return out;
+    }
     if (src.is_categorical()) {
         // The candidate is the stratifier's own column: match level labels.
         std::unordered_map<std::string, std::uint32_t> at;
@@ -153,9 +165,12 @@ Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& g, const Questio
             }
             if (it == pair_at.end()) return make_error("no grouping set for the pair '" + a.name + "', '" + b.name + "'");
             const Table& t = g.pairs[it->second];
-            auto codes_a = recode(t.columns[ca], g.singles[chosen[i].set], a);
+            auto coded = [&](const std::string& name) {
+                return std::find(g.coded_in_pairs.begin(), g.coded_in_pairs.end(), name) != g.coded_in_pairs.end();
+            };
+            auto codes_a = recode(t.columns[ca], g.singles[chosen[i].set], a, coded(a.name));
             if (!codes_a) return codes_a.error();
-            auto codes_b = recode(t.columns[cb], g.singles[chosen[j].set], b);
+            auto codes_b = recode(t.columns[cb], g.singles[chosen[j].set], b, coded(b.name));
             if (!codes_b) return codes_b.error();
             const Column col_a = Column::categorical(a.name, a.column->levels, *codes_a);
             const Column col_b = Column::categorical(b.name, b.column->levels, *codes_b);
@@ -169,6 +184,33 @@ Result<std::vector<std::uint32_t>> stratifier_codes(const GroupedCounts& counts,
     if (i >= input.candidates.size() || input.sets[i] >= counts.singles.size())
         return make_error("no such stratifier in the grouped counts");
     return recode(raw, counts.singles[input.sets[i]], input.candidates[i]);
+}
+
+std::vector<double> bin_cuts(const GroupedCounts& counts, const GroupedScanInput& input, std::size_t i) {
+    if (i >= input.candidates.size() || input.sets[i] >= counts.singles.size()) return {};
+    const Table& t = counts.singles[input.sets[i]];
+    const Column& values = t.columns[2];
+    const Column& levels = *input.candidates[i].column;
+    if (!values.is_numeric()) return {};
+    std::vector<std::pair<double, std::uint32_t>> by_value;
+    for (std::size_t r = 0; r < t.rows; ++r)
+        if (!std::isnan(values.values[r])) by_value.emplace_back(values.values[r], levels.code(r));
+    std::sort(by_value.begin(), by_value.end());
+    std::vector<double> cuts;
+    std::uint32_t at = 0;
+    for (std::size_t k = 0; k < by_value.size(); ++k) {
+        const auto [v, code] = by_value[k];
+        if (k == 0) {
+            if (code != 0) return {};
+            continue;
+        }
+        if (code == at) continue;
+        if (code != at + 1 || v == by_value[k - 1].first) return {};  // levels must follow the values
+        cuts.push_back(v);
+        at = code;
+    }
+    if (at + 1 != levels.levels.size()) return {};
+    return cuts;
 }
 
 }  // namespace foldline

@@ -44,4 +44,10 @@ Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& counts, const Qu
 Result<std::vector<std::uint32_t>> stratifier_codes(const GroupedCounts& counts, const GroupedScanInput& input,
                                                     std::size_t i, const Column& raw);
 
+/// Cut points that bin a numeric stratifier in the engine exactly as cubes.stratifiers[i]'s
+/// levels do: ascending values c1 < c2 < ... with level k for values in [c_k, c_k+1) (level 0
+/// below c1, the last level from the last cut up). Empty when the stratifier is not numeric or
+/// its levels do not follow its values in order (then the pair sets keep the values).
+std::vector<double> bin_cuts(const GroupedCounts& counts, const GroupedScanInput& input, std::size_t i);
+
 }  // namespace foldline

@@ -3,6 +3,7 @@
 // one GROUP BY GROUPING SETS query over (outcome, exposure), (outcome, exposure, s) for every
 // stratifier s and (outcome, exposure, s, t) for every pair. Plain data: the reader that fills
 // it lives in core/io, the scan that reads it in core/scan/grouped_cubes.h.
+#include <string>
 #include <vector>
 
 #include "core/table/table.h"
@@ -17,6 +18,9 @@ struct GroupedCounts {
     std::vector<Table> singles;    ///< columns: outcome, exposure, stratifier (one per stratifier column)
     std::vector<Table> pairs;      ///< columns: outcome, exposure, s, t for pairs of singles' columns
     bool weighted_source = false;  ///< the source rows were pre-counted themselves (a count column)
+    /// Stratifiers whose numeric values in the pair sets are already their levels' codes (the
+    /// engine binned them with cut points taken from their own sets); others hold source values.
+    std::vector<std::string> coded_in_pairs;
 };
 
 /// Moment sums of one stratum of a slope question, on values centred by a shift (x - shift_x,

@@ -302,7 +302,8 @@ else:
 # The rate scans above ran on the cubes of one GROUPING SETS query (the server logs every statement).
 with open(os.path.join(run, "log"), errors="replace") as f:
     log = f.read()
-if "GROUP BY GROUPING SETS" not in log or "GROUPING(" not in log or "SUM(dx * dy)" not in log:
+if "GROUP BY GROUPING SETS" not in log or "GROUPING(" not in log or "SUM(dx * dy)" not in log \
+        or ") AS binned" not in log:   # the lender's continuous columns: pairs binned in the engine
     failures.append("the database scans did not send the GROUPING SETS query")
 else:
     print("ok   the rate scans counted their cubes with one GROUPING SETS query")

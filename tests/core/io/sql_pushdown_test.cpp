@@ -138,6 +138,21 @@ TEST(SqlText, CubesWithThePooledSetFirstAppearanceAndACountColumn) {
     EXPECT_EQ(w.find("(\"o\", \"e\", \"a b\", \"c\")"), std::string::npos);
 }
 
+TEST(SqlText, PairsOnlyWithANumericColumnBinnedInTheEngine) {
+    CubesQuery q;
+    q.outcome = "o";
+    q.exposure = "e";
+    q.strata = {"income", "branch"};
+    q.cuts = {{30000.5, 60000}, {}};
+    q.singles = false;
+    const std::string s = cubes_sql("\"t\" AS src", q);
+    EXPECT_NE(s.find("FROM (SELECT \"o\", \"e\", CASE WHEN \"income\" IS NULL THEN NULL WHEN CAST(\"income\" AS "
+                     "DOUBLE PRECISION) < 30000.5 THEN 0 WHEN CAST(\"income\" AS DOUBLE PRECISION) < 60000 THEN 1 "
+                     "ELSE 2 END AS \"income\", \"branch\" FROM \"t\" AS src) AS binned"),
+              std::string::npos);
+    EXPECT_NE(s.find("GROUP BY GROUPING SETS ((\"o\", \"e\", \"income\", \"branch\"))"), std::string::npos);
+}
+
 TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_EQ(slope_means_sql("x", "spend", "sales"),
               "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)), "

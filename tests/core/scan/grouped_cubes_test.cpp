@@ -8,6 +8,7 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <map>
 #include <random>
@@ -191,6 +192,57 @@ TEST(GroupedCubes, NamedStratifiersKeepTheirOrderAndPairsFollowIt) {
 
     copt.columns = {"nowhere"};
     EXPECT_FALSE(cubes_from_groups(group_all(rows, 1, 0, false), spec, copt, false).ok());
+}
+
+// A continuous stratifier's pairs binned in the engine: bin_cuts gives cut points that put every
+// value in the level the file scan gives it, and pair sets holding those bin numbers (marked
+// coded_in_pairs) give the row-level scan's findings.
+TEST(GroupedCubes, PairsBinnedByTheEngineWithTheCutsOfTheSingleSets) {
+    const Table rows = staffing(3000, 99);
+    QuestionSpec spec;
+    spec.outcome = "hired";
+    spec.positive = "yes";
+    spec.exposure = "team";
+    CandidateOptions copt;
+    RateScanOptions opt;
+    opt.bootstrap = 100;
+    auto q = resolve_question(rows, spec);
+    ASSERT_TRUE(q.ok());
+    auto cands = select_candidates(rows, {"hired", "team"}, copt, rows.column("team"));
+    ASSERT_TRUE(cands.ok());
+    auto want = rate_scan(rows, *q, *cands, opt);
+    ASSERT_TRUE(want.ok());
+
+    GroupedCounts singles = group_all(rows, 1, 0, false);
+    auto in = cubes_from_groups(singles, spec, copt, false);
+    ASSERT_TRUE(in.ok());
+    // The engine's CASE: level k for values in [cut_k, cut_k+1).
+    Table binned = rows;
+    GroupedCounts g = singles;
+    for (std::size_t i = 0; i < in->cubes.stratifiers.size(); ++i) {
+        const auto cuts = bin_cuts(singles, *in, i);
+        const std::string& name = in->cubes.stratifiers[i].name;
+        if (name == "family") {
+            EXPECT_TRUE(cuts.empty());  // text: the pair sets keep the labels
+            continue;
+        }
+        ASSERT_FALSE(cuts.empty()) << name;
+        EXPECT_EQ(cuts.size() + 1, in->cubes.stratifiers[i].levels.size()) << name;
+        Column& c = binned.columns[*binned.find(name)];
+        for (double& v : c.values)
+            if (!std::isnan(v)) v = static_cast<double>(std::upper_bound(cuts.begin(), cuts.end(), v) - cuts.begin());
+        g.coded_in_pairs.push_back(name);
+    }
+    g.pairs = group_all(binned, 1, 0, true).pairs;
+    auto with_pairs = cubes_from_groups(g, spec, copt, true);
+    ASSERT_TRUE(with_pairs.ok()) << with_pairs.error().to_string();
+    auto got = rate_scan(with_pairs->cubes, with_pairs->question, opt);
+    ASSERT_TRUE(got.ok());
+    expect_same(*want, *got);
+    // Bin numbers outside the levels are refused.
+    for (Table& t : g.pairs)
+        if (t.columns[2].name == "tenure" && t.columns[3].name == "score") t.columns[3].values[0] = 99;
+    EXPECT_FALSE(cubes_from_groups(g, spec, copt, true).ok());
 }
 
 TEST(GroupedCubes, CubesThatDoNotFitTheQuestionAreRefused) {
