@@ -32,21 +32,48 @@ std::optional<Column> integer_levels(const Column& numeric, std::size_t max_leve
     std::vector<double> distinct;
     std::vector<std::uint32_t> codes;
     if (hi - lo < 1 << 20) {
-        // Small range: direct table from value to code.
+        // Small range: direct table from value to code. Counting distinct values while marking
+        // them stops a many-valued column (a score, an amount in whole units) within its first
+        // rows instead of after a full pass.
         std::vector<std::uint32_t> slot(static_cast<std::size_t>(hi - lo) + 1, 0);
-        for (double x : v)
-            if (!std::isnan(x)) slot[static_cast<std::size_t>(x - lo)] = 1;
+        std::size_t seen = 0;
+        for (double x : v) {
+            if (std::isnan(x)) continue;
+            auto& s = slot[static_cast<std::size_t>(x - lo)];
+            if (s) continue;
+            s = 1;
+            if (++seen > max_levels) return std::nullopt;
+        }
         std::uint32_t next = 0;
         for (std::size_t i = 0; i < slot.size(); ++i) {
             if (!slot[i]) continue;
-            if (next >= max_levels) return std::nullopt;
             distinct.push_back(lo + static_cast<double>(i));
             slot[i] = next++;
         }
         const std::uint32_t miss = next;
-        codes.resize(v.size());
-        for (std::size_t i = 0; i < v.size(); ++i)
-            codes[i] = std::isnan(v[i]) ? miss : slot[static_cast<std::size_t>(v[i] - lo)];
+        std::vector<std::string> labels;
+        for (double x : distinct) labels.push_back(format_number(x == 0 ? 0.0 : x));
+        // Codes in the narrowest width straight away (no 32-bit copy to narrow afterwards).
+        Column col;
+        col.name = numeric.name;
+        col.type = ColumnType::Categorical;
+        col.levels = std::move(labels);
+        auto fill = [&](auto tag) {
+            using T = decltype(tag);
+            std::vector<T> out(v.size());
+            std::size_t missing = 0;
+            for (std::size_t i = 0; i < v.size(); ++i) {
+                const bool nan = std::isnan(v[i]);
+                missing += nan;
+                out[i] = static_cast<T>(nan ? miss : slot[static_cast<std::size_t>(v[i] - lo)]);
+            }
+            col.missing_count = missing;
+            col.codes = std::move(out);
+        };
+        if (miss < 0xFFu) fill(std::uint8_t{});
+        else if (miss < 0xFFFFu) fill(std::uint16_t{});
+        else fill(std::uint32_t{});
+        return col;
     } else {
         std::unordered_map<double, std::uint32_t> seen;
         for (double x : v) {
