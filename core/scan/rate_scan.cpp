@@ -229,62 +229,90 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
     }
 
     const RowCells rows = encode_rows(table, q);
-    struct Task {
+    // Cubes in result order: every single stratifier, then every pair (i, j), i < j. A task
+    // counts one single cube, or the pairs of candidate i with up to kPairBatch later candidates
+    // in one fused pass (build_pair_cubes), which reads column i and the cells once per batch.
+    constexpr std::size_t kPairBatch = 8;
+    struct Cube {
         std::size_t i, j;  // j == npos for a single stratifier
     };
+    struct Task {
+        std::size_t first, count;  // cubes first .. first + count - 1
+    };
     constexpr std::size_t single = static_cast<std::size_t>(-1);
+    std::vector<Cube> cubes;
     std::vector<Task> tasks;
     const std::size_t nc = cands.candidates.size();
-    for (std::size_t i = 0; i < nc; ++i) tasks.push_back({i, single});
+    for (std::size_t i = 0; i < nc; ++i) {
+        tasks.push_back({cubes.size(), 1});
+        cubes.push_back({i, single});
+    }
     if (opt.pairs)
         for (std::size_t i = 0; i < nc; ++i)
-            for (std::size_t j = i + 1; j < nc; ++j) tasks.push_back({i, j});
+            for (std::size_t j = i + 1; j < nc; j += kPairBatch) {
+                const std::size_t m = std::min(kPairBatch, nc - j);
+                tasks.push_back({cubes.size(), m});
+                for (std::size_t k = 0; k < m; ++k) cubes.push_back({i, j + k});
+            }
 
     const std::size_t ncomp = q.comparisons();
-    std::vector<RateFinding> findings(tasks.size() * ncomp);
-    std::vector<stats::Strata> cube_strata(tasks.size() * ncomp);
-    std::vector<char> done(tasks.size(), 0);
+    std::vector<RateFinding> findings(cubes.size() * ncomp);
+    std::vector<stats::Strata> cube_strata(cubes.size() * ncomp);
+    std::vector<char> done(cubes.size(), 0);
     std::atomic<std::size_t> next{0}, finished{0};
     std::mutex emit;
-    const double total = static_cast<double>(tasks.size());
+    const double total = static_cast<double>(cubes.size());
     work.report(0, total, "counting strata");
 
+    auto analyse = [&](std::size_t t, const CountCube& cube, std::vector<std::size_t>& kept) {
+        const auto& c = cubes[t];
+        const Column& a = *cands.candidates[c.i].column;
+        const bool pair = c.j != single;
+        const Column* b = pair ? cands.candidates[c.j].column : nullptr;
+        std::vector<std::string> names{cands.candidates[c.i].name};
+        if (pair) names.push_back(cands.candidates[c.j].name);
+        const std::size_t k2 = pair ? b->levels.size() : 1;
+        for (std::size_t comp = 0; comp < ncomp; ++comp) {
+            auto strata = comparison_strata(cube, comp + 1, &kept);
+            std::vector<std::vector<std::string>> labels;
+            labels.reserve(kept.size());
+            for (auto s : kept) {
+                if (pair) labels.push_back({a.levels[s / k2], b->levels[s % k2]});
+                else labels.push_back({a.levels[s]});
+            }
+            auto f = analyse_strata(strata, labels, names, opt.alpha);
+            f.comparison = comp;
+            f.focal = q.focal[comp];
+            f.reference = q.reference;
+            const std::size_t slot = t * ncomp + comp;
+            cube_strata[slot] = std::move(strata);
+            findings[slot] = std::move(f);
+            if (on_finding) {
+                std::lock_guard<std::mutex> lock(emit);
+                on_finding(findings[slot]);
+            }
+        }
+        done[t] = 1;
+        const auto n = finished.fetch_add(1) + 1;
+        work.report(static_cast<double>(n), total, "counting strata");
+    };
     auto worker = [&]() {
         std::vector<std::size_t> kept;
+        std::vector<const Column*> seconds;
         for (;;) {
             const std::size_t t = next.fetch_add(1);
             if (t >= tasks.size() || work.cancelled()) return;
             const auto& task = tasks[t];
-            const Column& a = *cands.candidates[task.i].column;
-            const bool pair = task.j != single;
-            const Column* b = pair ? cands.candidates[task.j].column : nullptr;
-            const CountCube cube = pair ? build_pair_cube(a, *b, rows, table.weights) : build_cube(a, rows, table.weights);
-            std::vector<std::string> names{cands.candidates[task.i].name};
-            if (pair) names.push_back(cands.candidates[task.j].name);
-            const std::size_t k2 = pair ? b->levels.size() : 1;
-            for (std::size_t comp = 0; comp < ncomp; ++comp) {
-                auto strata = comparison_strata(cube, comp + 1, &kept);
-                std::vector<std::vector<std::string>> labels;
-                labels.reserve(kept.size());
-                for (auto s : kept) {
-                    if (pair) labels.push_back({a.levels[s / k2], b->levels[s % k2]});
-                    else labels.push_back({a.levels[s]});
-                }
-                auto f = analyse_strata(strata, labels, names, opt.alpha);
-                f.comparison = comp;
-                f.focal = q.focal[comp];
-                f.reference = q.reference;
-                const std::size_t slot = t * ncomp + comp;
-                cube_strata[slot] = std::move(strata);
-                findings[slot] = std::move(f);
-                if (on_finding) {
-                    std::lock_guard<std::mutex> lock(emit);
-                    on_finding(findings[slot]);
-                }
+            const Cube& head = cubes[task.first];
+            const Column& a = *cands.candidates[head.i].column;
+            if (head.j == single) {
+                analyse(task.first, build_cube(a, rows, table.weights), kept);
+                continue;
             }
-            done[t] = 1;
-            const auto n = finished.fetch_add(1) + 1;
-            work.report(static_cast<double>(n), total, "counting strata");
+            seconds.clear();
+            for (std::size_t k = 0; k < task.count; ++k) seconds.push_back(cands.candidates[cubes[task.first + k].j].column);
+            const auto built = build_pair_cubes(a, seconds, rows, table.weights);
+            for (std::size_t k = 0; k < task.count; ++k) analyse(task.first + k, built[k], kept);
         }
     };
     unsigned nthreads = opt.threads ? opt.threads : std::max(1u, std::thread::hardware_concurrency());
@@ -298,7 +326,7 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
     result.cancelled = work.cancelled();
 
     std::vector<stats::Strata> kept_strata;
-    for (std::size_t t = 0; t < tasks.size(); ++t) {
+    for (std::size_t t = 0; t < cubes.size(); ++t) {
         if (!done[t]) continue;
         for (std::size_t comp = 0; comp < ncomp; ++comp) {
             result.rate_findings.push_back(std::move(findings[t * ncomp + comp]));
