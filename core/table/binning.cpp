@@ -6,6 +6,10 @@
 #include <numeric>
 #include <unordered_map>
 
+#if defined(__SSE2__)
+#include <emmintrin.h>
+#endif
+
 namespace foldline {
 
 std::string format_number(double x) {
@@ -25,27 +29,51 @@ std::optional<Column> integer_levels(const Column& numeric, std::size_t max_leve
     // comparison, so it neither moves the bounds nor fails the test.
     constexpr double kRound = 6755399441055744.0, kFast = 2251799813685248.0;
     constexpr std::size_t kBlock = 1024;
-    std::size_t present = 0;
+    bool present = false;
     for (std::size_t from = 0; from < v.size(); from += kBlock) {
         const std::size_t to = std::min(v.size(), from + kBlock);
         bool odd = false;
-        for (std::size_t i = from; i < to; ++i) {
+        std::size_t i = from;
+#if defined(__SSE2__)
+        // Two values at a time; minpd/maxpd keep their second operand when the first is NaN.
+        const __m128d round = _mm_set1_pd(kRound), fast = _mm_set1_pd(kFast);
+        const __m128d abs_mask = _mm_castsi128_pd(_mm_set1_epi64x(0x7FFFFFFFFFFFFFFFll));
+        __m128d vlo = _mm_set1_pd(lo), vhi = _mm_set1_pd(hi), vodd = _mm_setzero_pd(), vany = _mm_setzero_pd();
+        for (; i + 2 <= to; i += 2) {
+            const __m128d x = _mm_loadu_pd(v.data() + i);
+            const __m128d number = _mm_cmpord_pd(x, x);
+            const __m128d whole = _mm_and_pd(_mm_cmplt_pd(_mm_and_pd(x, abs_mask), fast),
+                                             _mm_cmpeq_pd(_mm_sub_pd(_mm_add_pd(x, round), round), x));
+            vodd = _mm_or_pd(vodd, _mm_andnot_pd(whole, number));
+            vany = _mm_or_pd(vany, number);
+            vlo = _mm_min_pd(x, vlo);
+            vhi = _mm_max_pd(x, vhi);
+        }
+        double l[2], h[2];
+        _mm_storeu_pd(l, vlo);
+        _mm_storeu_pd(h, vhi);
+        lo = std::min(l[0], l[1]);
+        hi = std::max(h[0], h[1]);
+        odd = _mm_movemask_pd(vodd) != 0;
+        present = present || _mm_movemask_pd(vany) != 0;
+#endif
+        for (; i < to; ++i) {
             const double x = v[i];
             const bool nan = x != x;
             const bool whole = std::fabs(x) < kFast && (x + kRound) - kRound == x;
-            odd |= !nan && !whole;
+            odd = odd || (!nan && !whole);
             lo = x < lo ? x : lo;
             hi = x > hi ? x : hi;
-            present += !nan;
+            present = present || !nan;
         }
         if (!odd) continue;
-        for (std::size_t i = from; i < to; ++i) {
-            const double x = v[i];
+        for (std::size_t j = from; j < to; ++j) {
+            const double x = v[j];
             if (std::isnan(x)) continue;
             if (!(std::fabs(x) <= 9e15) || static_cast<double>(static_cast<long long>(x)) != x) return std::nullopt;
         }
     }
-    if (present == 0) return std::nullopt;
+    if (!present) return std::nullopt;
     std::vector<double> distinct;
     std::vector<std::uint32_t> codes;
     if (hi - lo < 1 << 20) {
