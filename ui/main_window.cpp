@@ -1,10 +1,14 @@
 #include "ui/main_window.h"
 
+#include "core/common/sha256.h"
+#include "core/io/project_file.h"
+
 #include <QAction>
 #include <QActionGroup>
 #include <QApplication>
 #include <QCloseEvent>
 #include <QDragEnterEvent>
+#include <QFile>
 #include <QFileDialog>
 #include <QFileInfo>
 #include <QGraphicsView>
@@ -20,10 +24,9 @@
 #include <QUndoStack>
 #include <QVBoxLayout>
 
-#include "core/common/sha256.h"
-#include "core/io/project_file.h"
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
+#include "ui/diagram_doc.h"
 #include "ui/diagram_page.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
@@ -39,6 +42,7 @@ struct MainWindow::PendingProject {
     project::Project project;
     QString path;
     bool scanned = false;
+    QString data_change;  ///< what changed in the data since the save; empty when unchanged
 };
 
 namespace {
@@ -112,6 +116,34 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     });
     build_menus();
     restore_layout();
+
+    // Autosave: every edit of the audit marks it changed; the write happens within the interval.
+    autosave_ = new Autosave([this]() -> std::optional<project::Project> {
+        auto p = current_project();
+        if (!p) return std::nullopt;
+        return std::move(*p);
+    }, this);
+    prompt_ = [this](const RecoveryOffer& offer) { return ask_recovery(this, offer); };
+    connect(model_, &FindingsModel::dataChanged, autosave_, &Autosave::mark_changed);
+    connect(question_, &QuestionPage::changed, autosave_, &Autosave::mark_changed);
+    connect(scan_, &ScanPage::scan_finished, autosave_, &Autosave::mark_changed);
+    connect(diagram_->doc(), &DiagramDoc::structure_changed, autosave_, &Autosave::mark_changed);
+    connect(diagram_->undo_stack(), &QUndoStack::indexChanged, autosave_, &Autosave::mark_changed);
+    connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString&) {
+        if (t && !pending_) {
+            // New data outside a project: a new audit, unsaved.
+            base_.reset();
+            project_path_.clear();
+            autosave_->set_project_file({});
+        }
+        autosave_->mark_changed();
+    });
+    connect(autosave_, &Autosave::written, this, [this] {
+        statusBar()->showMessage(tr("Unsaved changes kept for recovery"), 3000);
+    });
+    connect(autosave_, &Autosave::failed, this, [this](const QString& reason) {
+        statusBar()->showMessage(tr("Autosave failed: %1. Save the audit to keep your changes.").arg(reason), 15000);
+    });
     go_to(Source);
 }
 
@@ -368,15 +400,23 @@ void MainWindow::export_memo_dialog() {
     else statusBar()->showMessage(tr("Memo written to %1").arg(path), 8000);
 }
 
-Status MainWindow::save_project_to(const QString& path) {
-    if (last_question_.slope) return make_error("saving trend audits is not offered yet", path.toStdString());
+Result<project::Project> MainWindow::current_project() const {
     if (!source_->table() || source_->source() == tr("typed-in table"))
-        return make_error("open a data file first: a project records the file, never the rows", path.toStdString());
-    project::Project p;
+        return make_error("open a data file first: a project records the file, never the rows");
+    // Start from the opened project, so what the workbench does not edit (memo settings, other
+    // diagrams, trend checks, memo choices) survives a save.
+    project::Project p = base_ ? *base_ : project::Project{};
     const std::string data = source_->source().toStdString();
+    p.data = project::DataSource{};
     p.data.path = data;
-    p.data.size = std::uint64_t(QFileInfo(source_->source()).size());
-    if (auto h = sha256_file(data)) p.data.sha256 = *h;
+    const QFileInfo info(source_->source());
+    p.data.size = std::uint64_t(info.size());
+    // Autosave asks for the document every interval: hash a file once per version of it.
+    if (digest_.path != source_->source() || digest_.size != info.size() || digest_.modified != info.lastModified()) {
+        auto h = sha256_file(data);
+        digest_ = {source_->source(), info.size(), info.lastModified(), h ? *h : std::string()};
+    }
+    p.data.sha256 = digest_.sha256;
     p.data.rows = source_->table()->rows;
     for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
     const LoadOptions o = source_->options();
@@ -387,36 +427,82 @@ Status MainWindow::save_project_to(const QString& path) {
     }
     p.data.type_overrides = o.type_overrides;
     const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
+    p.question = project::QuestionSettings{};
+    p.question.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
     p.question.outcome = q.outcome.toStdString();
-    if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
     p.question.exposure = q.exposure.toStdString();
-    if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
-    if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
+    if (!q.slope) {
+        if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
+        if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
+        if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
+    } else if (base_) {
+        p.question.covariates = base_->question.covariates;
+    }
+    p.scan.strata.clear();
     for (const QString& c : q.candidates) p.scan.strata.push_back(c.toStdString());
     p.scan.pairs = q.pairs;
     p.scan.bins = q.bins;
     p.scan.alpha = q.alpha;
-    p.scan.bootstrap = q.bootstrap;
+    // The workbench has one resample count: the rate bootstrap, or the slope stability draws.
+    if (q.slope) p.scan.slope_bootstrap = q.bootstrap;
+    else p.scan.bootstrap = q.bootstrap;
     p.scan.seed = q.seed;
-    if (seeded_row_ >= 0) p.diagrams.push_back({"as drawn", diagram_->doc()->diagram()});
+    if (seeded_row_ >= 0) {
+        const std::string name = !p.active_diagram.empty() ? p.active_diagram
+                                 : p.diagrams.empty()      ? std::string("as drawn")
+                                                           : p.diagrams.front().name;
+        bool replaced = false;
+        for (auto& d : p.diagrams)
+            if (d.name == name && !replaced) {
+                d.diagram = diagram_->doc()->diagram();
+                replaced = true;
+            }
+        if (!replaced) p.diagrams.push_back({name, diagram_->doc()->diagram()});
+    }
+    // Every finding's class (so `foldline run` can tell what changed) and the reviewer's
+    // decision and note; reviews of findings this scan did not produce are kept.
     for (const FindingView& f : model_->findings()) {
-        if (f.decision == Decision::Undecided && f.note.isEmpty()) continue;
         std::vector<std::string> strata;
         for (const QString& s : f.strata) strata.push_back(s.toStdString());
-        project::FindingReview& r = p.review_for(project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString()));
+        const project::FindingKey key = f.slope ? project::slope_key(strata, f.focal.toStdString(), f.reference.toStdString())
+                                                : project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString());
+        project::FindingReview& r = p.review_for(key);
         r.saved_class = f.cls;
         r.decision = f.decision;
         r.note = f.note.toStdString();
     }
-    return project::save_project(p, path.toStdString());
+    return p;
+}
+
+Status MainWindow::save_project_to(const QString& path) {
+    auto p = current_project();
+    if (!p) {
+        Error e = p.error();
+        e.file = path.toStdString();
+        return e;
+    }
+    if (auto st = project::save_project(*p, path.toStdString()); !st) return st;
+    base_ = std::move(*p);
+    project_path_ = path;
+    autosave_->set_project_file(path);
+    autosave_->discard();  // saved cleanly: nothing left to recover
+    return Ok{};
 }
 
 Status MainWindow::open_project(const QString& path) {
     auto p = project::load_project(path.toStdString());
     if (!p) return p.error();
+    open_project_document(*p, path);
+    return Ok{};
+}
+
+void MainWindow::open_project_document(const project::Project& project, const QString& path) {
     pending_ = std::make_shared<PendingProject>();
-    pending_->project = std::move(p).value();
+    pending_->project = project;
     pending_->path = path;
+    base_ = project;
+    project_path_ = path;
+    autosave_->set_project_file(path);
     const project::DataSource& d = pending_->project.data;
     LoadOptions o;
     o.count_column = QString::fromStdString(d.count_column);
@@ -424,7 +510,25 @@ Status MainWindow::open_project(const QString& path) {
     o.type_overrides = d.type_overrides;
     go_to(Source);
     source_->open_path(QString::fromStdString(d.path), o);
-    return Ok{};
+}
+
+std::optional<RecoveryChoice> MainWindow::check_recovery() {
+    auto offer = find_recovery(autosave_->folder(), autosave_->path());
+    if (!offer) return std::nullopt;
+    const RecoveryChoice c = prompt_ ? prompt_(*offer) : RecoveryChoice::Later;
+    if (c == RecoveryChoice::Discard) {
+        QFile::remove(offer->path);
+        statusBar()->showMessage(tr("Discarded the kept copy of the unsaved audit"), 8000);
+    } else if (c == RecoveryChoice::Restore) {
+        // The copy becomes this session's recovery file before anything else happens, so a
+        // failed or interrupted restore loses nothing.
+        if (!autosave_->adopt(offer->path))
+            statusBar()->showMessage(autosave_->last_error(), 8000);
+        open_project_document(offer->project, offer->project_file);
+        autosave_->mark_changed();
+        statusBar()->showMessage(tr("Restoring the unsaved audit…"), 8000);
+    }
+    return c;
 }
 
 void MainWindow::restore_pending() {
@@ -432,10 +536,17 @@ void MainWindow::restore_pending() {
     const project::Project& p = pending->project;
     if (!pending->scanned) {
         // The data is in: warn when it changed since the save, then ask the saved question.
-        if (auto h = sha256_file(p.data.path); h && !p.data.sha256.empty() && *h != p.data.sha256)
-            statusBar()->showMessage(tr("The data file changed since the audit was saved (SHA-256 differs)."), 15000);
+        // The table is already read, so rows and columns are compared without reading it again.
+        if (auto h = sha256_file(p.data.path)) {
+            const auto change = project::compare_data(p.data, *h, std::uint64_t(QFileInfo(QString::fromStdString(p.data.path)).size()),
+                                                      source_->table().get());
+            if (change.changed) {
+                pending->data_change = QString::fromStdString(change.message);
+                statusBar()->showMessage(tr("Warning: %1.").arg(pending->data_change), 15000);
+            }
+        }
         QuestionSpec q = question_->spec();
-        q.slope = false;
+        q.slope = p.question.kind == project::QuestionKind::Slope;
         q.outcome = QString::fromStdString(p.question.outcome);
         q.positive = p.question.positive ? QString::fromStdString(*p.question.positive) : QString();
         q.exposure = QString::fromStdString(p.question.exposure);
@@ -446,7 +557,7 @@ void MainWindow::restore_pending() {
         q.pairs = p.scan.pairs;
         q.bins = p.scan.bins;
         q.alpha = p.scan.alpha;
-        q.bootstrap = p.scan.bootstrap;
+        q.bootstrap = q.slope ? p.scan.slope_bootstrap : p.scan.bootstrap;
         q.seed = unsigned(p.scan.seed);
         question_->set_spec(q);
         pending->scanned = true;
@@ -459,7 +570,10 @@ void MainWindow::restore_pending() {
         const FindingView* f = model_->at(i);
         std::vector<std::string> strata;
         for (const QString& s : f->strata) strata.push_back(s.toStdString());
-        if (const project::FindingReview* r = p.review(project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString())))
+        const project::FindingKey key =
+            f->slope ? project::slope_key(strata, f->focal.toStdString(), f->reference.toStdString())
+                     : project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString());
+        if (const project::FindingReview* r = p.review(key))
             model_->set_decision(i, r->decision, QString::fromStdString(r->note));
     }
     // Re-select so the detail panel shows the restored decision.
@@ -470,7 +584,10 @@ void MainWindow::restore_pending() {
         diagram_->doc()->replace(*d);
         diagram_->undo_stack()->clear();
     }
-    statusBar()->showMessage(tr("Opened %1").arg(pending->path), 8000);
+    QString done = pending->path.isEmpty() ? tr("Restored the unsaved audit") : tr("Opened %1").arg(pending->path);
+    if (!pending->data_change.isEmpty()) done += tr(". Warning: %1.").arg(pending->data_change);
+    data_change_ = pending->data_change;
+    statusBar()->showMessage(done, pending->data_change.isEmpty() ? 8000 : 0);
 }
 
 void MainWindow::save_project_dialog() {
@@ -533,6 +650,7 @@ void MainWindow::restore_layout() {
 void MainWindow::closeEvent(QCloseEvent* e) {
     save_layout();
     scan_->cancel();
+    autosave_->discard();  // a clean close: nothing to recover
     QMainWindow::closeEvent(e);
 }
 

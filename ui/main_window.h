@@ -1,12 +1,18 @@
 #pragma once
 // The workbench window: the step strip (Source → Question → Scan → Findings → Diagram → Memo)
 // over one page per step, every action in a menu with a shortcut, layout kept between runs.
+#include "core/io/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/table/table.h"
+#include "ui/autosave.h"
+#include "ui/engine.h"
+#include "ui/recovery_dialog.h"
+
+#include <QDateTime>
 #include <QHash>
 #include <QMainWindow>
+#include <functional>
 #include <memory>
-
-#include "core/table/table.h"
-#include "ui/engine.h"
+#include <optional>
 
 class QAction;
 class QMenu;
@@ -41,6 +47,22 @@ public:
     FindingsModel* findings_model() const { return model_; }
     /// The action with this object name (e.g. "action_open"), or null.
     QAction* action(const QString& name) const { return actions_.value(name); }
+    /// The autosave of this window (interval, folder and recovery file; see ui/autosave.h).
+    Autosave* autosave() const { return autosave_; }
+    /// The project file the audit was opened from or last saved to; empty when never saved.
+    QString project_path() const { return project_path_; }
+    /// What changed in the data file since the opened project was saved (rows, columns,
+    /// digest), as shown in the status bar; empty when unchanged or no project was opened.
+    QString data_change() const { return data_change_; }
+    /// The audit as a project document (data source, question, settings, diagram, decisions,
+    /// notes, memo settings; no rows). Error when no data file is open (typed-in counts have
+    /// no file to point to).
+    Result<project::Project> current_project() const;
+
+    /// Asks what to do with a recovery file; the default shows RecoveryDialog. Tests inject
+    /// their own answer so no modal dialog blocks them.
+    using RecoveryPrompt = std::function<RecoveryChoice(const RecoveryOffer&)>;
+    void set_recovery_prompt(RecoveryPrompt prompt) { prompt_ = std::move(prompt); }
 
 public slots:
     void go_to(int step);
@@ -50,11 +72,19 @@ public slots:
     Status export_memo_to(const QString& path);
     void export_memo_dialog();
     /// Writes the audit (data source, question, settings, diagram, decisions; no rows) as a
-    /// NAME.foldline project, atomically. Error for a trend audit (the format holds rates).
+    /// NAME.foldline project, atomically; rate and trend audits alike. On success the recovery
+    /// file is removed. Error when no data file is open or the file cannot be written.
     Status save_project_to(const QString& path);
     /// Opens a project: loads its data, scans with its question and settings, then restores
     /// the decisions and the diagram. Error when the file cannot be read.
     Status open_project(const QString& path);
+    /// Opens a project already in memory that belongs to `path` (empty: never saved), as
+    /// open_project does after reading the file.
+    void open_project_document(const project::Project& p, const QString& path);
+    /// Looks in the autosave folder for an audit a session left without saving (newer than its
+    /// project file) and asks the recovery prompt: Restore opens it and removes the file,
+    /// Discard removes it, Later keeps it. Returns the answer, or nullopt when there was none.
+    std::optional<RecoveryChoice> check_recovery();
     void save_project_dialog();
     void open_project_dialog();
 
@@ -88,6 +118,18 @@ private:
     struct PendingProject;
     std::shared_ptr<PendingProject> pending_;  ///< a project being opened (load → scan → restore)
     void restore_pending();
+    Autosave* autosave_ = nullptr;
+    RecoveryPrompt prompt_;
+    QString project_path_;
+    QString data_change_;
+    std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit
+    struct Digest {
+        QString path;
+        qint64 size = -1;
+        QDateTime modified;
+        std::string sha256;
+    };
+    mutable Digest digest_;  ///< the data file's SHA-256, computed once per version of the file
 };
 
 }  // namespace foldline::ui

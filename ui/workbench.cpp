@@ -77,6 +77,8 @@ int run_workbench(int argc, char** argv) {
         return n > 0 ? 0 : 1;
     }
     window.show();
+    // An audit left unsaved by a session that ended abruptly: offer it once the window is up.
+    if (!parser.isSet(demo)) QTimer::singleShot(0, &window, [&window] { window.check_recovery(); });
     if (parser.isSet(demo))
         QTimer::singleShot(0, &window, [&window] {
             const QString err = prepare_demo(window);

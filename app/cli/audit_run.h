@@ -10,6 +10,7 @@
 #include "core/common/error.h"
 #include "core/io/project_file.h"
 #include "core/report/scan_json.h"
+#include "core/scan/candidates.h"
 #include "core/scan/scan_result.h"
 #include "core/table/table.h"
 
@@ -27,11 +28,25 @@ struct AuditRun {
     std::string diagram_problem;  ///< why the diagram could not be used, else empty
 };
 
-/// Re-runs the project's audit on its data (or on `data_override` when non-empty: a new
+/// Re-runs the project's audit (a rate question, with the trend checks it records, or a slope
+/// question) on its data (or on `data_override` when non-empty: a new
 /// extract with the same columns) with the saved question, settings, seed and diagram.
 /// `exit_code` receives 3 (input) or 2 (usage: the question no longer fits the data) on error.
 Result<AuditRun> run_audit(const project::Project& p, const std::string& data_override, unsigned threads,
                            int& exit_code);
+
+/// A slope (trend) audit as `foldline scan` runs it for a numeric outcome on a numeric
+/// exposure: candidates (x, y and the covariates left out), every check (pairs when asked),
+/// FDR, ranking; rate fields of the result stay empty. `exit_code` receives 2 when x, y or a
+/// covariate is missing or not numeric, 3 when the scan fails, 0 on success.
+Result<ScanResult> slope_audit(const Table& table, const SlopeQuestion& q, const CandidateOptions& options,
+                               bool pairs, int& exit_code);
+
+/// Slope checks added to a rate scan (`--trend X:Y`): y on x within each single candidate other
+/// than x, y and the covariates; q-values left for the rate scan's FDR step. Exit codes as for
+/// slope_audit. No candidate left → empty vector.
+Result<std::vector<SlopeFinding>> trend_checks(const Table& table, const SlopeQuestion& q,
+                                               const CandidateSet& candidates, int& exit_code);
 
 /// Verdicts for each rate finding under `diagram` (nullopt where the diagram cannot judge one);
 /// also fills RateFinding::verdict with the answer's name, and the verdict_detail JSON of rate

@@ -29,7 +29,7 @@ int run(int argc, char** argv) {
     if (a.flag("help", false)) {
         std::cout << "foldline run PROJECT.foldline [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX]\n"
                      "  [--threads N] [--update]\n"
-                     "Re-runs the saved audit with its question, settings, seed and diagram.\n"
+                     "Re-runs the saved audit with its question, settings, seed and diagram (rate or trend audits).\n"
                      "  --data    a new extract with the same columns (the quarterly re-audit)\n"
                      "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
                      "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"
@@ -51,8 +51,11 @@ int run(int argc, char** argv) {
     {
         const std::string prefix = a.get_or("csv", "");
         const std::vector<std::string> inputs = {project_path, p.data.path, override_data};
-        for (const auto& out : {a.get_or("json", ""), memo_path, prefix.empty() ? prefix : prefix + "-findings.csv",
-                                prefix.empty() ? prefix : prefix + "-strata.csv"})
+        std::vector<std::string> outputs = {a.get_or("json", ""), memo_path};
+        if (!prefix.empty())
+            for (const char* suffix : {"-findings.csv", "-strata.csv", "-slope-findings.csv", "-slope-strata.csv"})
+                outputs.push_back(prefix + suffix);
+        for (const auto& out : outputs)
             if (auto msg = overwrites_input(out, inputs); !msg.empty()) return fail(kName, kUsage, msg);
     }
     int code = kOk;
@@ -65,11 +68,21 @@ int run(int argc, char** argv) {
         << " rows, SHA-256 " << run->info.sha256.substr(0, 16) << "…)\n";
     if (!run->data_change.empty()) out << "Warning: " << run->data_change << "\n";
     if (!run->diagram_problem.empty()) out << "Diagram not used for some findings: " << run->diagram_problem << "\n";
-    int counts[5] = {0, 0, 0, 0, 0};
-    for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
-    out << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
-        << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha
-        << ", seed " << r.seed << ")\n";
+    if (p.question.kind == project::QuestionKind::Rate) {
+        int counts[5] = {0, 0, 0, 0, 0};
+        for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
+        out << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
+            << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha
+            << ", seed " << r.seed << ")\n";
+    }
+    if (!r.slope_question.x.empty()) {
+        int counts[5] = {0, 0, 0, 0, 0};
+        for (const auto& f : r.slope_findings) ++counts[rank(f.finding_class)];
+        out << "Slope of " << r.slope_question.y << " on " << r.slope_question.x << ": " << r.slope_findings.size()
+            << " checks: " << counts[0] << " reversal, " << counts[1] << " explained, " << counts[2] << " masked, "
+            << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha << ", seed " << r.seed
+            << ")\n";
+    }
 
     const auto changes = class_changes(p, r);
     if (changes.empty()) {
@@ -91,7 +104,10 @@ int run(int argc, char** argv) {
     if (a.has("csv")) {
         const std::string prefix = *a.get("csv");
         if (auto st = report::write_csv_exports(r, &p, prefix); !st) return fail(kName, kInput, st.error().to_string());
-        out << "CSV: " << prefix << "-findings.csv, " << prefix << "-strata.csv\n";
+        const auto files = report::csv_export_paths(r, prefix);
+        out << "CSV:";
+        for (std::size_t i = 0; i < files.size(); ++i) out << (i ? ", " : " ") << files[i];
+        out << "\n";
     }
     if (!memo_path.empty()) {
         if (int rc = write_memo(kName, r, run->info, &p, run->verdicts, run->data_change, memo_path); rc != kOk)

@@ -162,7 +162,8 @@ int run(int argc, char** argv) {
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
-                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv)\n"
+                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
+                     "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
                      "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
                      "foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to the database)\n"
                      "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
@@ -269,45 +270,28 @@ int run(int argc, char** argv) {
             if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
         }
     }
-    // A slope-only scan honours --pairs; --trend checks each single stratifier.
-    auto slope_checks = [&](const CandidateSet& cs) -> Result<std::vector<SlopeFinding>> {
-        if (sq.x.empty()) return std::vector<SlopeFinding>{};
-        std::vector<const Column*> cols;
-        for (const auto& c : cs.candidates)
-            if (c.name != sq.x && c.name != sq.y) cols.push_back(c.column);
-        return scan_slopes(*table, sq, cols, slope_only && sopt.pairs);
-    };
-
+    // A slope-only scan honours --pairs; --trend checks each single stratifier. Both go through
+    // the helpers `foldline run` uses, so a saved trend audit re-runs to the same findings.
     Result<ScanResult> result = make_error("not run");
     if (slope_only) {
-        auto cands = select_candidates(*table, {sq.x, sq.y}, copt, nullptr);
-        if (!cands) return fail(kName, kUsage, cands.error().to_string());
-        auto slopes = slope_checks(*cands);
-        if (!slopes) return fail(kName, kInput, slopes.error().to_string());
-        ScanResult r;
-        r.slope_question = sq;
-        r.excluded = cands->excluded;
-        for (const auto& c : cands->candidates) {
-            r.candidates.push_back(c.name);
-            r.candidate_origin.push_back(c.origin);
-        }
-        r.rows = table->total_weight();
-        r.alpha = sopt.alpha;
-        r.bootstrap = sopt.bootstrap;
-        r.seed = sopt.seed;
-        r.slope_findings = std::move(*slopes);
-        apply_fdr(r);
-        rank_findings(r);
-        result = std::move(r);
+        int code = kOk;
+        result = slope_audit(*table, sq, copt, sopt.pairs, code);
+        if (!result) return fail(kName, code, result.error().to_string());
+        result->bootstrap = sopt.bootstrap;
     } else {
         auto q = resolve_question(*table, spec);
         if (!q) return fail(kName, kUsage, q.error().to_string());
         auto cands = select_candidates(*table, {spec.outcome, spec.exposure}, copt, ec);
         if (!cands) return fail(kName, kUsage, cands.error().to_string());
         if (cands->candidates.empty()) return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
-        auto slopes = slope_checks(*cands);
-        if (!slopes) return fail(kName, kInput, slopes.error().to_string());
-        result = rate_scan(*table, *q, *cands, sopt, {}, {}, std::move(*slopes));
+        std::vector<SlopeFinding> slopes;
+        if (!sq.x.empty()) {
+            int code = kOk;
+            auto checks = trend_checks(*table, sq, *cands, code);
+            if (!checks) return fail(kName, code, checks.error().to_string());
+            slopes = std::move(*checks);
+        }
+        result = rate_scan(*table, *q, *cands, sopt, {}, {}, std::move(slopes));
         if (!result) return fail(kName, kInternal, result.error().to_string());
         if (!sq.x.empty()) result->slope_question = sq;
     }

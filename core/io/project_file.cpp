@@ -190,6 +190,14 @@ FindingKey slope_key(const std::vector<std::string>& strata, const std::string& 
 
 std::string_view to_string(PageSize p) { return p == PageSize::Letter ? "Letter" : "A4"; }
 
+std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "slope" : "rate"; }
+
+int required_version(const Project& p) {
+    const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
+                        p.trend.has_value() || p.scan.slope_bootstrap != 0;
+    return slopes ? 2 : 1;
+}
+
 const causal::Diagram* Project::diagram() const {
     if (diagrams.empty()) return nullptr;
     for (const auto& d : diagrams)
@@ -213,7 +221,8 @@ FindingReview& Project::review_for(const FindingKey& key) {
 std::string project_to_json_text(const Project& p, const std::string& project_path) {
     json doc = json::object();
     doc["format"] = kProjectFormat;
-    doc["version"] = kProjectVersion;
+    const int version = required_version(p);
+    doc["version"] = version;
 
     json data = json::object();
     data["path"] = relative_to_project(p.data.path, project_path);
@@ -236,7 +245,18 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     q["exposure"] = p.question.exposure;
     q["focal"] = p.question.focal;
     q["reference"] = p.question.reference ? json(*p.question.reference) : json(nullptr);
+    // Version 2 keys are written only in version 2 files, so a rate audit keeps its version 1
+    // bytes and stays readable by builds that know only version 1.
+    if (version >= 2) {
+        q["kind"] = to_string(p.question.kind);
+        q["covariates"] = p.question.covariates;
+    }
     doc["question"] = q;
+    if (version >= 2) {
+        json t = nullptr;
+        if (p.trend) t = json{{"x", p.trend->x}, {"y", p.trend->y}, {"covariates", p.trend->covariates}};
+        doc["trend"] = t;
+    }
 
     json s = json::object();
     s["strata"] = p.scan.strata.empty() ? json("auto") : json(p.scan.strata);
@@ -246,6 +266,7 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     s["alpha"] = p.scan.alpha;
     s["bootstrap"] = p.scan.bootstrap;
     s["seed"] = p.scan.seed;
+    if (version >= 2) s["slope_bootstrap"] = p.scan.slope_bootstrap;
     doc["scan"] = s;
 
     json diagrams = json::array();
@@ -339,6 +360,23 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         r.str(*q, "question", "exposure", p.question.exposure, true);
         r.strings(*q, "question", "focal", p.question.focal);
         r.opt_str(*q, "question", "reference", p.question.reference);
+        std::string kind = "rate";
+        r.str(*q, "question", "kind", kind);
+        if (kind == "slope") p.question.kind = QuestionKind::Slope;
+        else if (kind != "rate") r.fail("question.kind: expected \"rate\" or \"slope\"");
+        r.strings(*q, "question", "covariates", p.question.covariates);
+        if (p.question.kind == QuestionKind::Slope &&
+            (p.question.positive || !p.question.focal.empty() || p.question.reference))
+            r.fail("question: a slope question has no positive, focal or reference level (numeric outcome and "
+                   "exposure)");
+    }
+    if (const json* t = r.object(doc, "", "trend", false)) {
+        TrendSettings trend;
+        r.str(*t, "trend", "x", trend.x, true);
+        r.str(*t, "trend", "y", trend.y, true);
+        r.strings(*t, "trend", "covariates", trend.covariates);
+        if (!r.error && (trend.x.empty() || trend.y.empty())) r.fail("trend: x and y must name numeric columns");
+        p.trend = std::move(trend);
     }
     if (const json* s = r.object(doc, "", "scan", false)) {
         if (const json* st = r.field(*s, "scan", "strata", false)) {
@@ -351,6 +389,7 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         r.number(*s, "scan", "alpha", p.scan.alpha, 1e-12, 0.5);
         r.whole(*s, "scan", "bootstrap", p.scan.bootstrap, 0, 1e6);
         r.whole(*s, "scan", "seed", p.scan.seed, 0, 1.8446744073709552e19);
+        r.whole(*s, "scan", "slope_bootstrap", p.scan.slope_bootstrap, 0, 1e6);
     }
     if (const json* ds = r.array(doc, "", "diagrams")) {
         for (std::size_t i = 0; i < ds->size() && !r.error; ++i) {

@@ -24,7 +24,11 @@
 
 namespace foldline::project {
 
-inline constexpr int kProjectVersion = 1;
+/// The newest project version this build reads. A project is written with the lowest version
+/// that holds it: 1 for a rate audit, 2 when it holds a slope question, trend checks or slope
+/// settings (see required_version), so builds that read only version 1 refuse what they would
+/// misread instead of dropping the trend.
+inline constexpr int kProjectVersion = 2;
 inline constexpr std::string_view kProjectFormat = "foldline-project";
 
 struct DataSource {
@@ -39,12 +43,28 @@ struct DataSource {
     std::map<std::string, ColumnType> type_overrides;
 };
 
+/// What the audit compares: a rate between groups, or the slope of a numeric outcome on a
+/// numeric exposure (a trend audit).
+enum class QuestionKind { Rate, Slope };
+/// "rate" or "slope".
+std::string_view to_string(QuestionKind k);
+
 struct QuestionSettings {
-    std::string outcome;
+    QuestionKind kind = QuestionKind::Rate;  ///< absent in a version 1 file: rate
+    std::string outcome;                   ///< slope: the numeric outcome y
     std::optional<std::string> positive;   ///< absent: the reader's default rule
-    std::string exposure;
+    std::string exposure;                  ///< slope: the numeric exposure x
     std::vector<std::string> focal;        ///< empty: every level except the reference
     std::optional<std::string> reference;  ///< absent: the most frequent level
+    std::vector<std::string> covariates;   ///< slope: numeric columns adjusted for (may be empty)
+};
+
+/// Slope checks added to a rate audit (`scan --trend X:Y`): the slope of y on x within each
+/// single stratifier of the rate question.
+struct TrendSettings {
+    std::string x, y;
+    std::vector<std::string> covariates;  ///< numeric columns adjusted for (may be empty)
+    auto operator<=>(const TrendSettings&) const = default;
 };
 
 struct ScanSettings {
@@ -55,6 +75,7 @@ struct ScanSettings {
     double alpha = 0.05;
     int bootstrap = 1000;
     std::uint64_t seed = 20240601;
+    int slope_bootstrap = 0;  ///< resamples for the stability of flagged slope findings; 0 = none
 };
 
 struct NamedDiagram {
@@ -108,6 +129,7 @@ struct Project {
     std::string active_diagram;  ///< name of the diagram used for verdicts; empty = the first
     std::vector<FindingReview> reviews;  ///< sorted by key when saved
     MemoSettings memo;
+    std::optional<TrendSettings> trend;  ///< absent: no slope checks beside a rate question
 
     /// The diagram used for verdicts: the one named active_diagram, else the first; nullptr
     /// when there is none.
@@ -117,13 +139,18 @@ struct Project {
     FindingReview& review_for(const FindingKey& key);  ///< adds an empty review when absent
 };
 
+/// 1 when the project is a plain rate audit; 2 when it holds a slope question, trend checks,
+/// covariates or a slope bootstrap. A default project → 1.
+int required_version(const Project& p);
+
 /// The JSON text of a project saved at `project_path` (data path made relative to its folder).
 /// Never fails; an empty project gives a valid document.
 std::string project_to_json_text(const Project& p, const std::string& project_path);
 
 /// Parses project JSON text read from `project_path` (data path resolved against its folder).
 /// Errors: not JSON (line and column), another format, a newer version ("written by a newer
-/// Foldline"), a missing or mistyped field (named by its JSON path). Empty text → Error.
+/// Foldline"), a missing or mistyped field (named by its JSON path), a slope question or trend
+/// without its columns. Empty text → Error.
 Result<Project> parse_project(std::string_view text, const std::string& project_path);
 
 /// Reads and parses a project file. Unreadable file → Error naming it.

@@ -4,6 +4,8 @@
 #include <cstdio>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
 #include "core/common/atomic_file.h"
 
 namespace foldline::report {
@@ -102,9 +104,98 @@ std::string strata_csv(const ScanResult& r) {
     return out;
 }
 
+namespace {
+
+// The answer a diagram gave for a slope finding ("pooled", "stratified", ...), from its verdict
+// JSON; empty when no diagram judged it.
+std::string slope_verdict_answer(const SlopeFinding& f) {
+    if (f.verdict_detail.empty()) return {};
+    const auto j = nlohmann::json::parse(f.verdict_detail, nullptr, false);
+    if (!j.is_object()) return {};
+    const auto it = j.find("answer");
+    return it != j.end() && it->is_string() ? it->get<std::string>() : std::string();
+}
+
+}  // namespace
+
+std::string slope_findings_csv(const ScanResult& r, const project::Project* project) {
+    std::string out;
+    row(out, {"finding", "kind", "class", "strata", "x", "y", "covariates", "rows_used", "n", "pooled_slope",
+              "pooled_slope_ci_low", "pooled_slope_ci_high", "pooled_se", "pooled_se_robust", "pooled_p", "pooled_r",
+              "within_slope", "within_slope_ci_low", "within_slope_ci_high", "within_se", "within_p", "strata_count",
+              "adjusted_pooled_slope", "adjusted_pooled_ci_low", "adjusted_pooled_ci_high",
+              "adjusted_within_slope", "adjusted_within_ci_low", "adjusted_within_ci_high", "equal_slopes_f",
+              "equal_slopes_p", "p_reversal", "q_value", "stability", "stability_draws", "linear_probability",
+              "uninformative_strata", "verdict", "decision", "note"});
+    std::size_t n = 0;
+    for (const auto& f : r.slope_findings) {
+        std::string decision = "undecided", note;
+        if (project) {
+            if (const auto* rv = project->review(project::slope_key(f.strata, f.x, f.y))) {
+                decision = std::string(to_string(rv->decision));
+                note = rv->note;
+            }
+        }
+        const double nan = std::nan("");
+        const auto& ap = f.adjusted_pooled;
+        const auto& aw = f.adjusted_within;
+        row(out, {std::to_string(++n), "slope", std::string(to_string(f.finding_class)),
+                  csv_field(joined(f.strata, " × ")), csv_field(f.x), csv_field(f.y),
+                  csv_field(joined(f.covariates, "; ")), csv_number(f.rows_used), csv_number(f.n),
+                  csv_number(f.pooled.slope), csv_number(f.pooled.ci_low), csv_number(f.pooled.ci_high),
+                  csv_number(f.pooled.se), csv_number(f.pooled.se_robust), csv_number(f.pooled.p),
+                  csv_number(f.pooled.r), csv_number(f.within.slope), csv_number(f.within.ci_low),
+                  csv_number(f.within.ci_high), csv_number(f.within.se), csv_number(f.within.p),
+                  std::to_string(f.within.strata), csv_number(f.adjusted ? ap.slope : nan),
+                  csv_number(f.adjusted ? ap.ci_low : nan), csv_number(f.adjusted ? ap.ci_high : nan),
+                  csv_number(f.adjusted ? aw.slope : nan), csv_number(f.adjusted ? aw.ci_low : nan),
+                  csv_number(f.adjusted ? aw.ci_high : nan), csv_number(f.equal_slopes.f),
+                  csv_number(f.equal_slopes.p), csv_number(f.p_reversal), csv_number(f.q_value),
+                  f.stability_draws > 0 ? csv_number(f.stability) : std::string(), std::to_string(f.stability_draws),
+                  f.linear_probability ? "yes" : "no", std::to_string(f.uninformative.size()),
+                  csv_field(slope_verdict_answer(f)), csv_field(decision), csv_field(note)});
+    }
+    return out;
+}
+
+std::string slope_strata_csv(const ScanResult& r) {
+    std::string out;
+    row(out, {"finding", "strata", "stratum", "x", "y", "rows", "n", "slope", "slope_ci_low", "slope_ci_high", "se",
+              "p", "r", "informative", "reason"});
+    std::size_t n = 0;
+    for (const auto& f : r.slope_findings) {
+        ++n;
+        for (const auto& g : f.groups)
+            row(out, {std::to_string(n), csv_field(joined(f.strata, " × ")), csv_field(g.level), csv_field(f.x),
+                      csv_field(f.y), csv_number(g.rows), csv_number(g.n), csv_number(g.slope), csv_number(g.ci_low),
+                      csv_number(g.ci_high), csv_number(g.se), csv_number(g.p), csv_number(g.r),
+                      g.informative ? "yes" : "no", csv_field(g.reason)});
+    }
+    return out;
+}
+
+std::vector<std::string> csv_export_paths(const ScanResult& result, const std::string& prefix) {
+    const bool slopes = !result.slope_question.x.empty() || !result.slope_findings.empty();
+    const bool rates = !slopes || !result.question.outcome.empty() || !result.rate_findings.empty();
+    std::vector<std::string> paths;
+    if (rates) paths = {prefix + "-findings.csv", prefix + "-strata.csv"};
+    if (slopes) {
+        paths.push_back(prefix + "-slope-findings.csv");
+        paths.push_back(prefix + "-slope-strata.csv");
+    }
+    return paths;
+}
+
 Status write_csv_exports(const ScanResult& result, const project::Project* project, const std::string& prefix) {
-    if (auto st = write_file_atomically(prefix + "-findings.csv", findings_csv(result, project)); !st) return st;
-    return write_file_atomically(prefix + "-strata.csv", strata_csv(result));
+    for (const auto& path : csv_export_paths(result, prefix)) {
+        const std::string name = path.substr(prefix.size());
+        const std::string text = name == "-findings.csv"         ? findings_csv(result, project)
+                                 : name == "-strata.csv"         ? strata_csv(result)
+                                 : name == "-slope-findings.csv" ? slope_findings_csv(result, project)
+                                                                 : slope_strata_csv(result);
+        if (auto st = write_file_atomically(path, text); !st) return st;
+    }
+    return Ok{};
 }
 
 }  // namespace foldline::report

@@ -107,11 +107,29 @@ json rate_finding_to_json(const RateFinding& f) {
     return j;
 }
 
-json scan_to_json_summary(const ScanResult& r) {
+json candidates_to_json(const std::vector<std::string>& names, const std::vector<std::string>& origins) {
+    json cands = json::array();
+    for (std::size_t i = 0; i < names.size(); ++i)
+        cands.push_back({{"column", names[i]}, {"origin", i < origins.size() ? origins[i] : ""}});
+    return cands;
+}
+
+json excluded_to_json(const std::vector<Exclusion>& excluded) {
+    json ex = json::array();
+    for (const auto& e : excluded) ex.push_back({{"column", e.column}, {"reason", e.reason}});
+    return ex;
+}
+
+json empty_class_counts() {
     json counts = json::object();
     for (auto c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
                    FindingClass::Heterogeneous, FindingClass::Stable})
         counts[std::string(to_string(c))] = 0;
+    return counts;
+}
+
+json scan_to_json_summary(const ScanResult& r) {
+    json counts = empty_class_counts();
     json reversals = json::array(), slope_reversals = json::array();
     for (const auto& f : r.rate_findings) {
         counts[std::string(to_string(f.cls))] = counts[std::string(to_string(f.cls))].get<int>() + 1;
@@ -148,14 +166,8 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
                          {"reference", q.reference}};
     }
     j["settings"] = {{"alpha", r.alpha}, {"bootstrap", r.bootstrap}, {"seed", r.seed}};
-    json cands = json::array();
-    for (std::size_t i = 0; i < r.candidates.size(); ++i)
-        cands.push_back({{"column", r.candidates[i]},
-                         {"origin", i < r.candidate_origin.size() ? r.candidate_origin[i] : ""}});
-    j["candidates"] = std::move(cands);
-    json ex = json::array();
-    for (const auto& e : r.excluded) ex.push_back({{"column", e.column}, {"reason", e.reason}});
-    j["excluded"] = std::move(ex);
+    j["candidates"] = candidates_to_json(r.candidates, r.candidate_origin);
+    j["excluded"] = excluded_to_json(r.excluded);
     json findings = json::array();
     for (const auto& f : r.rate_findings) findings.push_back(rate_finding_to_json(f));
     for (const auto& f : r.slope_findings) findings.push_back(to_json(f));

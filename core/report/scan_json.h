@@ -3,6 +3,7 @@
 // "JSON output"). Numbers that are undefined (NaN, infinite) are written as null; counts that
 // are whole numbers are written as integers.
 #include <string>
+#include <vector>
 
 #include <nlohmann/json.hpp>
 
@@ -26,6 +27,16 @@ nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
 
 /// One finding as it appears in "findings".
 nlohmann::json rate_finding_to_json(const RateFinding& f);
+
+/// The "candidates" list shared by the rate and slope documents: [{column, origin}], origin ""
+/// where `origins` is shorter than `names`. No names → [].
+nlohmann::json candidates_to_json(const std::vector<std::string>& names, const std::vector<std::string>& origins);
+
+/// The "excluded" list shared by the rate and slope documents: [{column, reason}]. Empty → [].
+nlohmann::json excluded_to_json(const std::vector<Exclusion>& excluded);
+
+/// The per-class counts of a "summary": every class name with 0.
+nlohmann::json empty_class_counts();
 
 /// The "summary" object alone (counts by class, reversals); zero counts for an empty result.
 nlohmann::json scan_to_json_summary(const ScanResult& result);

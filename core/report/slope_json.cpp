@@ -123,18 +123,9 @@ json slope_scan_to_json(const SlopeScanResult& r, const DataInfo& data) {
                      {"covariates", q.covariates},
                      {"linear_probability", lp}};
     j["settings"] = {{"alpha", q.alpha}, {"bootstrap", q.bootstrap}, {"seed", q.seed}};
-    json cands = json::array();
-    for (std::size_t i = 0; i < r.candidates.size(); ++i)
-        cands.push_back({{"column", r.candidates[i]},
-                         {"origin", i < r.candidate_origin.size() ? r.candidate_origin[i] : ""}});
-    j["candidates"] = std::move(cands);
-    json ex = json::array();
-    for (const auto& e : r.excluded) ex.push_back({{"column", e.column}, {"reason", e.reason}});
-    j["excluded"] = std::move(ex);
-    json counts = json::object();
-    for (auto c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
-                   FindingClass::Heterogeneous, FindingClass::Stable})
-        counts[std::string(to_string(c))] = 0;
+    j["candidates"] = candidates_to_json(r.candidates, r.candidate_origin);
+    j["excluded"] = excluded_to_json(r.excluded);
+    json counts = empty_class_counts();
     json reversals = json::array();
     json findings = json::array();
     for (const auto& f : r.findings) {

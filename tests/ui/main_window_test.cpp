@@ -1,4 +1,6 @@
 // tests/ui/main_window_test.cpp <-> ui/main_window.h (and the path through every step)
+#include "core/io/project_file.h"  // core before Qt (see DEVELOPERS.md)
+
 #include <QAction>
 #include <QLabel>
 #include <QSettings>
@@ -227,6 +229,51 @@ private slots:
         }
         QVERIFY(f->points.size() <= 4000 && !f->points.empty());
         QVERIFY(f->points_note.contains("drawn"));
+    }
+
+    void trend_project_opens_with_its_decision() {
+        const QString audit = find_sample("retail_audit.foldline");
+        if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
+        MainWindow w;
+        QVERIFY(w.open_project(audit).ok());
+        auto restored = [&] {
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.slope && g.strata == QStringList{"store_format"})
+                    return g.decision == Decision::Upheld && g.note.contains("trading desk");
+            return false;
+        };
+        QTRY_VERIFY_WITH_TIMEOUT(restored(), 120000);
+        QVERIFY(w.question_page()->spec().slope);
+        QCOMPARE(w.project_path(), audit);
+        // Saved again from the workbench, it is still a version 2 trend audit with the same
+        // question, decision and note (memo settings kept from the opened file).
+        QTemporaryDir dir;
+        const QString copy = dir.filePath("again.foldline");
+        QVERIFY(w.save_project_to(copy).ok());
+        auto p = project::load_project(copy.toStdString());
+        QVERIFY(p.ok());
+        QCOMPARE(p->question.kind, project::QuestionKind::Slope);
+        QCOMPARE(p->memo.analyst, std::string("Trading analytics desk (fictional)"));
+        const auto* r = p->review(project::slope_key({"store_format"}, "promo_spend", "weekly_sales"));
+        QVERIFY(r && r->decision == Decision::Upheld && r->saved_class == FindingClass::Reversal);
+        QVERIFY(w.data_change().isEmpty());
+
+        // The data file grew by one row since the save: the reopened audit says what changed.
+        QFile::copy(find_sample("retail_weeks.csv"), dir.filePath("retail_weeks.csv"));
+        {
+            QFile data(dir.filePath("retail_weeks.csv"));
+            QVERIFY(data.open(QIODevice::Append));
+            data.write("kiosk,Lowmarch,Q1,300.5,7000.25,240\n");
+        }
+        auto moved = project::load_project(audit.toStdString());
+        QVERIFY(moved.ok());
+        moved->data.path = dir.filePath("retail_weeks.csv").toStdString();
+        QVERIFY(project::save_project(*moved, dir.filePath("grown.foldline").toStdString()).ok());
+        MainWindow again;
+        QVERIFY(again.open_project(dir.filePath("grown.foldline")).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(!again.data_change().isEmpty(), 120000);
+        QVERIFY2(again.data_change().contains(QStringLiteral("rows: 5,000 \u2192 5,001")), qPrintable(again.data_change()));
+        QVERIFY(again.data_change().contains(QStringLiteral("same columns")));
     }
 };
 

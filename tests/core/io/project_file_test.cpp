@@ -350,3 +350,114 @@ TEST(ProjectFile, DataCheckReportsWhatChanged) {
     EXPECT_TRUE(gone.missing);
     EXPECT_NE(gone.message.find("cannot be read"), std::string::npos);
 }
+
+// Trend audits (version 2): a slope question with covariates, trend checks beside a rate
+// question, and slope decisions keyed by project::slope_key.
+TEST(ProjectFile, TrendProjectSaveLoadSaveIsByteIdentical) {
+    TempDir t("trend");
+    spit(t.path / "weeks.csv", "store,promo,sales,footfall\nkiosk,1.5,20,3\nmall,2.5,40,5\n");
+    const auto file = (t.path / "trend.foldline").string();
+    Project p;
+    p.data.path = (t.path / "weeks.csv").string();
+    p.question.kind = QuestionKind::Slope;
+    p.question.outcome = "sales";
+    p.question.exposure = "promo";
+    p.question.covariates = {"footfall", "<b>x</b>"};
+    p.scan.slope_bootstrap = 150;
+    p.scan.pairs = false;
+    auto& r = p.review_for(slope_key({"store"}, "promo", "sales"));
+    r.saved_class = FindingClass::Reversal;
+    r.decision = Decision::FollowUp;
+    r.note = "Spend is pushed in weak weeks; ask the trading desk.\n\u05e9\u05dc\u05d5\u05dd";
+    ASSERT_EQ(required_version(p), 2);
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string first = slurp(file);
+    EXPECT_NE(first.find("\"version\": 2"), std::string::npos);
+    EXPECT_NE(first.find("\"kind\": \"slope\""), std::string::npos);
+    auto loaded = load_project(file);
+    ASSERT_TRUE(loaded.ok()) << loaded.error().to_string();
+    ASSERT_TRUE(save_project(*loaded, file).ok());
+    EXPECT_EQ(slurp(file), first);
+    EXPECT_EQ(loaded->question.kind, QuestionKind::Slope);
+    EXPECT_EQ(loaded->question.covariates, (std::vector<std::string>{"footfall", "<b>x</b>"}));
+    EXPECT_EQ(loaded->scan.slope_bootstrap, 150);
+    EXPECT_FALSE(loaded->trend.has_value());
+    const auto* rv = loaded->review(slope_key({"store"}, "promo", "sales"));
+    ASSERT_NE(rv, nullptr);
+    EXPECT_EQ(rv->key.comparison, "sales on promo");
+    EXPECT_EQ(rv->decision, Decision::FollowUp);
+    EXPECT_EQ(rv->saved_class, FindingClass::Reversal);
+    EXPECT_EQ(rv->note, r.note);
+
+    // Trend checks beside a rate question.
+    Project q = full_project(t.path / "weeks.csv");
+    q.trend = TrendSettings{"promo", "sales", {}};
+    ASSERT_TRUE(save_project(q, file).ok());
+    const std::string second = slurp(file);
+    auto again = load_project(file);
+    ASSERT_TRUE(again.ok()) << again.error().to_string();
+    ASSERT_TRUE(again->trend.has_value());
+    EXPECT_EQ(*again->trend, *q.trend);
+    EXPECT_EQ(again->question.kind, QuestionKind::Rate);
+    ASSERT_TRUE(save_project(*again, file).ok());
+    EXPECT_EQ(slurp(file), second);
+}
+
+TEST(ProjectFile, RateProjectsStayVersionOneAndOldFilesLoad) {
+    // A rate audit is written as version 1 with no version 2 key, so its bytes do not change and
+    // a build that reads only version 1 still opens it.
+    TempDir t("v1");
+    const auto file = (t.path / "rate.foldline").string();
+    const Project p = full_project(t.path / "d.csv");
+    EXPECT_EQ(required_version(p), 1);
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string text = slurp(file);
+    EXPECT_NE(text.find("\"version\": 1"), std::string::npos);
+    for (const char* key : {"\"trend\"", "\"slope_bootstrap\"", "\"covariates\""})
+        EXPECT_EQ(text.find(key), std::string::npos) << key;
+    const auto question = text.find("\"question\": {");
+    ASSERT_NE(question, std::string::npos);
+    EXPECT_EQ(text.substr(question, text.find('}', question) - question).find("\"kind\""), std::string::npos);
+    // A hand-written version 1 file without the version 2 keys reads as a rate question.
+    auto old = parse_project(R"({"format": "foldline-project", "version": 1, "data": {"path": "d.csv"},
+                                 "question": {"outcome": "ok", "exposure": "group"}})",
+                             (t.path / "old.foldline").string());
+    ASSERT_TRUE(old.ok()) << old.error().to_string();
+    EXPECT_EQ(old->question.kind, QuestionKind::Rate);
+    EXPECT_FALSE(old->trend.has_value());
+    EXPECT_EQ(old->scan.slope_bootstrap, 0);
+    // The committed sample projects (written before trend audits) still load.
+    for (const char* sample : {"lender_audit.foldline", "clinic_audit.foldline"}) {
+        auto s = load_project(std::string(FOLDLINE_SOURCE_DIR) + "/sample_data/" + sample);
+        EXPECT_TRUE(s.ok()) << sample << ": " << (s.ok() ? "" : s.error().to_string());
+    }
+}
+
+TEST(ProjectFile, TrendFieldsGiveClearErrors) {
+    struct Case {
+        std::string text, expect;
+    };
+    const std::string head = R"({"format": "foldline-project", "version": 2, "data": {"path": "d.csv"}, )";
+    const std::vector<Case> cases = {
+        {head + R"("question": {"kind": "ratio", "outcome": "y", "exposure": "x"}})", "question.kind"},
+        {head + R"("question": {"kind": "slope", "outcome": "y", "exposure": "x", "positive": "1"}})",
+         "a slope question has no positive"},
+        {head + R"("question": {"kind": "slope", "outcome": "y", "exposure": "x", "covariates": "z"}})",
+         "question.covariates: expected a list of strings"},
+        {head + R"("question": {"outcome": "y", "exposure": "x"}, "trend": {"y": "s"}})", "trend.x: missing"},
+        {head + R"("question": {"outcome": "y", "exposure": "x"}, "trend": {"x": "", "y": "s"}})",
+         "trend: x and y must name"},
+        {head + R"("question": {"outcome": "y", "exposure": "x"}, "trend": [1]})", "trend: expected an object"},
+        {head + R"("question": {"outcome": "y", "exposure": "x"}, "scan": {"slope_bootstrap": -1}})",
+         "scan.slope_bootstrap: number out of range"},
+    };
+    for (const auto& c : cases) {
+        auto r = parse_project(c.text, "x.foldline");
+        ASSERT_FALSE(r.ok()) << c.text;
+        EXPECT_NE(r.error().message.find(c.expect), std::string::npos) << r.error().message;
+    }
+    // A version this build does not know is refused whatever it holds.
+    auto newer = parse_project(R"({"format": "foldline-project", "version": 3})", "x.foldline");
+    ASSERT_FALSE(newer.ok());
+    EXPECT_NE(newer.error().message.find("reads up to version 2"), std::string::npos) << newer.error().message;
+}

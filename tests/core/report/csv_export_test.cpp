@@ -6,6 +6,7 @@
 
 #include "core/io/csv_reader.h"
 #include "core/scan/rate_scan.h"
+#include "core/scan/slope_scan.h"
 
 using namespace foldline;
 using namespace foldline::report;
@@ -67,4 +68,59 @@ TEST(CsvExport, RowsPerFindingAndStratumReadBackExactly) {
 
     ScanResult empty;
     EXPECT_EQ(findings_csv(empty).find("\r\n"), findings_csv(empty).size() - 2);  // header only
+}
+
+TEST(CsvExport, SlopeFindingsAndTheirStrataReadBackExactly) {
+    // Two stores with three weeks each: within "a,b" y = 2x (slope Sxy/Sxx = 4/2 = 2), within
+    // "<i>m</i>" y = 4 - x (slope -2/2 = -1); least-squares slopes worked by hand from the
+    // textbook formula b = Sxy / Sxx.
+    auto t = read_csv_text("store,x,y\n\"a,b\",1,2\n\"a,b\",2,4\n\"a,b\",3,6\n<i>m</i>,1,3\n<i>m</i>,2,2\n<i>m</i>,3,1\n",
+                           "weeks.csv");
+    ASSERT_TRUE(t.ok()) << t.error().to_string();
+    SlopeQuestion q;
+    q.x = "x";
+    q.y = "y";
+    auto f = check_slope(*t, q, {t->column("store")});
+    ASSERT_TRUE(f.ok()) << f.error().to_string();
+    ScanResult r;
+    r.slope_question = q;
+    r.slope_findings = {*f, *f};
+    project::Project p;
+    auto& rv = p.review_for(project::slope_key({"store"}, "x", "y"));
+    rv.decision = Decision::FollowUp;
+    rv.note = "weak weeks, \"promo\" pushed\nask the desk";
+
+    const std::string findings = slope_findings_csv(r, &p);
+    auto ft = read_csv_text(findings, "slope-findings.csv");
+    ASSERT_TRUE(ft.ok()) << ft.error().to_string();
+    EXPECT_EQ(ft->rows, 2u);
+    EXPECT_EQ(ft->column("kind")->levels.at(0), "slope");
+    EXPECT_EQ(ft->column("decision")->levels.at(0), "follow up");
+    EXPECT_EQ(ft->column("note")->levels.at(0), rv.note);
+    EXPECT_DOUBLE_EQ(ft->column("pooled_slope")->values[0], f->pooled.slope);
+    EXPECT_DOUBLE_EQ(ft->column("strata_count")->values[0], 2);
+    // The within slope pools the two groups' Sxy and Sxx: (4 - 2) / (2 + 2) = 0.5.
+    EXPECT_NEAR(ft->column("within_slope")->values[0], 0.5, 1e-9);
+
+    const std::string strata = slope_strata_csv(r);
+    auto st = read_csv_text(strata, "slope-strata.csv");
+    ASSERT_TRUE(st.ok()) << st.error().to_string();
+    EXPECT_EQ(st->rows, 4u);  // 2 strata x 2 findings
+    const Column* level = st->column("stratum");
+    ASSERT_NE(level, nullptr);
+    EXPECT_EQ(level->levels.at(0), "a,b");
+    EXPECT_EQ(level->levels.at(1), "<i>m</i>");
+    EXPECT_NEAR(st->column("slope")->values[0], 2.0, 1e-12);
+    EXPECT_NEAR(st->column("slope")->values[1], -1.0, 1e-12);
+    EXPECT_DOUBLE_EQ(st->column("n")->values[0], 3);
+
+    // Which files a scan writes: a trend-only scan its slope pair, a rate scan with trend checks
+    // both pairs, an empty scan the rate pair.
+    EXPECT_EQ(csv_export_paths(r, "out"), (std::vector<std::string>{"out-slope-findings.csv", "out-slope-strata.csv"}));
+    ScanResult both = r;
+    both.question.outcome = "approved";
+    EXPECT_EQ(csv_export_paths(both, "out").size(), 4u);
+    EXPECT_EQ(csv_export_paths(ScanResult{}, "out"), (std::vector<std::string>{"out-findings.csv", "out-strata.csv"}));
+    ScanResult none;
+    EXPECT_EQ(slope_findings_csv(none).find("\r\n"), slope_findings_csv(none).size() - 2);  // header only
 }
