@@ -21,14 +21,27 @@ std::string quoted_cell(std::string_view text) {
 }
 
 inline void encode_level(const ChunkPlan& plan, ChunkColumn& col, const CsvField& f, std::string& scratch) {
-    const std::string_view v = field_text(f, scratch);
+    // The usual cell (not quoted-with-escapes) is tested for escapes once, and its text stays in
+    // the input, so the dictionary keeps a view of it.
+    if (!f.escaped) [[likely]] {
+        const std::string_view v = f.raw();
+        if (plan.missing(v)) {
+            col.codes.push_missing();
+            ++col.missing;
+        } else if (static_cast<std::size_t>(plan.data + plan.size - f.data) >= 16) {
+            col.codes.push(col.dict.intern_padded(v));
+        } else {
+            col.codes.push(col.dict.intern(v, true));
+        }
+        return;
+    }
+    const std::string_view v = unescape_field(f, scratch);
     if (plan.missing(v)) {
         col.codes.push_missing();
         ++col.missing;
         return;
     }
-    if (!f.escaped && f.data + 16 <= plan.data + plan.size) col.codes.push(col.dict.intern_padded(v));
-    else col.codes.push(col.dict.intern(v, !f.escaped));
+    col.codes.push(col.dict.intern(v, false));
 }
 
 // Position of the first invalid UTF-8 byte of a level just added, or npos.

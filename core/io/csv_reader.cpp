@@ -1,12 +1,14 @@
 #include "core/io/csv_reader.h"
 
 #include <algorithm>
+#include <array>
 #include <atomic>
 #include <cstring>
 #include <cstdio>
 #include <mutex>
 #include <set>
 #include <thread>
+#include <type_traits>
 #include <unordered_set>
 
 #include <sys/mman.h>
@@ -135,15 +137,26 @@ Column assemble_numeric(std::string name, std::vector<Chunk>& chunks, std::size_
     return col;
 }
 
+// Writes the chunk's codes as global codes from `out` on; returns the end of what it wrote.
+// One-byte local codes go through a 256-entry table (the missing mark included), so the loop
+// is a load and a store per cell.
 template <typename Code>
-void remap_into(std::vector<Code>& out, const LocalCodes& local, const std::vector<std::uint32_t>& to_global,
-                Code missing) {
+Code* remap_into(Code* out, const LocalCodes& local, const std::vector<std::uint32_t>& to_global, Code missing) {
     local.visit([&](const auto& v, auto local_missing) {
-        for (auto x : v) out.push_back(x == local_missing ? missing : static_cast<Code>(to_global[x]));
+        using Local = std::remove_cvref_t<decltype(local_missing)>;
+        if constexpr (std::is_same_v<Local, std::uint8_t>) {
+            std::array<Code, 256> table;
+            table.fill(missing);
+            for (std::size_t l = 0; l < to_global.size() && l < 0xFFu; ++l) table[l] = static_cast<Code>(to_global[l]);
+            for (const std::uint8_t x : v) *out++ = table[x];
+        } else {
+            for (auto x : v) *out++ = x == local_missing ? missing : static_cast<Code>(to_global[x]);
+        }
     });
+    return out;
 }
 
-Column assemble_categorical(std::string name, std::vector<Chunk>& chunks, std::size_t c, std::size_t rows) {
+Column assemble_categorical(std::string name, std::vector<Chunk>& chunks, std::size_t c) {
     // Chunk dictionaries merged in file order give the levels in order of first appearance.
     LevelDictionary global;
     std::vector<std::vector<std::uint32_t>> to_global(chunks.size());
@@ -159,12 +172,16 @@ Column assemble_categorical(std::string name, std::vector<Chunk>& chunks, std::s
     const std::size_t n = col.levels.size();
     auto fill = [&](auto tag) {
         using Code = decltype(tag);
+        std::size_t cells = 0;
+        for (const auto& ch : chunks) cells += ch.cols[c].codes.size();  // == rows
         std::vector<Code> out;
-        out.reserve(rows);
-        prefer_huge_pages(out.data(), rows * sizeof(Code));
+        out.reserve(cells);
+        prefer_huge_pages(out.data(), cells * sizeof(Code));
+        out.resize(cells);
+        Code* at = out.data();
         for (std::size_t k = 0; k < chunks.size(); ++k) {
             auto& piece = chunks[k].cols[c];
-            remap_into(out, piece.codes, to_global[k], static_cast<Code>(n));
+            at = remap_into(at, piece.codes, to_global[k], static_cast<Code>(n));
             col.missing_count += piece.missing;
             piece.codes.clear();
         }
@@ -382,7 +399,7 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     // Assemble columns (independent of each other, so in parallel).
     std::vector<Column> assembled(ncols);
     run_tasks(ncols, threads, [&](std::size_t c) {
-        assembled[c] = categorical[c] ? assemble_categorical(names[c], chunks, c, rows)
+        assembled[c] = categorical[c] ? assemble_categorical(names[c], chunks, c)
                                       : assemble_numeric(names[c], chunks, c, rows);
     });
     Table table;
