@@ -4,7 +4,6 @@
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
-#include "core/stats/fdr.h"
 #include "core/common/sha256.h"
 #include "core/io/project_file.h"
 #include "core/report/memo_content.h"
@@ -229,24 +228,22 @@ Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const 
         }
         return findings.error();
     }
-    // Benjamini-Hochberg over the scan, then each class re-decided with its q-value.
-    std::vector<double> p;
-    for (const SlopeFinding& f : *findings) p.push_back(std::isfinite(f.p_reversal) ? f.p_reversal : 1.0);
-    const std::vector<double> qv = stats::benjamini_hochberg(p);
-    for (std::size_t i = 0; i < findings->size(); ++i) {
-        (*findings)[i].q_value = qv[i];
-        classify((*findings)[i], q.alpha);
+    // The same result `foldline scan` builds for a slope question (app/cli slope_audit): the
+    // scan's FDR step and ranking, so the workbench, its memo and the CLI agree finding by finding.
+    auto result = std::make_shared<ScanResult>();
+    result->slope_question = sq;
+    result->excluded = candidates->excluded;
+    for (const Candidate& c : candidates->candidates) {
+        result->candidates.push_back(c.name);
+        result->candidate_origin.push_back(c.origin);
     }
-    std::vector<std::size_t> order(findings->size());
-    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
-    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
-        const auto& fa = (*findings)[a];
-        const auto& fb = (*findings)[b];
-        if (fa.finding_class != fb.finding_class) return rank(fa.finding_class) < rank(fb.finding_class);
-        return fa.q_value < fb.q_value;
-    });
-    for (std::size_t i : order) {
-        const SlopeFinding& f = (*findings)[i];
+    result->rows = t.total_weight();
+    result->alpha = sq.alpha;
+    result->seed = sq.seed;
+    result->slope_findings = std::move(*findings);
+    apply_fdr(*result);
+    rank_findings(*result);
+    for (const SlopeFinding& f : result->slope_findings) {
         std::vector<const Column*> strata;
         for (const auto& name : f.strata)
             for (const Candidate& c : candidates->candidates)
@@ -256,6 +253,7 @@ Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const 
         out.findings.push_back(std::move(v));
     }
     for (const Exclusion& e : candidates->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
+    out.result = std::move(result);
     return out;
 }
 
@@ -353,7 +351,7 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
     if (!result) return result.error();
     ScanOutcome out;
     out.cancelled = result->cancelled;
-    out.rate_result = std::make_shared<const ScanResult>(*result);
+    out.result = std::make_shared<const ScanResult>(*result);
     for (const RateFinding& r : result->rate_findings) out.findings.push_back(to_view(r));
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
     return out;
@@ -374,34 +372,57 @@ Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const Q
     return make_error("the engine gave no figure for that set");
 }
 
-Status export_memo(const MemoRequest& request, const QString& path) {
-    if (!request.scan) return make_error("the memo needs a finished rate scan", path.toStdString());
+namespace {
+
+/// The memo's content, built by core/report exactly as `foldline memo` builds it.
+report::MemoContent memo_content(const MemoRequest& request) {
     const ScanResult& scan = *request.scan;
     project::Project proj;
-    proj.memo.title = request.title.toStdString();
-    if (request.diagram) proj.diagrams.push_back({"as drawn", *request.diagram});
-    for (const FindingView& f : request.reviewed) {
-        if (f.slope || (f.decision == Decision::Undecided && f.note.isEmpty())) continue;
-        std::vector<std::string> strata;
-        for (const QString& s : f.strata) strata.push_back(s.toStdString());
-        project::FindingReview& r = proj.review_for(project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString()));
-        r.decision = f.decision;
-        r.note = f.note.toStdString();
+    if (request.project) {
+        proj = *request.project;
+    } else {
+        proj.memo.title = request.title.toStdString();
+        if (request.diagram) proj.diagrams.push_back({"as drawn", *request.diagram});
+        for (const FindingView& f : request.reviewed) {
+            if (f.decision == Decision::Undecided && f.note.isEmpty()) continue;
+            std::vector<std::string> strata;
+            for (const QString& s : f.strata) strata.push_back(s.toStdString());
+            const std::string a = f.focal.toStdString(), b = f.reference.toStdString();
+            project::FindingReview& r =
+                proj.review_for(f.slope ? project::slope_key(strata, a, b) : project::rate_key(strata, a, b));
+            r.decision = f.decision;
+            r.note = f.note.toStdString();
+        }
     }
     report::MemoInput in;
     in.scan = &scan;
     in.data.path = request.data_path.toStdString();
     in.data.rows = request.rows;
-    if (auto h = sha256_file(in.data.path)) in.data.sha256 = *h;
+    if (request.project && !request.project->data.sha256.empty()) in.data.sha256 = request.project->data.sha256;
+    else if (auto h = sha256_file(in.data.path)) in.data.sha256 = *h;
     in.project = &proj;
-    in.date = QDate::currentDate().toString(Qt::ISODate).toStdString();
-    if (request.diagram)
-        if (auto graph = causal::CausalGraph::build(*request.diagram))
+    in.table = request.table;
+    in.date = (request.date.isEmpty() ? QDate::currentDate().toString(Qt::ISODate) : request.date).toStdString();
+    // Rate verdicts as `foldline run` decides them; slope verdicts are decided inside build_memo.
+    if (const causal::Diagram* d = proj.diagram())
+        if (auto graph = causal::CausalGraph::build(*d))
             for (const RateFinding& f : scan.rate_findings) {
                 auto v = causal::decide(*graph, scan.question.exposure, scan.question.outcome, f.strata);
                 in.verdicts.push_back(v ? std::optional<causal::Verdict>(*v) : std::nullopt);
             }
-    return write_memo_pdf(report::build_memo(in), path.toStdString());
+    return report::build_memo(in);
+}
+
+}  // namespace
+
+Status export_memo(const MemoRequest& request, const QString& path) {
+    if (!request.scan) return make_error("the memo needs a finished scan", path.toStdString());
+    return write_memo_pdf(memo_content(request), path.toStdString());
+}
+
+QImage memo_preview(const MemoRequest& request, int width_px) {
+    if (!request.scan || width_px <= 0) return {};
+    return memo_page_image(memo_content(request), 1, width_px);
 }
 
 }  // namespace foldline::ui

@@ -2,6 +2,7 @@
 // The one place the workbench calls the engines in core/: loading, the question, the scan and
 // the causal verdict. Everything returns plain values; nothing here touches widgets, so every
 // call may run on a worker thread.
+#include <QImage>
 #include <QString>
 #include <QStringList>
 #include <functional>
@@ -21,6 +22,10 @@ struct ScanResult;
 
 namespace foldline::causal {
 struct Diagram;
+}
+
+namespace foldline::project {
+struct Project;
 }
 
 namespace foldline::ui {
@@ -71,21 +76,32 @@ struct ScanOutcome {
     std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
     QStringList excluded;               ///< "column: reason"
     bool cancelled = false;
-    std::shared_ptr<const ScanResult> rate_result;  ///< the engine's own result (rates), for the memo
+    std::shared_ptr<const ScanResult> result;  ///< the engine's own result (rates or slopes), for the memo
 };
 
 /// What the PDF memo is made from, beyond the scan itself.
 struct MemoRequest {
-    std::shared_ptr<const ScanResult> scan;  ///< a rate scan; null → Error
+    std::shared_ptr<const ScanResult> scan;  ///< a finished rate or slope scan; null → Error
     QString data_path;                       ///< hashed for the memo's facts when it is a file
     double rows = 0;
+    /// The audit as it would be saved (MainWindow::current_project): title, analyst, page size,
+    /// decisions, notes, memo choices and the diagram. When set, `reviewed`, `diagram` and
+    /// `title` are not used.
+    const project::Project* project = nullptr;
+    const Table* table = nullptr;            ///< the rows, for the trend charts; null → no trend charts
     std::vector<FindingView> reviewed;       ///< findings with the reviewer's decisions and notes
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
     QString title;
+    QString date;                            ///< YYYY-MM-DD; empty → today
 };
 
-/// Writes the memo as a PDF (atomically) through core/report and ui/memo. Error names the file.
+/// Writes the memo as a PDF (atomically) through core/report and ui/memo — the same content
+/// builder and writer `foldline memo` uses. Error names the file; no scan → Error.
 Status export_memo(const MemoRequest& request, const QString& path);
+
+/// Page 1 of the memo `request` would write, `width_px` wide, for the preview beside the menu
+/// action. Null image when there is no scan or width_px <= 0.
+QImage memo_preview(const MemoRequest& request, int width_px);
 
 /// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
 /// the calling thread; class still decided on the raw p, before the FDR step and the

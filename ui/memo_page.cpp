@@ -2,6 +2,9 @@
 
 #include <QDateTime>
 #include <QHBoxLayout>
+#include <QLabel>
+#include <QScrollArea>
+#include <QSplitter>
 #include <QPushButton>
 #include <QTextBrowser>
 #include <QVBoxLayout>
@@ -23,14 +26,38 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
     auto* row = new QHBoxLayout;
     row->addStretch();
     row->addWidget(pdf);
+    preview_ = new QLabel;
+    preview_->setObjectName(QStringLiteral("memo_page_preview"));
+    preview_->setAlignment(Qt::AlignHCenter | Qt::AlignTop);
+    preview_->setToolTip(tr("Page 1 of the PDF memo as it will be written"));
+    auto* scroll = new QScrollArea;
+    scroll->setWidget(preview_);
+    scroll->setWidgetResizable(true);
+    auto* split = new QSplitter;
+    split->addWidget(text_);
+    split->addWidget(scroll);
+    split->setStretchFactor(0, 3);
+    split->setStretchFactor(1, 2);
     auto* lay = new QVBoxLayout(this);
     lay->addWidget(new CautionBand);
-    lay->addWidget(text_, 1);
+    lay->addWidget(split, 1);
     lay->addLayout(row);
     refresh({}, nullptr);
+    set_page_preview({});
 }
 
 QString MemoPage::html() const { return text_->toHtml(); }
+
+void MemoPage::set_page_preview(const QImage& page) {
+    page_ = page;
+    if (page.isNull()) {
+        preview_->setPixmap({});
+        preview_->setText(tr("Page 1 of the PDF memo appears here once a scan has finished."));
+    } else {
+        preview_->setText({});
+        preview_->setPixmap(QPixmap::fromImage(page));
+    }
+}
 
 void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     auto esc = [](const QString& s) { return s.toHtmlEscaped(); };

@@ -279,8 +279,11 @@ void QuestionPage::refresh_candidates() {
     const bool was = filling_;
     filling_ = true;
     QStringList previously_off;
+    // Only columns the user could untick count as switched off: one shown as the outcome or the
+    // groups a moment ago (while a question is being set) is ticked again once it qualifies.
     for (int i = 0; i < candidates_->count(); ++i)
-        if (candidates_->item(i)->checkState() == Qt::Unchecked) previously_off << candidates_->item(i)->data(Qt::UserRole).toString();
+        if ((candidates_->item(i)->flags() & Qt::ItemIsUserCheckable) && candidates_->item(i)->checkState() == Qt::Unchecked)
+            previously_off << candidates_->item(i)->data(Qt::UserRole).toString();
     candidates_->clear();
     if (table_) {
         QuestionSpec q;
@@ -333,11 +336,12 @@ void QuestionPage::set_spec(const QuestionSpec& q) {
     exposure_->setCurrentText(q.exposure);
     focal_->setCurrentText(q.focal);
     reference_->setCurrentText(q.reference);
-    if (!q.candidates.isEmpty())
-        for (int i = 0; i < candidates_->count(); ++i)
-            if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
-                candidates_->item(i)->setCheckState(q.candidates.contains(candidates_->item(i)->data(Qt::UserRole).toString())
-                                                        ? Qt::Checked : Qt::Unchecked);
+    // No list = every usable column (a saved audit's "auto"), as `foldline run` reads it.
+    for (int i = 0; i < candidates_->count(); ++i)
+        if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
+            candidates_->item(i)->setCheckState(q.candidates.isEmpty() ||
+                                                        q.candidates.contains(candidates_->item(i)->data(Qt::UserRole).toString())
+                                                    ? Qt::Checked : Qt::Unchecked);
     pairs_->setChecked(q.pairs);
     bins_->setValue(q.bins);
     alpha_->setValue(q.alpha);

@@ -324,7 +324,9 @@ int run(int argc, char** argv) {
             return fail(kName, kInput, st.error().to_string());
         }
     }
-    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", "")); rc != kOk)
+    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", ""),
+                                      from_db ? nullptr : &*table);
+        rc != kOk)
         return rc;
     const auto t3 = clock::now();
     print_summary(human, *result, path, static_cast<std::size_t>(top));

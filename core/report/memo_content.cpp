@@ -1,4 +1,5 @@
 #include "core/report/memo_content.h"
+#include "core/report/slope_chart.h"
 
 #include <cmath>
 #include <cstdio>
@@ -541,6 +542,9 @@ MemoContent build_memo(const MemoInput& in) {
         sec.lead = slope_lead(f);
         sec.figures = slope_figures(f, r.alpha);
         sec.strata = slope_strata(f);
+        if (in.table)
+            sec.scatter = slope_chart(*in.table, f, p ? p->scan.bins : 4,
+                                      p ? static_cast<std::size_t>(p->scan.max_levels) : 50);
         std::optional<causal::Verdict> v;
         std::string why;
         if (graph) {
@@ -573,8 +577,8 @@ MemoContent build_memo(const MemoInput& in) {
         m.sections.push_back(std::move(sec));
     }
 
-    // Method notes: enough to reproduce.
-    m.method_notes = {
+    // Method notes: enough to reproduce; the rate estimators only when rates were compared.
+    std::vector<std::string> rate_notes = {
         "Rates carry Wilson score intervals (Wilson 1927); differences of two rates, Newcombe's hybrid score "
         "interval (Newcombe 1998, method 10).",
         "Adjusted figures: Mantel-Haenszel odds ratio with the Robins-Breslow-Greenland interval, Mantel-Haenszel "
@@ -590,6 +594,23 @@ MemoContent build_memo(const MemoInput& in) {
                               " multinomial bootstrap resamples of each flagged finding's count table that keep its "
                               "class; seed " + std::to_string(r.seed) + "."
                         : "Stability: not computed (bootstrap off).",
+    };
+    m.method_notes = rates ? rate_notes : std::vector<std::string>{};
+    if (slopes)
+        m.method_notes.push_back(
+            "Trends: ordinary least squares slope of " + sq.y + " on " + sq.x +
+            ", pooled and with one intercept per stratum (fixed effects); Student t intervals; the F-test of equal "
+            "slopes; a reversal needs both slopes significant on opposite sides (intersection-union test); its "
+            "p-values are corrected with Benjamini-Hochberg over all " +
+            std::to_string(r.rate_findings.size() + r.slope_findings.size()) +
+            " checks at a false discovery rate of " + fixed(r.alpha, 2) + "." +
+            (sq.covariates.empty() ? std::string()
+                                   : " Pooled and within slopes are adjusted for " + joined(sq.covariates, ", ") +
+                                         " (multiple regression); the stratum slopes are not.") +
+            (sq.bootstrap > 0 ? " Stability from " + std::to_string(sq.bootstrap) + " resamples, seed " +
+                                    std::to_string(sq.seed) + "."
+                              : ""));
+    const std::vector<std::string> common_notes = {
         "Candidate columns: " + (r.candidates.empty() ? std::string("none") : joined(r.candidates, ", ")) + "." +
             (r.excluded.empty() ? std::string()
                                 : " Left out: " + [&] {
@@ -599,21 +620,15 @@ MemoContent build_memo(const MemoInput& in) {
                                                r.excluded[i].reason + ")";
                                       return e;
                                   }() + "."),
-        "Decomposition of the pooled gap: Kitagawa (1955) in the symmetric form of Das Gupta (1993). E-values: "
-        "VanderWeele & Ding (2017). Which view answers the question: the adjustment criterion on the reviewer's "
-        "causal diagram (Pearl's back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
+        std::string(rates ? "Decomposition of the pooled gap: Kitagawa (1955) in the symmetric form of Das Gupta "
+                            "(1993). E-values: VanderWeele & Ding (2017). "
+                          : "") +
+            "Which view answers the question: the adjustment criterion on the reviewer's causal diagram (Pearl's "
+            "back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
         "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
             ". The audit re-runs from its project file with `foldline run PROJECT`.",
     };
-    if (slopes)
-        m.method_notes.push_back(
-            "Trends: ordinary least squares slope of " + sq.y + " on " + sq.x +
-            ", pooled and with one intercept per stratum (fixed effects); Student t intervals; the F-test of equal "
-            "slopes; a reversal needs both slopes significant on opposite sides (intersection-union test), with "
-            "the same false discovery rate control." +
-            (sq.bootstrap > 0 ? " Stability from " + std::to_string(sq.bootstrap) + " resamples, seed " +
-                                    std::to_string(sq.seed) + "."
-                              : ""));
+    m.method_notes.insert(m.method_notes.end(), common_notes.begin(), common_notes.end());
     if (r.cancelled) m.method_notes.push_back("The scan was stopped early: the findings are incomplete.");
     m.caution = kMemoCaution;
     return m;
