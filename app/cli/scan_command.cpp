@@ -1,5 +1,6 @@
 // foldline scan: the rate-reversal scan from the command line. Prints a ranked summary and
 // writes the JSON document (core/report/scan_json.h).
+#include <algorithm>
 #include <chrono>
 #include <cmath>
 #include <cstdio>
@@ -112,7 +113,11 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     if (!r.slope_findings.empty()) {
         int sc[5] = {0, 0, 0, 0, 0};
         for (const auto& f : r.slope_findings) ++sc[rank(f.finding_class)];
-        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x << ": " << r.slope_findings.size()
+        const auto& cov = r.slope_question.covariates;
+        std::string adjusted;
+        for (std::size_t i = 0; i < cov.size(); ++i) adjusted += (i ? ", " : "") + cov[i];
+        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x
+           << (adjusted.empty() ? "" : " adjusted for " + adjusted) << ": " << r.slope_findings.size()
            << " checks: " << sc[0] << " reversal, " << sc[1] << " explained, " << sc[2] << " masked, " << sc[3]
            << " heterogeneous, " << sc[4] << " stable\n";
         std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n", "class", "strata", "pooled",
@@ -126,7 +131,8 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
             for (std::size_t i = 0; i < f.strata.size(); ++i) label += (i ? " \u00d7 " : "") + f.strata[i];
             std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
                           std::string(to_string(f.finding_class)).c_str(), label.c_str(),
-                          fmt(f.pooled.slope, "%+.4g").c_str(), fmt(f.within.slope, "%+.4g").c_str(),
+                          fmt(f.adjusted ? f.adjusted_pooled.slope : f.pooled.slope, "%+.4g").c_str(),
+                          fmt(f.adjusted ? f.adjusted_within.slope : f.within.slope, "%+.4g").c_str(),
                           qfmt(f.q_value).c_str(),
                           f.stability_draws > 0 ? fmt(f.stability, "%.2f").c_str() : "-");
             os << line;
@@ -136,6 +142,33 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
     os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
           "counsel and licensed practice.\n";
+}
+
+/// Reads --covariates C1,C2 into q.covariates (q.x and q.y set): an error message naming the
+/// column when one is empty, repeated, x or y, missing from the data or not numeric; empty = fine.
+std::string parse_covariates(const std::string& list, const Table& table, SlopeQuestion& q) {
+    std::vector<std::string> names;
+    std::size_t start = 0;
+    while (true) {
+        const std::size_t comma = list.find(',', start);
+        names.push_back(list.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
+        if (comma == std::string::npos) break;
+        start = comma + 1;
+    }
+    for (const auto& name : names) {
+        if (name.empty()) return "--covariates needs column names separated by commas (an empty name in '" + list + "')";
+        if (name == q.x || name == q.y)
+            return "--covariates column '" + name + "' is the trend's " + (name == q.x ? "exposure (x)" : "outcome (y)") +
+                   "; a covariate must be another column";
+        if (std::count(names.begin(), names.end(), name) > 1)
+            return "--covariates names column '" + name + "' twice";
+        const Column* c = table.column(name);
+        if (!c) return "--covariates column '" + name + "' not found in the data";
+        if (!c->is_numeric())
+            return "--covariates column '" + name + "' is not numeric (a covariate enters the regression as a number)";
+    }
+    q.covariates = std::move(names);
+    return {};
 }
 
 int run(int argc, char** argv) {
@@ -153,6 +186,7 @@ int run(int argc, char** argv) {
         {"diagram", true, "DIAGRAM.json"},
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
+        {"covariates", true, "C1,C2"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -161,6 +195,7 @@ int run(int argc, char** argv) {
                      "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
+                     "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
                      "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
                      "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
@@ -226,6 +261,8 @@ int run(int argc, char** argv) {
     if (from_db) {
         std::vector<std::string> required = {spec.outcome, spec.exposure};
         for (const auto& c : copt.columns) required.push_back(c);
+        if (a.has("covariates"))
+            for (const auto& c : split_list(*a.get("covariates"))) required.push_back(c);
         auto loaded = load_database_source(*a.get("source"), a.get_or("table", ""), a.get_or("query", ""), required,
                                            copt.columns.empty(), copt, ropt.count_column);
         if (loaded) {
@@ -269,6 +306,13 @@ int run(int argc, char** argv) {
             if (!col) return fail(kName, kUsage, "--trend column '" + c + "' not found");
             if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
         }
+    }
+    if (a.has("covariates")) {
+        if (sq.x.empty())
+            return fail(kName, kUsage,
+                        "--covariates adjusts a trend: give a numeric --outcome and --exposure, or --trend X:Y");
+        if (auto msg = parse_covariates(*a.get("covariates"), *table, sq); !msg.empty())
+            return fail(kName, kUsage, msg);
     }
     // A slope-only scan honours --pairs; --trend checks each single stratifier. Both go through
     // the helpers `foldline run` uses, so a saved trend audit re-runs to the same findings.
