@@ -1,6 +1,7 @@
 // Core headers first: they use `slots` as a name, which Qt defines as a keyword macro.
 #include "core/io/csv_reader.h"
 #include "core/scan/candidates.h"
+#include "core/scan/estimate_over.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
@@ -204,18 +205,26 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<co
     return f;
 }
 
-Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
-                                   const std::function<void(FindingView)>& on_provisional) {
+SlopeQuestion slope_question(const QuestionSpec& q) {
     SlopeQuestion sq;
     sq.x = q.exposure.toStdString();
     sq.y = q.outcome.toStdString();
+    for (const QString& c : q.covariates) sq.covariates.push_back(c.toStdString());
     sq.alpha = q.alpha;
     sq.bootstrap = q.bootstrap;
     sq.seed = q.seed;
+    return sq;
+}
+
+Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
+                                   const std::function<void(FindingView)>& on_provisional) {
+    const SlopeQuestion sq = slope_question(q);
     CandidateOptions copts;
     copts.bins = q.bins;
     for (const QString& c : q.candidates) copts.columns.push_back(c.toStdString());
-    auto candidates = select_candidates(t, {sq.x, sq.y}, copts, nullptr);
+    std::vector<std::string> skip = {sq.x, sq.y};
+    skip.insert(skip.end(), sq.covariates.begin(), sq.covariates.end());
+    auto candidates = select_candidates(t, skip, copts, nullptr);
     if (!candidates) return candidates.error();
     std::vector<const Column*> cols;
     for (const Candidate& c : candidates->candidates) cols.push_back(c.column);
@@ -359,17 +368,26 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
 
 Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set) {
     if (set.isEmpty()) return make_error("the empty set needs no adjustment: the pooled figure applies");
-    if (set.size() > 2) return make_error("standardising over more than two columns is not offered yet");
-    QuestionSpec one = q;
-    one.candidates = set;
-    one.pairs = set.size() == 2;
-    one.bootstrap = 0;
-    auto out = run_scan(t, one, Work{}, {});
-    if (!out) return out.error();
-    for (FindingView& f : out->findings)
-        if (f.strata.size() == set.size() && std::is_permutation(f.strata.begin(), f.strata.end(), set.begin()))
-            return std::move(f);
-    return make_error("the engine gave no figure for that set");
+    std::vector<std::string> names;
+    for (const QString& s : set) names.push_back(s.toStdString());
+    FindingView f;
+    f.strata = set;
+    f.slope = q.slope;
+    Result<EstimateOver> e = make_error("not computed");
+    if (q.slope) {
+        f.adjusted_name = QObject::tr("within-stratum slope");
+        e = within_slope_over(t, slope_question(q), names, q.bins);
+    } else {
+        f.adjusted_name = QObject::tr("standardised difference");
+        auto question = resolve_question(t, core_spec(q));
+        if (!question) return question.error();
+        e = standardised_rd_over(t, encode_rows(t, *question), names, 0, q.alpha, q.bins);
+    }
+    if (!e) return e.error();
+    if (!std::isfinite(e->estimate))
+        return make_error(q.slope ? "no joint stratum has spread in the exposure" : "no joint stratum holds both groups");
+    f.adjusted = {e->estimate, e->ci_low, e->ci_high};
+    return f;
 }
 
 namespace {

@@ -47,6 +47,7 @@ struct QuestionSpec {
     QString outcome, positive;      ///< binary outcome and its positive level
     QString exposure, focal, reference;
     QStringList candidates;         ///< chosen stratifiers
+    QStringList covariates;         ///< trend only: numeric columns the slopes are adjusted for
     bool pairs = true;
     int bins = 4;
     double alpha = 0.05;
@@ -109,9 +110,12 @@ QImage memo_preview(const MemoRequest& request, int width_px);
 Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
 
-/// The adjusted estimate over the joint strata of `set` (one or two columns): the standardised
-/// difference for rates, the within-stratum slope for trends. An Error when the set is empty,
-/// holds more than two columns, or the engine cannot compute it.
+/// The adjusted estimate over the joint strata of `set` (any number of columns), computed by
+/// core/scan/estimate_over as the verdicts of `foldline scan --diagram` and `run` are: the
+/// difference standardised to the pooled mix for rates, the within-stratum slope (adjusted for
+/// the covariates) for trends. Only `adjusted`, `adjusted_name`, `strata` and `slope` are set.
+/// An Error when the set is empty, a column is unknown, or no joint stratum holds both groups
+/// (rates) or spread in x (trends).
 Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set);
 
 }  // namespace foldline::ui

@@ -462,8 +462,8 @@ Result<project::Project> MainWindow::current_project() const {
         if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
         if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
         if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
-    } else if (base_) {
-        p.question.covariates = base_->question.covariates;
+    } else {
+        for (const QString& c : q.covariates) p.question.covariates.push_back(c.toStdString());
     }
     p.scan.strata.clear();
     for (const QString& c : q.candidates) p.scan.strata.push_back(c.toStdString());
@@ -581,6 +581,9 @@ void MainWindow::restore_pending() {
         q.reference = p.question.reference ? QString::fromStdString(*p.question.reference) : QString();
         q.candidates.clear();
         for (const auto& s : p.scan.strata) q.candidates << QString::fromStdString(s);
+        q.covariates.clear();
+        if (q.slope)
+            for (const auto& c : p.question.covariates) q.covariates << QString::fromStdString(c);
         q.pairs = p.scan.pairs;
         q.bins = p.scan.bins;
         q.alpha = p.scan.alpha;

@@ -194,6 +194,7 @@ void QuestionPage::fill_levels(QComboBox* box, const QString& column) {
 
 void QuestionPage::set_table(std::shared_ptr<const Table> table) {
     table_ = std::move(table);
+    covariates_.clear();  // they name columns of the previous data
     filling_ = true;
     outcome_->clear();
     exposure_->clear();
@@ -326,11 +327,15 @@ QuestionSpec QuestionPage::spec() const {
     q.alpha = alpha_->value();
     q.bootstrap = bootstrap_->value();
     q.seed = unsigned(seed_->value());
+    if (q.slope)
+        for (const QString& c : covariates_)
+            if (c != q.outcome && c != q.exposure) q.covariates << c;
     return q;
 }
 
 void QuestionPage::set_spec(const QuestionSpec& q) {
     if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
+    covariates_ = q.covariates;
     outcome_->setCurrentText(q.outcome);
     positive_->setCurrentText(q.positive);
     exposure_->setCurrentText(q.exposure);
@@ -361,7 +366,12 @@ void QuestionPage::validate() {
     const QStringList p = problems();
     scan_->setEnabled(p.isEmpty());
     if (p.isEmpty()) {
-        problems_->setText(tr("Ready: %1 candidate(s)%2.").arg(spec().candidates.size()).arg(pairs_->isChecked() ? tr(" and their pairs") : QString()));
+        const QuestionSpec q = spec();
+        problems_->setText(tr("Ready: %1 candidate(s)%2%3.")
+                               .arg(q.candidates.size())
+                               .arg(pairs_->isChecked() ? tr(" and their pairs") : QString())
+                               .arg(q.covariates.isEmpty() ? QString()
+                                                           : tr("; slopes adjusted for %1").arg(q.covariates.join(QStringLiteral(", ")))));
         problems_->setPalette(palette());
     } else {
         QStringList items;

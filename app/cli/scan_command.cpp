@@ -385,7 +385,8 @@ int run(int argc, char** argv) {
 const CommandRegistration reg{Command{
     "scan",
     "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
-    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf]",
+    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf] "
+    "[--trend X:Y] [--covariates C1,C2]",
     "search every stratifier and pair for reversals of the outcome rate between groups",
     run}};
 
