@@ -1,5 +1,6 @@
 #include "core/report/memo_content.h"
 #include "core/report/slope_chart.h"
+#include "core/scan/estimate_over.h"
 
 #include <cmath>
 #include <cstdio>
@@ -272,6 +273,19 @@ MemoTable slope_strata(const SlopeFinding& f) {
     return t;
 }
 
+/// " Over a, b: +6.3 pp (95% CI +4.3 pp to +8.2 pp)." — the estimate an OtherSet verdict points
+/// to; a sentence saying why when it could not be computed.
+template <typename Format>
+std::string estimate_sentence(const Result<EstimateOver>& e, const std::vector<std::string>& set, const char* what,
+                              Format format, double alpha) {
+    const std::string over = joined(set, ", ");
+    if (!e) return " The " + std::string(what) + " over " + over + " could not be computed: " + e.error().message + ".";
+    if (!std::isfinite(e->estimate))
+        return " The " + std::string(what) + " over " + over + " is undefined (no stratum of that set informs it).";
+    return " The estimate to quote, the " + std::string(what) + " over " + over + ": " + format(e->estimate) +
+           " (" + fmt("%.0f%% CI ", 100 * (1 - alpha)) + format(e->ci_low) + " to " + format(e->ci_high) + ").";
+}
+
 std::string decomposition_sentence(const RateFinding& f) {
     const auto& d = f.decomposition;
     if (!std::isfinite(d.crude_gap)) return "The pooled gap cannot be decomposed (a group has no rows).";
@@ -496,6 +510,9 @@ MemoContent build_memo(const MemoInput& in) {
             if (auto rep = causal::analyse_adjustment(*graph, q.exposure, q.outcome)) question_roles = rep->roles;
         }
     }
+    // Numeric columns of a set the diagram names are cut as the scan cut its candidates.
+    const int bins = p ? p->scan.bins : 4;
+    const std::size_t max_levels = p ? static_cast<std::size_t>(p->scan.max_levels) : 50;
     for (std::size_t k = 0; k < with_section; ++k) {
         const std::size_t i = section_of[k];
         const auto& f = r.rate_findings[i];
@@ -511,6 +528,11 @@ MemoContent build_memo(const MemoInput& in) {
         if (diagram) sec.diagram = diagram_of(*diagram, diagram_name, v, question_roles, f.strata);
         if (v) {
             sec.verdict = "Which view answers the question: " + answer_words(*v, f) + ". " + v->reason;
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
+                auto e = standardised_rd_over(*in.table, encode_rows(*in.table, q), *v->standardise_over, f.comparison,
+                                              r.alpha, bins, max_levels);
+                sec.verdict += estimate_sentence(e, *v->standardise_over, "difference standardised", points, r.alpha);
+            }
         } else if (diagram) {
             std::string why = "the diagram is not valid";
             if (graph) {
@@ -542,9 +564,7 @@ MemoContent build_memo(const MemoInput& in) {
         sec.lead = slope_lead(f);
         sec.figures = slope_figures(f, r.alpha);
         sec.strata = slope_strata(f);
-        if (in.table)
-            sec.scatter = slope_chart(*in.table, f, p ? p->scan.bins : 4,
-                                      p ? static_cast<std::size_t>(p->scan.max_levels) : 50);
+        if (in.table) sec.scatter = slope_chart(*in.table, f, bins, max_levels);
         std::optional<causal::Verdict> v;
         std::string why;
         if (graph) {
@@ -565,6 +585,12 @@ MemoContent build_memo(const MemoInput& in) {
                                        : v->answer == causal::Answer::Both   ? "both slopes (they estimate the same effect)"
                                                                              : "neither slope as shown";
             sec.verdict = "Which view answers the question: " + answer + ". " + v->reason;
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
+                SlopeQuestion fq = sq;
+                fq.x = f.x, fq.y = f.y, fq.covariates = f.covariates;
+                auto e = within_slope_over(*in.table, fq, *v->standardise_over, bins, max_levels);
+                sec.verdict += estimate_sentence(e, *v->standardise_over, "within slope", slope, sq.alpha);
+            }
         } else if (diagram) {
             sec.verdict = "The diagram cannot judge this finding: " + (why.empty() ? "the diagram is not valid" : why) + ".";
         } else {

@@ -113,8 +113,9 @@ struct MemoInput {
     std::string date;                                 ///< "2026-12-02"; the caller's clock, for reproducibility
     std::string data_change;                          ///< DataChange::message when changed, else empty
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
-    const Table* table = nullptr;                     ///< the rows, for the trend charts' points and
-                                                      ///< lines; null → trend sections without charts
+    const Table* table = nullptr;                     ///< the rows, for the trend charts and the estimate a
+                                                      ///< verdict points to over another set
+                                                      ///< (core/scan/estimate_over); null → neither
 };
 
 /// The caution every memo closes with.

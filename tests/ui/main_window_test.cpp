@@ -352,6 +352,10 @@ private slots:
         QVERIFY(s.contains(QStringLiteral("Reviewer's decision: upheld.")));
         QVERIFY(s.contains(QStringLiteral("ask the trading desk for the weekly demand forecast")));
         QVERIFY(s.contains(QStringLiteral("Causal diagram")));
+        // A finding stratified by a mediator (footfall) points to the within-format slope, which
+        // the memo computes and quotes (statsmodels figures above).
+        QVERIFY(all.contains(QStringLiteral("The estimate to quote, the within slope over store_format: -3.969 "
+                                            "(95% CI -4.241 to -3.696)")));
         // The memo settings of the opened audit, the method notes of a trend audit (no rate
         // estimators) and the caution.
         QVERIFY(all.startsWith(QStringLiteral("Promotion spend and weekly sales at Tallow & Pine Outfitters")));
