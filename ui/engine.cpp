@@ -221,7 +221,9 @@ Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const 
     const SlopeQuestion sq = slope_question(q);
     CandidateOptions copts;
     copts.bins = q.bins;
-    for (const QString& c : q.candidates) copts.columns.push_back(c.toStdString());
+    // A covariate adjusts the slopes; it does not also stratify them.
+    for (const QString& c : q.candidates)
+        if (!q.covariates.contains(c)) copts.columns.push_back(c.toStdString());
     std::vector<std::string> skip = {sq.x, sq.y};
     skip.insert(skip.end(), sq.covariates.begin(), sq.covariates.end());
     auto candidates = select_candidates(t, skip, copts, nullptr);
@@ -286,6 +288,8 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     std::vector<std::string> skip;
     if (!q.outcome.isEmpty()) skip.push_back(q.outcome.toStdString());
     if (!q.exposure.isEmpty()) skip.push_back(q.exposure.toStdString());
+    if (q.slope)
+        for (const QString& c : q.covariates) skip.push_back(c.toStdString());
     CandidateOptions opts;
     opts.bins = q.bins;
     auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
@@ -294,7 +298,9 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
         const std::string& name = c.name;
         CandidateView v{qs(name), false, {}, {}};
         if (std::find(skip.begin(), skip.end(), name) != skip.end()) {
-            v.reason = qs(name) == q.outcome ? QObject::tr("the outcome") : QObject::tr("the compared groups");
+            v.reason = qs(name) == q.outcome    ? QObject::tr("the outcome")
+                       : qs(name) == q.exposure ? QObject::tr("the compared groups")
+                                                : QObject::tr("a covariate: the slopes are adjusted for it");
         } else if (auto it = std::find_if(set->candidates.begin(), set->candidates.end(),
                                           [&](const Candidate& k) { return k.name == name; });
                    it != set->candidates.end()) {

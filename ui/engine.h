@@ -63,8 +63,8 @@ struct CandidateView {
     QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
 };
 
-/// Columns that could stratify the question, each with the reason any is left out.
-/// Empty table → empty list.
+/// Columns that could stratify the question, each with the reason any is left out (the outcome,
+/// the groups and, for a trend, its covariates never stratify). Empty table → empty list.
 std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q);
 /// Problems with the question in plain sentences; empty when the scan can run.
 QStringList check_question(const Table& t, const QuestionSpec& q);

@@ -292,6 +292,7 @@ void QuestionPage::refresh_candidates() {
         q.outcome = outcome_->currentText();
         q.exposure = exposure_->currentText();
         q.bins = bins_->value();
+        q.covariates = covariates_;
         std::vector<CandidateView> all = propose_candidates(*table_, q);
         std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
         for (const CandidateView& c : all) {
@@ -336,6 +337,7 @@ QuestionSpec QuestionPage::spec() const {
 void QuestionPage::set_spec(const QuestionSpec& q) {
     if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
     covariates_ = q.covariates;
+    refresh_candidates();  // covariates are not offered as strata
     outcome_->setCurrentText(q.outcome);
     positive_->setCurrentText(q.positive);
     exposure_->setCurrentText(q.exposure);

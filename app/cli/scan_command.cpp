@@ -313,6 +313,10 @@ int run(int argc, char** argv) {
                         "--covariates adjusts a trend: give a numeric --outcome and --exposure, or --trend X:Y");
         if (auto msg = parse_covariates(*a.get("covariates"), *table, sq); !msg.empty())
             return fail(kName, kUsage, msg);
+        for (const auto& c : sq.covariates)
+            if (std::find(copt.columns.begin(), copt.columns.end(), c) != copt.columns.end())
+                return fail(kName, kUsage, "column '" + c + "' is in both --strata and --covariates: a column either "
+                                           "stratifies the trend or adjusts it");
     }
     // A slope-only scan honours --pairs; --trend checks each single stratifier. Both go through
     // the helpers `foldline run` uses, so a saved trend audit re-runs to the same findings.

@@ -156,6 +156,10 @@ try:
         rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
                             "--covariates", bad], work)
         check(rc == 2 and words in err, "--covariates %s: exit 2 naming the column (got %d: %s)" % (bad, rc, err.strip()))
+    rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
+                        "--covariates", "footfall", "--strata", "store_format,footfall"], work)
+    check(rc == 2 and "'footfall' is in both --strata and --covariates" in err,
+          "a column named as both stratifier and covariate is a usage error (got %d: %s)" % (rc, err.strip()))
     rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "store_format=mall", "--exposure", "region",
                         "--covariates", "footfall"], work)
     check(rc == 2 and "--covariates adjusts a trend" in err, "--covariates without a trend is a usage error (got %d)" % rc)

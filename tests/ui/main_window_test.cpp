@@ -279,6 +279,43 @@ private slots:
         QVERIFY(again.data_change().contains(QStringLiteral("same columns")));
     }
 
+    // A saved trend question with a covariate re-runs adjusted in the workbench, as `foldline run`
+    // does. statsmodels 0.13.5 OLS on sample_data/retail_weeks.csv, 4,972 rows with footfall
+    // [calc]: weekly_sales ~ promo_spend + footfall → 1.739468503482215;
+    // + C(store_format) → −1.4589542471516073.
+    void trend_project_with_a_covariate_runs_adjusted() {
+        const QString audit = find_sample("retail_audit.foldline");
+        if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
+        auto p = project::load_project(audit.toStdString());
+        QVERIFY(p.ok());
+        p->question.covariates = {"footfall"};
+        p->reviews.clear();
+        QTemporaryDir dir;
+        QVERIFY(QFile::copy(find_sample("retail_weeks.csv"), dir.filePath("retail_weeks.csv")));
+        p->data.path = dir.filePath("retail_weeks.csv").toStdString();
+        const QString path = dir.filePath("adjusted.foldline");
+        QVERIFY(project::save_project(*p, path.toStdString()).ok());
+        MainWindow w;
+        QVERIFY(w.open_project(path).ok());
+        const FindingView* format = nullptr;
+        auto found = [&] {
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.slope && g.strata == QStringList{"store_format"}) format = &g;
+            return format != nullptr;
+        };
+        QTRY_VERIFY_WITH_TIMEOUT(found(), 120000);
+        QCOMPARE(w.question_page()->spec().covariates, QStringList{"footfall"});
+        QVERIFY(qAbs(format->crude.value - 1.739468503482215) < 1e-9);
+        QVERIFY(qAbs(format->adjusted.value - -1.4589542471516073) < 1e-9);
+        // Footfall adjusts; it is not also a stratifier.
+        for (const FindingView& g : w.findings_model()->findings()) QVERIFY(!g.strata.contains("footfall"));
+        // Saved again, the covariate stays.
+        QVERIFY(w.save_project_to(dir.filePath("again.foldline")).ok());
+        auto again = project::load_project(dir.filePath("again.foldline").toStdString());
+        QVERIFY(again.ok());
+        QCOMPARE(again->question.covariates, std::vector<std::string>{"footfall"});
+    }
+
     // The workbench's memo of a trend audit goes through the same content builder and writer as
     // `foldline memo`: the reviewer's section, the side-by-side slopes, the chart (drawn as
     // vector graphics, so its title and legend are text), the verdict, the decision and note,
