@@ -36,8 +36,10 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
     auto* split = new QSplitter;
     split->addWidget(text_);
     split->addWidget(scroll);
-    split->setStretchFactor(0, 3);
-    split->setStretchFactor(1, 2);
+    split->setStretchFactor(0, 1);
+    split->setStretchFactor(1, 1);
+    scroll->setMinimumWidth(280);
+    split->setSizes({600, 560});  // room for the page at its preview width
     auto* lay = new QVBoxLayout(this);
     lay->addWidget(new CautionBand);
     lay->addWidget(split, 1);
@@ -75,8 +77,10 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     for (const FindingView& f : model_->findings()) ++counts[int(f.cls)];
     h += tr("<p><b>Summary:</b> %1 finding(s): %2 reversal, %3 explained, %4 masked, %5 heterogeneous, %6 stable.</p>")
              .arg(model_->size()).arg(counts[0]).arg(counts[1]).arg(counts[2]).arg(counts[3]).arg(counts[4]);
-    h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>Pooled gap</th>"
-            "<th>Adjusted gap</th><th>q-value</th><th>Decision</th><th>Note</th></tr>");
+    const bool trend = q && q->slope;
+    h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>%1</th>"
+            "<th>%2</th><th>q-value</th><th>Decision</th><th>Note</th></tr>")
+             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"), trend ? tr("Within slope") : tr("Adjusted gap"));
     std::vector<const FindingView*> order;
     for (const FindingView& f : model_->findings()) order.push_back(&f);
     std::stable_sort(order.begin(), order.end(), [](const FindingView* a, const FindingView* b) {
