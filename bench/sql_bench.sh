@@ -1,13 +1,18 @@
 #!/usr/bin/env bash
 # Push-down scan vs export-to-CSV + local scan, on a generated table in a throwaway PostgreSQL
 # cluster (127.0.0.1, temporary directory, stopped on exit). Never run by ctest.
-#   bench/sql_bench.sh build/app/foldline [ROWS=1000000] [REPEATS=3]
-# Prints the median seconds of each path and the bytes that leave the server: the cells
-# (values + counts) for the push-down, the CSV text for the export.
+#   bench/sql_bench.sh build/app/foldline [ROWS=1000000] [REPEATS=5]
+# Prints the median seconds of each path over REPEATS runs, and the bytes each path moves over
+# the wire in each direction (counted by a relay between client and server, in a separate run so
+# the relay does not slow the timed ones):
+#   push-down          the scan's statements (describe, profile, one GROUPING SETS query)
+#   push-down, tuned   the same with work_mem = 256MB and two parallel workers per query,
+#                      set for the role (every session of the scan gets them)
+#   export + local     psql \copy of the table to CSV, then foldline scan of the file
 set -euo pipefail
 FOLDLINE=$(readlink -f "${1:?usage: bench/sql_bench.sh FOLDLINE [ROWS] [REPEATS]}")
 ROWS=${2:-1000000}
-REPEATS=${3:-3}
+REPEATS=${3:-5}
 PGBIN=$(dirname "$(ls /usr/lib/postgresql/*/bin/initdb | sort | tail -1)")
 DRIVER=$(ls /usr/lib/*/odbc/psqlodbcw.so | head -1)
 WORK=$(mktemp -d /tmp/foldline-pgbench-XXXXXX)
@@ -16,8 +21,15 @@ RUN=()
 if [ "$(id -u)" -eq 0 ]; then RUN=(runuser -u nobody --); fi
 mkdir -p "$WORK/data" "$WORK/run"
 [ "$(id -u)" -eq 0 ] && chown nobody:nogroup "$WORK/data" "$WORK/run"
-PORT=$(/usr/bin/python3 -c 'import socket; s=socket.socket(); s.bind(("127.0.0.1",0)); print(s.getsockname()[1])')
-stop() { "${RUN[@]}" "$PGBIN/pg_ctl" -D "$WORK/data" -m immediate -w stop >/dev/null 2>&1 || true; rm -rf "$WORK"; }
+free_port() { /usr/bin/python3 -c 'import socket; s=socket.socket(); s.bind(("127.0.0.1",0)); print(s.getsockname()[1])'; }
+PORT=$(free_port)
+RELAY_PORT=$(free_port)
+RELAY_PID=
+stop() {
+    [ -n "$RELAY_PID" ] && kill "$RELAY_PID" 2>/dev/null || true
+    "${RUN[@]}" "$PGBIN/pg_ctl" -D "$WORK/data" -m immediate -w stop >/dev/null 2>&1 || true
+    rm -rf "$WORK"
+}
 trap stop EXIT
 "${RUN[@]}" "$PGBIN/initdb" -D "$WORK/data" -U admin -A trust --no-sync -E UTF8 --locale C >/dev/null
 "${RUN[@]}" "$PGBIN/pg_ctl" -D "$WORK/data" -l "$WORK/run/log" -w \
@@ -32,29 +44,76 @@ PSQL=(psql -X -q -h 127.0.0.1 -p "$PORT" -U admin -d postgres -v ON_ERROR_STOP=1
          (i % 7)::bigint AS tenure
   FROM generate_series(1, $ROWS) AS i"
 "${PSQL[@]}" -c "VACUUM ANALYZE staffing"   # a settled table, as in a warehouse
-CONN="odbc:Driver=$DRIVER;Server=127.0.0.1;Port=$PORT;Database=postgres;Uid=admin;"
+conn() { echo "odbc:Driver=$DRIVER;Server=127.0.0.1;Port=$1;Database=postgres;Uid=admin;"; }
 Q=(--outcome hired=yes --exposure team=north,south --bootstrap 0)
 median() { sort -n | awk '{a[NR]=$1} END {print a[int((NR+1)/2)]}'; }
-push=() ; exp=()
+secs() { local t0; t0=$(date +%s.%N); "$@" >/dev/null; echo "$(date +%s.%N) - $t0" | bc; }
+pushdown() { "$FOLDLINE" scan --source "$(conn "${1:-$PORT}")" --table staffing "${Q[@]}" --json "$WORK/db.json"; }
+export_local() {
+    psql -X -q -h 127.0.0.1 -p "${1:-$PORT}" -U admin -d postgres -v ON_ERROR_STOP=1 \
+        -c "\\copy staffing TO '$WORK/export.csv' WITH (FORMAT csv, HEADER true)"
+    "$FOLDLINE" scan "$WORK/export.csv" "${Q[@]}" --json "$WORK/file.json"
+}
+tune() { "${PSQL[@]}" -c "ALTER ROLE admin SET work_mem = '256MB'" -c "ALTER ROLE admin SET max_parallel_workers_per_gather = 2"; }
+untune() { "${PSQL[@]}" -c "ALTER ROLE admin RESET work_mem" -c "ALTER ROLE admin RESET max_parallel_workers_per_gather"; }
+
+push=(); tuned=(); exp=()
 for _ in $(seq "$REPEATS"); do
-    t0=$(date +%s.%N)
-    "$FOLDLINE" scan --source "$CONN" --table staffing "${Q[@]}" --json "$WORK/db.json" >/dev/null
-    t1=$(date +%s.%N)
-    "${PSQL[@]}" -c "\\copy staffing TO '$WORK/export.csv' WITH (FORMAT csv, HEADER true)"
-    "$FOLDLINE" scan "$WORK/export.csv" "${Q[@]}" --json "$WORK/file.json" >/dev/null
-    t2=$(date +%s.%N)
-    push+=("$(echo "$t1 - $t0" | bc)"); exp+=("$(echo "$t2 - $t1" | bc)")
+    push+=("$(secs pushdown)")
+    exp+=("$(secs export_local)")
+    tune
+    tuned+=("$(secs pushdown)")
+    untune
 done
-# Bytes of the cells as fetched: text values, then 8 bytes per number, count and first row.
-read -r CELLS CELL_BYTES < <("${PSQL[@]}" -At -F ' ' -c "SELECT COUNT(*), SUM(octet_length(team) + octet_length(hired)
-  + octet_length(job_family) + octet_length(site) + 24) FROM (SELECT team, hired, job_family, site, tenure
-  FROM staffing GROUP BY team, hired, job_family, site, tenure) c")
-echo "rows=$ROWS repeats=$REPEATS"
-echo "push-down scan median_s=$(printf '%s\n' "${push[@]}" | median) cells=$CELLS cell_bytes=$CELL_BYTES"
-echo "export+local scan median_s=$(printf '%s\n' "${exp[@]}" | median) csv_bytes=$(stat -c %s "$WORK/export.csv")"
-/usr/bin/python3 - "$WORK/db.json" "$WORK/file.json" <<'EOF'
+
+# Bytes on the wire, each direction, through a counting relay (one extra run of each path).
+cat > "$WORK/relay.py" <<'PY'
+import socket, sys, threading
+listen, target, out = int(sys.argv[1]), int(sys.argv[2]), sys.argv[3]
+counts = {"to_server": 0, "to_client": 0}
+lock = threading.Lock()
+def pump(a, b, key):
+    try:
+        while True:
+            d = a.recv(65536)
+            if not d:
+                break
+            with lock:
+                counts[key] += len(d)
+                open(out, "w").write(f"{counts['to_server']} {counts['to_client']}\n")
+            b.sendall(d)
+    except OSError:
+        pass
+    finally:
+        try: b.shutdown(socket.SHUT_WR)
+        except OSError: pass
+srv = socket.socket(); srv.setsockopt(socket.SOL_SOCKET, socket.SO_REUSEADDR, 1)
+srv.bind(("127.0.0.1", listen)); srv.listen(8)
+while True:
+    c, _ = srv.accept()
+    s = socket.create_connection(("127.0.0.1", target))
+    threading.Thread(target=pump, args=(c, s, "to_server"), daemon=True).start()
+    threading.Thread(target=pump, args=(s, c, "to_client"), daemon=True).start()
+PY
+wire() {  # wire FUNCTION -> "bytes_to_server bytes_to_client"
+    echo "0 0" > "$WORK/wire"
+    /usr/bin/python3 "$WORK/relay.py" "$RELAY_PORT" "$PORT" "$WORK/wire" & RELAY_PID=$!
+    sleep 0.5
+    "$1" "$RELAY_PORT" >/dev/null
+    kill "$RELAY_PID"; wait "$RELAY_PID" 2>/dev/null || true; RELAY_PID=
+    cat "$WORK/wire"
+}
+read -r PUSH_UP PUSH_DOWN < <(wire pushdown)
+read -r EXP_UP EXP_DOWN < <(wire export_local)
+echo "rows=$ROWS repeats=$REPEATS (median seconds; bytes on the wire: client->server / server->client)"
+echo "push-down scan          median_s=$(printf '%s\n' "${push[@]}" | median) bytes_up=$PUSH_UP bytes_down=$PUSH_DOWN"
+echo "push-down scan (tuned)  median_s=$(printf '%s\n' "${tuned[@]}" | median)"
+echo "export + local scan     median_s=$(printf '%s\n' "${exp[@]}" | median) bytes_up=$EXP_UP bytes_down=$EXP_DOWN csv_bytes=$(stat -c %s "$WORK/export.csv")"
+"$FOLDLINE" scan --source "$(conn "$PORT")" --table staffing "${Q[@]}" --timings >/dev/null 2>"$WORK/t" || true
+echo "push-down values fetched (cells and counts): $(grep -o 'fetched_bytes=[0-9]*' "$WORK/t")"
+/usr/bin/python3 - "$WORK/db.json" "$WORK/file.json" <<'PY'
 import json, sys
 a, b = (json.load(open(p)) for p in sys.argv[1:])
 a.pop("data"); b.pop("data")
 print("findings identical:", a == b)
-EOF
+PY

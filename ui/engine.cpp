@@ -1,5 +1,9 @@
 // Core headers first: they use `slots` as a name, which Qt defines as a keyword macro.
 #include "core/io/csv_reader.h"
+#include "core/io/sql_pushdown.h"
+#ifdef FOLDLINE_HAS_ODBC
+#include "core/io/odbc_source.h"
+#endif
 #include "core/scan/candidates.h"
 #include "core/scan/estimate_over.h"
 #include "core/scan/question.h"
@@ -422,8 +426,14 @@ report::MemoContent memo_content(const MemoRequest& request) {
     in.scan = &scan;
     in.data.path = request.data_path.toStdString();
     in.data.rows = request.rows;
-    if (request.project && !request.project->data.sha256.empty()) in.data.sha256 = request.project->data.sha256;
-    else if (auto h = sha256_file(in.data.path)) in.data.sha256 = *h;
+    if (request.database) {
+        in.data.database = request.database;
+        in.data.rows = request.database->rows;
+    } else if (request.project && !request.project->data.sha256.empty()) {
+        in.data.sha256 = request.project->data.sha256;
+    } else if (auto h = sha256_file(in.data.path)) {
+        in.data.sha256 = *h;
+    }
     in.project = &proj;
     in.table = request.table;
     in.date = (request.date.isEmpty() ? QDate::currentDate().toString(Qt::ISODate) : request.date).toStdString();
@@ -447,6 +457,92 @@ Status export_memo(const MemoRequest& request, const QString& path) {
 QImage memo_preview(const MemoRequest& request, int width_px) {
     if (!request.scan || width_px <= 0) return {};
     return memo_page_image(memo_content(request), 1, width_px);
+}
+
+bool database_available() {
+#ifdef FOLDLINE_HAS_ODBC
+    return true;
+#else
+    return false;
+#endif
+}
+
+namespace {
+
+bool has_password(const QString& connection) {
+    for (const QString& part : connection.split(QLatin1Char(';'))) {
+        const QString key = part.section(QLatin1Char('='), 0, 0).trimmed().toLower();
+        if (part.contains(QLatin1Char('=')) && (key == QLatin1String("pwd") || key == QLatin1String("password")))
+            return true;
+    }
+    return false;
+}
+
+}  // namespace
+
+QStringList check_database_request(const DatabaseRequest& r) {
+    QStringList problems;
+    QString conn = r.connection.trimmed();
+    if (conn.startsWith(QLatin1String("odbc:"), Qt::CaseInsensitive)) conn = conn.mid(5);
+    if (conn.isEmpty()) problems << QObject::tr("Give a connection string, for example DSN=warehouse; or Driver=...;Server=...;Database=...;Uid=...;");
+    if (has_password(conn))
+        problems << QObject::tr("Leave the password out of the connection string: type it into the password field or name an environment variable that holds it (neither is ever saved).");
+    if (r.table.trimmed().isEmpty() == r.query.trimmed().isEmpty())
+        problems << QObject::tr("Give either a table or a query, not both.");
+    sql::SqlSource src{r.table.trimmed().toStdString(), r.query.trimmed().toStdString()};
+    if (!src.table.empty() != !src.query.empty()) {
+        if (auto f = sql::from_clause(src); !f) problems << QString::fromStdString(f.error().message);
+    }
+    if (r.password.isEmpty() && !r.password_env.trimmed().isEmpty() &&
+        qEnvironmentVariableIsEmpty(r.password_env.trimmed().toLocal8Bit().constData()))
+        problems << QObject::tr("The environment variable %1 is not set.").arg(r.password_env.trimmed());
+    return problems;
+}
+
+QString masked_connection(const QString& connection) {
+#ifdef FOLDLINE_HAS_ODBC
+    return QString::fromStdString(redact_connection_string(connection.toStdString()));
+#else
+    return connection;
+#endif
+}
+
+Result<Table> load_database(const DatabaseRequest& r, const Work& work, DatabaseRecord* record) {
+#ifdef FOLDLINE_HAS_ODBC
+    if (const QStringList problems = check_database_request(r); !problems.isEmpty())
+        return make_error(problems.join(QLatin1Char(' ')).toStdString());
+    QString conn = r.connection.trimmed();
+    if (conn.startsWith(QLatin1String("odbc:"), Qt::CaseInsensitive)) conn = conn.mid(5);
+    QString password = r.password;
+    if (password.isEmpty() && !r.password_env.trimmed().isEmpty())
+        password = qEnvironmentVariable(r.password_env.trimmed().toLocal8Bit().constData());
+    OdbcOptions o;
+    o.connection = conn.toStdString();
+    if (!password.isEmpty()) {
+        // Braced, with '}' doubled, so a password may hold ';' (the ODBC connection grammar).
+        if (!o.connection.empty() && o.connection.back() != ';') o.connection += ';';
+        o.connection += "PWD={" + password.replace(QLatin1String("}"), QLatin1String("}}")).toStdString() + "};";
+    }
+    o.source.table = r.table.trimmed().toStdString();
+    o.source.query = r.query.trimmed().toStdString();
+    o.all_columns = true;
+    auto cells = read_odbc_cells(o, work);
+    std::fill(o.connection.begin(), o.connection.end(), '\0');  // the password leaves memory with the call
+    if (!cells) return cells.error();
+    if (record) {
+        record->connection = redact_connection_string(conn.toStdString());
+        record->driver = cells->driver;
+        record->database = cells->database;
+        record->table = o.source.table;
+        record->query = o.source.query;
+        record->rows = cells->source_rows;
+        record->queried_at = cells->queried_at;
+    }
+    return std::move(cells->table);
+#else
+    (void)r, (void)work, (void)record;
+    return make_error("this build has no database support (install unixodbc-dev and rebuild)");
+#endif
 }
 
 }  // namespace foldline::ui

@@ -13,6 +13,7 @@
 
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/io/source_record.h"
 #include "core/table/table.h"
 #include "ui/finding_view.h"
 
@@ -40,6 +41,32 @@ struct LoadOptions {
 bool reader_available();
 /// Reads a CSV/TSV file; an Error names file, line and column. Honours work.stop.
 Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work);
+
+/// A database table or query as the workbench asks for it. The password lives here only for
+/// the call: it is never saved, shown or written into a report.
+struct DatabaseRequest {
+    QString connection;    ///< ODBC connection string ("DSN=...;" or "Driver=...;..."), without a password
+    QString password_env;  ///< name of an environment variable holding the password (may be empty)
+    QString password;      ///< typed into a masked field (may be empty; wins over password_env)
+    QString table;         ///< exactly one of table and query
+    QString query;         ///< one read-only SELECT or WITH statement
+};
+
+/// True when this build has database sources (unixODBC).
+bool database_available();
+/// Problems with a database request in plain sentences; empty when it can be sent. Names: no
+/// connection string, a password written into the connection string, both or neither of table
+/// and query, a table name with an empty part, a query that is not one read-only statement, an
+/// environment variable that is not set.
+QStringList check_database_request(const DatabaseRequest& request);
+/// The connection string with every password masked (safe to show and to save); "" stays "".
+QString masked_connection(const QString& connection);
+/// Counts the source's joint cells in the engine and returns them as a pre-counted Table
+/// (weights = rows per cell) over every column a scan may use; `record` (optional) receives
+/// what the memo and project record (driver, database, table or query, rows, query time,
+/// masked connection). A stop request cancels the running statement (the driver's cancel).
+/// Errors name the SQLSTATE and the driver's words; a build without ODBC is an Error.
+Result<Table> load_database(const DatabaseRequest& request, const Work& work, DatabaseRecord* record = nullptr);
 
 struct QuestionSpec {
     bool slope = false;             ///< false: rates of a binary outcome between two groups;
@@ -94,6 +121,7 @@ struct MemoRequest {
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
     QString title;
     QString date;                            ///< YYYY-MM-DD; empty → today
+    std::optional<DatabaseRecord> database;  ///< a database source: recorded instead of a file digest
 };
 
 /// Writes the memo as a PDF (atomically) through core/report and ui/memo — the same content

@@ -391,6 +391,9 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     r.reviewed = model_->findings();
     if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
+    if ((r.database = source_->database_record()))
+        r.title = tr("Audit of %1").arg(QString::fromStdString(r.database->table.empty() ? r.database->database
+                                                                                         : r.database->table));
     use(r);
     return Ok{};
 }
@@ -435,15 +438,20 @@ Result<project::Project> MainWindow::current_project() const {
     project::Project p = base_ ? *base_ : project::Project{};
     const std::string data = source_->source().toStdString();
     p.data = project::DataSource{};
-    p.data.path = data;
-    const QFileInfo info(source_->source());
-    p.data.size = std::uint64_t(info.size());
-    // Autosave asks for the document every interval: hash a file once per version of it.
-    if (digest_.path != source_->source() || digest_.size != info.size() || digest_.modified != info.lastModified()) {
-        auto h = sha256_file(data);
-        digest_ = {source_->source(), info.size(), info.lastModified(), h ? *h : std::string()};
+    if ((p.data.database = source_->database_record())) {
+        // A database source: its record (masked connection, table or query, rows, query time)
+        // stands in for the file's path, size and digest.
+    } else {
+        p.data.path = data;
+        const QFileInfo info(source_->source());
+        p.data.size = std::uint64_t(info.size());
+        // Autosave asks for the document every interval: hash a file once per version of it.
+        if (digest_.path != source_->source() || digest_.size != info.size() || digest_.modified != info.lastModified()) {
+            auto h = sha256_file(data);
+            digest_ = {source_->source(), info.size(), info.lastModified(), h ? *h : std::string()};
+        }
+        p.data.sha256 = digest_.sha256;
     }
-    p.data.sha256 = digest_.sha256;
     p.data.rows = source_->table()->rows;
     for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
     const LoadOptions o = source_->options();

@@ -21,6 +21,7 @@
 
 #include "ui/column_model.h"
 #include "ui/counts_grid.h"
+#include "ui/database_form.h"
 #include "ui/job.h"
 #include "ui/table_model.h"
 
@@ -122,6 +123,9 @@ SourcePage::SourcePage(QWidget* parent)
     tabs_ = new QTabWidget;
     tabs_->addTab(splitter_, tr("Rows and columns"));
     tabs_->addTab(grid_, tr("Type in counts"));
+    database_ = new DatabaseForm;
+    connect(database_, &DatabaseForm::count_requested, this, &SourcePage::count_in_database);
+    tabs_->addTab(database_, tr("Database"));
 
     auto* lay = new QVBoxLayout(this);
     lay->addLayout(bar);
@@ -139,6 +143,22 @@ SourcePage::SourcePage(QWidget* parent)
         progress_->hide();
         cancel_->hide();
         auto result = std::move(pending_);
+        if (database_job_) {
+            database_job_ = false;
+            database_->set_busy(false);
+            auto record = std::move(pending_record_);
+            if (job_->cancelled()) {
+                show_message(tr("The query was cancelled in the database; nothing was loaded."), false);
+                return;
+            }
+            if (!result || !result->ok()) {
+                show_message(result ? QString::fromStdString(result->error().to_string()) : tr("Counting failed."), true);
+                return;
+            }
+            set_table(std::make_shared<const Table>(std::move(*result).value()), database_source_);
+            record_ = *record;
+            return;
+        }
         if (job_->cancelled()) {
             show_message(tr("Loading %1 was cancelled.").arg(path_), false);
             return;
@@ -207,9 +227,28 @@ void SourcePage::reload() {
 
 void SourcePage::cancel_load() { job_->cancel(); }
 
+void SourcePage::count_in_database(const DatabaseRequest& request) {
+    if (job_->running()) return;
+    database_source_ = tr("database %1, %2")
+                           .arg(masked_connection(request.connection),
+                                request.table.isEmpty() ? tr("query") : tr("table %1").arg(request.table));
+    show_message(tr("Counting in the database…"), false);
+    progress_->setRange(0, 0);  // busy until the engine reports a step
+    progress_->show();
+    cancel_->show();
+    database_->set_busy(true);
+    database_job_ = true;
+    auto result = std::make_shared<Result<Table>>(make_error("not run"));
+    auto record = std::make_shared<DatabaseRecord>();
+    pending_ = result;
+    pending_record_ = record;
+    job_->start([result, record, request](const Work& work) { *result = load_database(request, work, record.get()); });
+}
+
 void SourcePage::show_counts_grid() { tabs_->setCurrentWidget(grid_); }
 
 void SourcePage::set_table(std::shared_ptr<const Table> table, const QString& source) {
+    record_.reset();  // set again by a database load right after
     table_ = std::move(table);
     source_ = source;
     model_->set_table(table_);
@@ -236,7 +275,7 @@ void SourcePage::set_table(std::shared_ptr<const Table> table, const QString& so
             count_column_->addItem(w, w);
             count_column_->setCurrentIndex(count_column_->count() - 1);
         }
-        if (source != tr("typed-in table")) tabs_->setCurrentIndex(0);
+        if (source != tr("typed-in table") && !database_job_) tabs_->setCurrentIndex(0);
         show_message(QString(), false);
     }
     emit table_loaded(table_, source_);

@@ -3,6 +3,7 @@
 // load off the UI thread with progress and cancel; preview rows and summarise columns.
 #include <QWidget>
 #include <memory>
+#include <optional>
 
 #include "core/table/table.h"
 #include "ui/engine.h"
@@ -20,6 +21,7 @@ namespace foldline::ui {
 
 class ColumnModel;
 class CountsGrid;
+class DatabaseForm;
 class Job;
 class TableModel;
 
@@ -49,6 +51,10 @@ public:
     QTabWidget* tabs() const { return tabs_; }
     /// Last message shown (errors name file, line and column).
     QString message() const;
+    DatabaseForm* database_form() const { return database_; }
+    /// The database the current table was counted in (masked connection, driver, table or
+    /// query, rows, query time); nullopt for a file or typed-in table.
+    std::optional<DatabaseRecord> database_record() const { return record_; }
 
 signals:
     void table_loaded(std::shared_ptr<const foldline::Table> table, const QString& source);
@@ -58,6 +64,9 @@ public slots:
     void open_dialog();
     void cancel_load();
     void show_counts_grid();
+    /// Counts a database source in the background (ignored while a load is running); progress
+    /// shows the query running and Cancel calls the driver's cancel.
+    void count_in_database(const foldline::ui::DatabaseRequest& request);
 
 protected:
     void dragEnterEvent(QDragEnterEvent* e) override;
@@ -85,6 +94,11 @@ private:
     QTabWidget* tabs_;
     QSplitter* splitter_;
     CountsGrid* grid_;
+    DatabaseForm* database_;
+    bool database_job_ = false;
+    QString database_source_;
+    std::shared_ptr<DatabaseRecord> pending_record_;
+    std::optional<DatabaseRecord> record_;
 };
 
 }  // namespace foldline::ui

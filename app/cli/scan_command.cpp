@@ -2,6 +2,7 @@
 // writes the JSON document (core/report/scan_json.h).
 #include <algorithm>
 #include <chrono>
+#include <csignal>
 #include <cmath>
 #include <cstdio>
 #include <iostream>
@@ -20,6 +21,8 @@
 #include "core/io/csv_reader.h"
 #include "core/report/scan_json.h"
 #include "core/scan/candidates.h"
+#include "core/scan/grouped_cubes.h"
+#include "core/scan/grouped_slopes.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
@@ -28,6 +31,14 @@ namespace foldline::cli {
 namespace {
 
 const char* kName = "scan";
+
+// Ctrl-C (or a TERM signal) during a database scan cancels the statement running in the
+// engine (the driver's SQLCancel, through the stop token) instead of leaving it running there.
+StopToken& interrupt_token() {
+    static StopToken token;
+    return token;
+}
+extern "C" void on_interrupt(int) { interrupt_token().request_stop(); }
 
 std::vector<std::string> split_list(const std::string& s) {
     std::vector<std::string> out;
@@ -256,24 +267,69 @@ int run(int argc, char** argv) {
         const auto d = *a.get("delimiter");
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
     }
-    DatabaseSource db;
+    DatabaseInfo db;
+    DatabaseCounts counted;
+    bool from_cubes = false;
     auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
     if (from_db) {
-        std::vector<std::string> required = {spec.outcome, spec.exposure};
-        for (const auto& c : copt.columns) required.push_back(c);
+        DatabaseRequest req;
+        req.source = *a.get("source");
+        req.table = a.get_or("table", "");
+        req.query = a.get_or("query", "");
+        req.required = {spec.outcome, spec.exposure};
+        for (const auto& c : copt.columns) req.required.push_back(c);
         if (a.has("covariates"))
-            for (const auto& c : split_list(*a.get("covariates"))) required.push_back(c);
-        auto loaded = load_database_source(*a.get("source"), a.get_or("table", ""), a.get_or("query", ""), required,
-                                           copt.columns.empty(), copt, ropt.count_column);
-        if (loaded) {
-            db = std::move(*loaded);
-            path = db.description;
-            table = std::move(db.table);
-        } else {
-            table = loaded.error();
+            for (const auto& c : split_list(*a.get("covariates"))) req.required.push_back(c);
+        req.all_columns = copt.columns.empty();
+        req.count_column = ropt.count_column;
+        // A rate question runs on the cubes of one GROUPING SETS query, and its trend checks
+        // on per-stratum moment sums. The diagram's verdicts (joint strata of any set), slope
+        // stability (resampled rows) and trends of a pre-counted source need rows, so those
+        // scans load the joint cells instead.
+        std::string tx, ty;
+        if (a.has("trend")) {
+            const std::string t = *a.get("trend");
+            const auto colon = t.find(':');
+            if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
+            tx = t.substr(0, colon);
+            ty = t.substr(colon + 1);
+        }
+        Work work;
+        work.stop = interrupt_token();
+        std::signal(SIGINT, on_interrupt);
+        std::signal(SIGTERM, on_interrupt);
+        const bool cells = a.has("diagram") || (!tx.empty() && (a.has("slope-bootstrap") || !ropt.count_column.empty()));
+        if (!cells) {
+            for (const auto& c : {tx, ty})
+                if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
+                    req.required.push_back(c);
+            auto c = load_database_counts(req, copt, spec, sopt.pairs, !spec.positive, tx, ty, work);
+            if (!c) {
+                table = c.error();
+            } else if (!c->numeric_question) {
+                counted = std::move(*c);
+                db = counted;
+                path = db.description;
+                table = counted.counts.pooled;
+                from_cubes = true;
+            }
+        }
+        if (!from_cubes && (cells || table.error().message.empty())) {
+            auto loaded = load_database_source(req, copt, work);
+            if (loaded) {
+                db = *loaded;
+                path = db.description;
+                table = std::move(loaded->table);
+            } else {
+                table = loaded.error();
+            }
         }
     }
     hasher.join();
+    if (from_db) {
+        std::signal(SIGINT, SIG_DFL);
+        std::signal(SIGTERM, SIG_DFL);
+    }
     if (!table) return fail(kName, kInput, table.error().to_string());
     if (!digest) return fail(kName, kInput, digest.error().to_string());
     const auto t1 = clock::now();
@@ -301,7 +357,8 @@ int run(int argc, char** argv) {
         if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
         sq.x = t.substr(0, colon);
         sq.y = t.substr(colon + 1);
-        for (const auto& c : {sq.x, sq.y}) {
+        // (A database source checked the trend columns when it summed their moments.)
+        for (const auto& c : from_cubes ? std::vector<std::string>{} : std::vector<std::string>{sq.x, sq.y}) {
             const Column* col = table->column(c);
             if (!col) return fail(kName, kUsage, "--trend column '" + c + "' not found");
             if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
@@ -326,6 +383,20 @@ int run(int argc, char** argv) {
         result = slope_audit(*table, sq, copt, sopt.pairs, code);
         if (!result) return fail(kName, code, result.error().to_string());
         result->bootstrap = sopt.bootstrap;
+    } else if (from_cubes) {
+        auto in = cubes_from_groups(counted.counts, spec, copt, sopt.pairs);
+        if (!in) return fail(kName, kUsage, in.error().to_string());
+        if (in->cubes.stratifiers.empty())
+            return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
+        std::vector<SlopeFinding> slopes;
+        if (counted.moments) {
+            auto s = slope_checks_from_groups(*counted.moments, counted.counts, *in, sq);
+            if (!s) return fail(kName, kInput, s.error().to_string());
+            slopes = std::move(*s);
+        }
+        result = rate_scan(in->cubes, in->question, sopt, {}, {}, std::move(slopes));
+        if (!result) return fail(kName, kInternal, result.error().to_string());
+        if (!sq.x.empty()) result->slope_question = sq;
     } else {
         auto q = resolve_question(*table, spec);
         if (!q) return fail(kName, kUsage, q.error().to_string());
@@ -361,7 +432,8 @@ int run(int argc, char** argv) {
     if (from_db) merge_left_out(result->excluded, db.left_out, db.columns);
     const auto t2 = clock::now();
 
-    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows)};
+    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows), std::nullopt};
+    if (from_db) info.database = db.record;
     const std::string json_dest = a.get_or("json", "");
     std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
     if (!json_dest.empty()) {
@@ -382,6 +454,7 @@ int run(int argc, char** argv) {
         auto s = [](auto d) { return std::chrono::duration<double>(d).count(); };
         std::fprintf(stderr, "timing_s load=%.3f scan=%.3f json=%.3f total=%.3f\n", s(t1 - t0), s(t2 - t1),
                      s(t3 - t2), s(clock::now() - t0));
+        if (from_db) std::fprintf(stderr, "fetched_bytes=%.0f\n", db.bytes_fetched);
     }
     return kOk;
 }

@@ -4,41 +4,97 @@
 
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
+#include "core/scan/grouped_cubes.h"
 #endif
 
 namespace foldline::cli {
 
-Result<DatabaseSource> load_database_source(const std::string& source, const std::string& table,
-                                            const std::string& query, const std::vector<std::string>& required,
-                                            bool all_columns, const CandidateOptions& copt,
-                                            const std::string& count_column) {
 #ifdef FOLDLINE_HAS_ODBC
-    if (source.rfind("odbc:", 0) != 0)
+namespace {
+
+Result<OdbcOptions> odbc_options(const DatabaseRequest& r, const CandidateOptions& copt) {
+    if (r.source.rfind("odbc:", 0) != 0)
         return make_error("--source must start with odbc: (for example odbc:DSN=warehouse;)");
-    if (table.empty() == query.empty()) return make_error("with --source give exactly one of --table T or --query SQL");
+    if (r.table.empty() == r.query.empty()) return make_error("with --source give exactly one of --table T or --query SQL");
     OdbcOptions o;
-    o.connection = source;
-    o.source.table = table;
-    o.source.query = query;
-    o.required = required;
-    o.all_columns = all_columns;
+    o.connection = r.source;
+    o.source.table = r.table;
+    o.source.query = r.query;
+    o.required = r.required;
+    o.all_columns = r.all_columns;
     o.max_levels = copt.max_levels;
     o.max_missing_share = copt.max_missing_share;
-    o.count_column = count_column;
-    auto r = read_odbc_cells(o);
+    o.count_column = r.count_column;
+    return o;
+}
+
+void describe(const DatabaseRequest& r, const OdbcSourceInfo& s, DatabaseInfo& d) {
+    // Credentials never reach the description (a password in the string is masked).
+    d.description = "odbc:" + redact_connection_string(r.source.substr(5)) +
+                    (r.table.empty() ? " query: " + r.query : " table " + r.table);
+    d.source_rows = s.source_rows;
+    d.columns = s.source_columns;
+    for (auto& l : s.left_out) d.left_out.push_back({l.column, l.reason});
+    d.bytes_fetched = s.bytes_fetched;
+    d.record.connection = redact_connection_string(r.source.substr(5));
+    d.record.driver = s.driver;
+    d.record.database = s.database;
+    d.record.table = r.table;
+    d.record.query = r.query;
+    d.record.rows = s.source_rows;
+    d.record.queried_at = s.queried_at;
+}
+
+}  // namespace
+#endif
+
+Result<DatabaseSource> load_database_source(const DatabaseRequest& request, const CandidateOptions& copt,
+                                            const Work& work) {
+#ifdef FOLDLINE_HAS_ODBC
+    auto o = odbc_options(request, copt);
+    if (!o) return o.error();
+    auto r = read_odbc_cells(*o, work);
     if (!r) return r.error();
     DatabaseSource d;
-    // Credentials never reach the description (a password in the string is masked).
-    d.description = "odbc:" + redact_connection_string(source.substr(5)) +
-                    (table.empty() ? " query: " + query : " table " + table);
-    d.source_rows = r->source_rows;
-    d.columns = r->source_columns;
-    for (auto& l : r->left_out) d.left_out.push_back({l.column, l.reason});
-    d.bytes_fetched = r->bytes_fetched;
+    describe(request, *r, d);
     d.table = std::move(r->table);
     return d;
 #else
-    (void)source, (void)table, (void)query, (void)required, (void)all_columns, (void)copt, (void)count_column;
+    (void)request, (void)copt, (void)work;
+    return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
+#endif
+}
+
+Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, const CandidateOptions& copt,
+                                            const QuestionSpec& spec, bool pairs, bool may_be_slopes,
+                                            const std::string& trend_x, const std::string& trend_y,
+                                            const Work& work) {
+#ifdef FOLDLINE_HAS_ODBC
+    auto o = odbc_options(request, copt);
+    if (!o) return o.error();
+    // The stratifiers the single sets qualify, each numeric one with the cuts of its levels.
+    const PairPlanner planner = [&](const GroupedCounts& singles) -> Result<PairPlan> {
+        auto in = cubes_from_groups(singles, spec, copt, false);
+        if (!in) return in.error();
+        PairPlan plan;
+        for (std::size_t i = 0; i < in->cubes.stratifiers.size(); ++i) {
+            plan.strata.push_back(in->cubes.stratifiers[i].name);
+            plan.cuts.push_back(bin_cuts(singles, *in, i));
+        }
+        return plan;
+    };
+    auto r = read_odbc_groups(*o, spec.outcome, spec.exposure, pairs, may_be_slopes, OdbcSlope{trend_x, trend_y}, work,
+                              planner);
+    if (!r) return r.error();
+    DatabaseCounts d;
+    describe(request, *r, d);
+    d.counts = std::move(r->counts);
+    d.numeric_question = r->numeric_question;
+    d.moments = std::move(r->moments);
+    return d;
+#else
+    (void)request, (void)copt, (void)spec, (void)pairs, (void)may_be_slopes, (void)trend_x,
+        (void)trend_y, (void)work;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
 }

@@ -17,6 +17,8 @@
 #include <thread>
 #include <unordered_map>
 
+#include "core/stats/moments.h"
+
 namespace foldline {
 namespace {
 
@@ -158,7 +160,7 @@ std::string utc_now() {
 
 class Session {
 public:
-    Session(const OdbcOptions& o, const Work& w, OdbcTable& out) : o_(o), work_(w), out_(out) {}
+    Session(const OdbcOptions& o, const Work& w, OdbcSourceInfo& out) : o_(o), work_(w), out_(out) {}
 
     Status connect() {
         if (!good(SQLAllocHandle(SQL_HANDLE_ENV, SQL_NULL_HANDLE, &h_.env)))
@@ -267,7 +269,7 @@ public:
 private:
     const OdbcOptions& o_;
     const Work& work_;
-    OdbcTable& out_;
+    OdbcSourceInfo& out_;
     Handles h_;
 };
 
@@ -290,40 +292,75 @@ std::string odbc_connection_string(std::string_view text) {
 }
 
 std::string redact_connection_string(std::string_view text) {
+    // Attributes are KEY=VALUE separated by ';'; a value in braces may hold ';' and '}}'
+    // (ODBC's SQLDriverConnect grammar [from memory]), so it runs to its closing brace.
+    auto trim = [](std::string k) {
+        while (!k.empty() && k.front() == ' ') k.erase(k.begin());
+        while (!k.empty() && k.back() == ' ') k.pop_back();
+        return k;
+    };
     std::string out;
     std::size_t i = 0;
-    const std::string s(text);
-    while (i < s.size()) {
-        std::size_t end = s.find(';', i);
-        if (end == std::string::npos) end = s.size();
-        std::string part = s.substr(i, end - i);
-        const std::string key = lower(part.substr(0, part.find('=')));
-        auto trim = [](std::string k) {
-            while (!k.empty() && k.front() == ' ') k.erase(k.begin());
-            while (!k.empty() && k.back() == ' ') k.pop_back();
-            return k;
-        };
-        if (part.find('=') != std::string::npos && (trim(key) == "pwd" || trim(key) == "password"))
-            part = part.substr(0, part.find('=') + 1) + "***";
-        out += part;
-        if (end < s.size()) out += ';';
+    while (i < text.size()) {
+        const std::size_t eq = text.find('=', i);
+        const std::size_t semi = text.find(';', i);
+        if (eq == std::string_view::npos || (semi != std::string_view::npos && semi < eq)) {
+            const std::size_t end = semi == std::string_view::npos ? text.size() : semi + 1;
+            out += text.substr(i, end - i);
+            i = end;
+            continue;
+        }
+        std::size_t v = eq + 1;
+        while (v < text.size() && text[v] == ' ') ++v;
+        std::size_t end = v;
+        if (v < text.size() && text[v] == '{') {
+            end = v + 1;
+            while (end < text.size()) {
+                if (text[end] == '}') {
+                    if (end + 1 < text.size() && text[end + 1] == '}') {
+                        end += 2;
+                        continue;
+                    }
+                    ++end;
+                    break;
+                }
+                ++end;
+            }
+        }
+        end = text.find(';', end);
+        if (end == std::string_view::npos) end = text.size();
+        const std::string key = lower(trim(std::string(text.substr(i, eq - i))));
+        out += text.substr(i, eq + 1 - i);
+        out += key == "pwd" || key == "password" ? std::string("***") : std::string(text.substr(eq + 1, end - eq - 1));
+        if (end < text.size()) out += ';';
         i = end + 1;
     }
     return out;
 }
 
-Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
-    OdbcTable out;
+namespace {
+
+/// The source's FROM item and the columns worth fetching.
+struct Plan {
+    std::string from;
+    std::vector<SourceColumn> keep;  ///< in source order
+    std::vector<double> distinct;    ///< distinct values of each kept column; NaN when not profiled
+};
+
+/// Describes the source (its columns), checks the required columns, and profiles the others
+/// (rows, present and distinct values) to leave out what a scan would leave out anyway.
+Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, const Work& work) {
+    Plan plan;
     auto from = sql::from_clause(o.source);
     if (!from) return from.error();
+    plan.from = *from;
     out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
-    Session s(o, work, out);
     if (auto st = s.connect(); !st) return st.error();
 
     // 1. The source's columns.
     std::vector<SourceColumn> cols;
     auto none = [](SQLHSTMT, SQLSMALLINT) -> Status { return Ok{}; };
-    if (auto st = s.run(sql::describe_sql(*from), "describing the source's columns", none, &cols); !st)
+    if (auto st = s.run(sql::describe_sql(plan.from), "describing the source's columns", none, &cols); !st)
         return st.error();
     for (const auto& c : cols) out.source_columns.push_back(c.name);
     for (const auto& r : o.required)
@@ -338,7 +375,6 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     work.report(1, 3, "profiling columns");
 
     // 2. Profile: rows, non-missing and distinct values of every candidate column.
-    std::vector<SourceColumn> keep;
     std::vector<std::string> profiled;
     auto is_required = [&](const std::string& n) { return std::find(o.required.begin(), o.required.end(), n) != o.required.end(); };
     for (const auto& c : cols) {
@@ -350,37 +386,52 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
         }
         profiled.push_back(c.name);
     }
-    std::vector<double> prof;
-    if (auto st = s.run(sql::profile_sql(*from, profiled), "counting rows and distinct values",
+    // Per profiled column: non-missing rows and distinct non-missing values.
+    const std::size_t np = profiled.size();
+    std::vector<double> present(np, 0), distincts(np, 0);
+    double rows = 0;
+    if (auto st = s.run(sql::profile_sql(plan.from, profiled), "counting rows and distinct values",
                         [&](SQLHSTMT h, SQLSMALLINT n) -> Status {
+                            std::vector<double> v;
                             for (SQLSMALLINT i = 1; i <= n; ++i) {
-                                auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
-                                if (!v) return v.error();
-                                prof.push_back(*v);
+                                auto x = s.get_double(h, static_cast<SQLUSMALLINT>(i));
+                                if (!x) return x.error();
+                                v.push_back(*x);
                             }
+                            if (np == 0) {
+                                if (v.size() != 1) return make_error("the profile query returned an unexpected shape");
+                                rows = v[0];
+                                return Ok{};
+                            }
+                            if (v.size() != 3 * np + 1) return make_error("the profile query returned an unexpected shape");
+                            rows = v.back();
+                            for (std::size_t k = 0; k < np; ++k)
+                                if (v[k] == 0) {
+                                    distincts[k] = v[np + 2 * k];
+                                    present[k] = v[np + 2 * k + 1];
+                                }
                             return Ok{};
                         });
         !st)
         return st.error();
-    if (prof.size() != 1 + 2 * profiled.size()) return make_error("the profile query returned an unexpected shape");
-    out.source_rows = prof[0];
-    const double rows = prof[0];
+    out.source_rows = rows;
     for (const auto& c : cols) {
         if (is_required(c.name)) {
-            keep.push_back(c);
+            plan.keep.push_back(c);
+            plan.distinct.push_back(kNaN);
             continue;
         }
         const auto it = std::find(profiled.begin(), profiled.end(), c.name);
         if (it == profiled.end()) continue;
         const std::size_t k = static_cast<std::size_t>(it - profiled.begin());
-        const double present = prof[1 + 2 * k], distinct = prof[2 + 2 * k];
-        const double missing = rows - present;
+        const double distinct = distincts[k];
+        const double missing = rows - present[k];
         if (rows > 0 && missing > o.max_missing_share * rows) {
             out.left_out.push_back({c.name, "mostly missing (" + std::to_string(static_cast<long long>(missing)) + " of " +
                                                 std::to_string(static_cast<long long>(rows)) + " rows)"});
             continue;
         }
-        if (!c.numeric && distinct >= 2 && distinct == present && rows > static_cast<double>(o.max_levels)) {
+        if (!c.numeric && distinct >= 2 && distinct == present[k] && rows > static_cast<double>(o.max_levels)) {
             out.left_out.push_back({c.name, "one value per row"});
             continue;
         }
@@ -389,76 +440,394 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
                                                 " > " + std::to_string(o.max_levels) + ")"});
             continue;
         }
-        keep.push_back(c);
+        plan.keep.push_back(c);
+        plan.distinct.push_back(distinct);
     }
-    work.report(2, 3, "counting cells in the database");
-    if (keep.empty()) return make_error("no column of the source can be fetched");
+    work.report(2, 3, "counting in the database");
+    if (plan.keep.empty()) return make_error("no column of the source can be fetched");
+    return plan;
+}
+
+/// One value of a result row.
+struct Cell {
+    double number = kNaN;
+    std::string text;
+    bool null = false;
+};
+
+Result<Cell> read_cell(Session& s, SQLHSTMT h, SQLUSMALLINT col, bool numeric) {
+    Cell c;
+    if (numeric) {
+        auto v = s.get_double(h, col);
+        if (!v) return v.error();
+        c.number = *v;
+        c.null = std::isnan(*v);
+        return c;
+    }
+    auto t = s.get_text(h, col, c.null);
+    if (!t) return t.error();
+    c.text = std::move(*t);
+    return c;
+}
+
+/// Collects result rows into a pre-counted Table: text columns become categorical (levels in
+/// order of first appearance among the rows, NULL missing), numeric ones stay numeric.
+class TableBuilder {
+public:
+    explicit TableBuilder(std::vector<SourceColumn> columns)
+        : columns_(std::move(columns)), cells_(columns_.size()), seeds_(columns_.size()) {}
+    /// Text column i starts with these levels, in this order (rows may add more after them).
+    void seed_levels(std::size_t i, std::vector<std::string> levels) { seeds_[i] = std::move(levels); }
+    /// Adds a row: one cell per column (in the builder's column order) and its count.
+    void add(const std::vector<const Cell*>& row, double weight) {
+        for (std::size_t i = 0; i < columns_.size(); ++i) cells_[i].push_back(*row[i]);
+        weights_.push_back(weight);
+    }
+    Table finish(const std::string& source, const std::string& weight_column) {
+        Table t;
+        t.rows = weights_.size();
+        t.weights = std::move(weights_);
+        t.source = source;
+        t.weight_column = weight_column;
+        for (std::size_t i = 0; i < columns_.size(); ++i) {
+            if (columns_[i].numeric) {
+                std::vector<double> v;
+                v.reserve(cells_[i].size());
+                for (const auto& c : cells_[i]) v.push_back(c.number);
+                t.columns.push_back(Column::numeric(columns_[i].name, std::move(v)));
+                continue;
+            }
+            std::vector<std::string> levels = seeds_[i];
+            std::unordered_map<std::string, std::uint32_t> index;
+            for (std::size_t k = 0; k < levels.size(); ++k) index.emplace(levels[k], static_cast<std::uint32_t>(k));
+            std::vector<std::uint32_t> codes;
+            codes.reserve(cells_[i].size());
+            std::vector<std::size_t> missing_rows;
+            for (std::size_t r = 0; r < cells_[i].size(); ++r) {
+                const Cell& c = cells_[i][r];
+                if (c.null) {
+                    codes.push_back(0);
+                    missing_rows.push_back(r);
+                    continue;
+                }
+                auto [it, inserted] = index.try_emplace(c.text, static_cast<std::uint32_t>(levels.size()));
+                if (inserted) levels.push_back(c.text);
+                codes.push_back(it->second);
+            }
+            const auto miss = static_cast<std::uint32_t>(levels.size());
+            for (auto r : missing_rows) codes[r] = miss;
+            t.columns.push_back(Column::categorical(columns_[i].name, std::move(levels), codes));
+            cells_[i].clear();
+        }
+        return t;
+    }
+
+private:
+    std::vector<SourceColumn> columns_;
+    std::vector<std::vector<Cell>> cells_;
+    std::vector<std::vector<std::string>> seeds_;
+    std::vector<double> weights_;
+};
+
+/// The slope's shift, per-stratum centred sums and HC3 sum (three statements).
+Result<GroupedMoments> read_moments(Session& s, const std::string& from, const OdbcSlope& slope,
+                                    const std::vector<std::string>& strata, const std::vector<SourceColumn>& cols,
+                                    const Work& work) {
+    GroupedMoments m;
+    std::vector<double> means;
+    auto numbers = [&](std::vector<double>& into) {
+        return [&s, &into](SQLHSTMT h, SQLSMALLINT n) -> Status {
+            for (SQLSMALLINT i = 1; i <= n; ++i) {
+                auto v = s.get_double(h, static_cast<SQLUSMALLINT>(i));
+                if (!v) return v.error();
+                into.push_back(*v);
+            }
+            return Ok{};
+        };
+    };
+    if (auto st = s.run(sql::slope_means_sql(from, slope.x, slope.y), "averaging the trend columns", numbers(means)); !st)
+        return st.error();
+    if (means.size() != 4) return make_error("the trend means query returned an unexpected shape");
+    if (!(means[0] > 0)) return make_error("no row has both '" + slope.x + "' and '" + slope.y + "'");
+    m.shift_x = means[1];
+    m.shift_y = means[2];
+    m.zero_one = means[3] == 0;
+
+    const std::size_t n = strata.size();
+    std::vector<TableBuilder> values;
+    for (std::size_t i = 0; i < n; ++i) values.emplace_back(std::vector<SourceColumn>{cols[i]});
+    m.sums.resize(n);
+    std::vector<Cell> row(n);
+    std::vector<std::size_t> in_set;
+    bool pooled_seen = false;
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < n; ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), cols[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(n + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);
+        }
+        double v[10];
+        for (std::size_t k = 0; k < 10; ++k) {
+            auto x = s.get_double(h, static_cast<SQLUSMALLINT>(2 * n + 1 + k));
+            if (!x) return x.error();
+            v[k] = *x;
+        }
+        CentredSums sums{v[0], v[1], v[2], v[3], v[4], v[5], v[6] == v[7], v[8] == v[9]};
+        if (in_set.empty()) {
+            m.pooled = sums;
+            pooled_seen = true;
+        } else if (in_set.size() == 1) {
+            values[in_set[0]].add({&row[in_set[0]]}, 1);
+            m.sums[in_set[0]].push_back(sums);
+        } else {
+            return make_error("the moment query returned a row of no requested set");
+        }
+        if (work.cancelled()) return make_error("cancelled while reading the moment sums");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y),
+                        "summing the trend per stratum", on_row);
+        !st)
+        return st.error();
+    if (!pooled_seen) return make_error("the moment query returned no pooled row");
+    for (auto& b : values) m.values.push_back(std::move(b.finish("", "").columns[0]));
+
+    // The pooled slope's HC3 robust SE needs each row's leverage: one more pass in the engine.
+    const auto p = BivariateMoments::from_centred_sums(m.pooled.n, m.pooled.sx, m.pooled.sy, m.pooled.sxx, m.pooled.sxy,
+                                                       m.pooled.syy, m.shift_x, m.shift_y, m.pooled.x_constant,
+                                                       m.pooled.y_constant);
+    m.hc3 = kNaN;
+    if (p.cxx > 0 && p.w >= 3) {
+        std::vector<double> h3;
+        if (auto st = s.run(sql::slope_hc3_sql(from, slope.x, slope.y, p.mean_x(), p.mean_y(), p.cxy / p.cxx, 1.0 / p.w,
+                                               1.0 / p.cxx),
+                            "computing the robust standard error", numbers(h3));
+            !st)
+            return st.error();
+        if (h3.size() == 2 && h3[1] > 0) m.hc3 = std::sqrt(h3[0]) / p.cxx;
+    }
+    return m;
+}
+
+/// The pair sets of the planned stratifiers, numeric ones binned in the engine (second query).
+Status read_pair_sets(Session& s, const std::string& from, const OdbcOptions& o, const std::string& outcome,
+                      const std::string& exposure, const PairPlan& plan, const std::vector<SourceColumn>& cols,
+                      GroupedCounts& counts, const Work& work) {
+    const std::size_t n = plan.strata.size();
+    if (n < 2) return Ok{};
+    sql::CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    q.strata = plan.strata;
+    q.cuts = plan.cuts;
+    q.cuts.resize(n);
+    q.pairs = true;
+    q.pooled = false;
+    q.singles = false;
+    q.first_appearance = false;  // the level order comes from the pooled and single sets
+    q.count_column = o.count_column;
+    std::vector<SourceColumn> qc{cols[0], cols[1]};
+    for (std::size_t i = 0; i < n; ++i) {
+        const auto it = std::find_if(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == plan.strata[i]; });
+        if (it == cols.end()) return make_error("pair stratifier '" + plan.strata[i] + "' was not fetched");
+        SourceColumn c = *it;
+        if (!q.cuts[i].empty()) {
+            c.numeric = true;  // the bin's number
+            counts.coded_in_pairs.push_back(c.name);
+        }
+        qc.push_back(c);
+    }
+    std::vector<TableBuilder> sets;
+    std::vector<std::size_t> at(n * n, 0);
+    for (std::size_t i = 0; i < n; ++i)
+        for (std::size_t j = i + 1; j < n; ++j) {
+            at[i * n + j] = sets.size();
+            sets.emplace_back(std::vector<SourceColumn>{qc[0], qc[1], qc[2 + i], qc[2 + j]});
+            // Outcome and exposure codes must be those of the pooled set.
+            for (std::size_t k = 0; k < 2; ++k)
+                if (counts.pooled.columns.size() == 2 && counts.pooled.columns[k].is_categorical())
+                    sets.back().seed_levels(k, counts.pooled.columns[k].levels);
+        }
+    std::vector<Cell> row(qc.size());
+    std::vector<std::size_t> in_set;
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < qc.size(); ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), qc[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(qc.size() + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);
+        }
+        auto w = s.get_double(h, static_cast<SQLUSMALLINT>(qc.size() + n + 1));
+        if (!w) return w.error();
+        if (in_set.size() != 2) return make_error("the pair query returned a row of no requested set");
+        sets[at[in_set[0] * n + in_set[1]]].add({&row[0], &row[1], &row[2 + in_set[0]], &row[2 + in_set[1]]}, *w);
+        if (work.cancelled()) return make_error("cancelled while reading the pair counts");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::cubes_sql(from, q), "counting the pairs of stratifiers", on_row); !st) return st;
+    const std::string source = "odbc: pairs";
+    for (auto& b : sets) counts.pairs.push_back(b.finish(source, o.count_column));
+    return Ok{};
+}
+
+}  // namespace
+
+Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
+    OdbcTable out;
+    Session s(o, work, out);
+    auto plan = plan_source(s, o, out, work);
+    if (!plan) return plan.error();
+    const auto& keep = plan->keep;
 
     // 3. The joint cells.
     std::vector<std::string> names;
     for (const auto& c : keep) names.push_back(c.name);
     out.queried_at = utc_now();
-    std::vector<std::vector<std::uint32_t>> codes(keep.size());
-    std::vector<std::vector<double>> values(keep.size());
-    std::vector<std::vector<std::string>> levels(keep.size());
-    std::vector<std::unordered_map<std::string, std::uint32_t>> index(keep.size());
-    std::vector<std::pair<std::string, bool>> pending;  // text values of the row until the level count is known
-    std::vector<std::vector<std::pair<std::string, bool>>> text_cells(keep.size());
-    std::vector<double> weights;
+    TableBuilder cells(keep);
+    std::vector<Cell> row(keep.size());
+    std::vector<const Cell*> ptrs(keep.size());
+    for (std::size_t i = 0; i < keep.size(); ++i) ptrs[i] = &row[i];
     const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(keep.size() + 1);
-    if (auto st = s.run(sql::cells_sql(*from, names, o.first_appearance, o.count_column), "counting the cells",
+    if (auto st = s.run(sql::cells_sql(plan->from, names, o.first_appearance, o.count_column), "counting the cells",
                         [&](SQLHSTMT h, SQLSMALLINT) -> Status {
                             for (std::size_t i = 0; i < keep.size(); ++i) {
-                                const SQLUSMALLINT col = static_cast<SQLUSMALLINT>(i + 1);
-                                if (keep[i].numeric) {
-                                    auto v = s.get_double(h, col);
-                                    if (!v) return v.error();
-                                    values[i].push_back(*v);
-                                } else {
-                                    bool null = false;
-                                    auto t = s.get_text(h, col, null);
-                                    if (!t) return t.error();
-                                    text_cells[i].emplace_back(std::move(*t), null);
-                                }
+                                auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), keep[i].numeric);
+                                if (!c) return c.error();
+                                row[i] = std::move(*c);
                             }
                             auto w = s.get_double(h, count_col);
                             if (!w) return w.error();
-                            weights.push_back(*w);
+                            cells.add(ptrs, *w);
                             if (work.cancelled()) return make_error("cancelled while reading the cells");
                             return Ok{};
                         });
         !st)
         return st.error();
-
-    Table& t = out.table;
-    t.rows = weights.size();
-    t.weights = std::move(weights);
-    t.source = "odbc: " + out.source_text;
-    t.weight_column = o.count_column;
-    for (std::size_t i = 0; i < keep.size(); ++i) {
-        if (keep[i].numeric) {
-            t.columns.push_back(Column::numeric(keep[i].name, std::move(values[i])));
-            continue;
-        }
-        std::vector<std::uint32_t> c32;
-        c32.reserve(text_cells[i].size());
-        std::vector<std::size_t> missing_rows;
-        for (std::size_t r = 0; r < text_cells[i].size(); ++r) {
-            auto& [text, null] = text_cells[i][r];
-            if (null) {
-                c32.push_back(0);
-                missing_rows.push_back(r);
-                continue;
-            }
-            auto [it, inserted] = index[i].try_emplace(text, static_cast<std::uint32_t>(levels[i].size()));
-            if (inserted) levels[i].push_back(text);
-            c32.push_back(it->second);
-        }
-        const auto miss = static_cast<std::uint32_t>(levels[i].size());
-        for (auto r : missing_rows) c32[r] = miss;
-        t.columns.push_back(Column::categorical(keep[i].name, std::move(levels[i]), c32));
-    }
+    out.table = cells.finish("odbc: " + out.source_text, o.count_column);
     work.report(3, 3, "cells received");
+    return out;
+}
+
+Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& outcome, const std::string& exposure,
+                                    bool pairs, bool numeric_outcome_question, const OdbcSlope& slope,
+                                    const Work& work, const PairPlanner& plan_pairs) {
+    OdbcGroups out;
+    Session s(o, work, out);
+    auto plan = plan_source(s, o, out, work);
+    if (!plan) return plan.error();
+    auto find = [&](const std::string& n) {
+        return std::find_if(plan->keep.begin(), plan->keep.end(), [&](const SourceColumn& c) { return c.name == n; });
+    };
+    const auto oc = find(outcome), ec = find(exposure);
+    if (oc == plan->keep.end() || ec == plan->keep.end())
+        return make_error("the outcome and the exposure must be among the columns fetched");
+    if (numeric_outcome_question && oc->numeric && ec->numeric) {
+        out.numeric_question = true;
+        return out;
+    }
+    // Columns of the query: outcome, exposure, then every stratifier in source order.
+    std::vector<SourceColumn> cols{*oc, *ec};
+    sql::CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    for (const auto& c : plan->keep)
+        if (c.name != outcome && c.name != exposure) {
+            cols.push_back(c);
+            q.strata.push_back(c.name);
+        }
+    // A numeric stratifier with many values (or unprofiled) would bring every value into every
+    // pair set: then the pairs wait for a second query, binned in the engine.
+    bool continuous = false;
+    for (std::size_t k = 0; k < plan->keep.size(); ++k) {
+        const auto& c = plan->keep[k];
+        if (c.name == outcome || c.name == exposure || !c.numeric) continue;
+        continuous = continuous || !(plan->distinct[k] <= static_cast<double>(o.max_levels));
+    }
+    const bool second = pairs && plan_pairs && continuous;
+    q.pairs = pairs && !second;
+    q.pooled = true;
+    q.first_appearance = o.first_appearance;
+    q.count_column = o.count_column;
+    const std::size_t n = q.strata.size();
+
+    TableBuilder pooled({cols[0], cols[1]});
+    std::vector<TableBuilder> singles;
+    for (std::size_t i = 0; i < n; ++i) singles.emplace_back(std::vector<SourceColumn>{cols[0], cols[1], cols[2 + i]});
+    std::vector<TableBuilder> pair_sets;
+    std::vector<std::size_t> pair_at(n * n, 0);
+    if (q.pairs)
+        for (std::size_t i = 0; i < n; ++i)
+            for (std::size_t j = i + 1; j < n; ++j) {
+                pair_at[i * n + j] = pair_sets.size();
+                pair_sets.emplace_back(std::vector<SourceColumn>{cols[0], cols[1], cols[2 + i], cols[2 + j]});
+            }
+
+    out.queried_at = utc_now();
+    std::vector<Cell> row(cols.size());
+    std::vector<std::size_t> in_set;
+    const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(cols.size() + n + 1);
+    auto on_row = [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+        for (std::size_t i = 0; i < cols.size(); ++i) {
+            auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), cols[i].numeric);
+            if (!c) return c.error();
+            row[i] = std::move(*c);
+        }
+        in_set.clear();
+        for (std::size_t i = 0; i < n; ++i) {
+            auto g = s.get_double(h, static_cast<SQLUSMALLINT>(cols.size() + 1 + i));
+            if (!g) return g.error();
+            if (*g == 0) in_set.push_back(i);  // GROUPING() is 0 where the column belongs to the row's set
+        }
+        auto w = s.get_double(h, count_col);
+        if (!w) return w.error();
+        if (in_set.empty()) {
+            pooled.add({&row[0], &row[1]}, *w);
+        } else if (in_set.size() == 1) {
+            singles[in_set[0]].add({&row[0], &row[1], &row[2 + in_set[0]]}, *w);
+        } else if (in_set.size() == 2 && q.pairs) {
+            pair_sets[pair_at[in_set[0] * n + in_set[1]]].add({&row[0], &row[1], &row[2 + in_set[0]], &row[2 + in_set[1]]},
+                                                             *w);
+        } else {
+            return make_error("the grouping sets query returned a row of no requested set");
+        }
+        if (work.cancelled()) return make_error("cancelled while reading the counts");
+        return Ok{};
+    };
+    if (auto st = s.run(sql::cubes_sql(plan->from, q), "counting the grouping sets", on_row); !st) return st.error();
+    const std::string source = "odbc: " + out.source_text;
+    out.counts.pooled = pooled.finish(source, o.count_column);
+    for (auto& b : singles) out.counts.singles.push_back(b.finish(source, o.count_column));
+    for (auto& b : pair_sets) out.counts.pairs.push_back(b.finish(source, o.count_column));
+    out.counts.weighted_source = !o.count_column.empty();
+    if (second) {
+        auto pp = plan_pairs(out.counts);
+        if (!pp) return pp.error();
+        if (auto st = read_pair_sets(s, plan->from, o, outcome, exposure, *pp, cols, out.counts, work); !st)
+            return st.error();
+    }
+    if (!slope.x.empty()) {
+        for (const auto* name : {&slope.x, &slope.y}) {
+            const auto it = find(*name);
+            if (it == plan->keep.end()) return make_error("trend column '" + *name + "' not found in the source " + out.source_text);
+            if (!it->numeric) return make_error("trend column '" + *name + "' is not numeric in the source");
+        }
+        if (!o.count_column.empty()) return make_error("trend checks of a pre-counted source are not pushed down");
+        auto m = read_moments(s, plan->from, slope, q.strata, std::vector<SourceColumn>(cols.begin() + 2, cols.end()), work);
+        if (!m) return m.error();
+        out.moments = std::move(*m);
+    }
+    work.report(3, 3, "counts received");
     return out;
 }
 

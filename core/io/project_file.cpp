@@ -195,7 +195,8 @@ std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
                         p.trend.has_value() || p.scan.slope_bootstrap != 0;
-    return slopes ? 2 : 1;
+    // A database source has no file path: a version 1 reader would look for a file.
+    return slopes || p.data.database ? 2 : 1;
 }
 
 const causal::Diagram* Project::diagram() const {
@@ -237,6 +238,12 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     for (const auto& [name, type] : p.data.type_overrides)
         types[name] = type == ColumnType::Numeric ? "numeric" : "categorical";
     data["type_overrides"] = types;
+    if (const auto& d = p.data.database) {
+        // Only the masked connection string is ever written (save paths cannot add a password).
+        data["database"] = {{"connection", d->connection}, {"driver", d->driver}, {"database", d->database},
+                            {"table", d->table},           {"query", d->query},   {"rows", d->rows},
+                            {"queried_at", d->queried_at}};
+    }
     doc["data"] = data;
 
     json q = json::object();
@@ -351,6 +358,17 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
                 else if (v == "categorical") p.data.type_overrides[it.key()] = ColumnType::Categorical;
                 else r.fail("data.type_overrides." + it.key() + ": expected \"numeric\" or \"categorical\"");
             }
+        }
+        if (const json* b = r.object(*d, "data", "database", false)) {
+            DatabaseRecord rec;
+            r.str(*b, "data.database", "connection", rec.connection);
+            r.str(*b, "data.database", "driver", rec.driver);
+            r.str(*b, "data.database", "database", rec.database);
+            r.str(*b, "data.database", "table", rec.table);
+            r.str(*b, "data.database", "query", rec.query);
+            r.number(*b, "data.database", "rows", rec.rows, 0, 1e300);
+            r.str(*b, "data.database", "queried_at", rec.queried_at);
+            p.data.database = rec;
         }
         p.data.path = resolve_from_project(p.data.path, project_path);
     }

@@ -18,6 +18,7 @@
 
 #include "core/causal/diagram.h"
 #include "core/common/error.h"
+#include "core/io/source_record.h"
 #include "core/io/csv_reader.h"
 #include "core/scan/finding_class.h"
 #include "core/table/table.h"
@@ -41,6 +42,7 @@ struct DataSource {
     char delimiter = 0;          ///< 0 = detect
     std::vector<std::string> missing_markers = {"", "NA", "N/A", "NULL", "."};
     std::map<std::string, ColumnType> type_overrides;
+    std::optional<DatabaseRecord> database;  ///< a database source (no size or digest then); never a credential
 };
 
 /// What the audit compares: a rate between groups, or the slope of a numeric outcome on a
@@ -139,8 +141,8 @@ struct Project {
     FindingReview& review_for(const FindingKey& key);  ///< adds an empty review when absent
 };
 
-/// 1 when the project is a plain rate audit; 2 when it holds a slope question, trend checks,
-/// covariates or a slope bootstrap. A default project → 1.
+/// 1 when the project is a plain rate audit of a file; 2 when it holds a slope question, trend
+/// checks, covariates, a slope bootstrap or a database source. A default project → 1.
 int required_version(const Project& p);
 
 /// The JSON text of a project saved at `project_path` (data path made relative to its folder).

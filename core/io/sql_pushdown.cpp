@@ -153,12 +153,24 @@ Result<std::string> from_clause(const SqlSource& s) {
 std::string describe_sql(const std::string& from) { return "SELECT * FROM " + from + " WHERE 1 = 0"; }
 
 std::string profile_sql(const std::string& from, const std::vector<std::string>& columns) {
-    std::string s = "SELECT COUNT(*)";
+    if (columns.empty()) return "SELECT COUNT(*) FROM " + from;
+    // One pass: the distinct values of every column by hashing (GROUPING SETS, one set per
+    // column), then one row per set. Engines count DISTINCT by sorting each column instead.
+    std::string inner = "SELECT ";
+    for (const auto& c : columns) inner += quote_identifier(c) + ", ";
+    for (std::size_t i = 0; i < columns.size(); ++i)
+        inner += "GROUPING(" + quote_identifier(columns[i]) + ") AS g" + std::to_string(i) + ", ";
+    inner += "COUNT(*) AS n FROM " + from + " GROUP BY GROUPING SETS (";
+    for (std::size_t i = 0; i < columns.size(); ++i) inner += (i ? ", (" : "(") + quote_identifier(columns[i]) + ")";
+    inner += ")";
+    std::string flags, s = "SELECT ";
+    for (std::size_t i = 0; i < columns.size(); ++i) flags += (i ? ", g" : "g") + std::to_string(i);
+    s += flags;
     for (const auto& c : columns) {
         const std::string q = quote_identifier(c);
-        s += ", COUNT(" + q + "), COUNT(DISTINCT " + q + ")";
+        s += ", COUNT(" + q + "), SUM(CASE WHEN " + q + " IS NOT NULL THEN n ELSE 0 END)";
     }
-    return s + " FROM " + from;
+    return s + ", SUM(n) FROM (" + inner + ") AS distinct_values GROUP BY " + flags;
 }
 
 std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
@@ -177,29 +189,77 @@ std::string cells_sql(const std::string& from, const std::vector<std::string>& c
 
 std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
                       const std::vector<std::string>& strata, bool pairs) {
-    const std::string o = quote_identifier(outcome), e = quote_identifier(exposure);
-    std::string s = "SELECT " + o + ", " + e;
-    for (const auto& c : strata) s += ", " + quote_identifier(c);
-    for (std::size_t i = 0; i < strata.size(); ++i)
-        s += ", GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i);
-    s += std::string(", COUNT(*) AS ") + quote_identifier(kCountColumn) + " FROM " + from + " GROUP BY GROUPING SETS (";
-    if (strata.empty()) return s + "(" + o + ", " + e + "))";
-    bool first = true;
-    for (const auto& c : strata) {
-        s += std::string(first ? "" : ", ") + "(" + o + ", " + e + ", " + quote_identifier(c) + ")";
-        first = false;
+    CubesQuery q;
+    q.outcome = outcome;
+    q.exposure = exposure;
+    q.strata = strata;
+    q.pairs = pairs;
+    return cubes_sql(from, q);
+}
+
+std::string cubes_sql(const std::string& from, const CubesQuery& q) {
+    const std::string o = quote_identifier(q.outcome), e = quote_identifier(q.exposure);
+    std::vector<std::string> cols{q.outcome, q.exposure};
+    cols.insert(cols.end(), q.strata.begin(), q.strata.end());
+    const std::string list = join_quoted(cols);
+    const std::string w = q.count_column.empty() ? std::string() : quote_identifier(q.count_column);
+    const std::string pos = quote_identifier(kFirstRowColumn), rows = quote_identifier(kCountColumn);
+    // Binned stratifiers: the source is first read through a derived table that replaces each
+    // binned column by its bin under the same name.
+    std::string source = from;
+    bool binned = false;
+    for (const auto& c : q.cuts) binned = binned || !c.empty();
+    if (binned) {
+        std::string sel = "SELECT " + o + ", " + e;
+        for (std::size_t i = 0; i < q.strata.size(); ++i) {
+            const std::string c = quote_identifier(q.strata[i]);
+            if (i >= q.cuts.size() || q.cuts[i].empty()) {
+                sel += ", " + c;
+                continue;
+            }
+            std::string expr = "CASE WHEN " + c + " IS NULL THEN NULL";
+            for (std::size_t k = 0; k < q.cuts[i].size(); ++k)
+                expr += " WHEN " + as_double(c) + " < " + number17(q.cuts[i][k]) + " THEN " + std::to_string(k);
+            sel += ", " + expr + " ELSE " + std::to_string(q.cuts[i].size()) + " END AS " + c;
+        }
+        if (!w.empty()) sel += ", " + w;
+        source = "(" + sel + " FROM " + from + ") AS binned";
     }
-    if (pairs)
-        for (std::size_t i = 0; i < strata.size(); ++i)
-            for (std::size_t j = i + 1; j < strata.size(); ++j)
-                s += ", (" + o + ", " + e + ", " + quote_identifier(strata[i]) + ", " + quote_identifier(strata[j]) + ")";
-    return s + ")";
+    // The rows are grouped once into their joint cells (one hash per row), and the grouping
+    // sets are then summed over the cells, which are far fewer than the rows: hashing every row
+    // once per grouping set costs several times more in the engine.
+    std::string cells = "SELECT " + list + ", " + (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") +
+                        " AS " + rows;
+    if (q.first_appearance)
+        cells += ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + list + (w.empty() ? "" : ", " + w) +
+                 ", ROW_NUMBER() OVER () AS " + pos + " FROM " + source + ") AS numbered";
+    else
+        cells += " FROM " + source;
+    cells += " GROUP BY " + list;
+    std::string s = "SELECT " + list;
+    for (std::size_t i = 0; i < q.strata.size(); ++i)
+        s += ", GROUPING(" + quote_identifier(q.strata[i]) + ") AS g" + std::to_string(i);
+    s += ", SUM(" + rows + ") AS " + rows;
+    if (q.first_appearance) s += ", MIN(" + pos + ") AS " + pos;
+    s += " FROM (" + cells + ") AS cells GROUP BY GROUPING SETS (";
+    std::string sets;
+    auto add = [&](const std::string& set) { sets += (sets.empty() ? "(" : ", (") + o + ", " + e + set + ")"; };
+    if (q.pooled || q.strata.empty()) add("");
+    if (q.singles)
+        for (const auto& c : q.strata) add(", " + quote_identifier(c));
+    if (q.pairs)
+        for (std::size_t i = 0; i < q.strata.size(); ++i)
+            for (std::size_t j = i + 1; j < q.strata.size(); ++j)
+                add(", " + quote_identifier(q.strata[i]) + ", " + quote_identifier(q.strata[j]));
+    s += sets + ")";
+    if (q.first_appearance) s += " ORDER BY " + pos;
+    return s;
 }
 
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y) {
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
-    return "SELECT COUNT(*), AVG(" + as_double(qx) + "), AVG(" + as_double(qy) + ") FROM " + from + " WHERE " + qx +
-           " IS NOT NULL AND " + qy + " IS NOT NULL";
+    return "SELECT COUNT(*), AVG(" + as_double(qx) + "), AVG(" + as_double(qy) + "), SUM(CASE WHEN " + as_double(qy) +
+           " IN (0, 1) THEN 0 ELSE 1 END) FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy + " IS NOT NULL";
 }
 
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
@@ -207,17 +267,29 @@ std::string slope_moments_sql(const std::string& from, const std::string& x, con
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
     std::string inner = "SELECT ";
     for (const auto& c : strata) inner += quote_identifier(c) + ", ";
-    inner += as_double(qx) + " - " + number17(mean_x) + " AS dx, " + as_double(qy) + " - " + number17(mean_y) +
-             " AS dy FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy + " IS NOT NULL";
+    inner += as_double(qx) + " AS x, " + as_double(qy) + " AS y, " + as_double(qx) + " - " + number17(mean_x) +
+             " AS dx, " + as_double(qy) + " - " + number17(mean_y) + " AS dy FROM " + from + " WHERE " + qx +
+             " IS NOT NULL AND " + qy + " IS NOT NULL";
     std::string s = "SELECT ";
     for (const auto& c : strata) s += quote_identifier(c) + ", ";
     for (std::size_t i = 0; i < strata.size(); ++i)
         s += "GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i) + ", ";
     s += "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
-         "SUM(dy * dy) AS syy FROM (" +
+         "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
          inner + ") AS centred GROUP BY GROUPING SETS (()";
     for (const auto& c : strata) s += ", (" + quote_identifier(c) + ")";
     return s + ")";
+}
+
+std::string slope_hc3_sql(const std::string& from, const std::string& x, const std::string& y, double mean_x,
+                          double mean_y, double slope, double inv_w, double inv_sxx) {
+    const std::string qx = quote_identifier(x), qy = quote_identifier(y);
+    const std::string xt = "(" + as_double(qx) + " - " + number17(mean_x) + ")";
+    const std::string e = "((" + as_double(qy) + " - " + number17(mean_y) + ") - " + number17(slope) + " * " + xt + ")";
+    const std::string omh = "(1 - (" + number17(inv_w) + " + " + xt + " * " + xt + " * " + number17(inv_sxx) + "))";
+    return "SELECT SUM(u * u), MIN(omh) FROM (SELECT CASE WHEN " + omh + " > 0 THEN " + xt + " * " + e + " / " + omh +
+           " ELSE 0 END AS u, " + omh + " AS omh FROM " + from + " WHERE " + qx + " IS NOT NULL AND " + qy +
+           " IS NOT NULL) AS leverage";
 }
 
 }  // namespace foldline::sql

@@ -51,8 +51,11 @@ Result<std::string> from_clause(const SqlSource& source);
 /// `SELECT * FROM <from> WHERE 1 = 0`: no rows, only the result's column descriptions.
 std::string describe_sql(const std::string& from);
 
-/// One row: COUNT(*), then for each column COUNT(c) and COUNT(DISTINCT c), in that order
-/// (1 + 2 * columns.size() values). No columns: just COUNT(*).
+/// The profile of `columns` in one pass: GROUP BY GROUPING SETS with one set per column, then one
+/// row per column: the GROUPING flags g0, g1, ... (0 for the row's column), then for each
+/// column k COUNT(c_k) and SUM of the rows where c_k is present (on the row of column k: its
+/// distinct non-missing values and its non-missing rows), then SUM(n) (every row of the source).
+/// An empty source gives no rows. No columns: one row holding COUNT(*).
 std::string profile_sql(const std::string& from, const std::vector<std::string>& columns);
 
 /// Name of the extra column holding each cell's first row position (first_appearance only).
@@ -69,7 +72,8 @@ inline constexpr const char* kCountColumn = "foldline_rows";
 std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
                       const std::string& count_column = {});
 
-/// Every count cube of a rate scan in one pass: GROUP BY GROUPING SETS with one set
+/// Every count cube of a rate scan in one pass (the rows grouped once into their joint cells,
+/// the sets then summed over the cells): GROUP BY GROUPING SETS with one set
 /// (outcome, exposure, s) per stratifier s, and — when `pairs` — one set (outcome, exposure,
 /// s, t) per pair s < t. Columns: outcome, exposure, each stratifier, then GROUPING(s) for each
 /// stratifier (as g0, g1, ...; 0 where the stratifier belongs to the row's set, so a NULL with
@@ -78,17 +82,50 @@ std::string cells_sql(const std::string& from, const std::vector<std::string>& c
 std::string cubes_sql(const std::string& from, const std::string& outcome, const std::string& exposure,
                       const std::vector<std::string>& strata, bool pairs);
 
+/// What cubes_sql(from, CubesQuery) groups.
+struct CubesQuery {
+    std::string outcome;
+    std::string exposure;
+    std::vector<std::string> strata;
+    bool pairs = true;             ///< one set per pair s < t
+    bool pooled = false;           ///< also the set (outcome, exposure), first
+    bool first_appearance = false; ///< MIN(ROW_NUMBER() OVER ()) AS foldline_first_row, rows ordered by it
+    std::string count_column;      ///< pre-counted source: SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*)
+    bool singles = true;           ///< one set per stratifier (false: pairs only, with `pooled` unset)
+    /// Per stratifier (empty, or one entry per stratifier): ascending cut points of a numeric
+    /// column; the column is then replaced by its bin, CASE WHEN x IS NULL THEN NULL WHEN
+    /// CAST(x AS DOUBLE PRECISION) < cut1 THEN 0 WHEN ... < cut2 THEN 1 ... ELSE cuts.size() END,
+    /// under its own name. An empty entry keeps the column's values.
+    std::vector<std::vector<double>> cuts;
+};
+
+/// The same query with the options above: columns outcome, exposure, each stratifier, the
+/// GROUPING flags g0, g1, ..., foldline_rows, and foldline_first_row when first_appearance
+/// (computed over `(SELECT the columns, ROW_NUMBER() OVER () ... FROM <from>) AS numbered`,
+/// one numbering shared by every set, and the result ordered by it).
+std::string cubes_sql(const std::string& from, const CubesQuery& query);
+
 /// One row: COUNT of rows where x and y are both present, AVG(x) and AVG(y) over those rows
-/// (in double precision). The means centre the moment query.
+/// (in double precision), and how many of those rows have a y other than 0 or 1. The means
+/// centre the moment query.
 std::string slope_means_sql(const std::string& from, const std::string& x, const std::string& y);
 
 /// Per-stratum moment sums of (x, y) on values centred by (mean_x, mean_y), rows where x or y
 /// is missing left out: GROUP BY GROUPING SETS with one set per stratifier (plus the empty set
 /// for the whole table). Columns: each stratifier, GROUPING(s) flags (g0, g1, ...), then
 /// COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx*dx) AS sxx, SUM(dx*dy) AS sxy,
-/// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision. The means are
-/// written with 17 significant digits (exact round trip); a non-finite mean is written as 0.
+/// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision, then MIN and
+/// MAX of x and of y (a constant x or y in a stratum is then known exactly, whatever the
+/// rounding of the sums). The means are written with 17 significant digits (exact round
+/// trip); a non-finite mean is written as 0.
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
                               const std::vector<std::string>& strata, double mean_x, double mean_y);
+
+/// One row for the HC3 robust SE of the pooled slope (as core/stats/regression.h's hc3_slope_se):
+/// SUM(u * u) with u = xt e / (1 - h), xt = x - mean_x, e = (y - mean_y) - slope xt,
+/// h = inv_w + xt² inv_sxx over the rows with x and y present, and MIN(1 - h) (the SE is
+/// undefined when it is not positive). Numbers as in slope_moments_sql.
+std::string slope_hc3_sql(const std::string& from, const std::string& x, const std::string& y, double mean_x,
+                          double mean_y, double slope, double inv_w, double inv_sxx);
 
 }  // namespace foldline::sql

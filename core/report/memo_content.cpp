@@ -362,14 +362,25 @@ MemoContent build_memo(const MemoInput& in) {
     const Question& q = r.question;
     const project::Project* p = in.project;
 
-    const std::string source = file_name(in.data.path);
+    // A database source is named by its database and table (or query), never by a path.
+    const DatabaseRecord* db = in.data.database ? &*in.data.database : nullptr;
+    const std::string source =
+        db ? "database " + (db->database.empty() ? std::string("(unnamed)") : db->database) + ", " +
+                 (db->table.empty() ? std::string("a query") : "table " + db->table)
+           : file_name(in.data.path);
     m.title = p && !p->memo.title.empty() ? p->memo.title : "Audit of " + source;
     m.analyst = p ? p->memo.analyst : std::string();
     m.date = in.date;
     m.page_size = p ? p->memo.page_size : project::PageSize::A4;
     m.facts.push_back({"Data source", source});
     m.facts.push_back({"Rows", count(in.data.rows)});
-    m.facts.push_back({"SHA-256", in.data.sha256.empty() ? "not computed" : in.data.sha256});
+    if (db) {
+        if (!db->query.empty()) m.facts.push_back({"Query", db->query});
+        m.facts.push_back({"Driver", db->driver.empty() ? "not reported" : db->driver});
+        m.facts.push_back({"Queried at", db->queried_at.empty() ? "not recorded" : db->queried_at});
+    } else {
+        m.facts.push_back({"SHA-256", in.data.sha256.empty() ? "not computed" : in.data.sha256});
+    }
     if (!m.analyst.empty()) m.facts.push_back({"Analyst", m.analyst});
     if (!m.date.empty()) m.facts.push_back({"Date", m.date});
     m.data_warning = in.data_change;
@@ -651,8 +662,11 @@ MemoContent build_memo(const MemoInput& in) {
                           : "") +
             "Which view answers the question: the adjustment criterion on the reviewer's causal diagram (Pearl's "
             "back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
-        "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
-            ". The audit re-runs from its project file with `foldline run PROJECT`.",
+        db ? "Data: " + source + ", counted inside the database (" + (db->driver.empty() ? "ODBC" : db->driver) +
+                 ") at " + (db->queried_at.empty() ? std::string("an unrecorded time") : db->queried_at) +
+                 "; only per-stratum counts and sums left the engine."
+           : "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
+                 ". The audit re-runs from its project file with `foldline run PROJECT`.",
     };
     m.method_notes.insert(m.method_notes.end(), common_notes.begin(), common_notes.end());
     if (r.cancelled) m.method_notes.push_back("The scan was stopped early: the findings are incomplete.");

@@ -152,6 +152,13 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     json j;
     j["version"] = kScanJsonVersion;
     j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
+    if (data.database) {
+        const auto& d = *data.database;
+        j["data"]["database"] = {{"connection", d.connection}, {"driver", d.driver}, {"database", d.database},
+                                 {"table", d.table.empty() ? json(nullptr) : json(d.table)},
+                                 {"query", d.query.empty() ? json(nullptr) : json(d.query)},
+                                 {"rows", num(d.rows)}, {"queried_at", d.queried_at}};
+    }
     const auto& q = r.question;
     if (q.outcome.empty() && !r.slope_question.x.empty()) {
         // A slope-only scan: numeric outcome on a numeric exposure.

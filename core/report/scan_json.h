@@ -2,11 +2,13 @@
 // The scan's JSON document: Foldline's published interface (documented in the README,
 // "JSON output"). Numbers that are undefined (NaN, infinite) are written as null; counts that
 // are whole numbers are written as integers.
+#include <optional>
 #include <string>
 #include <vector>
 
 #include <nlohmann/json.hpp>
 
+#include "core/io/source_record.h"
 #include "core/scan/scan_result.h"
 
 namespace foldline {
@@ -16,6 +18,7 @@ struct DataInfo {
     std::string path;
     std::string sha256;  ///< hex digest of the file's bytes; empty when not computed
     double rows = 0;     ///< rows read (weighted rows for a pre-counted file are in findings)
+    std::optional<DatabaseRecord> database = std::nullopt;  ///< set for a database source (then sha256 is empty)
 };
 
 inline constexpr int kScanJsonVersion = 1;

@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 #include <mutex>
+#include <functional>
 #include <thread>
 
 #include "core/stats/bootstrap.h"
@@ -206,35 +207,29 @@ void rank_findings(ScanResult& r) {
     });
 }
 
-Result<ScanResult> rate_scan(const Table& table, const Question& q, const CandidateSet& cands,
-                             const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding,
-                             std::vector<SlopeFinding> slope_findings) {
-    if (q.outcome_column >= table.columns.size() || q.exposure_column >= table.columns.size() ||
-        table.columns[q.exposure_column].name != q.exposure)
-        return make_error("the question does not belong to this table");
-    for (const auto& c : cands.candidates)
-        if (!c.column || c.column->size() != table.rows)
-            return make_error("stratifier '" + c.name + "' does not belong to this table");
+namespace {
 
-    ScanResult result;
-    result.question = q;
-    result.excluded = cands.excluded;
-    result.rows = table.total_weight();
+constexpr std::size_t kSingle = static_cast<std::size_t>(-1);
+
+// The cube of stratifier i alone (j == kSingle) or of the pair (i, j).
+using CubeOf = std::function<CountCube(std::size_t i, std::size_t j)>;
+// The level labels of stratifier i.
+using LevelsOf = std::function<const std::vector<std::string>&(std::size_t i)>;
+
+// Everything after the counting, shared by the scan of a table and the scan of cubes counted
+// elsewhere: one finding per cube and comparison, FDR, bootstrap of the cubes, ranking.
+Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubeOf& cube_of, const LevelsOf& levels_of,
+                              const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding,
+                              std::vector<SlopeFinding> slope_findings) {
+    struct Task {
+        std::size_t i, j;  // j == kSingle for a single stratifier
+    };
+    constexpr std::size_t single = kSingle;
     result.alpha = opt.alpha;
     result.bootstrap = opt.bootstrap;
     result.seed = opt.seed;
-    for (const auto& c : cands.candidates) {
-        result.candidates.push_back(c.name);
-        result.candidate_origin.push_back(c.origin);
-    }
-
-    const RowCells rows = encode_rows(table, q);
-    struct Task {
-        std::size_t i, j;  // j == npos for a single stratifier
-    };
-    constexpr std::size_t single = static_cast<std::size_t>(-1);
     std::vector<Task> tasks;
-    const std::size_t nc = cands.candidates.size();
+    const std::size_t nc = result.candidates.size();
     for (std::size_t i = 0; i < nc; ++i) tasks.push_back({i, single});
     if (opt.pairs)
         for (std::size_t i = 0; i < nc; ++i)
@@ -255,20 +250,20 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
             const std::size_t t = next.fetch_add(1);
             if (t >= tasks.size() || work.cancelled()) return;
             const auto& task = tasks[t];
-            const Column& a = *cands.candidates[task.i].column;
             const bool pair = task.j != single;
-            const Column* b = pair ? cands.candidates[task.j].column : nullptr;
-            const CountCube cube = pair ? build_pair_cube(a, *b, rows, table.weights) : build_cube(a, rows, table.weights);
-            std::vector<std::string> names{cands.candidates[task.i].name};
-            if (pair) names.push_back(cands.candidates[task.j].name);
-            const std::size_t k2 = pair ? b->levels.size() : 1;
+            const auto& la = levels_of(task.i);
+            const auto* lb = pair ? &levels_of(task.j) : nullptr;
+            const CountCube cube = cube_of(task.i, task.j);
+            std::vector<std::string> names{result.candidates[task.i]};
+            if (pair) names.push_back(result.candidates[task.j]);
+            const std::size_t k2 = pair ? lb->size() : 1;
             for (std::size_t comp = 0; comp < ncomp; ++comp) {
                 auto strata = comparison_strata(cube, comp + 1, &kept);
                 std::vector<std::vector<std::string>> labels;
                 labels.reserve(kept.size());
                 for (auto s : kept) {
-                    if (pair) labels.push_back({a.levels[s / k2], b->levels[s % k2]});
-                    else labels.push_back({a.levels[s]});
+                    if (pair) labels.push_back({la[s / k2], (*lb)[s % k2]});
+                    else labels.push_back({la[s]});
                 }
                 auto f = analyse_strata(strata, labels, names, opt.alpha);
                 f.comparison = comp;
@@ -345,6 +340,84 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
     }
     rank_findings(result);
     return result;
+}
+
+}  // namespace
+
+Result<ScanResult> rate_scan(const Table& table, const Question& q, const CandidateSet& cands,
+                             const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding,
+                             std::vector<SlopeFinding> slope_findings) {
+    if (q.outcome_column >= table.columns.size() || q.exposure_column >= table.columns.size() ||
+        table.columns[q.exposure_column].name != q.exposure)
+        return make_error("the question does not belong to this table");
+    for (const auto& c : cands.candidates)
+        if (!c.column || c.column->size() != table.rows)
+            return make_error("stratifier '" + c.name + "' does not belong to this table");
+
+    ScanResult result;
+    result.question = q;
+    result.excluded = cands.excluded;
+    result.rows = table.total_weight();
+    for (const auto& c : cands.candidates) {
+        result.candidates.push_back(c.name);
+        result.candidate_origin.push_back(c.origin);
+    }
+    const RowCells rows = encode_rows(table, q);
+    const auto cube_of = [&](std::size_t i, std::size_t j) {
+        const Column& a = *cands.candidates[i].column;
+        return j == kSingle ? build_cube(a, rows, table.weights)
+                            : build_pair_cube(a, *cands.candidates[j].column, rows, table.weights);
+    };
+    const auto levels_of = [&](std::size_t i) -> const std::vector<std::string>& {
+        return cands.candidates[i].column->levels;
+    };
+    return scan_cubes(std::move(result), q, cube_of, levels_of, opt, work, on_finding, std::move(slope_findings));
+}
+
+Result<ScanResult> rate_scan(const CubeSet& cubes, const Question& q, const RateScanOptions& opt, const Work& work,
+                             const RateFindingCallback& on_finding, std::vector<SlopeFinding> slope_findings) {
+    const std::size_t n = cubes.stratifiers.size();
+    if (cubes.singles.size() != n) return make_error("one count cube per stratifier expected");
+    const bool pairs = opt.pairs && n > 1;
+    if (pairs && cubes.pairs.size() != n * (n - 1) / 2)
+        return make_error("pair cubes missing: " + std::to_string(n * (n - 1) / 2) + " expected, " +
+                          std::to_string(cubes.pairs.size()) + " given");
+    auto check = [&](const CountCube& c, std::size_t strata, const std::string& what) -> Status {
+        if (c.slots != q.slots() || c.strata != strata || c.counts.size() != strata * q.slots() * 2)
+            return make_error("the count cube of " + what + " does not fit the question (" + std::to_string(c.strata) +
+                              " strata, " + std::to_string(c.slots) + " exposure slots)");
+        return Ok{};
+    };
+    std::vector<std::size_t> pair_index(n * n, 0);
+    std::size_t p = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+        const auto& si = cubes.stratifiers[i];
+        if (auto st = check(cubes.singles[i], si.levels.size(), "'" + si.name + "'"); !st) return st.error();
+        if (!pairs) continue;
+        for (std::size_t j = i + 1; j < n; ++j, ++p) {
+            const auto& sj = cubes.stratifiers[j];
+            if (auto st = check(cubes.pairs[p], si.levels.size() * sj.levels.size(),
+                                "'" + si.name + "' \u00d7 '" + sj.name + "'");
+                !st)
+                return st.error();
+            pair_index[i * n + j] = p;
+        }
+    }
+    ScanResult result;
+    result.question = q;
+    result.excluded = cubes.excluded;
+    result.rows = cubes.rows;
+    for (const auto& s : cubes.stratifiers) {
+        result.candidates.push_back(s.name);
+        result.candidate_origin.push_back(s.origin);
+    }
+    const auto cube_of = [&](std::size_t i, std::size_t j) {
+        return j == kSingle ? cubes.singles[i] : cubes.pairs[pair_index[i * n + j]];
+    };
+    const auto levels_of = [&](std::size_t i) -> const std::vector<std::string>& { return cubes.stratifiers[i].levels; };
+    RateScanOptions o = opt;
+    o.pairs = pairs;
+    return scan_cubes(std::move(result), q, cube_of, levels_of, o, work, on_finding, std::move(slope_findings));
 }
 
 }  // namespace foldline

@@ -31,6 +31,26 @@ struct RateScanOptions {
 
 using RateFindingCallback = std::function<void(const RateFinding&)>;
 
+/// A stratifier whose cubes were counted elsewhere: its name, how its levels were formed (as
+/// select_candidates says) and the level labels of its strata, in stratum order.
+struct CubeStratifier {
+    std::string name;
+    std::string origin;
+    std::vector<std::string> levels;
+};
+
+/// Count cubes of one question counted outside the table scan (a database's GROUPING SETS, a
+/// summary file): one cube per stratifier and, for a scan with pairs, one per pair i < j in the
+/// order (0,1), (0,2), ..., (1,2), ... whose stratum is level_i * levels_j + level_j. Every cube
+/// has the question's exposure slots and excludes missing stratifier values.
+struct CubeSet {
+    std::vector<CubeStratifier> stratifiers;
+    std::vector<CountCube> singles;      ///< one per stratifier
+    std::vector<CountCube> pairs;        ///< n (n - 1) / 2 when pairs are scanned, else may be empty
+    std::vector<Exclusion> excluded;     ///< columns left out, with their reasons
+    double rows = 0;                     ///< weighted rows of the source (every row, as Table::total_weight)
+};
+
 /// Every figure of one comparison from its strata (already restricted to strata with rows).
 /// `labels[k]` are the per-stratifier labels of stratum k; `strata_names` the stratifier
 /// columns. Class decided with the raw reversal p (q_value = p_reversal until apply_fdr).
@@ -50,6 +70,14 @@ double class_stability(const stats::Strata& strata, FindingClass cls, double alp
 Result<ScanResult> rate_scan(const Table& table, const Question& question, const CandidateSet& candidates,
                              const RateScanOptions& options = {}, const Work& work = {},
                              const RateFindingCallback& on_finding = {},
+                             std::vector<SlopeFinding> slope_findings = {});
+
+/// The same scan from cubes counted elsewhere: every finding, FDR step, bootstrap draw (of the
+/// cube) and ranking is the one the table scan gives for a table with these cubes. Errors when
+/// a cube does not fit the question or its stratifier's levels, or pair cubes are missing while
+/// options.pairs is set (one stratifier: no pairs, no error). No stratifiers: no rate findings.
+Result<ScanResult> rate_scan(const CubeSet& cubes, const Question& question, const RateScanOptions& options = {},
+                             const Work& work = {}, const RateFindingCallback& on_finding = {},
                              std::vector<SlopeFinding> slope_findings = {});
 
 }  // namespace foldline

@@ -268,6 +268,29 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
                             : 0.0;
 }
 
+// The question's names and each group's labels ("(missing)" for the spare code).
+void name_groups(SlopeFinding& f, const SlopeQuestion& q, const std::string& name_a,
+                 const std::vector<std::string>& levels_a, const std::string* name_b,
+                 const std::vector<std::string>* levels_b) {
+    f.x = q.x;
+    f.y = q.y;
+    f.covariates = q.covariates;
+    f.strata.push_back(name_a);
+    if (name_b) f.strata.push_back(*name_b);
+    const std::size_t kb = levels_b ? levels_b->size() + 1 : 1;
+    auto label = [](const std::vector<std::string>& levels, std::size_t code) {
+        return code < levels.size() ? levels[code] : kMissingLabel;
+    };
+    for (auto& g : f.groups) {
+        const std::size_t k = g.code;
+        g.levels.push_back(label(levels_a, k / kb));
+        if (levels_b) g.levels.push_back(label(*levels_b, k % kb));
+        g.level = g.levels[0];
+        for (std::size_t j = 1; j < g.levels.size(); ++j) g.level += " / " + g.levels[j];
+        if (!g.informative) f.uninformative.push_back(g.level);
+    }
+}
+
 struct Scan {
     const Table& table;
     const SlopeQuestion& q;
@@ -312,23 +335,8 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
     if (s.d.p > 0) matrices = accumulate_matrix(s.d, codes_a.data(), b, kb, strata);
     SlopeFinding f = figures(moments, s.d.p > 0 ? &matrices : nullptr, s.d.pooled,
                              s.d.p > 0 ? &s.d.pooled_matrix : nullptr, s.d.hc3, s.q.alpha);
-    f.x = s.q.x;
-    f.y = s.q.y;
-    f.covariates = s.q.covariates;
     f.linear_probability = s.d.linear_probability;
-    f.strata.push_back(ca->name);
-    if (cb) f.strata.push_back(cb->name);
-    auto label = [](const Column* c, std::size_t code) {
-        return code < c->levels.size() ? c->levels[code] : kMissingLabel;
-    };
-    for (auto& g : f.groups) {
-        const std::size_t k = g.code;
-        g.levels.push_back(label(ca, k / kb));
-        if (cb) g.levels.push_back(label(cb, k % kb));
-        g.level = g.levels[0];
-        for (std::size_t j = 1; j < g.levels.size(); ++j) g.level += " / " + g.levels[j];
-        if (!g.informative) f.uninformative.push_back(g.level);
-    }
+    name_groups(f, s.q, ca->name, ca->levels, cb ? &cb->name : nullptr, cb ? &cb->levels : nullptr);
     if (s.q.bootstrap > 0 && f.finding_class != FindingClass::Stable) {
         std::vector<std::uint32_t> joint(codes_a.size());
         for (std::size_t i = 0; i < joint.size(); ++i)
@@ -491,6 +499,17 @@ Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQue
     std::vector<const Column*> columns;
     for (const auto& c : candidates.candidates) columns.push_back(c.column);
     return scan_slopes(table, q, columns, pairs, work);
+}
+
+SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::string& stratifier,
+                                        const std::vector<std::string>& levels,
+                                        const std::vector<BivariateMoments>& strata,
+                                        const BivariateMoments& pooled, double hc3,
+                                        bool linear_probability) {
+    SlopeFinding f = figures(strata, nullptr, pooled, nullptr, hc3, q.alpha);
+    f.linear_probability = linear_probability;
+    name_groups(f, q, stratifier, levels, nullptr, nullptr);
+    return f;
 }
 
 void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {

@@ -116,6 +116,18 @@ Result<std::vector<SlopeFinding>> scan_slopes(const Table& table, const SlopeQue
                                               const CandidateSet& candidates, bool pairs,
                                               const Work& work = {});
 
+/// One check from per-stratum moments computed elsewhere (a database's GROUP BY): `strata[k]`
+/// summarises the rows with code k of the stratifier (k == levels.size(): the "(missing)"
+/// stratum; an empty summary is no group), `pooled` every row used, `hc3` the pooled slope's
+/// robust SE (NaN when unknown). Covariates of `q` are ignored. Gives the finding check_slope
+/// gives for rows with these moments (q_value NaN, no stability); no strata: no groups and an
+/// undefined within slope.
+SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::string& stratifier,
+                                        const std::vector<std::string>& levels,
+                                        const std::vector<BivariateMoments>& strata,
+                                        const BivariateMoments& pooled, double hc3,
+                                        bool linear_probability);
+
 /// Benjamini-Hochberg q-values over every finding's p_reversal (core/stats/fdr.h), then each
 /// class recomputed with its q-value and its stability re-read for the new class from
 /// draws_by_class. No-op on an empty vector.

@@ -5,6 +5,24 @@
 
 namespace foldline {
 
+BivariateMoments BivariateMoments::from_centred_sums(double n, double sx, double sy, double sxx,
+                                                     double sxy, double syy, double shift_x,
+                                                     double shift_y, bool x_constant, bool y_constant) {
+    if (!(n > 0)) return {};
+    const double ux = sx / n, uy = sy / n;
+    BivariateMoments m;
+    m.rows = n;
+    m.w = n;
+    m.x0 = shift_x;
+    m.y0 = shift_y;
+    m.dx = ux;
+    m.dy = uy;
+    m.cxx = x_constant ? 0.0 : std::max(0.0, sxx - sx * ux);
+    m.cyy = y_constant ? 0.0 : std::max(0.0, syy - sy * uy);
+    m.cxy = x_constant || y_constant ? 0.0 : sxy - sx * uy;
+    return m;
+}
+
 BivariateMoments BivariateMoments::from_means(double rows, double w, double mean_x,
                                               double mean_y, double cxx, double cxy,
                                               double cyy) {

@@ -42,6 +42,15 @@ struct BivariateMoments {
     static BivariateMoments from_means(double rows, double w, double mean_x, double mean_y,
                                        double cxx, double cxy, double cyy);
 
+    /// Summary from sums of values centred by a shift, as a database returns them: n rows of
+    /// weight 1 with Σdx, Σdy, Σdx², Σdxdy, Σdy² where dx = x − shift_x, dy = y − shift_y. The
+    /// co-moments are Σdx² − (Σdx)²/n and so on (negative rounding clamped to 0); a stratum known
+    /// to have one x (or y) value gets exactly 0 for the co-moments of that variable. Empty when
+    /// n <= 0.
+    static BivariateMoments from_centred_sums(double n, double sx, double sy, double sxx, double sxy,
+                                              double syy, double shift_x, double shift_y,
+                                              bool x_constant = false, bool y_constant = false);
+
     /// Folds in one row. A weight <= 0 or a NaN value leaves the moments unchanged.
     void add(double x, double y, double weight = 1.0);
     /// Folds in another summary (exact pairwise merge). Merging an empty summary only adds its

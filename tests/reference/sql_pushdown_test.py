@@ -80,7 +80,8 @@ atexit.register(cleanup)
 pg("initdb", "-D", data, "-U", "admin", "--pwfile", pwfile, "-A", "scram-sha-256", "--no-sync", "-E", "UTF8",
    "--locale", "C")
 pg("pg_ctl", "-D", data, "-l", os.path.join(run, "log"), "-w", "-o",
-   f"-c listen_addresses=127.0.0.1 -p {port} -k {run} -c fsync=off -c full_page_writes=off", "start")
+   f"-c listen_addresses=127.0.0.1 -p {port} -k {run} -c fsync=off -c full_page_writes=off "
+   "-c log_statement=all", "start")
 started = True
 env_admin = dict(os.environ, PGPASSWORD="admin-secret")
 
@@ -137,7 +138,27 @@ with open(big, "w", newline="") as f:
         w.writerow([team, "yes" if rnd.random() < p else "no", fam, rnd.choice(["S1", "S2", "S3"]),
                     rnd.choice(["a", "b", ""]), rnd.randint(0, 6)])
 
+# An invented plant log for the trend checks: large values (temperatures in millikelvin, output
+# in grams) so that the moment sums must be centred, one line whose temperature never changes
+# (no spread in x: the stratum must come out uninformative, exactly as in the file scan), a
+# line with one reading, and missing readings and missing lines.
+plant = os.path.join(work, "plant.csv")
+with open(plant, "w", newline="") as f:
+    w = csv.writer(f)
+    w.writerow(["supplier", "defect", "line", "crew", "temp_mk", "output_g"])
+    for i in range(20_000):
+        line = rnd.choice(["L1", "L2", "L3", "calibration", ""])
+        base = {"L1": 1_000_000.0, "L2": 1_000_400.0, "L3": 999_700.0, "calibration": 1_000_123.1, "": 1_000_050.0}[line]
+        temp = base if line == "calibration" else base + rnd.gauss(0, 25)
+        out = 300_000.0 - 0.8 * (temp - base) + 3.0 * (base - 1_000_000.0) + rnd.gauss(0, 40)
+        supplier = "north" if rnd.random() < (0.6 if line in ("L1", "calibration") else 0.4) else "south"
+        defect = "yes" if rnd.random() < (0.1 if line == "L2" else 0.05) else "no"
+        w.writerow([supplier, defect, line, rnd.randint(1, 4), "" if rnd.random() < 0.02 else repr(temp),
+                    "" if rnd.random() < 0.02 else repr(out)])
+    w.writerow(["north", "no", "solo", 1, "1000000.5", "299999.0"])
+
 load("lender", os.path.join(root, "sample_data/lender_approvals.csv"))
+load("plant", plant)
 load("clinic", os.path.join(root, "sample_data/clinic_outcomes.csv"))
 load("staffing", big)
 load("clinic_counts", os.path.join(root, "sample_data/clinic_outcomes_counts.csv"))
@@ -146,7 +167,7 @@ psql("INSERT INTO payroll VALUES ('north', 'yes', 1), ('south', 'no', 2)")
 psql('CREATE TABLE blobs (team TEXT, hired TEXT, doc JSON)')
 psql("""INSERT INTO blobs VALUES ('north', 'yes', '{"a":1}'), ('south', 'no', '{"a":2}')""")
 psql("CREATE ROLE reader LOGIN PASSWORD 'reader-secret'")
-psql("GRANT SELECT ON lender, clinic, staffing, blobs, clinic_counts TO reader")   # not payroll
+psql("GRANT SELECT ON lender, clinic, staffing, blobs, clinic_counts, plant TO reader")   # not payroll
 
 conn = f"odbc:Driver={driver};Server=127.0.0.1;Port={port};Database=audit;Uid=reader;"
 env = dict(os.environ, FOLDLINE_ODBC_PASSWORD="reader-secret")
@@ -192,6 +213,100 @@ compare("clinic pre-counted (count column)", os.path.join(root, "sample_data/cli
         "clinic_counts", ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard"],
         ["--count-column", "patients"])
 compare("staffing 100k (awkward names)", big, "staffing", ["--outcome", "hired=yes", "--exposure", "team=north,south"])
+# Named stratifiers against the column order (pairs follow the list), and no pairs at all.
+compare("staffing, named strata in reverse order", big, "staffing",
+        ["--outcome", "hired=yes", "--exposure", "team=north,south", "--strata", 'tenure,select,site "code"'])
+# With a diagram (verdicts need the joint strata of any set: the joint cells are loaded instead).
+compare("clinic with its diagram", os.path.join(root, "sample_data/clinic_outcomes.csv"), "clinic",
+        ["--outcome", "recovered=yes", "--exposure", "treatment=new_protocol,standard",
+         "--diagram", os.path.join(root, "sample_data/clinic_outcomes.diagram.json")])
+compare("lender without pairs", os.path.join(root, "sample_data/lender_approvals.csv"), "lender",
+        ["--outcome", "approved=1", "--exposure", "applicant_group=B,A", "--no-pairs"])
+
+
+def close(a, b, path, worst):
+    """Equal JSON, numbers to 1e-9 relative (1e-12 absolute near zero); records the largest
+    relative difference of any slope figure in worst[0]."""
+    if isinstance(a, dict) and isinstance(b, dict):
+        if a.keys() != b.keys():
+            return f"{path}: keys differ"
+        for k in a:
+            r = close(a[k], b[k], f"{path}.{k}", worst)
+            if r:
+                return r
+        return None
+    if isinstance(a, list) and isinstance(b, list):
+        if len(a) != len(b):
+            return f"{path}: lengths {len(a)} and {len(b)}"
+        for i, (x, y) in enumerate(zip(a, b)):
+            r = close(x, y, f"{path}[{i}]", worst)
+            if r:
+                return r
+        return None
+    if isinstance(a, float) or isinstance(b, float):
+        if a is None or b is None:
+            return f"{path}: {a} and {b}"
+        d = abs(a - b)
+        if d > 1e-9 * max(abs(a), abs(b)) and d > 1e-12:
+            return f"{path}: {a!r} and {b!r}"
+        if path.endswith(".slope") and max(abs(a), abs(b)) > 0:
+            worst[0] = max(worst[0], d / max(abs(a), abs(b)))
+        return None
+    return None if a == b else f"{path}: {a!r} and {b!r}"
+
+
+def compare_trend(name, csv_path, table, question, trend):
+    a, _ = scan([csv_path, *question, "--trend", trend])
+    b, _ = scan(["--source", conn, "--table", table, *question, "--trend", trend])
+    if a.returncode or b.returncode:
+        failures.append(f"{name}: exit codes file {a.returncode}, database {b.returncode}: {b.stderr.strip()}")
+        return
+    da, db = json.loads(a.stdout), json.loads(b.stdout)
+    da.pop("data"), db.pop("data")
+    # The FDR step runs over rate and slope findings together, so p-values equal to 1e-9 may
+    # order near-ties differently: match findings by kind, strata and groups.
+    key = lambda f: (f["kind"], json.dumps(f.get("strata")), f.get("focal", ""))
+    fa, fb = sorted(da.pop("findings"), key=key), sorted(db.pop("findings"), key=key)
+    worst = [0.0]
+    problem = close(da, db, "", worst) or close(fa, fb, "findings", worst)
+    slopes = sum(1 for f in fa if f["kind"] == "slope")
+    if problem:
+        failures.append(f"{name}: {problem}")
+    elif slopes == 0:
+        failures.append(f"{name}: no slope checks ran")
+    else:
+        print(f"ok   {name}: {len(fa)} findings ({slopes} slope checks) equal, slopes to {worst[0]:.1e} relative")
+
+
+compare_trend("lender trend income -> loan amount", os.path.join(root, "sample_data/lender_approvals.csv"), "lender",
+              ["--outcome", "approved=1", "--exposure", "applicant_group=B,A"], "income:loan_amount")
+compare_trend("plant trend at 1e6 (centred sums)", plant, "plant",
+              ["--outcome", "defect=yes", "--exposure", "supplier=north,south"], "temp_mk:output_g")
+
+# The JSON records the source instead of a file digest, and a password written into the
+# connection string itself (not only the environment's) appears nowhere in the output.
+conn_pw = conn + "PWD={reader-secret};"
+r, _ = scan(["--source", conn_pw, "--query", "SELECT * FROM clinic", "--outcome", "recovered=yes",
+             "--exposure", "treatment=new_protocol,standard"], env=dict(os.environ))
+rec = json.loads(r.stdout)["data"].get("database", {}) if r.returncode == 0 else {}
+if r.returncode or "reader-secret" in r.stdout + r.stderr:
+    failures.append(f"source record: exit {r.returncode}, password in the output: {'reader-secret' in r.stdout + r.stderr}")
+elif not (rec.get("driver") and rec.get("database") == "audit" and rec.get("query") == "SELECT * FROM clinic"
+          and rec.get("table") is None and rec.get("rows") and rec.get("queried_at", "").endswith("Z")
+          and "PWD=***" in rec.get("connection", "")):
+    failures.append(f"source record incomplete: {rec}")
+else:
+    print(f"ok   source record: {rec['driver']}, database {rec['database']}, {rec['rows']} rows at "
+          f"{rec['queried_at']}, password masked")
+
+# The rate scans above ran on the cubes of one GROUPING SETS query (the server logs every statement).
+with open(os.path.join(run, "log"), errors="replace") as f:
+    log = f.read()
+if "GROUP BY GROUPING SETS" not in log or "GROUPING(" not in log or "SUM(dx * dy)" not in log \
+        or ") AS binned" not in log:   # the lender's continuous columns: pairs binned in the engine
+    failures.append("the database scans did not send the GROUPING SETS query")
+else:
+    print("ok   the rate scans counted their cubes with one GROUPING SETS query")
 
 
 def expect_error(name, args, words, code=3, env=env):
@@ -219,6 +334,44 @@ if a.returncode or b.returncode or json.loads(a.stdout)["findings"] != json.load
     failures.append("query source: findings differ from the table source")
 else:
     print("ok   query source: same findings as the table")
+
+# Cancel: an interrupt during a 30-second statement cancels it in the engine (the stop token
+# reaches the driver's SQLCancel): the command ends within seconds, says "cancelled", writes
+# nothing, and the server logs the cancel request.
+import signal
+slow30 = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(30)) AS pause'
+half = os.path.join(work, "cancelled.json")
+proc = subprocess.Popen([foldline, "scan", "--source", conn, "--query", slow30, *q, "--json", half], env=env,
+                        stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+time.sleep(1.5)
+t_cancel = time.time()
+proc.send_signal(signal.SIGINT)
+out, err = proc.communicate(timeout=60)
+took = time.time() - t_cancel
+with open(os.path.join(run, "log"), errors="replace") as f:
+    server_cancelled = "canceling statement due to user request" in f.read()
+if proc.returncode != 3 or "cancelled" not in err.lower() or out.strip() or os.path.exists(half) or took > 5 \
+        or not server_cancelled:
+    failures.append(f"cancel: exit {proc.returncode} after {took:.1f} s, server saw the cancel: {server_cancelled}, "
+                    f"file written: {os.path.exists(half)}, message: {err.strip()[:300]}")
+else:
+    print(f"ok   cancel: ended {took:.2f} s after the interrupt, the server cancelled the statement: "
+          f"{' '.join(err.split())[:200]}")
+
+# The workbench's database path (tests/ui/database_form_test.cpp), when this build has it:
+# a table counted through the Source step, and Cancel during a slow query.
+ui_test = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(foldline))), "tests", "ui",
+                       "ui_database_form_test")
+if os.path.exists(ui_test):
+    r = subprocess.run([ui_test, "counts_a_table_and_cancels_a_slow_query"], stdout=subprocess.PIPE,
+                       stderr=subprocess.STDOUT, text=True, timeout=120,
+                       env=dict(os.environ, QT_QPA_PLATFORM="offscreen", FOLDLINE_TEST_ODBC=conn[5:],
+                                FOLDLINE_TEST_ODBC_PASSWORD_VAR="FOLDLINE_TEST_PW", FOLDLINE_TEST_PW="reader-secret",
+                                XDG_CONFIG_HOME=os.path.join(work, "ui-config")))
+    if r.returncode or "PASS   : DatabaseFormTest::counts_a_table_and_cancels_a_slow_query" not in r.stdout:
+        failures.append("workbench database path: " + r.stdout[-600:])
+    else:
+        print("ok   workbench database path: a table counted, a slow query cancelled from the Source step")
 
 # Dropped connection: the server stops while the scan's statement runs (pg_sleep in the query).
 slow = 'SELECT s.* FROM staffing s, (SELECT pg_sleep(3)) AS pause'

@@ -28,6 +28,9 @@ TEST(OdbcConnection, MasksPasswords) {
     EXPECT_EQ(redact_connection_string("Driver=x;password=abc"), "Driver=x;password=***");
     EXPECT_EQ(redact_connection_string("DSN=w"), "DSN=w");
     EXPECT_EQ(redact_connection_string(""), "");
+    // A braced value may hold ';' and a doubled '}': all of it is the password.
+    EXPECT_EQ(redact_connection_string("Uid=r;PWD={se;cr}}et};Port=5"), "Uid=r;PWD=***;Port=5");
+    EXPECT_EQ(redact_connection_string(" Password = {a;b;c}"), " Password =***");
 }
 
 TEST(OdbcSource, RefusedQueryFailsBeforeConnecting) {

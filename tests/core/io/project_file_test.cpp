@@ -449,3 +449,39 @@ TEST(ProjectFile, TrendFieldsGiveClearErrors) {
     ASSERT_FALSE(newer.ok());
     EXPECT_NE(newer.error().message.find("reads up to version 2"), std::string::npos) << newer.error().message;
 }
+
+// A project over a database source keeps its record (masked connection, driver, database,
+// table or query, rows, time of the query) through a save and a load, byte for byte.
+TEST(ProjectFile, DatabaseSourceRoundTrips) {
+    TempDir t("database");
+    const auto file = (t.path / "warehouse.foldline").string();
+    Project p;
+    p.question.outcome = "approved";
+    p.question.exposure = "group";
+    DatabaseRecord db;
+    db.connection = "Driver=PostgreSQL Unicode;Server=db.example;Uid=reader;PWD=***;";
+    db.driver = "psqlodbcw.so 13.02.0000 (PostgreSQL)";
+    db.database = "audit";
+    db.query = "SELECT * FROM decisions WHERE year = 2025";
+    db.rows = 1250000;
+    db.queried_at = "2026-12-02T05:00:00Z";
+    p.data.database = db;
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string first = slurp(file);
+    auto loaded = load_project(file);
+    ASSERT_TRUE(loaded.ok()) << loaded.error().to_string();
+    ASSERT_TRUE(loaded->data.database.has_value());
+    EXPECT_EQ(loaded->data.database->query, db.query);
+    EXPECT_EQ(loaded->data.database->table, "");
+    EXPECT_EQ(loaded->data.database->rows, 1250000);
+    EXPECT_EQ(loaded->data.database->connection, db.connection);
+    ASSERT_TRUE(save_project(*loaded, file).ok());
+    EXPECT_EQ(slurp(file), first);
+    // A file project has no database record.
+    Project f;
+    ASSERT_TRUE(save_project(f, file).ok());
+    auto plain = load_project(file);
+    ASSERT_TRUE(plain.ok());
+    EXPECT_FALSE(plain->data.database.has_value());
+    EXPECT_EQ(slurp(file).find("\"database\""), std::string::npos);
+}

@@ -70,9 +70,12 @@ TEST(SqlSourceClause, WrapsTheQueryAsADerivedTable) {
 
 TEST(SqlText, DescribeAndProfile) {
     EXPECT_EQ(describe_sql("\"t\" AS src"), "SELECT * FROM \"t\" AS src WHERE 1 = 0");
+    // One set per column; on column k's row COUNT(c_k) is its distinct values, the SUM its rows.
     EXPECT_EQ(profile_sql("\"t\" AS src", {"a b", "c"}),
-              "SELECT COUNT(*), COUNT(\"a b\"), COUNT(DISTINCT \"a b\"), COUNT(\"c\"), COUNT(DISTINCT \"c\") "
-              "FROM \"t\" AS src");
+              "SELECT g0, g1, COUNT(\"a b\"), SUM(CASE WHEN \"a b\" IS NOT NULL THEN n ELSE 0 END), COUNT(\"c\"), "
+              "SUM(CASE WHEN \"c\" IS NOT NULL THEN n ELSE 0 END), SUM(n) FROM (SELECT \"a b\", \"c\", "
+              "GROUPING(\"a b\") AS g0, GROUPING(\"c\") AS g1, COUNT(*) AS n FROM \"t\" AS src GROUP BY GROUPING SETS "
+              "((\"a b\"), (\"c\"))) AS distinct_values GROUP BY g0, g1");
     EXPECT_EQ(profile_sql("\"t\" AS src", {}), "SELECT COUNT(*) FROM \"t\" AS src");
 }
 
@@ -95,7 +98,9 @@ TEST(SqlText, CubesUseOneGroupingSetPerStratifierAndPair) {
     const std::string s = cubes_sql("\"t\" AS src", "approved", "group", {"branch", "term"}, true);
     EXPECT_EQ(s,
               "SELECT \"approved\", \"group\", \"branch\", \"term\", GROUPING(\"branch\") AS g0, "
-              "GROUPING(\"term\") AS g1, COUNT(*) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY GROUPING SETS "
+              "GROUPING(\"term\") AS g1, SUM(\"foldline_rows\") AS \"foldline_rows\" FROM (SELECT \"approved\", "
+              "\"group\", \"branch\", \"term\", COUNT(*) AS \"foldline_rows\" FROM \"t\" AS src GROUP BY \"approved\", "
+              "\"group\", \"branch\", \"term\") AS cells GROUP BY GROUPING SETS "
               "((\"approved\", \"group\", \"branch\"), (\"approved\", \"group\", \"term\"), "
               "(\"approved\", \"group\", \"branch\", \"term\"))");
     const std::string singles = cubes_sql("\"t\" AS src", "o", "e", {"a", "b", "c"}, false);
@@ -106,12 +111,52 @@ TEST(SqlText, CubesUseOneGroupingSetPerStratifierAndPair) {
     for (std::size_t p = all.find("(\"o\", \"e\""); p != std::string::npos; p = all.find("(\"o\", \"e\"", p + 1)) ++sets;
     EXPECT_EQ(sets, 6u);
     EXPECT_EQ(cubes_sql("x", "o", "e", {}, true),
-              "SELECT \"o\", \"e\", COUNT(*) AS \"foldline_rows\" FROM x GROUP BY GROUPING SETS ((\"o\", \"e\"))");
+              "SELECT \"o\", \"e\", SUM(\"foldline_rows\") AS \"foldline_rows\" FROM (SELECT \"o\", \"e\", COUNT(*) AS "
+              "\"foldline_rows\" FROM x GROUP BY \"o\", \"e\") AS cells GROUP BY GROUPING SETS ((\"o\", \"e\"))");
+}
+
+TEST(SqlText, CubesWithThePooledSetFirstAppearanceAndACountColumn) {
+    CubesQuery q;
+    q.outcome = "o";
+    q.exposure = "e";
+    q.strata = {"a b", "c"};
+    q.pooled = true;
+    q.first_appearance = true;
+    EXPECT_EQ(cubes_sql("\"t\" AS src", q),
+              "SELECT \"o\", \"e\", \"a b\", \"c\", GROUPING(\"a b\") AS g0, GROUPING(\"c\") AS g1, "
+              "SUM(\"foldline_rows\") AS \"foldline_rows\", MIN(\"foldline_first_row\") AS \"foldline_first_row\" "
+              "FROM (SELECT \"o\", \"e\", \"a b\", \"c\", COUNT(*) AS \"foldline_rows\", MIN(\"foldline_first_row\") AS "
+              "\"foldline_first_row\" FROM (SELECT \"o\", \"e\", \"a b\", \"c\", ROW_NUMBER() OVER () AS "
+              "\"foldline_first_row\" FROM \"t\" AS src) AS numbered GROUP BY \"o\", \"e\", \"a b\", \"c\") AS cells "
+              "GROUP BY GROUPING SETS ((\"o\", \"e\"), (\"o\", \"e\", \"a b\"), "
+              "(\"o\", \"e\", \"c\"), (\"o\", \"e\", \"a b\", \"c\")) ORDER BY \"foldline_first_row\"");
+    q.count_column = "n";
+    q.pairs = false;
+    const std::string w = cubes_sql("x", q);
+    EXPECT_NE(w.find("SUM(CAST(\"n\" AS DOUBLE PRECISION)) AS \"foldline_rows\""), std::string::npos);
+    EXPECT_NE(w.find("\"c\", \"n\", ROW_NUMBER() OVER ()"), std::string::npos);
+    EXPECT_EQ(w.find("(\"o\", \"e\", \"a b\", \"c\")"), std::string::npos);
+}
+
+TEST(SqlText, PairsOnlyWithANumericColumnBinnedInTheEngine) {
+    CubesQuery q;
+    q.outcome = "o";
+    q.exposure = "e";
+    q.strata = {"income", "branch"};
+    q.cuts = {{30000.5, 60000}, {}};
+    q.singles = false;
+    const std::string s = cubes_sql("\"t\" AS src", q);
+    EXPECT_NE(s.find("FROM (SELECT \"o\", \"e\", CASE WHEN \"income\" IS NULL THEN NULL WHEN CAST(\"income\" AS "
+                     "DOUBLE PRECISION) < 30000.5 THEN 0 WHEN CAST(\"income\" AS DOUBLE PRECISION) < 60000 THEN 1 "
+                     "ELSE 2 END AS \"income\", \"branch\" FROM \"t\" AS src) AS binned"),
+              std::string::npos);
+    EXPECT_NE(s.find("GROUP BY GROUPING SETS ((\"o\", \"e\", \"income\", \"branch\"))"), std::string::npos);
 }
 
 TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_EQ(slope_means_sql("x", "spend", "sales"),
-              "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)) "
+              "SELECT COUNT(*), AVG(CAST(\"spend\" AS DOUBLE PRECISION)), AVG(CAST(\"sales\" AS DOUBLE PRECISION)), "
+              "SUM(CASE WHEN CAST(\"sales\" AS DOUBLE PRECISION) IN (0, 1) THEN 0 ELSE 1 END) "
               "FROM x WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL");
     const std::string m = slope_moments_sql("x", "spend", "sales", {"region"}, 0.1, 1e300);
     EXPECT_NE(m.find("CAST(\"spend\" AS DOUBLE PRECISION) - 0.10000000000000001 AS dx"), std::string::npos);
@@ -119,8 +164,17 @@ TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_NE(m.find("GROUPING(\"region\") AS g0"), std::string::npos);
     EXPECT_NE(m.find("SUM(dx * dy) AS sxy"), std::string::npos);
     EXPECT_NE(m.find("GROUP BY GROUPING SETS ((), (\"region\"))"), std::string::npos);
+    EXPECT_NE(m.find("MIN(x) AS x_min, MAX(x) AS x_max"), std::string::npos);
     const std::string nan = slope_moments_sql("x", "a", "b", {}, std::nan(""), 2);
     EXPECT_NE(nan.find("AS DOUBLE PRECISION) - 0 AS dx"), std::string::npos);
+}
+
+TEST(SqlText, RobustSlopeErrorUsesTheLeverageOfEachRow) {
+    const std::string h = slope_hc3_sql("x", "spend", "sales", 1.5, 2, 0.25, 0.01, 0.5);
+    EXPECT_NE(h.find("SELECT SUM(u * u), MIN(omh) FROM (SELECT CASE WHEN (1 - (0.01 + "), std::string::npos);
+    EXPECT_NE(h.find("((CAST(\"sales\" AS DOUBLE PRECISION) - 2) - 0.25 * (CAST(\"spend\" AS DOUBLE PRECISION) - 1.5))"),
+              std::string::npos);
+    EXPECT_NE(h.find("WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL) AS leverage"), std::string::npos);
 }
 
 }  // namespace

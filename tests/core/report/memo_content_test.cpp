@@ -281,3 +281,40 @@ TEST(MemoContent, SlopeFindingsGetTheirOwnSections) {
     EXPECT_TRUE(included_in_memo(stable, &p));
     EXPECT_FALSE(included_in_memo(stable, nullptr));
 }
+
+// A database source is named by its database and table, with the driver and the time of the
+// query instead of a file digest; the connection string (even masked) is not printed.
+TEST(MemoContent, DatabaseSourceRecordsDriverTableAndQueryTime) {
+    const ScanResult r = penicillin_scan();
+    MemoInput in;
+    in.scan = &r;
+    in.data = DataInfo{"odbc:DSN=clinic;Uid=reader;PWD=*** table trials", "", 54};
+    DatabaseRecord db;
+    db.connection = "DSN=clinic;Uid=reader;PWD=***";
+    db.driver = "psqlodbcw.so 13.02.0000 (PostgreSQL)";
+    db.database = "audit";
+    db.table = "trials";
+    db.rows = 54;
+    db.queried_at = "2026-12-02T05:00:00Z";
+    in.data.database = db;
+    const MemoContent m = build_memo(in);
+    auto fact = [&](const std::string& label) -> std::string {
+        for (const auto& [k, v] : m.facts)
+            if (k == label) return v;
+        return "<absent>";
+    };
+    EXPECT_EQ(fact("Data source"), "database audit, table trials");
+    EXPECT_EQ(fact("Driver"), db.driver);
+    EXPECT_EQ(fact("Queried at"), db.queried_at);
+    EXPECT_EQ(fact("SHA-256"), "<absent>");
+    EXPECT_EQ(fact("Query"), "<absent>");
+    bool note = false;
+    for (const auto& n : m.method_notes) {
+        EXPECT_EQ(n.find("Uid=reader"), std::string::npos) << n;
+        note = note || n.find("counted inside the database (" + db.driver + ") at " + db.queried_at) != std::string::npos;
+    }
+    EXPECT_TRUE(note);
+    in.data.database->table.clear();
+    in.data.database->query = "SELECT * FROM trials WHERE site = 'north'";
+    EXPECT_EQ(build_memo(in).facts[0].second, "database audit, a query");
+}

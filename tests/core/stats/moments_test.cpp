@@ -141,3 +141,44 @@ TEST(Moments, StratumMomentsMatchesSeparatePasses) {
     }
     EXPECT_TRUE(got[3].empty());
 }
+
+// Sums of values centred by a shift, as the database push-down returns them: the co-moments
+// must match the two-pass reference to 1e-9 for values near 1e6 whose shift is a table-wide
+// mean a few hundred units away from the stratum's own mean; a stratum known to have one x
+// value gets exactly zero spread, whatever the rounding of the sums.
+TEST(Moments, CentredSumsFromADatabaseAgreeWithTwoPass) {
+    std::mt19937_64 rng(11);
+    std::normal_distribution<double> noise(0.0, 25.0);
+    std::vector<double> x, y;
+    for (int i = 0; i < 5000; ++i) {
+        const double xi = 1000400.0 + noise(rng);
+        x.push_back(xi);
+        y.push_back(300000.0 - 0.8 * (xi - 1000400.0) + noise(rng));
+    }
+    const double shift_x = 1000050.0, shift_y = 301000.0;  // another stratum's pull on the table mean
+    double sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
+    for (std::size_t i = 0; i < x.size(); ++i) {
+        const double dx = x[i] - shift_x, dy = y[i] - shift_y;
+        sx += dx;
+        sy += dy;
+        sxx += dx * dx;
+        sxy += dx * dy;
+        syy += dy * dy;
+    }
+    const auto m = BivariateMoments::from_centred_sums(5000, sx, sy, sxx, sxy, syy, shift_x, shift_y);
+    const auto ref = two_pass(x, y);
+    EXPECT_EQ(m.rows, 5000);
+    EXPECT_EQ(m.w, 5000);
+    EXPECT_NEAR(m.mean_x(), ref.mx, 1e-9 * std::abs(ref.mx));
+    EXPECT_NEAR(m.cxx, ref.cxx, 1e-9 * ref.cxx);
+    EXPECT_NEAR(m.cxy, ref.cxy, 1e-9 * std::abs(ref.cxy));
+    EXPECT_NEAR(m.cyy, ref.cyy, 1e-9 * ref.cyy);
+
+    // One x value in the stratum: exactly no spread, and no co-moment with y.
+    const double c = 1000123.5 - shift_x;
+    const auto flat = BivariateMoments::from_centred_sums(3, 3 * c, 3.0, 3 * c * c, c * 3.0, 5.0, shift_x, shift_y, true);
+    EXPECT_EQ(flat.cxx, 0.0);
+    EXPECT_EQ(flat.cxy, 0.0);
+    EXPECT_NEAR(flat.cyy, 5.0 - 3.0, 1e-12);
+    EXPECT_TRUE(BivariateMoments::from_centred_sums(0, 0, 0, 0, 0, 0, 1, 1).empty());
+}
