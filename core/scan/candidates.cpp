@@ -1,7 +1,10 @@
 #include "core/scan/candidates.h"
 
 #include <algorithm>
+#include <atomic>
 #include <cmath>
+#include <optional>
+#include <thread>
 
 #include "core/table/binning.h"
 
@@ -63,10 +66,39 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
         identity_with = identity_conv ? &*identity_conv : nullptr;
     }
     const double rows = static_cast<double>(t.rows);
-    for (std::size_t idx : order) {
+    auto mostly_missing = [&](const Column& c) {
+        return rows > 0 && static_cast<double>(c.missing_count) > o.max_missing_share * rows;
+    };
+    // Numeric columns become levels or bins first, on the machine's threads: each conversion
+    // reads a whole column, and they do not depend on each other.
+    struct Derived {
+        std::optional<Column> levels, bins;
+    };
+    std::vector<Derived> derived(order.size());
+    std::vector<std::size_t> numeric;
+    for (std::size_t k = 0; k < order.size(); ++k)
+        if (!t.columns[order[k]].is_categorical() && !mostly_missing(t.columns[order[k]])) numeric.push_back(k);
+    {
+        std::atomic<std::size_t> next{0};
+        auto convert = [&] {
+            for (std::size_t n; (n = next.fetch_add(1)) < numeric.size();) {
+                const std::size_t k = numeric[n];
+                const Column& c = t.columns[order[k]];
+                derived[k].levels = integer_levels(c, o.max_levels);
+                if (!derived[k].levels && o.bins >= 2) derived[k].bins = quantile_bins(c, o.bins, t.weights);
+            }
+        };
+        const std::size_t nt = std::min<std::size_t>(numeric.size(), std::max(1u, std::thread::hardware_concurrency()));
+        std::vector<std::thread> pool;
+        for (std::size_t k = 1; k < nt; ++k) pool.emplace_back(convert);
+        convert();
+        for (auto& th : pool) th.join();
+    }
+    for (std::size_t k = 0; k < order.size(); ++k) {
+        const std::size_t idx = order[k];
         const Column& c = t.columns[idx];
         auto exclude = [&](std::string why) { out.excluded.push_back({c.name, std::move(why)}); };
-        if (rows > 0 && static_cast<double>(c.missing_count) > o.max_missing_share * rows) {
+        if (mostly_missing(c)) {
             exclude("mostly missing (" + std::to_string(c.missing_count) + " of " + std::to_string(t.rows) +
                     " rows)");
             continue;
@@ -90,7 +122,7 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
             cand.origin = "categorical";
             cand.column = &c;
         } else {
-            if (auto lv = integer_levels(c, o.max_levels)) {
+            if (auto& lv = derived[k].levels) {
                 if (lv->levels.size() < 2) {
                     exclude("constant");
                     continue;
@@ -101,7 +133,7 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
                 exclude("numeric with many values (quantile binning is off)");
                 continue;
             } else {
-                auto b = quantile_bins(c, o.bins, t.weights);
+                auto& b = derived[k].bins;
                 if (!b || b->levels.size() < 2) {
                     exclude("constant");
                     continue;

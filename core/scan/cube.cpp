@@ -44,6 +44,24 @@ void count_pair(const std::vector<C1>& c1, const std::vector<C2>& c2, std::size_
     }
 }
 
+// Fused pair counting, layout [code2][code1][cell]: base[i] = code1[i] * w1 + cell[i] is shared by
+// every pair of the first column, so a pair's counter is base[i] + code2[i] * s1.
+template <typename C>
+void make_base(const C* c1, const std::uint8_t* cell, std::size_t n, std::uint32_t w1, std::uint32_t* base) {
+    for (std::size_t i = 0; i < n; ++i) base[i] = static_cast<std::uint32_t>(c1[i]) * w1 + cell[i];
+}
+
+template <typename C>
+void count_with_base(const std::uint32_t* base, const C* c2, std::size_t n, std::uint32_t s1, std::uint32_t* h0,
+                     std::uint32_t* h1) {
+    std::size_t i = 0;
+    for (; i + 1 < n; i += 2) {
+        ++h0[static_cast<std::uint32_t>(c2[i]) * s1 + base[i]];
+        ++h1[static_cast<std::uint32_t>(c2[i + 1]) * s1 + base[i + 1]];
+    }
+    if (i < n) ++h0[static_cast<std::uint32_t>(c2[i]) * s1 + base[i]];
+}
+
 // Copies the non-missing strata and the real slots out of the padded histogram.
 CountCube finish(const std::vector<double>& hist, std::size_t k1, std::size_t k2, std::size_t slots) {
     // hist layout: [(code1 * (k2 + 1) + code2)][cell 0 .. 2 * slots] with k2 = 0 for single cubes
@@ -93,6 +111,49 @@ CountCube build_pair_cube(const Column& a, const Column& b, const RowCells& rows
     });
     if (k2 == 0) return finish(hist, 0, 0, rows.slots);
     return finish(hist, k1, k2, rows.slots);
+}
+
+std::vector<CountCube> build_pair_cubes(const Column& first, const std::vector<const Column*>& seconds,
+                                        const RowCells& rows, const std::vector<double>& weights) {
+    std::vector<CountCube> out;
+    out.reserve(seconds.size());
+    if (!weights.empty() || seconds.size() < 2) {
+        for (const Column* b : seconds) out.push_back(build_pair_cube(first, *b, rows, weights));
+        return out;
+    }
+    const std::size_t k1 = first.levels.size(), w1 = 2 * rows.slots + 1, s1 = (k1 + 1) * w1;
+    std::size_t n = std::min(rows.cell.size(), first.size());
+    for (const Column* b : seconds) n = std::min(n, b->size());
+    // Two interleaved histograms per pair, as in count_pair.
+    std::vector<std::vector<std::uint32_t>> hist(seconds.size());
+    for (std::size_t k = 0; k < seconds.size(); ++k) hist[k].assign(2 * (seconds[k]->levels.size() + 1) * s1, 0);
+    constexpr std::size_t kBlock = 4096;  // base, codes and cells of a block stay in L1
+    std::vector<std::uint32_t> base(kBlock);
+    const auto w = static_cast<std::uint32_t>(w1), s = static_cast<std::uint32_t>(s1);
+    for (std::size_t from = 0; from < n; from += kBlock) {
+        const std::size_t m = std::min(kBlock, n - from);
+        visit_codes(first, [&](const auto& c1) { make_base(c1.data() + from, rows.cell.data() + from, m, w, base.data()); });
+        for (std::size_t k = 0; k < seconds.size(); ++k) {
+            std::uint32_t* h0 = hist[k].data();
+            std::uint32_t* h1 = h0 + hist[k].size() / 2;
+            visit_codes(*seconds[k], [&](const auto& c2) { count_with_base(base.data(), c2.data() + from, m, s, h0, h1); });
+        }
+    }
+    for (std::size_t k = 0; k < seconds.size(); ++k) {
+        const std::size_t k2 = seconds[k]->levels.size(), half = hist[k].size() / 2;
+        CountCube cube;
+        cube.slots = rows.slots;
+        cube.strata = k1 * k2;
+        cube.counts.assign(cube.strata * rows.slots * 2, 0.0);
+        for (std::size_t st = 0; st < cube.strata; ++st) {
+            const std::size_t src = (st % k2) * s1 + (st / k2) * w1;
+            for (std::size_t c = 0; c < 2 * rows.slots; ++c)
+                cube.counts[st * 2 * rows.slots + c] =
+                    static_cast<double>(hist[k][src + c]) + static_cast<double>(hist[k][half + src + c]);
+        }
+        out.push_back(std::move(cube));
+    }
+    return out;
 }
 
 stats::Strata comparison_strata(const CountCube& cube, std::size_t focal_slot, std::vector<std::size_t>* kept) {

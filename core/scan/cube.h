@@ -35,6 +35,13 @@ CountCube build_cube(const Column& stratifier, const RowCells& rows, const std::
 CountCube build_pair_cube(const Column& first, const Column& second, const RowCells& rows,
                           const std::vector<double>& weights);
 
+/// The cubes of `first` paired with each column of `seconds`, in that order, equal to
+/// build_pair_cube(first, *seconds[k], ...) for each k. Unweighted tables count every pair in
+/// one pass over blocks of rows: the first column's code and the row's cell are combined once
+/// per row and reused by each pair. Empty `seconds` gives no cubes.
+std::vector<CountCube> build_pair_cubes(const Column& first, const std::vector<const Column*>& seconds,
+                                        const RowCells& rows, const std::vector<double>& weights);
+
 /// The 2 x 2 x K strata of one comparison (focal slot against slot 0), keeping only strata with
 /// at least one row in either group; `kept` (optional) receives their stratum indices. Empty when
 /// no stratum has rows.

@@ -211,75 +211,100 @@ namespace {
 
 constexpr std::size_t kSingle = static_cast<std::size_t>(-1);
 
-// The cube of stratifier i alone (j == kSingle) or of the pair (i, j).
-using CubeOf = std::function<CountCube(std::size_t i, std::size_t j)>;
+// The cube of stratifier i alone (js empty), or the cubes of the pairs (i, j) for each j in js
+// (in that order): a table counts a batch of pairs in one fused pass.
+using CubesOf = std::function<std::vector<CountCube>(std::size_t i, const std::vector<std::size_t>& js)>;
 // The level labels of stratifier i.
 using LevelsOf = std::function<const std::vector<std::string>&(std::size_t i)>;
 
 // Everything after the counting, shared by the scan of a table and the scan of cubes counted
 // elsewhere: one finding per cube and comparison, FDR, bootstrap of the cubes, ranking.
-Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubeOf& cube_of, const LevelsOf& levels_of,
+Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesOf& cubes_of, const LevelsOf& levels_of,
                               const RateScanOptions& opt, const Work& work, const RateFindingCallback& on_finding,
                               std::vector<SlopeFinding> slope_findings) {
-    struct Task {
-        std::size_t i, j;  // j == kSingle for a single stratifier
-    };
-    constexpr std::size_t single = kSingle;
     result.alpha = opt.alpha;
     result.bootstrap = opt.bootstrap;
     result.seed = opt.seed;
+    // Cubes in result order: every single stratifier, then every pair (i, j), i < j. A task
+    // counts one single cube, or the pairs of stratifier i with up to kPairBatch later ones
+    // (one fused pass over a table: column i and the cells are read once per batch).
+    constexpr std::size_t kPairBatch = 8;
+    struct Cube {
+        std::size_t i, j;  // j == kSingle for a single stratifier
+    };
+    struct Task {
+        std::size_t first, count;  // cubes first .. first + count - 1
+    };
+    constexpr std::size_t single = kSingle;
+    std::vector<Cube> cubes;
     std::vector<Task> tasks;
     const std::size_t nc = result.candidates.size();
-    for (std::size_t i = 0; i < nc; ++i) tasks.push_back({i, single});
+    for (std::size_t i = 0; i < nc; ++i) {
+        tasks.push_back({cubes.size(), 1});
+        cubes.push_back({i, single});
+    }
     if (opt.pairs)
         for (std::size_t i = 0; i < nc; ++i)
-            for (std::size_t j = i + 1; j < nc; ++j) tasks.push_back({i, j});
+            for (std::size_t j = i + 1; j < nc; j += kPairBatch) {
+                const std::size_t m = std::min(kPairBatch, nc - j);
+                tasks.push_back({cubes.size(), m});
+                for (std::size_t k = 0; k < m; ++k) cubes.push_back({i, j + k});
+            }
 
     const std::size_t ncomp = q.comparisons();
-    std::vector<RateFinding> findings(tasks.size() * ncomp);
-    std::vector<stats::Strata> cube_strata(tasks.size() * ncomp);
-    std::vector<char> done(tasks.size(), 0);
+    std::vector<RateFinding> findings(cubes.size() * ncomp);
+    std::vector<stats::Strata> cube_strata(cubes.size() * ncomp);
+    std::vector<char> done(cubes.size(), 0);
     std::atomic<std::size_t> next{0}, finished{0};
     std::mutex emit;
-    const double total = static_cast<double>(tasks.size());
+    const double total = static_cast<double>(cubes.size());
     work.report(0, total, "counting strata");
 
+    auto analyse = [&](std::size_t t, const CountCube& cube, std::vector<std::size_t>& kept) {
+        const auto& c = cubes[t];
+        const bool pair = c.j != single;
+        const auto& la = levels_of(c.i);
+        const auto* lb = pair ? &levels_of(c.j) : nullptr;
+        std::vector<std::string> names{result.candidates[c.i]};
+        if (pair) names.push_back(result.candidates[c.j]);
+        const std::size_t k2 = pair ? lb->size() : 1;
+        for (std::size_t comp = 0; comp < ncomp; ++comp) {
+            auto strata = comparison_strata(cube, comp + 1, &kept);
+            std::vector<std::vector<std::string>> labels;
+            labels.reserve(kept.size());
+            for (auto s : kept) {
+                if (pair) labels.push_back({la[s / k2], (*lb)[s % k2]});
+                else labels.push_back({la[s]});
+            }
+            auto f = analyse_strata(strata, labels, names, opt.alpha);
+            f.comparison = comp;
+            f.focal = q.focal[comp];
+            f.reference = q.reference;
+            const std::size_t slot = t * ncomp + comp;
+            cube_strata[slot] = std::move(strata);
+            findings[slot] = std::move(f);
+            if (on_finding) {
+                std::lock_guard<std::mutex> lock(emit);
+                on_finding(findings[slot]);
+            }
+        }
+        done[t] = 1;
+        const auto n = finished.fetch_add(1) + 1;
+        work.report(static_cast<double>(n), total, "counting strata");
+    };
     auto worker = [&]() {
         std::vector<std::size_t> kept;
+        std::vector<std::size_t> js;
         for (;;) {
             const std::size_t t = next.fetch_add(1);
             if (t >= tasks.size() || work.cancelled()) return;
             const auto& task = tasks[t];
-            const bool pair = task.j != single;
-            const auto& la = levels_of(task.i);
-            const auto* lb = pair ? &levels_of(task.j) : nullptr;
-            const CountCube cube = cube_of(task.i, task.j);
-            std::vector<std::string> names{result.candidates[task.i]};
-            if (pair) names.push_back(result.candidates[task.j]);
-            const std::size_t k2 = pair ? lb->size() : 1;
-            for (std::size_t comp = 0; comp < ncomp; ++comp) {
-                auto strata = comparison_strata(cube, comp + 1, &kept);
-                std::vector<std::vector<std::string>> labels;
-                labels.reserve(kept.size());
-                for (auto s : kept) {
-                    if (pair) labels.push_back({la[s / k2], (*lb)[s % k2]});
-                    else labels.push_back({la[s]});
-                }
-                auto f = analyse_strata(strata, labels, names, opt.alpha);
-                f.comparison = comp;
-                f.focal = q.focal[comp];
-                f.reference = q.reference;
-                const std::size_t slot = t * ncomp + comp;
-                cube_strata[slot] = std::move(strata);
-                findings[slot] = std::move(f);
-                if (on_finding) {
-                    std::lock_guard<std::mutex> lock(emit);
-                    on_finding(findings[slot]);
-                }
-            }
-            done[t] = 1;
-            const auto n = finished.fetch_add(1) + 1;
-            work.report(static_cast<double>(n), total, "counting strata");
+            const Cube& head = cubes[task.first];
+            js.clear();
+            if (head.j != single)
+                for (std::size_t k = 0; k < task.count; ++k) js.push_back(cubes[task.first + k].j);
+            const auto built = cubes_of(head.i, js);
+            for (std::size_t k = 0; k < task.count; ++k) analyse(task.first + k, built[k], kept);
         }
     };
     unsigned nthreads = opt.threads ? opt.threads : std::max(1u, std::thread::hardware_concurrency());
@@ -293,7 +318,7 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubeOf
     result.cancelled = work.cancelled();
 
     std::vector<stats::Strata> kept_strata;
-    for (std::size_t t = 0; t < tasks.size(); ++t) {
+    for (std::size_t t = 0; t < cubes.size(); ++t) {
         if (!done[t]) continue;
         for (std::size_t comp = 0; comp < ncomp; ++comp) {
             result.rate_findings.push_back(std::move(findings[t * ncomp + comp]));
@@ -363,15 +388,17 @@ Result<ScanResult> rate_scan(const Table& table, const Question& q, const Candid
         result.candidate_origin.push_back(c.origin);
     }
     const RowCells rows = encode_rows(table, q);
-    const auto cube_of = [&](std::size_t i, std::size_t j) {
+    const auto cubes_of = [&](std::size_t i, const std::vector<std::size_t>& js) {
         const Column& a = *cands.candidates[i].column;
-        return j == kSingle ? build_cube(a, rows, table.weights)
-                            : build_pair_cube(a, *cands.candidates[j].column, rows, table.weights);
+        if (js.empty()) return std::vector<CountCube>{build_cube(a, rows, table.weights)};
+        std::vector<const Column*> seconds;
+        for (auto j : js) seconds.push_back(cands.candidates[j].column);
+        return build_pair_cubes(a, seconds, rows, table.weights);
     };
     const auto levels_of = [&](std::size_t i) -> const std::vector<std::string>& {
         return cands.candidates[i].column->levels;
     };
-    return scan_cubes(std::move(result), q, cube_of, levels_of, opt, work, on_finding, std::move(slope_findings));
+    return scan_cubes(std::move(result), q, cubes_of, levels_of, opt, work, on_finding, std::move(slope_findings));
 }
 
 Result<ScanResult> rate_scan(const CubeSet& cubes, const Question& q, const RateScanOptions& opt, const Work& work,
@@ -411,13 +438,16 @@ Result<ScanResult> rate_scan(const CubeSet& cubes, const Question& q, const Rate
         result.candidates.push_back(s.name);
         result.candidate_origin.push_back(s.origin);
     }
-    const auto cube_of = [&](std::size_t i, std::size_t j) {
-        return j == kSingle ? cubes.singles[i] : cubes.pairs[pair_index[i * n + j]];
+    const auto cubes_of = [&](std::size_t i, const std::vector<std::size_t>& js) {
+        if (js.empty()) return std::vector<CountCube>{cubes.singles[i]};
+        std::vector<CountCube> out;
+        for (auto j : js) out.push_back(cubes.pairs[pair_index[i * n + j]]);
+        return out;
     };
     const auto levels_of = [&](std::size_t i) -> const std::vector<std::string>& { return cubes.stratifiers[i].levels; };
     RateScanOptions o = opt;
     o.pairs = pairs;
-    return scan_cubes(std::move(result), q, cube_of, levels_of, o, work, on_finding, std::move(slope_findings));
+    return scan_cubes(std::move(result), q, cubes_of, levels_of, o, work, on_finding, std::move(slope_findings));
 }
 
 }  // namespace foldline

@@ -11,7 +11,7 @@ using namespace foldline;
 // The cube must equal a brute-force count over rows (the definition of the cube).
 TEST(Cube, SingleAndPairMatchBruteForce) {
     std::mt19937_64 rng(3);
-    Table t = foldline::testing::planted_reversal(rng, 3001, 0.05, 2);
+    Table t = foldline::testing::planted_reversal(rng, 9001, 0.05, 2);  // more rows than one fused block (4096)
     // punch some missing stratifier cells
     auto& col = t.columns[3];
     std::vector<std::uint32_t> codes;
@@ -42,6 +42,20 @@ TEST(Cube, SingleAndPairMatchBruteForce) {
     }
     EXPECT_EQ(cube.counts, want);
     EXPECT_EQ(pair.counts, want_pair);
+
+    // The fused builder counts the same cubes as the row-by-row definition, for each second
+    // column (in order, repeated columns included), over a row count that is not a multiple of
+    // its block; weighted tables take the one-pair path.
+    const std::vector<const Column*> seconds{&z, &t.columns[4], &z};
+    const auto fused = build_pair_cubes(p, seconds, rows, {});
+    ASSERT_EQ(fused.size(), 3u);
+    EXPECT_EQ(fused[0].counts, want_pair);
+    EXPECT_EQ(fused[0].strata, pair.strata);
+    EXPECT_EQ(fused[2].counts, want_pair);
+    EXPECT_EQ(fused[1].counts, build_pair_cube(p, t.columns[4], rows, {}).counts);
+    EXPECT_TRUE(build_pair_cubes(p, {}, rows, {}).empty());
+    const auto fused_w = build_pair_cubes(p, seconds, rows, std::vector<double>(t.rows, 2.0));
+    for (std::size_t k = 0; k < want_pair.size(); ++k) EXPECT_EQ(fused_w[0].counts[k], 2 * want_pair[k]);
 
     // Weighted: every row weight 2 doubles every count.
     std::vector<double> w(t.rows, 2.0);
