@@ -1,7 +1,9 @@
 #!/usr/bin/env bash
 # Foldline set-up: installs what is missing (Debian 12, apt-get), builds, then
 #   ./foldline.sh        opens the workbench on the demo audit (headless run when there is no display)
-#   ./foldline.sh test   runs every test (ctest: C++ suites, Qt Test suites, reference-library checks)
+#   ./foldline.sh test   runs every test (ctest: C++ suites, Qt Test suites, reference-library checks,
+#                        then the core suite under ASan + UBSan, then a 30-second fuzz smoke per target)
+#   ./foldline.sh fuzz-smoke   only the fuzz smoke
 set -euo pipefail
 cd "$(dirname "$0")"
 HERE=$(pwd)
@@ -18,6 +20,8 @@ PKGS=(cmake g++ ninja-build pkg-config
 TEST_PKGS=(python3 python3-pandas python3-statsmodels python3-scipy python3-networkx
            r-cran-palmerpenguins python3-sklearn poppler-utils graphviz xvfb xauth
            unixodbc-dev odbc-postgresql postgresql)
+# The fuzz smoke of `test` (bench/fuzz.sh --smoke) needs clang with libFuzzer.
+TEST_PKGS+=(clang-14 libclang-rt-14-dev libfuzzer-14-dev)
 
 install_missing() {
     local missing=()
@@ -77,6 +81,29 @@ sanitized_tests() {
         ctest --test-dir "$dir" --output-on-failure -j "$JOBS"
 }
 
+# Third pass of `test`: each libFuzzer target (tests/fuzz) for 30 seconds from its committed seeds,
+# failing on a crash, hang or sanitizer report. Without clang-14 + libFuzzer it is skipped with a
+# message on a developer's machine, but never in CI (CI set and not "false"/"0").
+in_ci() { [ -n "${CI:-}" ] && [ "${CI}" != false ] && [ "${CI}" != 0 ]; }
+fuzz_smoke() {
+    local probe
+    probe=$(mktemp -d)
+    if ! printf 'extern "C" int LLVMFuzzerTestOneInput(const unsigned char*, unsigned long) { return 0; }\n' \
+            >"$probe/p.cpp" ||
+       ! "${CXX_FUZZ:-clang++-14}" -fsanitize=fuzzer,address,undefined "$probe/p.cpp" -o "$probe/p" >/dev/null 2>&1; then
+        rm -rf "$probe"
+        if in_ci; then
+            say "the fuzz smoke cannot run: ${CXX_FUZZ:-clang++-14} with libFuzzer is not usable (packages clang-14, libclang-rt-14-dev, libfuzzer-14-dev)"
+            exit 1
+        fi
+        say "skipping the fuzz smoke: ${CXX_FUZZ:-clang++-14} with libFuzzer is not usable here (install clang-14, libclang-rt-14-dev, libfuzzer-14-dev); CI always runs it"
+        return 0
+    fi
+    rm -rf "$probe"
+    say "fuzz smoke: every libFuzzer target for ${FOLDLINE_FUZZ_SECONDS:-30}s from its committed seeds"
+    FOLDLINE_JOBS=$JOBS bench/fuzz.sh --smoke "${FOLDLINE_FUZZ_SECONDS:-30}"
+}
+
 case "$MODE" in
     run)
         install_missing "${PKGS[@]}"
@@ -94,9 +121,13 @@ case "$MODE" in
         say "running every test"
         QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
         sanitized_tests
+        fuzz_smoke
+        ;;
+    fuzz-smoke)
+        fuzz_smoke
         ;;
     *)
-        echo "usage: ./foldline.sh [test]" >&2
+        echo "usage: ./foldline.sh [test | fuzz-smoke]" >&2
         exit 2
         ;;
 esac

@@ -1,10 +1,15 @@
 #include "ui/charts.h"
 
+#include "core/common/atomic_file.h"
+
+#include <string_view>
+
 #include <QApplication>
+#include <QFile>
 #include <QFileInfo>
 #include <QPalette>
-#include <QSaveFile>
 #include <QSvgGenerator>
+#include <QTemporaryDir>
 #include <qcustomplot.h>
 
 #include "ui/palette.h"
@@ -318,15 +323,23 @@ void draw_small_multiples(QCustomPlot* plot, const FindingView& f) {
 
 Status save(QCustomPlot* plot, const QString& path) {
     const QString ext = QFileInfo(path).suffix().toLower();
+    if (ext != QLatin1String("png") && ext != QLatin1String("pdf") && ext != QLatin1String("svg"))
+        return make_error("expected a file name ending in .png, .svg or .pdf", path.toStdString());
+    // QCustomPlot and QSvgGenerator write straight to the file they are given, so a failure
+    // half-way (a full disk) would leave a broken chart over the previous one: draw into a
+    // scratch file first, then put its bytes in place with the shared atomic writer.
+    QTemporaryDir scratch;
+    if (!scratch.isValid()) return make_error("cannot create a scratch folder to draw the chart in", path.toStdString());
+    const QString drawn = scratch.filePath(QStringLiteral("chart.") + ext);
     bool ok = false;
     const int w = plot->width() > 50 ? plot->width() : 900, h = plot->height() > 50 ? plot->height() : 600;
     if (ext == QLatin1String("png")) {
-        ok = plot->savePng(path, w, h, 2.0);
+        ok = plot->savePng(drawn, w, h, 2.0);
     } else if (ext == QLatin1String("pdf")) {
-        ok = plot->savePdf(path, w, h);
-    } else if (ext == QLatin1String("svg")) {
+        ok = plot->savePdf(drawn, w, h);
+    } else {
         QSvgGenerator gen;
-        gen.setFileName(path);
+        gen.setFileName(drawn);
         gen.setSize(QSize(w, h));
         gen.setViewBox(QRect(0, 0, w, h));
         gen.setTitle(QStringLiteral("Foldline chart"));
@@ -334,13 +347,14 @@ Status save(QCustomPlot* plot, const QString& path) {
         ok = painter.begin(&gen);
         if (ok) {
             plot->toPainter(&painter, w, h);
-            painter.end();
+            ok = painter.end();
         }
-    } else {
-        return make_error("expected a file name ending in .png, .svg or .pdf", path.toStdString());
     }
-    if (!ok) return make_error("could not write the chart", path.toStdString());
-    return Ok{};
+    QFile file(drawn);
+    if (!ok || !file.open(QIODevice::ReadOnly) || file.size() == 0)
+        return make_error("could not draw the chart (is the disk full?)", path.toStdString());
+    const QByteArray bytes = file.readAll();
+    return write_file_atomically(path.toStdString(), std::string_view(bytes.constData(), static_cast<std::size_t>(bytes.size())));
 }
 
 }  // namespace foldline::ui::charts

@@ -4,7 +4,6 @@
 #include <QFileDialog>
 #include <QFileInfo>
 #include <QMessageBox>
-#include <QSaveFile>
 #include <QSettings>
 #include <QComboBox>
 #include <QGraphicsView>
@@ -21,6 +20,7 @@
 #include <QVBoxLayout>
 
 #include "core/causal/diagram_file.h"
+#include "core/common/atomic_file.h"
 #include "ui/caution_band.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_scene.h"
@@ -195,11 +195,8 @@ Status DiagramPage::open_file(const QString& path) {
 Status DiagramPage::save_file(const QString& path) const { return causal::write_diagram(doc_->diagram(), path.toStdString()); }
 
 Status DiagramPage::export_dot(const QString& path) const {
-    QSaveFile f(path);
-    const std::string dot = causal::diagram_to_dot(doc_->diagram());
-    if (!f.open(QIODevice::WriteOnly) || f.write(dot.data(), qint64(dot.size())) != qint64(dot.size()) || !f.commit())
-        return make_error("could not write the DOT file", path.toStdString());
-    return Ok{};
+    // The shared atomic writer, as for every other file: its error carries the system's reason.
+    return write_file_atomically(path.toStdString(), causal::diagram_to_dot(doc_->diagram()));
 }
 
 void DiagramPage::open_dialog() {

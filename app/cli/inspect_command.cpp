@@ -15,6 +15,7 @@
 
 #include "app/cli/args.h"
 #include "app/cli/command.h"
+#include "core/common/atomic_file.h"
 #include "core/io/csv_reader.h"
 
 namespace foldline::cli {
@@ -156,29 +157,6 @@ void describe_text(std::ostream& os, const Table& t, const CsvReport& rep) {
     }
 }
 
-// Writes text to path through a temporary file and a rename, so a reader never sees half a file.
-bool save_atomically(const std::string& path, const std::string& text, std::string& why) {
-    const std::string tmp = path + ".tmp." + std::to_string(::getpid());
-    {
-        std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
-        f << text;
-        f.flush();
-        if (!f) {
-            why = "cannot write " + tmp;
-            std::remove(tmp.c_str());
-            return false;
-        }
-    }
-    std::error_code ec;
-    std::filesystem::rename(tmp, path, ec);
-    if (ec) {
-        why = "cannot replace " + path + ": " + ec.message();
-        std::remove(tmp.c_str());
-        return false;
-    }
-    return true;
-}
-
 int run_inspect(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"count-column", true, "name of the column holding pre-counted cell sizes"},
@@ -230,8 +208,9 @@ int run_inspect(int argc, char** argv) {
         std::cout << text;
         return kOk;
     }
-    std::string why;
-    if (!save_atomically(*json_target, text, why)) return fail(kName, kInternal, why);
+    // The shared atomic writer (fsync, rename; devices and pipes written in place, never renamed
+    // over), so a full disk or a read-only folder leaves the previous file as it was.
+    if (auto st = write_file_atomically(*json_target, text); !st) return fail(kName, kInput, st.error().to_string());
     describe_text(std::cout, *table, report);
     return kOk;
 }

@@ -1,11 +1,14 @@
 // tests/ui/diagram_page_test.cpp <-> ui/diagram_page.h, ui/diagram_scene.h, ui/diagram_doc.h,
 // ui/diagram_commands.h
+#include <QDir>
 #include <QFile>
 #include <QGraphicsView>
 #include <QTemporaryDir>
 #include <QMouseEvent>
 #include <QUndoStack>
 #include <QtTest>
+
+#include <unistd.h>
 
 #include "ui/diagram_page.h"
 #include "ui/diagram_scene.h"
@@ -100,6 +103,39 @@ private slots:
         QVERIFY(page.doc()->has_edge("Z", "Y"));
         page.undo_stack()->undo();
         QVERIFY(!page.doc()->has_edge("Z", "Y"));
+    }
+
+    void dot_export_into_a_read_only_folder_keeps_the_previous_file() {
+        // Mode 0555 (POSIX chmod(2)); root ignores mode bits, so as root the export runs with
+        // effective user and group 65534.
+        QTemporaryDir dir;
+        DiagramPage page;
+        page.seed("X", "Y", {"S"}, {});
+        const QString path = dir.filePath("audit.dot");
+        QVERIFY(page.export_dot(path).ok());
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        const QByteArray before = f.readAll();
+        f.close();
+        QVERIFY(page.add_unobserved("U"));
+        QFile::setPermissions(dir.path(), QFile::ReadOwner | QFile::ExeOwner | QFile::ReadOther | QFile::ExeOther);
+        const bool root = ::geteuid() == 0;
+        if (root && (::setegid(65534) != 0 || ::seteuid(65534) != 0)) {
+            (void)!::setegid(0);
+            QSKIP("cannot drop root privileges here, so a read-only folder cannot be made");
+        }
+        const auto st = page.export_dot(path);
+        if (root) {
+            QVERIFY(::seteuid(0) == 0);
+            QVERIFY(::setegid(0) == 0);
+        }
+        QFile::setPermissions(dir.path(), QFile::ReadOwner | QFile::WriteOwner | QFile::ExeOwner);
+        QVERIFY(!st.ok());
+        QVERIFY2(QString::fromStdString(st.error().to_string()).contains("Permission denied"),
+                 st.error().to_string().c_str());
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QCOMPARE(f.readAll(), before);
+        QCOMPARE(QDir(dir.path()).entryList(QDir::Files | QDir::Hidden).size(), 1);
     }
 
     void saves_opens_and_exports() {

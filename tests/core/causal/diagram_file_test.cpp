@@ -79,6 +79,15 @@ TEST(DiagramFile, ReportsSyntaxErrorsWithLineAndColumn) {
     EXPECT_NE(d.error().message.find("not valid JSON"), std::string::npos);
 }
 
+TEST(DiagramFile, NumberBeyondDoubleRangeIsAnErrorNotACrash) {
+    // Regression found by fuzz_diagram_file (tests/fuzz/corpus/diagram_file/regression_number_overflow).
+    auto d = parse_diagram("{\"nodes\": [{\"name\": \"a\", \"x\": 1e400}]}", "big.diagram.json");
+    ASSERT_FALSE(d.ok());
+    EXPECT_EQ(d.error().line, 1u);
+    EXPECT_EQ(d.error().column, 31u);  // the '1' of 1e400
+    EXPECT_NE(d.error().message.find("not valid JSON: number overflow"), std::string::npos) << d.error().message;
+}
+
 TEST(DiagramFile, ReportsStructuralErrorsByElement) {
     EXPECT_EQ(parse_diagram(R"({"nodes":[{"name":"a","observed":"yes"}]})").error().message,
               "nodes[0].observed: expected true or false");

@@ -57,15 +57,30 @@ TEST(AtomicFile, FailureBeforeRenameLeavesPreviousFileIntact) {
 }
 
 TEST(AtomicFile, ReadOnlyFolderGivesClearErrorAndKeepsFile) {
-    if (::geteuid() == 0) GTEST_SKIP() << "root ignores folder permissions; covered by the missing-folder case";
     TempDir d;
     auto f = (d.path / "a.foldline").string();
     ASSERT_TRUE(write_file_atomically(f, "previous").ok());
-    fs::permissions(d.path, fs::perms::owner_read | fs::perms::owner_exec);
+    fs::permissions(d.path, fs::perms::owner_read | fs::perms::owner_exec | fs::perms::group_read |
+                                fs::perms::group_exec | fs::perms::others_read | fs::perms::others_exec);
+    // Root ignores mode bits (Linux capabilities(7), CAP_DAC_OVERRIDE): as root, write with
+    // effective user and group 65534 so the folder is read-only for the writer too.
+    const bool root = ::geteuid() == 0;
+    if (root && (::setegid(65534) != 0 || ::seteuid(65534) != 0)) {
+        (void)!::setegid(0);
+        GTEST_SKIP() << "cannot drop root privileges here, so a read-only folder cannot be made";
+    }
     auto st = write_file_atomically(f, "new");
+    if (root) {
+        ASSERT_EQ(::seteuid(0), 0);
+        ASSERT_EQ(::setegid(0), 0);
+    }
     ASSERT_FALSE(st.ok());
     EXPECT_EQ(st.error().file, f);
+    EXPECT_NE(st.error().message.find("cannot create a temporary file beside it: Permission denied"), std::string::npos)
+        << st.error().message;
     EXPECT_EQ(slurp(f), "previous");
+    fs::permissions(d.path, fs::perms::owner_all);
+    EXPECT_EQ(entries(d.path), 1u);
 }
 
 TEST(AtomicFile, ReadOnlyFilesystemGivesClearError) {

@@ -4,7 +4,9 @@
 // simulated with RLIMIT_FSIZE so write(2) fails as it does with ENOSPC) or into a folder that
 // cannot take it gives a clear message naming the file and leaves the previous file as it was,
 // with no temporary file left beside it. Covered writers: the project file (save_project), the
-// diagram file (write_diagram) and the CSV exports (write_csv_exports).
+// diagram file (write_diagram) and the CSV exports (write_csv_exports). A read-only folder is a
+// real one (mode 0555); as root, who ignores permission bits, the save runs in a child that has
+// dropped to the unprivileged user 65534 first.
 #include "core/causal/diagram_file.h"
 #include "core/io/csv_reader.h"
 #include "core/io/project_file.h"
@@ -21,6 +23,7 @@
 
 #include <sys/resource.h>
 #include <sys/stat.h>
+#include <grp.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -50,15 +53,15 @@ std::size_t entries(const fs::path& dir) {
     return static_cast<std::size_t>(std::distance(fs::directory_iterator(dir), fs::directory_iterator()));
 }
 
-// Runs `save` in a child whose files may not grow past 512 bytes; returns whether it reported
-// failure (true) and the failure message was non-empty and named `path`.
-bool fails_on_full_disk(const std::function<Status()>& save, const std::string& path) {
+// Runs `save` in a child whose files may not grow past `limit` bytes (512 unless given); returns
+// whether it reported failure (true) and the failure message was non-empty and named `path`.
+bool fails_on_full_disk(const std::function<Status()>& save, const std::string& path, rlim_t limit = 512) {
     int pipefd[2];
     if (::pipe(pipefd) != 0) return false;
     const pid_t pid = ::fork();
     if (pid == 0) {
         ::close(pipefd[0]);
-        struct rlimit lim{512, 512};
+        struct rlimit lim{limit, limit};
         ::signal(SIGXFSZ, SIG_IGN);
         ::setrlimit(RLIMIT_FSIZE, &lim);
         const Status st = save();
@@ -73,6 +76,49 @@ bool fails_on_full_disk(const std::function<Status()>& save, const std::string& 
     int status = 0;
     ::waitpid(pid, &status, 0);
     return WIFEXITED(status) && verdict == 'f';
+}
+
+// What a save reported when run in a child process.
+struct ChildSave {
+    bool ran = false;     // false: the child could not be set up (privileges not dropped)
+    bool ok = false;      // the save reported success
+    std::string message;  // Error::to_string() of a failed save
+};
+
+// Runs `save` in a child that cannot create files in `dir`: the folder is made read-only (0555)
+// for the call and, when the test runs as root, the child first drops to user and group 65534.
+ChildSave save_in_read_only_folder(const std::function<Status()>& save, const fs::path& dir) {
+    ChildSave out;
+    int pipefd[2];
+    if (::pipe(pipefd) != 0) return out;
+    fs::permissions(dir, fs::perms::owner_read | fs::perms::owner_exec | fs::perms::group_read |
+                             fs::perms::group_exec | fs::perms::others_read | fs::perms::others_exec);
+    const pid_t pid = ::fork();
+    if (pid == 0) {
+        ::close(pipefd[0]);
+        if (::geteuid() == 0 && (::setgroups(0, nullptr) != 0 || ::setgid(65534) != 0 || ::setuid(65534) != 0)) {
+            (void)!::write(pipefd[1], "s", 1);
+            ::_exit(0);
+        }
+        const Status st = save();
+        const std::string reply = st.ok() ? std::string("k") : "f" + st.error().to_string();
+        (void)!::write(pipefd[1], reply.data(), reply.size());
+        ::_exit(0);
+    }
+    ::close(pipefd[1]);
+    std::string reply;
+    char buf[512];
+    for (ssize_t n; (n = ::read(pipefd[0], buf, sizeof buf)) > 0;) reply.append(buf, static_cast<std::size_t>(n));
+    ::close(pipefd[0]);
+    int status = 0;
+    ::waitpid(pid, &status, 0);
+    fs::permissions(dir, fs::perms::owner_all | fs::perms::group_read | fs::perms::group_exec |
+                             fs::perms::others_read | fs::perms::others_exec);
+    if (!WIFEXITED(status) || reply.empty() || reply[0] == 's') return out;
+    out.ran = true;
+    out.ok = reply[0] == 'k';
+    out.message = reply.substr(1);
+    return out;
 }
 
 project::Project big_project(const fs::path& data) {
@@ -134,6 +180,65 @@ TEST(FilesOnDisk, SavesIntoAReadOnlyFilesystemGiveClearMessages) {
     const Status b = causal::write_diagram(causal::Diagram{}, "/proc/foldline_test.diagram.json");
     ASSERT_FALSE(b.ok());
     EXPECT_FALSE(b.error().message.empty());
+}
+
+void spit(const fs::path& p, const std::string& text) { std::ofstream(p, std::ios::binary) << text; }
+
+// A save into a read-only folder: refused with the system's reason, the file named, the
+// previous file as it was and nothing left beside it.
+void expect_refused_in_read_only_folder(const std::function<Status()>& save, const fs::path& dir,
+                                        const std::string& file, const std::string& before) {
+    const ChildSave r = save_in_read_only_folder(save, dir);
+    if (!r.ran) GTEST_SKIP() << "cannot drop root privileges here, so a read-only folder cannot be made";
+    EXPECT_FALSE(r.ok);
+    EXPECT_NE(r.message.find(file), std::string::npos) << r.message;
+    EXPECT_NE(r.message.find("cannot create a temporary file beside it: Permission denied"), std::string::npos)
+        << r.message;
+    EXPECT_EQ(slurp(file), before);
+}
+
+TEST(FilesOnDisk, ProjectSaveIntoAReadOnlyFolderKeepsThePreviousFile) {
+    TempDir t;
+    const std::string file = (t.path / "audit.foldline").string();
+    ASSERT_TRUE(project::save_project(project::Project{}, file).ok());
+    const std::string before = slurp(file);
+    expect_refused_in_read_only_folder([&] { return project::save_project(big_project(t.path / "d.csv"), file); },
+                                       t.path, file, before);
+    EXPECT_EQ(entries(t.path), 1u);
+}
+
+TEST(FilesOnDisk, DiagramSaveIntoAReadOnlyFolderKeepsThePreviousFile) {
+    TempDir t;
+    const std::string file = (t.path / "a.diagram.json").string();
+    ASSERT_TRUE(causal::write_diagram(causal::Diagram{}, file).ok());
+    const std::string before = slurp(file);
+    expect_refused_in_read_only_folder([&] { return causal::write_diagram(big_diagram(), file); }, t.path, file,
+                                       before);
+    EXPECT_EQ(entries(t.path), 1u);
+}
+
+TEST(FilesOnDisk, CsvExportOnAFullDiskKeepsThePreviousFiles) {
+    TempDir t;
+    const std::string prefix = (t.path / "audit").string();
+    spit(prefix + "-findings.csv", "previous findings\r\n");
+    spit(prefix + "-strata.csv", "previous strata\r\n");
+    // 16 bytes: shorter than the findings header, so the first file already fails.
+    EXPECT_TRUE(fails_on_full_disk([&] { return report::write_csv_exports(ScanResult{}, nullptr, prefix); },
+                                   prefix + "-findings.csv", 16));
+    EXPECT_EQ(slurp(prefix + "-findings.csv"), "previous findings\r\n");
+    EXPECT_EQ(slurp(prefix + "-strata.csv"), "previous strata\r\n");
+    EXPECT_EQ(entries(t.path), 2u);
+}
+
+TEST(FilesOnDisk, CsvExportIntoAReadOnlyFolderKeepsThePreviousFiles) {
+    TempDir t;
+    const std::string prefix = (t.path / "audit").string();
+    spit(prefix + "-findings.csv", "previous findings\r\n");
+    spit(prefix + "-strata.csv", "previous strata\r\n");
+    expect_refused_in_read_only_folder([&] { return report::write_csv_exports(ScanResult{}, nullptr, prefix); },
+                                       t.path, prefix + "-findings.csv", "previous findings\r\n");
+    EXPECT_EQ(slurp(prefix + "-strata.csv"), "previous strata\r\n");
+    EXPECT_EQ(entries(t.path), 2u);
 }
 
 TEST(FilesOnDisk, ReadingAnInputLeavesItUntouched) {

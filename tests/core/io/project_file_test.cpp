@@ -250,6 +250,18 @@ TEST(ProjectFile, NewerVersionIsRefusedAndFileUntouched) {
     EXPECT_EQ(slurp(file), text);
 }
 
+TEST(ProjectFile, NumberBeyondDoubleRangeIsAnErrorNotACrash) {
+    // Regression found by fuzz_project_file (tests/fuzz/corpus/project_file/regression_number_overflow).
+    auto p = parse_project("{\n  \"format\": 2e410\n}", "big.foldline");
+    ASSERT_FALSE(p.ok());
+    EXPECT_EQ(p.error().file, "big.foldline");
+    EXPECT_EQ(p.error().line, 2u);
+    EXPECT_EQ(p.error().column, 13u);
+    EXPECT_NE(p.error().message.find("not a readable project (damaged or not JSON): number overflow"),
+              std::string::npos)
+        << p.error().message;
+}
+
 TEST(ProjectFile, CorruptFilesGiveClearErrors) {
     TempDir t("corrupt");
     const auto file = (t.path / "audit.foldline").string();

@@ -1,6 +1,9 @@
 // Tests of ui/memo/memo_writer.h: the PDF bytes (page size, page count, text kept as text is
 // checked with poppler in tests/reference/memo_reference.py), literal printing of control and
-// bidi characters, and atomic writing.
+// bidi characters, and atomic writing: a failure before the rename, a full disk (RLIMIT_FSIZE
+// makes write(2) fail as ENOSPC does) and a read-only folder (mode 0555; as root, who ignores
+// permission bits, the write runs with the effective user and group 65534) each give a message
+// naming the file and leave the previous memo byte for byte, with nothing left beside it.
 #include "ui/memo/memo_writer.h"
 
 #include <QApplication>
@@ -11,6 +14,10 @@
 #include <QtTest>
 
 #include "core/common/atomic_file.h"
+
+#include <csignal>
+#include <sys/resource.h>
+#include <unistd.h>
 
 using namespace foldline;
 
@@ -28,6 +35,18 @@ report::MemoContent sample_memo(project::PageSize size) {
     for (int i = 0; i < 120; ++i) m.findings.rows.push_back({std::to_string(i + 1), "reversal"});
     m.caution = report::kMemoCaution;
     return m;
+}
+
+QByteArray slurp(const std::string& path) {
+    QFile f(QString::fromStdString(path));
+    return f.open(QIODevice::ReadOnly) ? f.readAll() : QByteArray();
+}
+
+// Writes a first memo into a fresh folder and returns its path.
+std::string previous_memo(const QTemporaryDir& dir) {
+    const std::string path = QDir(dir.path()).filePath("memo.pdf").toStdString();
+    if (!ui::write_memo_pdf(sample_memo(project::PageSize::A4), path).ok()) return {};
+    return path;
 }
 
 int page_count(const QByteArray& pdf) {
@@ -101,6 +120,57 @@ private slots:
         const auto st2 = ui::write_memo_pdf(sample_memo(project::PageSize::A4), missing);
         QVERIFY(!st2.ok());
         QCOMPARE(QString::fromStdString(st2.error().file), QString::fromStdString(missing));
+    }
+    void fullDiskKeepsThePreviousMemo() {
+        QTemporaryDir dir;
+        QVERIFY(dir.isValid());
+        const std::string path = previous_memo(dir);
+        QVERIFY(!path.empty());
+        const QByteArray before = slurp(path);
+        // Files of this process may not grow past 4 KiB (a memo is tens of KiB); SIGXFSZ is
+        // ignored so write(2) fails with EFBIG, as it fails with ENOSPC on a full disk.
+        rlimit old{};
+        QVERIFY(::getrlimit(RLIMIT_FSIZE, &old) == 0);
+        rlimit small = old;
+        small.rlim_cur = 4096;
+        auto* const previous_handler = std::signal(SIGXFSZ, SIG_IGN);
+        QVERIFY(::setrlimit(RLIMIT_FSIZE, &small) == 0);
+        const auto st = ui::write_memo_pdf(sample_memo(project::PageSize::Letter), path);
+        ::setrlimit(RLIMIT_FSIZE, &old);
+        std::signal(SIGXFSZ, previous_handler);
+        QVERIFY(!st.ok());
+        const QString message = QString::fromStdString(st.error().to_string());
+        QVERIFY2(message.contains(QString::fromStdString(path)) && message.contains("cannot write"), qPrintable(message));
+        QCOMPARE(slurp(path), before);
+        QCOMPARE(QDir(dir.path()).entryList(QDir::Files | QDir::Hidden).size(), 1);
+    }
+
+    void readOnlyFolderKeepsThePreviousMemo() {
+        QTemporaryDir dir;
+        QVERIFY(dir.isValid());
+        const std::string path = previous_memo(dir);
+        QVERIFY(!path.empty());
+        const QByteArray before = slurp(path);
+        QFile::setPermissions(dir.path(), QFile::ReadOwner | QFile::ExeOwner | QFile::ReadGroup | QFile::ExeGroup |
+                                              QFile::ReadOther | QFile::ExeOther);
+        const bool root = ::geteuid() == 0;
+        if (root && (::setegid(65534) != 0 || ::seteuid(65534) != 0)) {
+            (void)!::setegid(0);
+            QSKIP("cannot drop root privileges here, so a read-only folder cannot be made");
+        }
+        const auto st = ui::write_memo_pdf(sample_memo(project::PageSize::Letter), path);
+        if (root) {
+            QVERIFY(::seteuid(0) == 0);
+            QVERIFY(::setegid(0) == 0);
+        }
+        QFile::setPermissions(dir.path(), QFile::ReadOwner | QFile::WriteOwner | QFile::ExeOwner);
+        QVERIFY(!st.ok());
+        const QString message = QString::fromStdString(st.error().to_string());
+        QVERIFY2(message.contains(QString::fromStdString(path)) &&
+                     message.contains("cannot create a temporary file beside it: Permission denied"),
+                 qPrintable(message));
+        QCOMPARE(slurp(path), before);
+        QCOMPARE(QDir(dir.path()).entryList(QDir::Files | QDir::Hidden).size(), 1);
     }
 };
 
