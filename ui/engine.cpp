@@ -5,10 +5,10 @@
 #include "core/io/odbc_source.h"
 #endif
 #include "core/scan/candidates.h"
+#include "core/scan/estimate_over.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_scan.h"
 #include "core/scan/slope_scan.h"
-#include "core/stats/fdr.h"
 #include "core/common/sha256.h"
 #include "core/io/project_file.h"
 #include "core/report/memo_content.h"
@@ -209,18 +209,28 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<co
     return f;
 }
 
-Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
-                                   const std::function<void(FindingView)>& on_provisional) {
+SlopeQuestion slope_question(const QuestionSpec& q) {
     SlopeQuestion sq;
     sq.x = q.exposure.toStdString();
     sq.y = q.outcome.toStdString();
+    for (const QString& c : q.covariates) sq.covariates.push_back(c.toStdString());
     sq.alpha = q.alpha;
     sq.bootstrap = q.bootstrap;
     sq.seed = q.seed;
+    return sq;
+}
+
+Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
+                                   const std::function<void(FindingView)>& on_provisional) {
+    const SlopeQuestion sq = slope_question(q);
     CandidateOptions copts;
     copts.bins = q.bins;
-    for (const QString& c : q.candidates) copts.columns.push_back(c.toStdString());
-    auto candidates = select_candidates(t, {sq.x, sq.y}, copts, nullptr);
+    // A covariate adjusts the slopes; it does not also stratify them.
+    for (const QString& c : q.candidates)
+        if (!q.covariates.contains(c)) copts.columns.push_back(c.toStdString());
+    std::vector<std::string> skip = {sq.x, sq.y};
+    skip.insert(skip.end(), sq.covariates.begin(), sq.covariates.end());
+    auto candidates = select_candidates(t, skip, copts, nullptr);
     if (!candidates) return candidates.error();
     std::vector<const Column*> cols;
     for (const Candidate& c : candidates->candidates) cols.push_back(c.column);
@@ -233,24 +243,22 @@ Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const 
         }
         return findings.error();
     }
-    // Benjamini-Hochberg over the scan, then each class re-decided with its q-value.
-    std::vector<double> p;
-    for (const SlopeFinding& f : *findings) p.push_back(std::isfinite(f.p_reversal) ? f.p_reversal : 1.0);
-    const std::vector<double> qv = stats::benjamini_hochberg(p);
-    for (std::size_t i = 0; i < findings->size(); ++i) {
-        (*findings)[i].q_value = qv[i];
-        classify((*findings)[i], q.alpha);
+    // The same result `foldline scan` builds for a slope question (app/cli slope_audit): the
+    // scan's FDR step and ranking, so the workbench, its memo and the CLI agree finding by finding.
+    auto result = std::make_shared<ScanResult>();
+    result->slope_question = sq;
+    result->excluded = candidates->excluded;
+    for (const Candidate& c : candidates->candidates) {
+        result->candidates.push_back(c.name);
+        result->candidate_origin.push_back(c.origin);
     }
-    std::vector<std::size_t> order(findings->size());
-    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
-    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
-        const auto& fa = (*findings)[a];
-        const auto& fb = (*findings)[b];
-        if (fa.finding_class != fb.finding_class) return rank(fa.finding_class) < rank(fb.finding_class);
-        return fa.q_value < fb.q_value;
-    });
-    for (std::size_t i : order) {
-        const SlopeFinding& f = (*findings)[i];
+    result->rows = t.total_weight();
+    result->alpha = sq.alpha;
+    result->seed = sq.seed;
+    result->slope_findings = std::move(*findings);
+    apply_fdr(*result);
+    rank_findings(*result);
+    for (const SlopeFinding& f : result->slope_findings) {
         std::vector<const Column*> strata;
         for (const auto& name : f.strata)
             for (const Candidate& c : candidates->candidates)
@@ -260,6 +268,7 @@ Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const 
         out.findings.push_back(std::move(v));
     }
     for (const Exclusion& e : candidates->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
+    out.result = std::move(result);
     return out;
 }
 
@@ -283,6 +292,8 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     std::vector<std::string> skip;
     if (!q.outcome.isEmpty()) skip.push_back(q.outcome.toStdString());
     if (!q.exposure.isEmpty()) skip.push_back(q.exposure.toStdString());
+    if (q.slope)
+        for (const QString& c : q.covariates) skip.push_back(c.toStdString());
     CandidateOptions opts;
     opts.bins = q.bins;
     auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
@@ -291,7 +302,9 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
         const std::string& name = c.name;
         CandidateView v{qs(name), false, {}, {}};
         if (std::find(skip.begin(), skip.end(), name) != skip.end()) {
-            v.reason = qs(name) == q.outcome ? QObject::tr("the outcome") : QObject::tr("the compared groups");
+            v.reason = qs(name) == q.outcome    ? QObject::tr("the outcome")
+                       : qs(name) == q.exposure ? QObject::tr("the compared groups")
+                                                : QObject::tr("a covariate: the slopes are adjusted for it");
         } else if (auto it = std::find_if(set->candidates.begin(), set->candidates.end(),
                                           [&](const Candidate& k) { return k.name == name; });
                    it != set->candidates.end()) {
@@ -357,7 +370,7 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
     if (!result) return result.error();
     ScanOutcome out;
     out.cancelled = result->cancelled;
-    out.rate_result = std::make_shared<const ScanResult>(*result);
+    out.result = std::make_shared<const ScanResult>(*result);
     for (const RateFinding& r : result->rate_findings) out.findings.push_back(to_view(r));
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
     return out;
@@ -365,32 +378,49 @@ Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& 
 
 Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set) {
     if (set.isEmpty()) return make_error("the empty set needs no adjustment: the pooled figure applies");
-    if (set.size() > 2) return make_error("standardising over more than two columns is not offered yet");
-    QuestionSpec one = q;
-    one.candidates = set;
-    one.pairs = set.size() == 2;
-    one.bootstrap = 0;
-    auto out = run_scan(t, one, Work{}, {});
-    if (!out) return out.error();
-    for (FindingView& f : out->findings)
-        if (f.strata.size() == set.size() && std::is_permutation(f.strata.begin(), f.strata.end(), set.begin()))
-            return std::move(f);
-    return make_error("the engine gave no figure for that set");
+    std::vector<std::string> names;
+    for (const QString& s : set) names.push_back(s.toStdString());
+    FindingView f;
+    f.strata = set;
+    f.slope = q.slope;
+    Result<EstimateOver> e = make_error("not computed");
+    if (q.slope) {
+        f.adjusted_name = QObject::tr("within-stratum slope");
+        e = within_slope_over(t, slope_question(q), names, q.bins);
+    } else {
+        f.adjusted_name = QObject::tr("standardised difference");
+        auto question = resolve_question(t, core_spec(q));
+        if (!question) return question.error();
+        e = standardised_rd_over(t, encode_rows(t, *question), names, 0, q.alpha, q.bins);
+    }
+    if (!e) return e.error();
+    if (!std::isfinite(e->estimate))
+        return make_error(q.slope ? "no joint stratum has spread in the exposure" : "no joint stratum holds both groups");
+    f.adjusted = {e->estimate, e->ci_low, e->ci_high};
+    return f;
 }
 
-Status export_memo(const MemoRequest& request, const QString& path) {
-    if (!request.scan) return make_error("the memo needs a finished rate scan", path.toStdString());
+namespace {
+
+/// The memo's content, built by core/report exactly as `foldline memo` builds it.
+report::MemoContent memo_content(const MemoRequest& request) {
     const ScanResult& scan = *request.scan;
     project::Project proj;
-    proj.memo.title = request.title.toStdString();
-    if (request.diagram) proj.diagrams.push_back({"as drawn", *request.diagram});
-    for (const FindingView& f : request.reviewed) {
-        if (f.slope || (f.decision == Decision::Undecided && f.note.isEmpty())) continue;
-        std::vector<std::string> strata;
-        for (const QString& s : f.strata) strata.push_back(s.toStdString());
-        project::FindingReview& r = proj.review_for(project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString()));
-        r.decision = f.decision;
-        r.note = f.note.toStdString();
+    if (request.project) {
+        proj = *request.project;
+    } else {
+        proj.memo.title = request.title.toStdString();
+        if (request.diagram) proj.diagrams.push_back({"as drawn", *request.diagram});
+        for (const FindingView& f : request.reviewed) {
+            if (f.decision == Decision::Undecided && f.note.isEmpty()) continue;
+            std::vector<std::string> strata;
+            for (const QString& s : f.strata) strata.push_back(s.toStdString());
+            const std::string a = f.focal.toStdString(), b = f.reference.toStdString();
+            project::FindingReview& r =
+                proj.review_for(f.slope ? project::slope_key(strata, a, b) : project::rate_key(strata, a, b));
+            r.decision = f.decision;
+            r.note = f.note.toStdString();
+        }
     }
     report::MemoInput in;
     in.scan = &scan;
@@ -399,18 +429,34 @@ Status export_memo(const MemoRequest& request, const QString& path) {
     if (request.database) {
         in.data.database = request.database;
         in.data.rows = request.database->rows;
+    } else if (request.project && !request.project->data.sha256.empty()) {
+        in.data.sha256 = request.project->data.sha256;
     } else if (auto h = sha256_file(in.data.path)) {
         in.data.sha256 = *h;
     }
     in.project = &proj;
-    in.date = QDate::currentDate().toString(Qt::ISODate).toStdString();
-    if (request.diagram)
-        if (auto graph = causal::CausalGraph::build(*request.diagram))
+    in.table = request.table;
+    in.date = (request.date.isEmpty() ? QDate::currentDate().toString(Qt::ISODate) : request.date).toStdString();
+    // Rate verdicts as `foldline run` decides them; slope verdicts are decided inside build_memo.
+    if (const causal::Diagram* d = proj.diagram())
+        if (auto graph = causal::CausalGraph::build(*d))
             for (const RateFinding& f : scan.rate_findings) {
                 auto v = causal::decide(*graph, scan.question.exposure, scan.question.outcome, f.strata);
                 in.verdicts.push_back(v ? std::optional<causal::Verdict>(*v) : std::nullopt);
             }
-    return write_memo_pdf(report::build_memo(in), path.toStdString());
+    return report::build_memo(in);
+}
+
+}  // namespace
+
+Status export_memo(const MemoRequest& request, const QString& path) {
+    if (!request.scan) return make_error("the memo needs a finished scan", path.toStdString());
+    return write_memo_pdf(memo_content(request), path.toStdString());
+}
+
+QImage memo_preview(const MemoRequest& request, int width_px) {
+    if (!request.scan || width_px <= 0) return {};
+    return memo_page_image(memo_content(request), 1, width_px);
 }
 
 bool database_available() {

@@ -2,6 +2,7 @@
 // The one place the workbench calls the engines in core/: loading, the question, the scan and
 // the causal verdict. Everything returns plain values; nothing here touches widgets, so every
 // call may run on a worker thread.
+#include <QImage>
 #include <QString>
 #include <QStringList>
 #include <functional>
@@ -22,6 +23,10 @@ struct ScanResult;
 
 namespace foldline::causal {
 struct Diagram;
+}
+
+namespace foldline::project {
+struct Project;
 }
 
 namespace foldline::ui {
@@ -69,6 +74,7 @@ struct QuestionSpec {
     QString outcome, positive;      ///< binary outcome and its positive level
     QString exposure, focal, reference;
     QStringList candidates;         ///< chosen stratifiers
+    QStringList covariates;         ///< trend only: numeric columns the slopes are adjusted for
     bool pairs = true;
     int bins = 4;
     double alpha = 0.05;
@@ -84,8 +90,8 @@ struct CandidateView {
     QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
 };
 
-/// Columns that could stratify the question, each with the reason any is left out.
-/// Empty table → empty list.
+/// Columns that could stratify the question, each with the reason any is left out (the outcome,
+/// the groups and, for a trend, its covariates never stratify). Empty table → empty list.
 std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q);
 /// Problems with the question in plain sentences; empty when the scan can run.
 QStringList check_question(const Table& t, const QuestionSpec& q);
@@ -98,22 +104,33 @@ struct ScanOutcome {
     std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
     QStringList excluded;               ///< "column: reason"
     bool cancelled = false;
-    std::shared_ptr<const ScanResult> rate_result;  ///< the engine's own result (rates), for the memo
+    std::shared_ptr<const ScanResult> result;  ///< the engine's own result (rates or slopes), for the memo
 };
 
 /// What the PDF memo is made from, beyond the scan itself.
 struct MemoRequest {
-    std::shared_ptr<const ScanResult> scan;  ///< a rate scan; null → Error
+    std::shared_ptr<const ScanResult> scan;  ///< a finished rate or slope scan; null → Error
     QString data_path;                       ///< hashed for the memo's facts when it is a file
     double rows = 0;
+    /// The audit as it would be saved (MainWindow::current_project): title, analyst, page size,
+    /// decisions, notes, memo choices and the diagram. When set, `reviewed`, `diagram` and
+    /// `title` are not used.
+    const project::Project* project = nullptr;
+    const Table* table = nullptr;            ///< the rows, for the trend charts; null → no trend charts
     std::vector<FindingView> reviewed;       ///< findings with the reviewer's decisions and notes
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
     QString title;
+    QString date;                            ///< YYYY-MM-DD; empty → today
     std::optional<DatabaseRecord> database;  ///< a database source: recorded instead of a file digest
 };
 
-/// Writes the memo as a PDF (atomically) through core/report and ui/memo. Error names the file.
+/// Writes the memo as a PDF (atomically) through core/report and ui/memo — the same content
+/// builder and writer `foldline memo` uses. Error names the file; no scan → Error.
 Status export_memo(const MemoRequest& request, const QString& path);
+
+/// Page 1 of the memo `request` would write, `width_px` wide, for the preview beside the menu
+/// action. Null image when there is no scan or width_px <= 0.
+QImage memo_preview(const MemoRequest& request, int width_px);
 
 /// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
 /// the calling thread; class still decided on the raw p, before the FDR step and the
@@ -121,9 +138,12 @@ Status export_memo(const MemoRequest& request, const QString& path);
 Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
 
-/// The adjusted estimate over the joint strata of `set` (one or two columns): the standardised
-/// difference for rates, the within-stratum slope for trends. An Error when the set is empty,
-/// holds more than two columns, or the engine cannot compute it.
+/// The adjusted estimate over the joint strata of `set` (any number of columns), computed by
+/// core/scan/estimate_over as the verdicts of `foldline scan --diagram` and `run` are: the
+/// difference standardised to the pooled mix for rates, the within-stratum slope (adjusted for
+/// the covariates) for trends. Only `adjusted`, `adjusted_name`, `strata` and `slope` are set.
+/// An Error when the set is empty, a column is unknown, or no joint stratum holds both groups
+/// (rates) or spread in x (trends).
 Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set);
 
 }  // namespace foldline::ui

@@ -176,7 +176,10 @@ void MainWindow::seed_diagram_for(int row) {
     diagram_->seed(last_question_.exposure, last_question_.outcome, f->strata, columns);
 }
 
-void MainWindow::refresh_memo() { memo_->refresh(source_->source(), last_question_.outcome.isEmpty() ? nullptr : &last_question_); }
+void MainWindow::refresh_memo() {
+    memo_->refresh(source_->source(), last_question_.outcome.isEmpty() ? nullptr : &last_question_);
+    memo_->set_page_preview(memo_preview_image(kMemoPreviewWidth));
+}
 
 bool MainWindow::start_scan() {
     if (!source_->table() || !question_->problems().isEmpty()) {
@@ -373,23 +376,47 @@ void MainWindow::build_menus() {
             });
 }
 
-Status MainWindow::export_memo_to(const QString& path) {
+Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&)>& use) const {
     MemoRequest r;
-    r.scan = scan_->rate_result();
+    r.scan = scan_->scan_result();
+    if (!r.scan) return make_error("the memo needs a finished scan: run one first");
     r.data_path = source_->source();
-    r.rows = source_->table() ? double(source_->table()->rows) : 0;
+    const std::shared_ptr<const Table> table = source_->table();
+    r.rows = table ? double(table->rows) : 0;
+    r.table = table.get();
+    // The audit as it would be saved, so the memo carries the same title, analyst, decisions,
+    // notes, memo choices and diagram as `foldline memo` on the saved file.
+    auto project = current_project();
+    if (project) r.project = &*project;
     r.reviewed = model_->findings();
     if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
     if ((r.database = source_->database_record()))
         r.title = tr("Audit of %1").arg(QString::fromStdString(r.database->table.empty() ? r.database->database
                                                                                          : r.database->table));
-    return export_memo(r, path);
+    use(r);
+    return Ok{};
+}
+
+Status MainWindow::export_memo_to(const QString& path) {
+    Status written = Ok{};
+    if (auto st = with_memo_request([&](const MemoRequest& r) { written = export_memo(r, path); }); !st) {
+        Error e = st.error();
+        e.file = path.toStdString();
+        return e;
+    }
+    return written;
+}
+
+QImage MainWindow::memo_preview_image(int width_px) const {
+    QImage page;
+    (void)with_memo_request([&](const MemoRequest& r) { page = memo_preview(r, width_px); });
+    return page;
 }
 
 void MainWindow::export_memo_dialog() {
-    if (!scan_->rate_result()) {
-        QMessageBox::information(this, tr("Memo"), tr("The PDF memo covers rate audits: run a rate scan first."));
+    if (!scan_->scan_result()) {
+        QMessageBox::information(this, tr("Memo"), tr("The PDF memo needs a finished scan: run one first."));
         return;
     }
     QSettings s;
@@ -443,8 +470,8 @@ Result<project::Project> MainWindow::current_project() const {
         if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
         if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
         if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
-    } else if (base_) {
-        p.question.covariates = base_->question.covariates;
+    } else {
+        for (const QString& c : q.covariates) p.question.covariates.push_back(c.toStdString());
     }
     p.scan.strata.clear();
     for (const QString& c : q.candidates) p.scan.strata.push_back(c.toStdString());
@@ -562,6 +589,9 @@ void MainWindow::restore_pending() {
         q.reference = p.question.reference ? QString::fromStdString(*p.question.reference) : QString();
         q.candidates.clear();
         for (const auto& s : p.scan.strata) q.candidates << QString::fromStdString(s);
+        q.covariates.clear();
+        if (q.slope)
+            for (const auto& c : p.question.covariates) q.covariates << QString::fromStdString(c);
         q.pairs = p.scan.pairs;
         q.bins = p.scan.bins;
         q.alpha = p.scan.alpha;

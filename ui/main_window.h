@@ -44,6 +44,8 @@ public:
     FindingsPage* findings_page() const { return findings_; }
     DiagramPage* diagram_page() const { return diagram_; }
     MemoPage* memo_page() const { return memo_; }
+    /// Width in pixels of the Memo step's page-1 preview.
+    static constexpr int kMemoPreviewWidth = 520;
     FindingsModel* findings_model() const { return model_; }
     /// The action with this object name (e.g. "action_open"), or null.
     QAction* action(const QString& name) const { return actions_.value(name); }
@@ -68,8 +70,11 @@ public slots:
     void go_to(int step);
     /// Starts the scan with the question as set; false when it cannot run.
     bool start_scan();
-    /// Writes the PDF memo of the last rate scan to `path`; Error when there is none.
+    /// Writes the PDF memo of the last scan (rates or a trend) to `path`, with the audit as it
+    /// would be saved (current_project); Error naming `path` when there is no finished scan.
     Status export_memo_to(const QString& path);
+    /// Page 1 of that memo, `width_px` wide (the Memo step's preview); null without a scan.
+    QImage memo_preview_image(int width_px) const;
     void export_memo_dialog();
     /// Writes the audit (data source, question, settings, diagram, decisions; no rows) as a
     /// NAME.foldline project, atomically; rate and trend audits alike. On success the recovery
@@ -101,6 +106,8 @@ private:
     void restore_layout();
     void seed_diagram_for(int row);
     void refresh_memo();
+    /// Calls `use` with the memo request of the current audit; Error when no scan has finished.
+    Status with_memo_request(const std::function<void(const MemoRequest&)>& use) const;
 
     StepBar* steps_;
     QStackedWidget* stack_;

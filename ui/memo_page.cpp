@@ -2,6 +2,9 @@
 
 #include <QDateTime>
 #include <QHBoxLayout>
+#include <QLabel>
+#include <QScrollArea>
+#include <QSplitter>
 #include <QPushButton>
 #include <QTextBrowser>
 #include <QVBoxLayout>
@@ -23,14 +26,40 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
     auto* row = new QHBoxLayout;
     row->addStretch();
     row->addWidget(pdf);
+    preview_ = new QLabel;
+    preview_->setObjectName(QStringLiteral("memo_page_preview"));
+    preview_->setAlignment(Qt::AlignHCenter | Qt::AlignTop);
+    preview_->setToolTip(tr("Page 1 of the PDF memo as it will be written"));
+    auto* scroll = new QScrollArea;
+    scroll->setWidget(preview_);
+    scroll->setWidgetResizable(true);
+    auto* split = new QSplitter;
+    split->addWidget(text_);
+    split->addWidget(scroll);
+    split->setStretchFactor(0, 1);
+    split->setStretchFactor(1, 1);
+    scroll->setMinimumWidth(280);
+    split->setSizes({600, 560});  // room for the page at its preview width
     auto* lay = new QVBoxLayout(this);
     lay->addWidget(new CautionBand);
-    lay->addWidget(text_, 1);
+    lay->addWidget(split, 1);
     lay->addLayout(row);
     refresh({}, nullptr);
+    set_page_preview({});
 }
 
 QString MemoPage::html() const { return text_->toHtml(); }
+
+void MemoPage::set_page_preview(const QImage& page) {
+    page_ = page;
+    if (page.isNull()) {
+        preview_->setPixmap({});
+        preview_->setText(tr("Page 1 of the PDF memo appears here once a scan has finished."));
+    } else {
+        preview_->setText({});
+        preview_->setPixmap(QPixmap::fromImage(page));
+    }
+}
 
 void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     auto esc = [](const QString& s) { return s.toHtmlEscaped(); };
@@ -48,8 +77,10 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     for (const FindingView& f : model_->findings()) ++counts[int(f.cls)];
     h += tr("<p><b>Summary:</b> %1 finding(s): %2 reversal, %3 explained, %4 masked, %5 heterogeneous, %6 stable.</p>")
              .arg(model_->size()).arg(counts[0]).arg(counts[1]).arg(counts[2]).arg(counts[3]).arg(counts[4]);
-    h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>Pooled gap</th>"
-            "<th>Adjusted gap</th><th>q-value</th><th>Decision</th><th>Note</th></tr>");
+    const bool trend = q && q->slope;
+    h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>%1</th>"
+            "<th>%2</th><th>q-value</th><th>Decision</th><th>Note</th></tr>")
+             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"), trend ? tr("Within slope") : tr("Adjusted gap"));
     std::vector<const FindingView*> order;
     for (const FindingView& f : model_->findings()) order.push_back(&f);
     std::stable_sort(order.begin(), order.end(), [](const FindingView* a, const FindingView* b) {

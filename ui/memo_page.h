@@ -1,8 +1,10 @@
 #pragma once
 // Step 6, Memo: a readable preview of the audit so far — the data, the question, the findings
 // with the reviewer's decisions and notes, and the caution.
+#include <QImage>
 #include <QWidget>
 
+class QLabel;
 class QTextBrowser;
 
 namespace foldline::ui {
@@ -17,6 +19,10 @@ public:
     /// Rebuilds the preview from the current source, question and findings.
     void refresh(const QString& source, const QuestionSpec* question);
     QString html() const;
+    /// Shows page 1 of the PDF memo as it will be written; a null image shows a hint instead.
+    void set_page_preview(const QImage& page);
+    /// The preview shown (null when none).
+    QImage page_preview() const { return page_; }
 
 signals:
     void export_requested();
@@ -24,6 +30,8 @@ signals:
 private:
     FindingsModel* model_;
     QTextBrowser* text_;
+    QLabel* preview_;
+    QImage page_;
 };
 
 }  // namespace foldline::ui

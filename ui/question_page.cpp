@@ -194,6 +194,7 @@ void QuestionPage::fill_levels(QComboBox* box, const QString& column) {
 
 void QuestionPage::set_table(std::shared_ptr<const Table> table) {
     table_ = std::move(table);
+    covariates_.clear();  // they name columns of the previous data
     filling_ = true;
     outcome_->clear();
     exposure_->clear();
@@ -279,8 +280,11 @@ void QuestionPage::refresh_candidates() {
     const bool was = filling_;
     filling_ = true;
     QStringList previously_off;
+    // Only columns the user could untick count as switched off: one shown as the outcome or the
+    // groups a moment ago (while a question is being set) is ticked again once it qualifies.
     for (int i = 0; i < candidates_->count(); ++i)
-        if (candidates_->item(i)->checkState() == Qt::Unchecked) previously_off << candidates_->item(i)->data(Qt::UserRole).toString();
+        if ((candidates_->item(i)->flags() & Qt::ItemIsUserCheckable) && candidates_->item(i)->checkState() == Qt::Unchecked)
+            previously_off << candidates_->item(i)->data(Qt::UserRole).toString();
     candidates_->clear();
     if (table_) {
         QuestionSpec q;
@@ -288,6 +292,7 @@ void QuestionPage::refresh_candidates() {
         q.outcome = outcome_->currentText();
         q.exposure = exposure_->currentText();
         q.bins = bins_->value();
+        q.covariates = covariates_;
         std::vector<CandidateView> all = propose_candidates(*table_, q);
         std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
         for (const CandidateView& c : all) {
@@ -323,21 +328,27 @@ QuestionSpec QuestionPage::spec() const {
     q.alpha = alpha_->value();
     q.bootstrap = bootstrap_->value();
     q.seed = unsigned(seed_->value());
+    if (q.slope)
+        for (const QString& c : covariates_)
+            if (c != q.outcome && c != q.exposure) q.covariates << c;
     return q;
 }
 
 void QuestionPage::set_spec(const QuestionSpec& q) {
     if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
+    covariates_ = q.covariates;
+    refresh_candidates();  // covariates are not offered as strata
     outcome_->setCurrentText(q.outcome);
     positive_->setCurrentText(q.positive);
     exposure_->setCurrentText(q.exposure);
     focal_->setCurrentText(q.focal);
     reference_->setCurrentText(q.reference);
-    if (!q.candidates.isEmpty())
-        for (int i = 0; i < candidates_->count(); ++i)
-            if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
-                candidates_->item(i)->setCheckState(q.candidates.contains(candidates_->item(i)->data(Qt::UserRole).toString())
-                                                        ? Qt::Checked : Qt::Unchecked);
+    // No list = every usable column (a saved audit's "auto"), as `foldline run` reads it.
+    for (int i = 0; i < candidates_->count(); ++i)
+        if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
+            candidates_->item(i)->setCheckState(q.candidates.isEmpty() ||
+                                                        q.candidates.contains(candidates_->item(i)->data(Qt::UserRole).toString())
+                                                    ? Qt::Checked : Qt::Unchecked);
     pairs_->setChecked(q.pairs);
     bins_->setValue(q.bins);
     alpha_->setValue(q.alpha);
@@ -357,7 +368,12 @@ void QuestionPage::validate() {
     const QStringList p = problems();
     scan_->setEnabled(p.isEmpty());
     if (p.isEmpty()) {
-        problems_->setText(tr("Ready: %1 candidate(s)%2.").arg(spec().candidates.size()).arg(pairs_->isChecked() ? tr(" and their pairs") : QString()));
+        const QuestionSpec q = spec();
+        problems_->setText(tr("Ready: %1 candidate(s)%2%3.")
+                               .arg(q.candidates.size())
+                               .arg(pairs_->isChecked() ? tr(" and their pairs") : QString())
+                               .arg(q.covariates.isEmpty() ? QString()
+                                                           : tr("; slopes adjusted for %1").arg(q.covariates.join(QStringLiteral(", ")))));
         problems_->setPalette(palette());
     } else {
         QStringList items;

@@ -56,6 +56,7 @@ private:
     QLabel* problems_;
     QPushButton* scan_;
     bool filling_ = false;
+    QStringList covariates_;  ///< a trend's covariates from an opened audit (no editor of their own)
 };
 
 }  // namespace foldline::ui

@@ -69,7 +69,7 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
             // the provisional ones shown while the scan ran.
             model_->clear();
             for (FindingView& f : (*result)->findings) model_->add(std::move(f));
-            rate_result_ = (*result)->rate_result;
+            scan_result_ = (*result)->result;
         }
         if (stopped) {
             status_->setText(tr("Stopped after %1 s; %2 finding(s) kept.").arg(seconds_, 0, 'f', 2).arg(model_->size()));
@@ -107,7 +107,7 @@ double ScanPage::elapsed_seconds() const { return running() ? double(clock_.elap
 bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q) {
     if (job_->running() || !table) return false;
     model_->clear();
-    rate_result_.reset();
+    scan_result_.reset();
     {
         std::lock_guard<std::mutex> lock(mutex_);
         inbox_.clear();

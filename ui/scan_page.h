@@ -37,7 +37,7 @@ public:
     /// Seconds the last scan took, or the time so far.
     double elapsed_seconds() const;
     /// The engine's result of the last completed rate scan (null otherwise).
-    std::shared_ptr<const ScanResult> rate_result() const { return rate_result_; }
+    std::shared_ptr<const ScanResult> scan_result() const { return scan_result_; }
 
 signals:
     void scan_finished(bool completed, int findings);
@@ -55,7 +55,7 @@ private:
     std::vector<FindingView> inbox_;
     std::shared_ptr<Result<ScanOutcome>> result_;
     std::shared_ptr<const Table> table_;
-    std::shared_ptr<const ScanResult> rate_result_;
+    std::shared_ptr<const ScanResult> scan_result_;
     QElapsedTimer clock_;
     double seconds_ = 0;
     QLabel *question_, *status_;

@@ -256,7 +256,7 @@ std::string overwrites_input(const std::string& output, const std::vector<std::s
 }
 
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
-                         const std::string& memo_path, const std::string& csv_prefix) {
+                         const std::string& memo_path, const std::string& csv_prefix, const Table* table) {
     std::vector<std::string> outputs = {memo_path};
     if (!csv_prefix.empty())
         for (const auto& f : report::csv_export_paths(result, csv_prefix)) outputs.push_back(f);
@@ -266,7 +266,7 @@ int write_shared_outputs(const std::string& command, const ScanResult& result, c
         if (auto st = report::write_csv_exports(result, nullptr, csv_prefix); !st)
             return fail(command, kInput, st.error().to_string());
     }
-    if (!memo_path.empty()) return write_memo(command, result, info, nullptr, {}, {}, memo_path);
+    if (!memo_path.empty()) return write_memo(command, result, info, nullptr, {}, {}, memo_path, table);
     return kOk;
 }
 
@@ -280,7 +280,7 @@ bool memo_available() {
 
 int write_memo(const std::string& command, const ScanResult& result, const DataInfo& info, const project::Project* p,
                const std::vector<std::optional<causal::Verdict>>& verdicts, const std::string& data_change,
-               const std::string& out_path) {
+               const std::string& out_path, const Table* table) {
 #ifdef FOLDLINE_HAVE_UI
     report::MemoInput in;
     in.scan = &result;
@@ -289,11 +289,12 @@ int write_memo(const std::string& command, const ScanResult& result, const DataI
     in.verdicts = verdicts;
     in.date = today();
     in.data_change = data_change;
+    in.table = table;
     const auto content = report::build_memo(in);
     if (auto st = ui::write_memo_pdf(content, out_path); !st) return fail(command, kInput, st.error().to_string());
     return kOk;
 #else
-    (void)result, (void)info, (void)p, (void)verdicts, (void)data_change, (void)out_path;
+    (void)result, (void)info, (void)p, (void)verdicts, (void)data_change, (void)out_path, (void)table;
     return fail(command, kUsage,
                 "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF); rebuild with the Qt "
                 "workbench to write memos");

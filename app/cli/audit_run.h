@@ -73,16 +73,18 @@ void record_classes(project::Project& p, const ScanResult& result);
 /// reproducible memos).
 std::string today();
 
-/// Writes the PDF memo. Returns 0, or prints the reason and returns 2 when this build has no
+/// Writes the PDF memo; `table` (the rows scanned) gives the trend sections their charts, null
+/// leaves them without. Returns 0, or prints the reason and returns 2 when this build has no
 /// Qt (FOLDLINE_BUILD_UI=OFF) or 3 when the file cannot be written.
 int write_memo(const std::string& command, const ScanResult& result, const DataInfo& info,
                const project::Project* p, const std::vector<std::optional<causal::Verdict>>& verdicts,
-               const std::string& data_change, const std::string& out_path);
+               const std::string& data_change, const std::string& out_path, const Table* table = nullptr);
 
 /// The outputs `foldline scan` shares besides its JSON: the PDF memo (`memo_path`) and the CSV
-/// pair (`csv_prefix`); empty = not asked. Returns 0 or the exit code after printing the reason.
+/// pair (`csv_prefix`); empty = not asked; `table` as for write_memo. Returns 0 or the exit code after printing the reason.
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
-                         const std::string& memo_path, const std::string& csv_prefix);
+                         const std::string& memo_path, const std::string& csv_prefix,
+                         const Table* table = nullptr);
 
 /// An error message when `output` names the same file as one of `inputs` (outputs never
 /// overwrite the data or the project); empty when it is safe or `output` is empty or "-".

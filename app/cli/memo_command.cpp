@@ -39,7 +39,8 @@ int run(int argc, char** argv) {
     auto run = run_audit(*loaded, a.get_or("data", ""), threads, code);
     if (!run) return fail(kName, code, run.error().to_string());
     if (!run->data_change.empty()) std::cerr << "foldline memo: warning: " << run->data_change << "\n";
-    if (int rc = write_memo(kName, run->result, run->info, &*loaded, run->verdicts, run->data_change, out); rc != kOk)
+    if (int rc = write_memo(kName, run->result, run->info, &*loaded, run->verdicts, run->data_change, out, &run->table);
+        rc != kOk)
         return rc;
     std::cout << "Memo: " << out << "\n";
     return kOk;

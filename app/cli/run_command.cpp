@@ -110,7 +110,9 @@ int run(int argc, char** argv) {
         out << "\n";
     }
     if (!memo_path.empty()) {
-        if (int rc = write_memo(kName, r, run->info, &p, run->verdicts, run->data_change, memo_path); rc != kOk)
+        if (int rc = write_memo(kName, r, run->info, &p, run->verdicts, run->data_change, memo_path,
+                            &run->table);
+            rc != kOk)
             return rc;
         out << "Memo: " << memo_path << "\n";
     }

@@ -124,7 +124,11 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     if (!r.slope_findings.empty()) {
         int sc[5] = {0, 0, 0, 0, 0};
         for (const auto& f : r.slope_findings) ++sc[rank(f.finding_class)];
-        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x << ": " << r.slope_findings.size()
+        const auto& cov = r.slope_question.covariates;
+        std::string adjusted;
+        for (std::size_t i = 0; i < cov.size(); ++i) adjusted += (i ? ", " : "") + cov[i];
+        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x
+           << (adjusted.empty() ? "" : " adjusted for " + adjusted) << ": " << r.slope_findings.size()
            << " checks: " << sc[0] << " reversal, " << sc[1] << " explained, " << sc[2] << " masked, " << sc[3]
            << " heterogeneous, " << sc[4] << " stable\n";
         std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n", "class", "strata", "pooled",
@@ -138,7 +142,8 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
             for (std::size_t i = 0; i < f.strata.size(); ++i) label += (i ? " \u00d7 " : "") + f.strata[i];
             std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
                           std::string(to_string(f.finding_class)).c_str(), label.c_str(),
-                          fmt(f.pooled.slope, "%+.4g").c_str(), fmt(f.within.slope, "%+.4g").c_str(),
+                          fmt(f.adjusted ? f.adjusted_pooled.slope : f.pooled.slope, "%+.4g").c_str(),
+                          fmt(f.adjusted ? f.adjusted_within.slope : f.within.slope, "%+.4g").c_str(),
                           qfmt(f.q_value).c_str(),
                           f.stability_draws > 0 ? fmt(f.stability, "%.2f").c_str() : "-");
             os << line;
@@ -148,6 +153,33 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
     os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
           "counsel and licensed practice.\n";
+}
+
+/// Reads --covariates C1,C2 into q.covariates (q.x and q.y set): an error message naming the
+/// column when one is empty, repeated, x or y, missing from the data or not numeric; empty = fine.
+std::string parse_covariates(const std::string& list, const Table& table, SlopeQuestion& q) {
+    std::vector<std::string> names;
+    std::size_t start = 0;
+    while (true) {
+        const std::size_t comma = list.find(',', start);
+        names.push_back(list.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
+        if (comma == std::string::npos) break;
+        start = comma + 1;
+    }
+    for (const auto& name : names) {
+        if (name.empty()) return "--covariates needs column names separated by commas (an empty name in '" + list + "')";
+        if (name == q.x || name == q.y)
+            return "--covariates column '" + name + "' is the trend's " + (name == q.x ? "exposure (x)" : "outcome (y)") +
+                   "; a covariate must be another column";
+        if (std::count(names.begin(), names.end(), name) > 1)
+            return "--covariates names column '" + name + "' twice";
+        const Column* c = table.column(name);
+        if (!c) return "--covariates column '" + name + "' not found in the data";
+        if (!c->is_numeric())
+            return "--covariates column '" + name + "' is not numeric (a covariate enters the regression as a number)";
+    }
+    q.covariates = std::move(names);
+    return {};
 }
 
 int run(int argc, char** argv) {
@@ -165,6 +197,7 @@ int run(int argc, char** argv) {
         {"diagram", true, "DIAGRAM.json"},
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
+        {"covariates", true, "C1,C2"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -173,6 +206,7 @@ int run(int argc, char** argv) {
                      "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
                      "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
                      "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
+                     "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
                      "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
                      "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
                      "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
@@ -244,6 +278,8 @@ int run(int argc, char** argv) {
         req.query = a.get_or("query", "");
         req.required = {spec.outcome, spec.exposure};
         for (const auto& c : copt.columns) req.required.push_back(c);
+        if (a.has("covariates"))
+            for (const auto& c : split_list(*a.get("covariates"))) req.required.push_back(c);
         req.all_columns = copt.columns.empty();
         req.count_column = ropt.count_column;
         // A rate question runs on the cubes of one GROUPING SETS query, and its trend checks
@@ -328,6 +364,17 @@ int run(int argc, char** argv) {
             if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
         }
     }
+    if (a.has("covariates")) {
+        if (sq.x.empty())
+            return fail(kName, kUsage,
+                        "--covariates adjusts a trend: give a numeric --outcome and --exposure, or --trend X:Y");
+        if (auto msg = parse_covariates(*a.get("covariates"), *table, sq); !msg.empty())
+            return fail(kName, kUsage, msg);
+        for (const auto& c : sq.covariates)
+            if (std::find(copt.columns.begin(), copt.columns.end(), c) != copt.columns.end())
+                return fail(kName, kUsage, "column '" + c + "' is in both --strata and --covariates: a column either "
+                                           "stratifies the trend or adjusts it");
+    }
     // A slope-only scan honours --pairs; --trend checks each single stratifier. Both go through
     // the helpers `foldline run` uses, so a saved trend audit re-runs to the same findings.
     Result<ScanResult> result = make_error("not run");
@@ -397,7 +444,9 @@ int run(int argc, char** argv) {
             return fail(kName, kInput, st.error().to_string());
         }
     }
-    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", "")); rc != kOk)
+    if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", ""),
+                                      from_db ? nullptr : &*table);
+        rc != kOk)
         return rc;
     const auto t3 = clock::now();
     print_summary(human, *result, path, static_cast<std::size_t>(top));
@@ -413,7 +462,8 @@ int run(int argc, char** argv) {
 const CommandRegistration reg{Command{
     "scan",
     "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
-    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf]",
+    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf] "
+    "[--trend X:Y] [--covariates C1,C2]",
     "search every stratifier and pair for reversals of the outcome rate between groups",
     run}};
 

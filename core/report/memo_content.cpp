@@ -1,4 +1,6 @@
 #include "core/report/memo_content.h"
+#include "core/report/slope_chart.h"
+#include "core/scan/estimate_over.h"
 
 #include <cmath>
 #include <cstdio>
@@ -271,6 +273,19 @@ MemoTable slope_strata(const SlopeFinding& f) {
     return t;
 }
 
+/// " Over a, b: +6.3 pp (95% CI +4.3 pp to +8.2 pp)." — the estimate an OtherSet verdict points
+/// to; a sentence saying why when it could not be computed.
+template <typename Format>
+std::string estimate_sentence(const Result<EstimateOver>& e, const std::vector<std::string>& set, const char* what,
+                              Format format, double alpha) {
+    const std::string over = joined(set, ", ");
+    if (!e) return " The " + std::string(what) + " over " + over + " could not be computed: " + e.error().message + ".";
+    if (!std::isfinite(e->estimate))
+        return " The " + std::string(what) + " over " + over + " is undefined (no stratum of that set informs it).";
+    return " The estimate to quote, the " + std::string(what) + " over " + over + ": " + format(e->estimate) +
+           " (" + fmt("%.0f%% CI ", 100 * (1 - alpha)) + format(e->ci_low) + " to " + format(e->ci_high) + ").";
+}
+
 std::string decomposition_sentence(const RateFinding& f) {
     const auto& d = f.decomposition;
     if (!std::isfinite(d.crude_gap)) return "The pooled gap cannot be decomposed (a group has no rows).";
@@ -506,6 +521,9 @@ MemoContent build_memo(const MemoInput& in) {
             if (auto rep = causal::analyse_adjustment(*graph, q.exposure, q.outcome)) question_roles = rep->roles;
         }
     }
+    // Numeric columns of a set the diagram names are cut as the scan cut its candidates.
+    const int bins = p ? p->scan.bins : 4;
+    const std::size_t max_levels = p ? static_cast<std::size_t>(p->scan.max_levels) : 50;
     for (std::size_t k = 0; k < with_section; ++k) {
         const std::size_t i = section_of[k];
         const auto& f = r.rate_findings[i];
@@ -521,6 +539,11 @@ MemoContent build_memo(const MemoInput& in) {
         if (diagram) sec.diagram = diagram_of(*diagram, diagram_name, v, question_roles, f.strata);
         if (v) {
             sec.verdict = "Which view answers the question: " + answer_words(*v, f) + ". " + v->reason;
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
+                auto e = standardised_rd_over(*in.table, encode_rows(*in.table, q), *v->standardise_over, f.comparison,
+                                              r.alpha, bins, max_levels);
+                sec.verdict += estimate_sentence(e, *v->standardise_over, "difference standardised", points, r.alpha);
+            }
         } else if (diagram) {
             std::string why = "the diagram is not valid";
             if (graph) {
@@ -552,6 +575,7 @@ MemoContent build_memo(const MemoInput& in) {
         sec.lead = slope_lead(f);
         sec.figures = slope_figures(f, r.alpha);
         sec.strata = slope_strata(f);
+        if (in.table) sec.scatter = slope_chart(*in.table, f, bins, max_levels);
         std::optional<causal::Verdict> v;
         std::string why;
         if (graph) {
@@ -572,6 +596,12 @@ MemoContent build_memo(const MemoInput& in) {
                                        : v->answer == causal::Answer::Both   ? "both slopes (they estimate the same effect)"
                                                                              : "neither slope as shown";
             sec.verdict = "Which view answers the question: " + answer + ". " + v->reason;
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
+                SlopeQuestion fq = sq;
+                fq.x = f.x, fq.y = f.y, fq.covariates = f.covariates;
+                auto e = within_slope_over(*in.table, fq, *v->standardise_over, bins, max_levels);
+                sec.verdict += estimate_sentence(e, *v->standardise_over, "within slope", slope, sq.alpha);
+            }
         } else if (diagram) {
             sec.verdict = "The diagram cannot judge this finding: " + (why.empty() ? "the diagram is not valid" : why) + ".";
         } else {
@@ -584,8 +614,8 @@ MemoContent build_memo(const MemoInput& in) {
         m.sections.push_back(std::move(sec));
     }
 
-    // Method notes: enough to reproduce.
-    m.method_notes = {
+    // Method notes: enough to reproduce; the rate estimators only when rates were compared.
+    std::vector<std::string> rate_notes = {
         "Rates carry Wilson score intervals (Wilson 1927); differences of two rates, Newcombe's hybrid score "
         "interval (Newcombe 1998, method 10).",
         "Adjusted figures: Mantel-Haenszel odds ratio with the Robins-Breslow-Greenland interval, Mantel-Haenszel "
@@ -601,6 +631,23 @@ MemoContent build_memo(const MemoInput& in) {
                               " multinomial bootstrap resamples of each flagged finding's count table that keep its "
                               "class; seed " + std::to_string(r.seed) + "."
                         : "Stability: not computed (bootstrap off).",
+    };
+    m.method_notes = rates ? rate_notes : std::vector<std::string>{};
+    if (slopes)
+        m.method_notes.push_back(
+            "Trends: ordinary least squares slope of " + sq.y + " on " + sq.x +
+            ", pooled and with one intercept per stratum (fixed effects); Student t intervals; the F-test of equal "
+            "slopes; a reversal needs both slopes significant on opposite sides (intersection-union test); its "
+            "p-values are corrected with Benjamini-Hochberg over all " +
+            std::to_string(r.rate_findings.size() + r.slope_findings.size()) +
+            " checks at a false discovery rate of " + fixed(r.alpha, 2) + "." +
+            (sq.covariates.empty() ? std::string()
+                                   : " Pooled and within slopes are adjusted for " + joined(sq.covariates, ", ") +
+                                         " (multiple regression); the stratum slopes are not.") +
+            (sq.bootstrap > 0 ? " Stability from " + std::to_string(sq.bootstrap) + " resamples, seed " +
+                                    std::to_string(sq.seed) + "."
+                              : ""));
+    const std::vector<std::string> common_notes = {
         "Candidate columns: " + (r.candidates.empty() ? std::string("none") : joined(r.candidates, ", ")) + "." +
             (r.excluded.empty() ? std::string()
                                 : " Left out: " + [&] {
@@ -610,24 +657,18 @@ MemoContent build_memo(const MemoInput& in) {
                                                r.excluded[i].reason + ")";
                                       return e;
                                   }() + "."),
-        "Decomposition of the pooled gap: Kitagawa (1955) in the symmetric form of Das Gupta (1993). E-values: "
-        "VanderWeele & Ding (2017). Which view answers the question: the adjustment criterion on the reviewer's "
-        "causal diagram (Pearl's back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
+        std::string(rates ? "Decomposition of the pooled gap: Kitagawa (1955) in the symmetric form of Das Gupta "
+                            "(1993). E-values: VanderWeele & Ding (2017). "
+                          : "") +
+            "Which view answers the question: the adjustment criterion on the reviewer's causal diagram (Pearl's "
+            "back-door criterion, generalised by Shpitser, VanderWeele & Robins 2010).",
         db ? "Data: " + source + ", counted inside the database (" + (db->driver.empty() ? "ODBC" : db->driver) +
                  ") at " + (db->queried_at.empty() ? std::string("an unrecorded time") : db->queried_at) +
                  "; only per-stratum counts and sums left the engine."
            : "Data: " + source + ", SHA-256 " + (in.data.sha256.empty() ? std::string("not computed") : in.data.sha256) +
                  ". The audit re-runs from its project file with `foldline run PROJECT`.",
     };
-    if (slopes)
-        m.method_notes.push_back(
-            "Trends: ordinary least squares slope of " + sq.y + " on " + sq.x +
-            ", pooled and with one intercept per stratum (fixed effects); Student t intervals; the F-test of equal "
-            "slopes; a reversal needs both slopes significant on opposite sides (intersection-union test), with "
-            "the same false discovery rate control." +
-            (sq.bootstrap > 0 ? " Stability from " + std::to_string(sq.bootstrap) + " resamples, seed " +
-                                    std::to_string(sq.seed) + "."
-                              : ""));
+    m.method_notes.insert(m.method_notes.end(), common_notes.begin(), common_notes.end());
     if (r.cancelled) m.method_notes.push_back("The scan was stopped early: the findings are incomplete.");
     m.caution = kMemoCaution;
     return m;

@@ -11,6 +11,7 @@
 #include "core/io/project_file.h"
 #include "core/report/scan_json.h"
 #include "core/scan/scan_result.h"
+#include "core/table/table.h"
 
 namespace foldline::report {
 
@@ -38,6 +39,24 @@ struct MemoChart {
     std::vector<MemoChartPoint> points;  ///< pooled first, then strata in table order
 };
 
+/// A trend chart: the rows as points coloured by stratum, each stratum's fitted line over its
+/// own x range, and the pooled line across all of them.
+struct MemoScatterLine {
+    std::string label;          ///< the stratum's label, or "All (pooled)"
+    double slope = 0, intercept = 0;
+    double x_min = 0, x_max = 0;
+};
+
+struct MemoScatter {
+    std::string title;                   ///< "weekly_sales on promo_spend by store_format"
+    std::string x_label, y_label;
+    std::vector<double> x, y;            ///< the points drawn (thinned evenly beyond a cap)
+    std::vector<int> group;              ///< per point: index into `lines`, -1 outside every stratum
+    std::vector<MemoScatterLine> lines;  ///< one per stratum with a defined slope, in table order
+    std::optional<MemoScatterLine> pooled;
+    std::string note;                    ///< "4,000 of 5,000 rows drawn; the lines use every row"
+};
+
 struct MemoDiagramNode {
     std::string name;
     double x = 0, y = 0;       ///< editor position (laid out on a circle when never placed)
@@ -59,6 +78,7 @@ struct MemoSection {
     MemoTable figures;         ///< measure / crude / adjusted
     MemoTable strata;          ///< the side-by-side table: pooled row, then each stratum
     MemoChart chart;
+    std::optional<MemoScatter> scatter;  ///< trend sections, when the rows were given
     std::optional<MemoDiagram> diagram;
     std::string verdict;       ///< which view answers, and why; a plain note when no diagram
     std::string decomposition; ///< one sentence
@@ -93,6 +113,9 @@ struct MemoInput {
     std::string date;                                 ///< "2026-12-02"; the caller's clock, for reproducibility
     std::string data_change;                          ///< DataChange::message when changed, else empty
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
+    const Table* table = nullptr;                     ///< the rows, for the trend charts and the estimate a
+                                                      ///< verdict points to over another set
+                                                      ///< (core/scan/estimate_over); null → neither
 };
 
 /// The caution every memo closes with.
@@ -101,8 +124,8 @@ inline constexpr const char* kMemoCaution =
     "counsel and licensed practice.";
 
 /// Builds the memo: rate findings first, then slope findings (ScanResult::slope_findings, a
-/// trend of a numeric outcome on a numeric exposure; sections without charts, decomposition or
-/// E-value, which are rate figures). A scan with no findings gives a memo with an empty table, no sections and a
+/// trend of a numeric outcome on a numeric exposure; sections with a scatter chart when
+/// input.table is set, never a decomposition or E-value, which are rate figures). A scan with no findings gives a memo with an empty table, no sections and a
 /// summary saying nothing was flagged; input.scan == nullptr gives an empty MemoContent.
 MemoContent build_memo(const MemoInput& input);
 

@@ -178,8 +178,11 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     json findings = json::array();
     for (const auto& f : r.rate_findings) findings.push_back(rate_finding_to_json(f));
     for (const auto& f : r.slope_findings) findings.push_back(to_json(f));
-    if (!r.slope_question.x.empty())
+    if (!r.slope_question.x.empty()) {
         j["slope_question"] = {{"x", r.slope_question.x}, {"y", r.slope_question.y}};
+        // Only when given, so documents of unadjusted trends keep their bytes.
+        if (!r.slope_question.covariates.empty()) j["slope_question"]["covariates"] = r.slope_question.covariates;
+    }
     j["summary"] = scan_to_json_summary(r);
     j["findings"] = std::move(findings);
     return j;

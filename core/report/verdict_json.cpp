@@ -4,9 +4,7 @@
 #include <cmath>
 
 #include "core/report/causal_json.h"
-#include "core/scan/cube.h"
-#include "core/scan/joint_strata.h"
-#include "core/stats/standardize.h"
+#include "core/scan/estimate_over.h"
 
 namespace foldline::report {
 namespace {
@@ -46,15 +44,11 @@ json rate_verdict_json(const Table& table, const RowCells& rows,
         const auto& s = f.adjusted.standardized;
         est = estimate("stratified", f.strata, "risk_difference", s.rd, s.rd_ci.lo, s.rd_ci.hi);
     } else if (view == "standardised") {
-        auto joint = joint_stratifier(table, *v.standardise_over);
-        if (joint) {
-            const CountCube cube = build_cube(*joint, rows, table.weights);
-            const stats::Strata strata = comparison_strata(cube, f.comparison + 1);
-            const auto s = stats::standardized_rd(strata, alpha);
-            est = estimate("standardised", *v.standardise_over, "risk_difference", s.rd, s.rd_ci.lo, s.rd_ci.hi);
-        } else {
-            j["estimate_problem"] = joint.error().message;
-        }
+        auto s = standardised_rd_over(table, rows, *v.standardise_over, f.comparison, alpha);
+        if (s)
+            est = estimate("standardised", *v.standardise_over, "risk_difference", s->estimate, s->ci_low, s->ci_high);
+        else
+            j["estimate_problem"] = s.error().message;
     }
     j["adjusted_estimate"] = std::move(est);
     return j;
@@ -65,24 +59,25 @@ json slope_verdict_json(const Table& table, const SlopeQuestion& question, const
     json j = to_json(v);
     const std::string view = view_of(v, f.strata);
     json est = nullptr;
+    // With covariates every view quotes the covariate-adjusted slope, as the class does.
     if (view == "pooled") {
-        est = estimate("pooled", {}, "slope", f.pooled.slope, f.pooled.ci_low, f.pooled.ci_high);
+        if (f.adjusted)
+            est = estimate("pooled", {}, "slope", f.adjusted_pooled.slope, f.adjusted_pooled.ci_low,
+                           f.adjusted_pooled.ci_high);
+        else
+            est = estimate("pooled", {}, "slope", f.pooled.slope, f.pooled.ci_low, f.pooled.ci_high);
     } else if (view == "stratified") {
-        est = estimate("stratified", f.strata, "slope", f.within.slope, f.within.ci_low, f.within.ci_high);
+        if (f.adjusted)
+            est = estimate("stratified", f.strata, "slope", f.adjusted_within.slope, f.adjusted_within.ci_low,
+                           f.adjusted_within.ci_high);
+        else
+            est = estimate("stratified", f.strata, "slope", f.within.slope, f.within.ci_low, f.within.ci_high);
     } else if (view == "standardised") {
-        auto joint = joint_stratifier(table, *v.standardise_over);
-        if (!joint) {
-            j["estimate_problem"] = joint.error().message;
-        } else {
-            SlopeQuestion q = question;
-            q.bootstrap = 0;
-            auto other = check_slope(table, q, {&*joint});
-            if (other)
-                est = estimate("standardised", *v.standardise_over, "slope", other->within.slope,
-                               other->within.ci_low, other->within.ci_high);
-            else
-                j["estimate_problem"] = other.error().message;
-        }
+        auto other = within_slope_over(table, question, *v.standardise_over);
+        if (other)
+            est = estimate("standardised", *v.standardise_over, "slope", other->estimate, other->ci_low, other->ci_high);
+        else
+            j["estimate_problem"] = other.error().message;
     }
     j["adjusted_estimate"] = std::move(est);
     return j;

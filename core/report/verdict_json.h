@@ -23,7 +23,8 @@ nlohmann::json rate_verdict_json(const Table& table, const RowCells& rows,
                                  const RateFinding& finding, const causal::Verdict& verdict, double alpha);
 
 /// The verdict object of a slope finding; the estimate is the pooled slope, the finding's
-/// within slope, or the within slope over another set (measure "slope"); null as above.
+/// within slope, or the within slope over another set (measure "slope"), each adjusted for the
+/// question's covariates when it has any; null as above.
 nlohmann::json slope_verdict_json(const Table& table, const SlopeQuestion& question, const SlopeFinding& finding,
                                   const causal::Verdict& verdict);
 

@@ -14,6 +14,7 @@ import csv
 import hashlib
 import json
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -132,10 +133,55 @@ try:
               "strata CSV: one row per stratum (%d)" % len(srows))
         check([r["class"] for r in frows] == [f["class"] for f in doc["findings"]], "CSV classes match the JSON")
 
+        # An estimate a verdict points to over another set: direct standardisation recomputed
+        # with pandas (weights = each stratum's share of the rows in strata holding both groups).
+        quoted = re.findall(r"difference standardised over ([^:]+): ([+-][0-9.]+) pp", text)
+        for over, shown in sorted(set(quoted)):
+            cols = over.split(", ")
+            if not all(c in df.columns and df[c].dtype == object for c in cols):
+                continue
+            used = df.dropna(subset=cols + [outcome, exposure])
+            used = used[used[exposure].isin([focal, ref])]
+            rd, total = 0.0, 0
+            for _, g in used.groupby(cols):
+                gf, gr = g[g[exposure] == focal], g[g[exposure] == ref]
+                if len(gf) and len(gr):
+                    rd += len(g) * ((gf[outcome].astype(str) == str(positive)).mean()
+                                    - (gr[outcome].astype(str) == str(positive)).mean())
+                    total += len(g)
+            check("%+.1f" % (100 * rd / total) == shown,
+                  "the estimate to quote over %s, %s pp, is the standardised difference (pandas %+.3f pp)"
+                  % (over, shown, 100 * rd / total))
         rc, out, err = run(["memo", project, "--out", "again.pdf"], work)
         check(rc == 0 and os.path.getsize(os.path.join(work, "again.pdf")) > 10000, "foldline memo writes the PDF")
         for f in os.listdir(work):
             os.remove(os.path.join(work, f))
+
+    # --- a trend audit's memo: slopes from statsmodels, the chart as vectors --------------------
+    print("-- retail_audit.foldline (trend)")
+    import statsmodels.formula.api as smf
+    for f in ("retail_audit.foldline", "retail_weeks.csv"):
+        shutil.copy(os.path.join(SAMPLES, f), work)
+    rc, out, err = run(["memo", "retail_audit.foldline", "--out", "t.pdf"], work)
+    check(rc == 0, "foldline memo on the trend audit exits 0 (got %d: %s)" % (rc, err.strip()))
+    text = pdf_text(os.path.join(work, "t.pdf"))
+    retail = pd.read_csv(os.path.join(work, "retail_weeks.csv"))
+    pooled = smf.ols("weekly_sales ~ promo_spend", data=retail).fit().params["promo_spend"]
+    within = smf.ols("weekly_sales ~ promo_spend + C(store_format)", data=retail).fit().params["promo_spend"]
+    check("Pooled slope %+.4g" % pooled in text and "Within slope (one intercept per stratum) %+.4g" % within in text,
+          "memo quotes the pooled slope %+.4g and the within-format slope %+.4g (statsmodels)" % (pooled, within))
+    check("The estimate to quote, the within slope over store_format: %+.4g" % within in text,
+          "a finding stratified by a mediator points to the within-format slope %+.4g" % within)
+    check("weekly_sales on promo_spend by store_format" in text and "superstore (slope" in text,
+          "the trend chart's title and legend are text")
+    images = subprocess.run(["pdfimages", "-list", os.path.join(work, "t.pdf")], capture_output=True,
+                            text=True, check=True).stdout.splitlines()[2:]
+    check(len(images) == 0, "the trend chart is vector graphics: no raster image (pdfimages)")
+    check("Wilson" not in text and "ordinary least squares slope of weekly_sales on promo_spend" in text,
+          "a trend memo's method notes name the slope estimators only")
+    check(renders_pages_1_and_2(os.path.join(work, "t.pdf"), work), "pdftoppm renders pages 1 and 2 of the trend memo")
+    for f in os.listdir(work):
+        os.remove(os.path.join(work, f))
 
     # --- exit code 4 when a saved class differs; --update is deterministic --------------------
     print("-- re-runs")

@@ -1,6 +1,6 @@
 #!/usr/bin/python3
 """Saved trend audits end to end: `foldline run` on sample_data/retail_audit.foldline and the slope
-CSV pair of `run --csv` and `scan --trend --csv`.
+CSV pair of `run --csv` and `scan --trend --csv`, and `scan --covariates` (JSON and its errors).
 
 Outside references: scipy.stats.linregress gives the pooled slope and each stratum's slope
 (ordinary least squares of y on x), statsmodels OLS with one intercept per stratum
@@ -130,6 +130,39 @@ try:
     check(len(cov) == 1 and close(float(cov[0]["adjusted_pooled_slope"]), pooled_adj) and
           close(float(cov[0]["adjusted_within_slope"]), within_adj),
           "adjusted pooled %.6g and within %.6g slopes are statsmodels' OLS with footfall" % (pooled_adj, within_adj))
+
+    print("-- scan --covariates (statsmodels OLS with the covariate, pooled and with format intercepts)")
+    rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
+                        "--covariates", "footfall", "--strata", "store_format,region", "--json", "cov.json"], work)
+    check(rc == 0, "scan --covariates footfall exits 0 (got %d: %s)" % (rc, err.strip()))
+    check("adjusted for footfall" in out, "the printed summary says what the slopes are adjusted for")
+    doc = json.load(open(os.path.join(work, "cov.json")))
+    check(doc["slope_question"].get("covariates") == ["footfall"], "the JSON question records the covariate")
+    sf = [f for f in doc["findings"] if f["kind"] == "slope" and f["strata"] == ["store_format"]]
+    pooled_fit = smf.ols("weekly_sales ~ promo_spend + footfall", data=used).fit()
+    within_fit = smf.ols("weekly_sales ~ promo_spend + footfall + C(store_format)", data=used).fit()
+    for name, fit in (("pooled", pooled_fit), ("within", within_fit)):
+        got = sf[0]["adjusted"][name] if sf else {}
+        lo, hi = fit.conf_int().loc["promo_spend"]
+        check(bool(sf) and close(got["slope"], fit.params["promo_spend"]) and close(got["se"], fit.bse["promo_spend"])
+              and close(got["slope_ci"][0], lo, 1e-7) and close(got["slope_ci"][1], hi, 1e-7)
+              and got["df"] == fit.df_resid,
+              "adjusted %s slope %.6g (SE %.4g, df %d) is statsmodels' OLS" %
+              (name, fit.params["promo_spend"], fit.bse["promo_spend"], fit.df_resid))
+    check(bool(sf) and sf[0]["covariates"] == ["footfall"] and sf[0]["rows"] == len(used),
+          "the finding records the covariate and the %d rows with it present" % len(used))
+    for bad, words in (("region", "'region' is not numeric"), ("nope", "'nope' not found"),
+                       ("promo_spend", "'promo_spend' is the trend's exposure"), ("footfall,", "an empty name")):
+        rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
+                            "--covariates", bad], work)
+        check(rc == 2 and words in err, "--covariates %s: exit 2 naming the column (got %d: %s)" % (bad, rc, err.strip()))
+    rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "weekly_sales", "--exposure", "promo_spend",
+                        "--covariates", "footfall", "--strata", "store_format,footfall"], work)
+    check(rc == 2 and "'footfall' is in both --strata and --covariates" in err,
+          "a column named as both stratifier and covariate is a usage error (got %d: %s)" % (rc, err.strip()))
+    rc, out, err = run(["scan", "retail_weeks.csv", "--outcome", "store_format=mall", "--exposure", "region",
+                        "--covariates", "footfall"], work)
+    check(rc == 2 and "--covariates adjusts a trend" in err, "--covariates without a trend is a usage error (got %d)" % rc)
 
     print("-- trend checks saved beside a rate question")
     shutil.copy(os.path.join(SAMPLES, "lender_approvals.csv"), work)

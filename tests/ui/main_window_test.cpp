@@ -3,6 +3,8 @@
 
 #include <QAction>
 #include <QLabel>
+#include <QProcess>
+#include <QStandardPaths>
 #include <QSettings>
 #include <QSplitter>
 #include <QTableWidget>
@@ -17,6 +19,7 @@
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
 #include "ui/main_window.h"
+#include "ui/memo_page.h"
 #include "ui/question_page.h"
 #include "ui/scan_page.h"
 #include "ui/source_page.h"
@@ -274,6 +277,141 @@ private slots:
         QTRY_VERIFY_WITH_TIMEOUT(!again.data_change().isEmpty(), 120000);
         QVERIFY2(again.data_change().contains(QStringLiteral("rows: 5,000 \u2192 5,001")), qPrintable(again.data_change()));
         QVERIFY(again.data_change().contains(QStringLiteral("same columns")));
+    }
+
+    // A saved trend question with a covariate re-runs adjusted in the workbench, as `foldline run`
+    // does. statsmodels 0.13.5 OLS on sample_data/retail_weeks.csv, 4,972 rows with footfall
+    // [calc]: weekly_sales ~ promo_spend + footfall → 1.739468503482215;
+    // + C(store_format) → −1.4589542471516073.
+    void trend_project_with_a_covariate_runs_adjusted() {
+        const QString audit = find_sample("retail_audit.foldline");
+        if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
+        auto p = project::load_project(audit.toStdString());
+        QVERIFY(p.ok());
+        p->question.covariates = {"footfall"};
+        p->reviews.clear();
+        QTemporaryDir dir;
+        QVERIFY(QFile::copy(find_sample("retail_weeks.csv"), dir.filePath("retail_weeks.csv")));
+        p->data.path = dir.filePath("retail_weeks.csv").toStdString();
+        const QString path = dir.filePath("adjusted.foldline");
+        QVERIFY(project::save_project(*p, path.toStdString()).ok());
+        MainWindow w;
+        QVERIFY(w.open_project(path).ok());
+        const FindingView* format = nullptr;
+        auto found = [&] {
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.slope && g.strata == QStringList{"store_format"}) format = &g;
+            return format != nullptr;
+        };
+        QTRY_VERIFY_WITH_TIMEOUT(found(), 120000);
+        QCOMPARE(w.question_page()->spec().covariates, QStringList{"footfall"});
+        QVERIFY(qAbs(format->crude.value - 1.739468503482215) < 1e-9);
+        QVERIFY(qAbs(format->adjusted.value - -1.4589542471516073) < 1e-9);
+        // Footfall adjusts; it is not also a stratifier.
+        for (const FindingView& g : w.findings_model()->findings()) QVERIFY(!g.strata.contains("footfall"));
+        // Saved again, the covariate stays.
+        QVERIFY(w.save_project_to(dir.filePath("again.foldline")).ok());
+        auto again = project::load_project(dir.filePath("again.foldline").toStdString());
+        QVERIFY(again.ok());
+        QCOMPARE(again->question.covariates, std::vector<std::string>{"footfall"});
+    }
+
+    // The workbench's memo of a trend audit goes through the same content builder and writer as
+    // `foldline memo`: the reviewer's section, the side-by-side slopes, the chart (drawn as
+    // vector graphics, so its title and legend are text), the verdict, the decision and note,
+    // the method notes and the caution. The figures are checked against statsmodels.
+    void trend_memo_from_the_workbench() {
+        const QString audit = find_sample("retail_audit.foldline");
+        if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
+        const QString pdftotext = QStandardPaths::findExecutable("pdftotext");
+        const QString pdftoppm = QStandardPaths::findExecutable("pdftoppm");
+        if (pdftotext.isEmpty() || pdftoppm.isEmpty()) QSKIP("poppler-utils (pdftotext, pdftoppm) not installed");
+        MainWindow w;
+        QTemporaryDir dir;
+        // No scan yet: the memo says what is missing and writes nothing.
+        const Status early = w.export_memo_to(dir.filePath("early.pdf"));
+        QVERIFY(!early.ok());
+        QVERIFY(QString::fromStdString(early.error().to_string()).contains("early.pdf"));
+        QVERIFY(!QFile::exists(dir.filePath("early.pdf")));
+        QVERIFY(w.memo_preview_image(400).isNull());
+
+        QVERIFY(w.open_project(audit).ok());
+        auto restored = [&] {
+            for (const FindingView& g : w.findings_model()->findings())
+                if (g.slope && g.strata == QStringList{"store_format"}) return g.decision == Decision::Upheld;
+            return false;
+        };
+        QTRY_VERIFY_WITH_TIMEOUT(restored(), 120000);
+
+        // The Memo step previews page 1 of the PDF: a white page with ink on it.
+        w.go_to(MainWindow::Memo);
+        const QImage page = w.memo_page()->page_preview();
+        QVERIFY(!page.isNull());
+        QCOMPARE(page.width(), int(MainWindow::kMemoPreviewWidth));
+        QVERIFY(page.height() > page.width());
+        int ink = 0;
+        for (int y = 0; y < page.height(); y += 2)
+            for (int x = 0; x < page.width(); x += 2) ink += qGray(page.pixel(x, y)) < 128;
+        QVERIFY2(ink > 200, qPrintable(QString::number(ink)));
+
+        const QString pdf = dir.filePath("retail memo.pdf");
+        const Status written = w.export_memo_to(pdf);
+        QVERIFY2(written.ok(), written.ok() ? "" : written.error().to_string().c_str());
+        QProcess text;
+        text.start(pdftotext, {pdf, QStringLiteral("-")});
+        QVERIFY(text.waitForFinished(60000));
+        QCOMPARE(text.exitCode(), 0);
+        const QString all = QString::fromUtf8(text.readAllStandardOutput()).simplified();
+
+        // statsmodels 0.13.5 OLS on sample_data/retail_weeks.csv [calc]:
+        //   weekly_sales ~ promo_spend                    slope 21.5657
+        //   weekly_sales ~ promo_spend + C(store_format)  slope -3.96884, 95% CI -4.24139 to -3.69629
+        //   per format, weekly_sales ~ promo_spend: high_street -4.32244, kiosk -3.88712,
+        //   mall -3.71856, superstore -4.08282
+        const int section = all.indexOf(QStringLiteral("Reversal: store_format (weekly_sales on promo_spend)"));
+        QVERIFY2(section > 0, "no section for the finding the reviewer upheld");
+        const QString s = all.mid(section, 4000);
+        QVERIFY(s.contains(QStringLiteral("Pooled slope +21.57 +21.36 to +21.78")));
+        QVERIFY(s.contains(QStringLiteral("Within slope (one intercept per stratum) -3.969 -4.241 to -3.696")));
+        // The side-by-side table: pooled row, then each format.
+        QVERIFY(s.contains(QStringLiteral("Side by side: pooled and each stratum")));
+        QVERIFY(s.contains(QStringLiteral("All (pooled) 5,000 +21.57")));
+        QVERIFY(s.contains(QStringLiteral("high_street 1,460 -4.322")));
+        QVERIFY(s.contains(QStringLiteral("kiosk 1,526 -3.887")));
+        QVERIFY(s.contains(QStringLiteral("mall 1,270 -3.719")));
+        QVERIFY(s.contains(QStringLiteral("744 -4.083")));  // superstore (its label may be read after the row)
+        // The chart, drawn as vectors: its title and legend are selectable text.
+        QVERIFY(s.contains(QStringLiteral("weekly_sales on promo_spend by store_format")));
+        QVERIFY(s.contains(QStringLiteral("superstore (slope -4.083)")));
+        QVERIFY(s.contains(QStringLiteral("All (pooled) (slope 21.57)")));
+        // Verdict, decision and note; the diagram with roles.
+        QVERIFY(s.contains(QStringLiteral("Which view answers the question: the within-strata slope (by store_format)")));
+        QVERIFY(s.contains(QStringLiteral("Reviewer's decision: upheld.")));
+        QVERIFY(s.contains(QStringLiteral("ask the trading desk for the weekly demand forecast")));
+        QVERIFY(s.contains(QStringLiteral("Causal diagram")));
+        // A finding stratified by a mediator (footfall) points to the within-format slope, which
+        // the memo computes and quotes (statsmodels figures above).
+        QVERIFY(all.contains(QStringLiteral("The estimate to quote, the within slope over store_format: -3.969 "
+                                            "(95% CI -4.241 to -3.696)")));
+        // The memo settings of the opened audit, the method notes of a trend audit (no rate
+        // estimators) and the caution.
+        QVERIFY(all.startsWith(QStringLiteral("Promotion spend and weekly sales at Tallow & Pine Outfitters")));
+        QVERIFY(all.contains(QStringLiteral("Trading analytics desk (fictional)")));
+        QVERIFY(all.contains(QStringLiteral("Method notes")));
+        QVERIFY(all.contains(QStringLiteral("ordinary least squares slope of weekly_sales on promo_spend")));
+        QVERIFY(all.contains(QStringLiteral("Benjamini-Hochberg over all 10 checks")));
+        QVERIFY(!all.contains(QStringLiteral("Wilson score")));
+        QVERIFY(all.contains(QStringLiteral("not a legal or clinical determination")));
+
+        // Pages 1 and 2 render.
+        QProcess render;
+        render.start(pdftoppm, {QStringLiteral("-png"), QStringLiteral("-r"), QStringLiteral("40"), QStringLiteral("-f"),
+                                QStringLiteral("1"), QStringLiteral("-l"), QStringLiteral("2"), pdf, dir.filePath("page")});
+        QVERIFY(render.waitForFinished(60000));
+        QCOMPARE(render.exitCode(), 0);
+        const QStringList pngs = QDir(dir.path()).entryList({QStringLiteral("page*.png")});
+        QCOMPARE(pngs.size(), 2);
+        for (const QString& png : pngs) QVERIFY(!QImage(dir.filePath(png)).isNull());
     }
 };
 

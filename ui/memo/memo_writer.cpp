@@ -24,6 +24,7 @@ namespace foldline::ui {
 using report::MemoChart;
 using report::MemoContent;
 using report::MemoDiagram;
+using report::MemoScatter;
 using report::MemoSection;
 using report::MemoTable;
 
@@ -405,6 +406,70 @@ QPicture rate_chart(const MemoChart& c, int w, int h) {
     return render_plot(plot, w, h);
 }
 
+// One colour per stratum line (ours); beyond the list the colours repeat with a dashed line.
+const QColor kStrataColors[] = {QColor(0x1B, 0x6F, 0x8A), QColor(0xD9, 0x8A, 0x2B), QColor(0x5B, 0x8C, 0x3E),
+                                QColor(0x8E, 0x4E, 0xA0), QColor(0xB5, 0x4A, 0x5E), QColor(0x3F, 0x7F, 0x7A),
+                                QColor(0x9A, 0x7B, 0x2E), QColor(0x4A, 0x5F, 0xB0)};
+constexpr std::size_t kStrataColorCount = sizeof kStrataColors / sizeof kStrataColors[0];
+// Strata beyond this are drawn without a legend entry (the side-by-side table names them).
+constexpr std::size_t kMaxLegendLines = 10;
+
+QPicture scatter_chart(const MemoScatter& c, int w, int h) {
+    QCustomPlot plot;
+    plot.resize(w, h);
+    plot.setBackground(Qt::white);
+    auto* title = new QCPTextElement(&plot, q(c.title), chart_font(12, true));
+    title->setTextColor(kInk);
+    plot.plotLayout()->insertRow(0);
+    plot.plotLayout()->addElement(0, 0, title);
+    style_axis(plot.xAxis);
+    style_axis(plot.yAxis);
+    plot.xAxis->setLabel(q(c.x_label));
+    plot.yAxis->setLabel(q(c.y_label));
+    auto colour = [](int line) {
+        return line < 0 ? kRule : kStrataColors[std::size_t(line) % kStrataColorCount];
+    };
+    // Points, one graph per stratum so each keeps its colour; light so the lines stay readable.
+    std::vector<QVector<double>> px(c.lines.size() + 1), py(c.lines.size() + 1);
+    for (std::size_t i = 0; i < c.x.size(); ++i) {
+        const std::size_t slot = c.group[i] < 0 ? c.lines.size() : std::size_t(c.group[i]);
+        px[slot] << c.x[i];
+        py[slot] << c.y[i];
+    }
+    for (std::size_t slot = 0; slot < px.size(); ++slot) {
+        if (px[slot].isEmpty()) continue;
+        QColor col = colour(slot == c.lines.size() ? -1 : int(slot));
+        col.setAlpha(90);
+        QCPGraph* g = plot.addGraph();
+        g->removeFromLegend();
+        g->setLineStyle(QCPGraph::lsNone);
+        g->setScatterStyle(QCPScatterStyle(QCPScatterStyle::ssDisc, col, col, 3));
+        g->setData(px[slot], py[slot], true);
+    }
+    auto add_line = [&](const report::MemoScatterLine& l, const QPen& pen, bool legend) {
+        QCPGraph* g = plot.addGraph();
+        g->setName(q(l.label) + QStringLiteral("  (slope %1)").arg(l.slope, 0, 'g', 4));
+        g->setPen(pen);
+        g->setData(QVector<double>{l.x_min, l.x_max},
+                   QVector<double>{l.intercept + l.slope * l.x_min, l.intercept + l.slope * l.x_max}, true);
+        if (!legend) g->removeFromLegend();
+    };
+    for (std::size_t i = 0; i < c.lines.size(); ++i)
+        add_line(c.lines[i],
+                 QPen(colour(int(i)), 2.2, i >= kStrataColorCount ? Qt::DashLine : Qt::SolidLine),
+                 i < kMaxLegendLines);
+    if (c.pooled) add_line(*c.pooled, QPen(kInk, 2.6, Qt::DashLine), true);
+    plot.rescaleAxes();
+    plot.xAxis->scaleRange(1.05, plot.xAxis->range().center());
+    plot.yAxis->scaleRange(1.08, plot.yAxis->range().center());
+    plot.legend->setVisible(true);
+    plot.legend->setFont(chart_font(10));
+    plot.legend->setBorderPen(QPen(kRule, 1));
+    plot.legend->setBrush(QColor(255, 255, 255, 220));
+    plot.axisRect()->insetLayout()->setInsetAlignment(0, Qt::AlignTop | Qt::AlignLeft);
+    return render_plot(plot, w, h);
+}
+
 QPicture mix_chart(const MemoChart& c, int w, int h) {
     QCustomPlot plot;
     plot.resize(w, h);
@@ -602,6 +667,20 @@ void render(Flow& flow, const MemoContent& m) {
                 flow.block(w * mh / cw, [&](QPainter& p, const QRectF& r) { draw_picture(p, r, mix, cw, mh); });
                 flow.space(6);
             }
+        }
+        if (s.scatter && !s.scatter->lines.empty()) {
+            const double w = flow.width();
+            const int sh = 420;
+            const QPicture trend = scatter_chart(*s.scatter, cw, sh);
+            flow.block(w * sh / cw, [&](QPainter& p, const QRectF& r) { draw_picture(p, r, trend, cw, sh); });
+            QString note = q(s.scatter->note) + QStringLiteral("; dashed black: the pooled line");
+            if (s.scatter->lines.size() > kMaxLegendLines)
+                note += QStringLiteral("; the legend names the first %1 of %2 strata (the table above lists all)")
+                            .arg(kMaxLegendLines)
+                            .arg(s.scatter->lines.size());
+            if (!s.scatter->note.empty())
+                flow.paragraph(note + QStringLiteral("."),
+                               flow.font(8, false, true), kMuted, 0, 6);
         }
         if (s.diagram) {
             flow.ensure(pt(250));

@@ -262,6 +262,16 @@ TEST(MemoContent, SlopeFindingsGetTheirOwnSections) {
     EXPECT_EQ(s.strata.rows[1][0], "setosa");
     EXPECT_EQ(s.strata.rows[1][2], "+0.7985");
     EXPECT_TRUE(s.chart.points.empty());  // no rate chart for a trend
+    EXPECT_FALSE(s.scatter);              // no rows given: no trend chart (core/report/slope_chart)
+    // A trend audit's method notes name its own estimators, not the rate ones.
+    auto noted = [&](const char* what) {
+        return std::any_of(m.method_notes.begin(), m.method_notes.end(),
+                           [&](const std::string& n) { return n.find(what) != std::string::npos; });
+    };
+    EXPECT_TRUE(noted("ordinary least squares slope of Sepal.Width on Sepal.Length"));
+    EXPECT_TRUE(noted("Benjamini-Hochberg over all 2 checks"));
+    EXPECT_FALSE(noted("Wilson"));
+    EXPECT_FALSE(noted("Mantel-Haenszel"));
     EXPECT_TRUE(s.e_value.empty());
     EXPECT_NE(s.lead.find("The trend reverses"), std::string::npos) << s.lead;
     ASSERT_EQ(m.findings.rows.size(), 1u);

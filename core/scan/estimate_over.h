@@ -1,0 +1,42 @@
+#pragma once
+// The adjusted estimate over any set of columns a causal diagram names: the rate comparison
+// standardised to the pooled mix of the set's joint strata, or the trend's within slope with one
+// intercept per joint stratum. Used by the verdicts of `scan --diagram`, `run` and the memo
+// (core/report/verdict_json) and by the workbench's diagram step, so both quote one number.
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include "core/common/error.h"
+#include "core/scan/question.h"
+#include "core/scan/slope_scan.h"
+#include "core/table/table.h"
+
+namespace foldline {
+
+struct EstimateOver {
+    std::vector<std::string> over;  ///< the set, as given
+    double estimate = 0;            ///< NaN when undefined (see each function)
+    double ci_low = 0, ci_high = 0; ///< NaN when undefined
+    std::size_t strata = 0;         ///< joint strata with rows (rates: with both groups)
+};
+
+/// The risk difference of comparison `comparison` (0-based, as in RateFinding::comparison) of the
+/// question encoded in `rows` (encode_rows), directly standardised over the joint strata of `set`
+/// (core/stats/standardize.h; Wald interval at level 1 - alpha). Numeric columns are cut as the
+/// scan cuts them (`bins`, `max_levels`); rows missing any column of the set are left out. An
+/// empty set gives the pooled difference over one stratum. NaN estimate when no joint stratum
+/// holds both groups. Errors: those of joint_stratifier (unknown column, too many joint levels).
+Result<EstimateOver> standardised_rd_over(const Table& table, const RowCells& rows, const std::vector<std::string>& set,
+                                          std::size_t comparison, double alpha = 0.05, int bins = 4,
+                                          std::size_t max_levels = 50);
+
+/// The within-stratum slope of `question` (y on x, its covariates honoured) with one intercept per
+/// joint stratum of `set`, and its interval. Empty set → one stratum: the pooled slope. NaN when
+/// the slope is undefined (no spread in x within any stratum). Errors: those of joint_stratifier
+/// and check_slope (x, y or a covariate missing or not numeric, no usable rows).
+Result<EstimateOver> within_slope_over(const Table& table, const SlopeQuestion& question,
+                                       const std::vector<std::string>& set, int bins = 4,
+                                       std::size_t max_levels = 50);
+
+}  // namespace foldline
