@@ -336,16 +336,21 @@ QPicture render_plot(QCustomPlot& plot, int w, int h) {
     return pic;
 }
 
-QPicture rate_chart(const MemoChart& c, int w, int h) {
-    QCustomPlot plot;
+// A white w x h plot with the chart's title above it and both axes in the memo's style.
+void start_chart(QCustomPlot& plot, const std::string& title_text, int w, int h) {
     plot.resize(w, h);
     plot.setBackground(Qt::white);
-    auto* title = new QCPTextElement(&plot, q(c.title), chart_font(12, true));
+    auto* title = new QCPTextElement(&plot, q(title_text), chart_font(12, true));
     title->setTextColor(kInk);
     plot.plotLayout()->insertRow(0);
     plot.plotLayout()->addElement(0, 0, title);
     style_axis(plot.xAxis);
     style_axis(plot.yAxis);
+}
+
+QPicture rate_chart(const MemoChart& c, int w, int h) {
+    QCustomPlot plot;
+    start_chart(plot, c.title, w, h);
     plot.xAxis->setTicker(category_ticker(c, 0));
     label_categories(plot.xAxis, c, 6);
     plot.xAxis->grid()->setVisible(false);
@@ -416,14 +421,7 @@ constexpr std::size_t kMaxLegendLines = 10;
 
 QPicture scatter_chart(const MemoScatter& c, int w, int h) {
     QCustomPlot plot;
-    plot.resize(w, h);
-    plot.setBackground(Qt::white);
-    auto* title = new QCPTextElement(&plot, q(c.title), chart_font(12, true));
-    title->setTextColor(kInk);
-    plot.plotLayout()->insertRow(0);
-    plot.plotLayout()->addElement(0, 0, title);
-    style_axis(plot.xAxis);
-    style_axis(plot.yAxis);
+    start_chart(plot, c.title, w, h);
     plot.xAxis->setLabel(q(c.x_label));
     plot.yAxis->setLabel(q(c.y_label));
     auto colour = [](int line) {
