@@ -20,7 +20,7 @@ const std::string kMissingLabel = "(missing)";
 // Rows of the scan in compact form: only rows with x, y and every covariate present and a
 // positive weight.
 struct Prepared {
-    std::vector<std::size_t> used;  // table row of each compact row
+    std::vector<std::size_t> used;  // table row of each compact row; empty when every row is kept
     std::vector<double> x, y, w;    // w empty for row-level data
     std::vector<double> cov;        // compact rows × p, row-major (empty without covariates)
     std::size_t p = 0;
@@ -85,11 +85,14 @@ Result<Prepared> prepare(const Table& t, const SlopeQuestion& q) {
         for (const Column* c : covs) d.cov.push_back(c->values[i]);
         zero_one = zero_one && (yi == 0.0 || yi == 1.0);
     }
-    if (d.used.empty())
+    if (d.x.empty())
         return make_error("no row has both '" + q.x + "' and '" + q.y + "'" +
                               (covs.empty() ? std::string() : " and every covariate"),
                           t.source);
     d.linear_probability = zero_one;
+    // Every row kept: compact row i is table row i, and the index (8 bytes a row, held beside
+    // the gathered codes at the peak of a large scan) is not needed.
+    if (d.used.size() == t.rows) std::vector<std::size_t>().swap(d.used);
     StratumMoments acc(1);
     const std::vector<std::uint8_t> zero(d.x.size(), 0);
     acc.add_rows(zero.data(), static_cast<const std::uint8_t*>(nullptr), 1, d.x.data(), d.y.data(),
@@ -111,10 +114,13 @@ Result<Prepared> prepare(const Table& t, const SlopeQuestion& q) {
 
 // Codes of a stratifier over the compact rows.
 template <typename T>
-std::vector<T> gather_codes(const Column& c, const std::vector<std::size_t>& used) {
-    std::vector<T> out(used.size());
+std::vector<T> gather_codes(const Column& c, const Prepared& d) {
+    std::vector<T> out(d.x.size());
     visit_codes(c, [&](const auto& codes) {
-        for (std::size_t i = 0; i < used.size(); ++i) out[i] = static_cast<T>(codes[used[i]]);
+        if (d.used.empty())
+            for (std::size_t i = 0; i < out.size(); ++i) out[i] = static_cast<T>(codes[i]);
+        else
+            for (std::size_t i = 0; i < out.size(); ++i) out[i] = static_cast<T>(codes[d.used[i]]);
     });
     return out;
 }
@@ -364,7 +370,7 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
                                            bool pairs, const Work& work) {
     std::vector<std::vector<T>> codes;
     codes.reserve(cands.size());
-    for (const Column* c : cands) codes.push_back(gather_codes<T>(*c, s.d.used));
+    for (const Column* c : cands) codes.push_back(gather_codes<T>(*c, s.d));
     const std::size_t m = cands.size();
     struct Check {
         std::size_t a, b;  // b == a: single
@@ -496,9 +502,9 @@ Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
     if (work.cancelled()) return make_error("cancelled");
     const Scan s{table, q, d.value()};
     using T = std::uint32_t;
-    const auto a = gather_codes<T>(*strata[0], d->used);
+    const auto a = gather_codes<T>(*strata[0], *d);
     if (strata.size() == 1) return run_check<T>(s, strata[0], nullptr, a, nullptr);
-    const auto b = gather_codes<T>(*strata[1], d->used);
+    const auto b = gather_codes<T>(*strata[1], *d);
     return run_check<T>(s, strata[0], strata[1], a, &b);
 }
 
