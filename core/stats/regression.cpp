@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <exception>
 #include <limits>
 
 namespace foldline {
@@ -14,9 +15,22 @@ namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
+// Boost reports a result beyond the range of a double (a vanishingly small df, or weights that
+// make one) by throwing; such a figure is undefined here, never an abort.
+template <typename F>
+double or_undefined(F&& f) {
+    try {
+        const double v = f();
+        return std::isfinite(v) ? v : kNaN;
+    } catch (const std::exception&) {
+        return kNaN;
+    }
+}
+
 double t_quantile(double df, double alpha) {
-    boost::math::students_t dist(df);
-    return boost::math::quantile(boost::math::complement(dist, alpha / 2));
+    return or_undefined([&] {
+        return boost::math::quantile(boost::math::complement(boost::math::students_t(df), alpha / 2));
+    });
 }
 
 double z_quantile(double alpha) {
@@ -70,8 +84,9 @@ SlopeEstimate make_estimate(double slope, double se, double df, double alpha) {
     if (se == 0) {
         e.p = slope != 0 ? 0.0 : kNaN;
     } else {
-        boost::math::students_t dist(df);
-        e.p = 2 * boost::math::cdf(boost::math::complement(dist, std::abs(slope / se)));
+        e.p = or_undefined([&] {
+            return 2 * boost::math::cdf(boost::math::complement(boost::math::students_t(df), std::abs(slope / se)));
+        });
     }
     return e;
 }
@@ -80,10 +95,11 @@ double one_sided_p(double slope, double se, double df, int sign) {
     if (std::isnan(slope) || !(se >= 0) || !std::isfinite(se) || !(df > 0) || sign == 0)
         return kNaN;
     if (se == 0) return (sign > 0 ? slope > 0 : slope < 0) ? 0.0 : 1.0;
-    boost::math::students_t dist(df);
     const double t = slope / se;
-    return sign > 0 ? boost::math::cdf(boost::math::complement(dist, t))
-                    : boost::math::cdf(dist, t);
+    return or_undefined([&] {
+        const boost::math::students_t dist(df);
+        return sign > 0 ? boost::math::cdf(boost::math::complement(dist, t)) : boost::math::cdf(dist, t);
+    });
 }
 
 bool no_spread_in_x(const BivariateMoments& m) {
@@ -221,8 +237,7 @@ EqualSlopesTest equal_slopes_test(const std::vector<BivariateMoments>& strata) {
     if (j < 2 || !(t.df2 > 0) || !(rss_sep > 0) || !(sxx > 0)) return t;
     const double rss_common = std::max(rss_sep, syy - sxy * sxy / sxx);
     t.f = ((rss_common - rss_sep) / t.df1) / (rss_sep / t.df2);
-    boost::math::fisher_f dist(t.df1, t.df2);
-    t.p = boost::math::cdf(boost::math::complement(dist, t.f));
+    t.p = or_undefined([&] { return boost::math::cdf(boost::math::complement(boost::math::fisher_f(t.df1, t.df2), t.f)); });
     return t;
 }
 

@@ -282,3 +282,21 @@ TEST(Regression, LargeOffsetAgreesWithTwoPassReference) {
     EXPECT_NEAR(fit_line(welford).slope.slope / slope, 1.0, 1e-9);
     EXPECT_NEAR(welford.cxx / static_cast<double>(sxx), 1.0, 1e-9);
 }
+
+// A t quantile beyond the range of a double (Boost throws an overflow error for df below about
+// 0.01: weighted rows can give such a df) leaves the interval undefined instead of aborting; the
+// slope and its standard error stay as given. Found by the slope_scan fuzz target.
+TEST(Regression, VanishingDegreesOfFreedomGiveAnUndefinedIntervalNotAnAbort) {
+    for (double df : {1e-300, 1e-5}) {
+        SlopeEstimate e{};
+        ASSERT_NO_THROW(e = make_estimate(1.0, 0.5, df, 0.05)) << df;
+        EXPECT_DOUBLE_EQ(e.slope, 1.0);
+        EXPECT_TRUE(std::isnan(e.ci_low)) << df;
+        EXPECT_TRUE(std::isnan(e.ci_high)) << df;
+        EXPECT_TRUE(std::isnan(e.p) || (e.p >= 0 && e.p <= 1)) << df;
+        ASSERT_NO_THROW((void)one_sided_p(1.0, 0.5, df, 1)) << df;
+    }
+    // An ordinary df still gives the textbook interval: t(0.975, 10) = 2.228139 (common tables).
+    const auto e = make_estimate(1.0, 0.5, 10, 0.05);
+    EXPECT_NEAR(e.ci_high - 1.0, 0.5 * 2.228139, 1e-6);
+}
