@@ -321,8 +321,6 @@ void DiagramPage::set_connect_mode(bool on) {
 
 void DiagramPage::refresh_verdict() {
     verdict_ = doc_->verdict();
-    if (verdict_.computed && verdict_.answer == QLatin1String("other_set") && estimator_)
-        verdict_.adjusted = estimator_(verdict_.standardise_over);
     QString html;
     if (!verdict_.computed) {
         html = tr("<p><b>No verdict yet.</b></p><p>%1</p>").arg(verdict_.problem.toHtmlEscaped());

@@ -37,18 +37,18 @@ std::string slope_summary_text(const SlopeScanResult& r, std::size_t max_stable)
             out += "the outcome is 0/1: slopes are linear-probability slopes\n";
         std::size_t stable = 0, shown_stable = 0;
         for (const auto& f : r.findings) {
-            if (f.finding_class == FindingClass::Stable && shown_stable >= max_stable) {
+            if (f.cls == FindingClass::Stable && shown_stable >= max_stable) {
                 ++stable;
                 continue;
             }
-            if (f.finding_class == FindingClass::Stable) ++shown_stable;
+            if (f.cls == FindingClass::Stable) ++shown_stable;
             const double w = f.adjusted ? f.adjusted_within.slope : f.within.slope;
             const double lo = f.adjusted ? f.adjusted_within.ci_low : f.within.ci_low;
             const double hi = f.adjusted ? f.adjusted_within.ci_high : f.within.ci_high;
-            out += "  " + std::string(to_string(f.finding_class)) + "  by " + join(f.strata, " × ") +
+            out += "  " + std::string(to_string(f.cls)) + "  by " + join(f.strata, " × ") +
                    ": within slope " + fmt(w) + " [" + fmt(lo) + ", " + fmt(hi) + "], q " +
                    fmt(f.q_value, "%.3g");
-            if (f.stability_draws > 0) out += ", stability " + fmt(f.stability, "%.2f");
+            if (f.stability.draws > 0) out += ", stability " + fmt(f.stability.share, "%.2f");
             if (!f.uninformative.empty())
                 out += ", " + std::to_string(f.uninformative.size()) + " uninformative strata";
             out += "\n";

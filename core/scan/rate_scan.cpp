@@ -65,7 +65,7 @@ std::string join_levels(const std::vector<std::string>& v) {
 
 }  // namespace
 
-std::string RateFinding::label() const {
+std::string FindingHeader::label() const {
     std::string s;
     for (std::size_t i = 0; i < strata.size(); ++i) s += (i ? " \u00d7 " : "") + strata[i];
     return s;
@@ -75,7 +75,6 @@ RateFinding analyse_strata(const stats::Strata& strata, const std::vector<std::v
                            const std::vector<std::string>& names, double alpha) {
     RateFinding f;
     f.strata = names;
-    f.stability = kNaN;
     const auto p = stats::pooled(strata);
     f.rows_used = p.total();
 
@@ -199,7 +198,7 @@ void rank_findings(ScanResult& r) {
     };
     auto qv = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
     std::stable_sort(r.slope_findings.begin(), r.slope_findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
-        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
+        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
         if (qv(a) != qv(b)) return qv(a) < qv(b);
         if (change(a) != change(b)) return change(a) > change(b);
         if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
@@ -352,7 +351,7 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesO
                 stats::Strata canonical;
                 canonical.reserve(st.size());
                 for (auto z : order) canonical.push_back(st[z]);
-                f.stability = class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed);
+                f.stability = {class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed), opt.bootstrap};
                 work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
             }
         };

@@ -2,6 +2,7 @@
 // Everything one scan produced, in plain structs: rate findings and slope findings side by side;
 // apply_fdr controls the false discovery rate over both kinds together and rank_findings orders
 // each list.
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -21,6 +22,7 @@ struct ScanResult {
     std::vector<RateFinding> rate_findings;  ///< ranked (see rank_findings)
     std::vector<SlopeFinding> slope_findings;  ///< trend checks of the same scan, ranked
     SlopeQuestion slope_question;            ///< what the slope findings answer (x, y empty if none)
+    std::optional<LatentFinding> latent;     ///< the hidden-group hint of a trend audit, when asked
     double alpha = 0.05;
     int bootstrap = 0;
     unsigned long long seed = 0;

@@ -27,7 +27,7 @@
 #include "core/common/error.h"
 #include "core/common/progress.h"
 #include "core/scan/candidates.h"
-#include "core/scan/finding_class.h"
+#include "core/scan/finding.h"
 #include "core/stats/regression.h"
 #include "core/table/table.h"
 
@@ -73,16 +73,13 @@ struct WithinSlope {
     PrecisionWeightedSlope precision_weighted;  ///< inverse-variance mean of informative strata
 };
 
-struct SlopeFinding {
-    std::vector<std::string> strata;  ///< stratifier column names (1 or 2)
+/// A trend check stratified by one column or a pair (the shared part in FindingHeader: strata,
+/// class, p_reversal, q_value, stability {share, draws}, verdict).
+struct SlopeFinding : FindingHeader {
+    SlopeFinding() { kind = FindingKind::Slope; }
     std::string x, y;
     std::vector<std::string> covariates;
-    FindingClass finding_class = FindingClass::Stable;
     bool reversal = false;
-    double p_reversal = 0;   ///< intersection-union p; NaN when a slope is undefined
-    double q_value = 0;      ///< NaN until the caller fills it (Benjamini-Hochberg over the scan)
-    double stability = 0;    ///< share of resamples keeping the class; 0 when not computed
-    int stability_draws = 0; ///< resamples behind `stability` (0: not computed)
     std::array<int, 5> draws_by_class{};  ///< resamples per class, indexed by rank(FindingClass)
     PooledSlope pooled;      ///< unadjusted
     WithinSlope within;      ///< unadjusted
@@ -90,9 +87,6 @@ struct SlopeFinding {
     SlopeEstimate adjusted_pooled;
     SlopeEstimate adjusted_within;
     EqualSlopesTest equal_slopes;
-    /// A diagram's verdict on this finding as a compact JSON object (core/report/verdict_json);
-    /// empty when no diagram was given.
-    std::string verdict_detail;
     bool linear_probability = false;  ///< y is 0/1: slopes are differences in probability
     std::vector<SlopeGroup> groups;   ///< non-empty strata, in code order
     std::vector<std::string> uninformative;  ///< labels of groups with informative == false

@@ -53,12 +53,12 @@ void check_finding(const SlopeFinding& f) {
     finite_or_nan(f.p_reversal);
     probability_or_nan(f.p_reversal);
     probability_or_nan(f.q_value);
-    if (f.stability < 0 || f.stability > 1) std::abort();
+    if (f.stability.share < 0 || f.stability.share > 1) std::abort();
     for (const SlopeGroup& g : f.groups) {
         for (double v : {g.n, g.rows, g.slope, g.se, g.ci_low, g.ci_high, g.p, g.r}) finite_or_nan(v);
         probability_or_nan(g.p);
     }
-    if (f.reversal || f.finding_class == FindingClass::Reversal) {
+    if (f.reversal || f.cls == FindingClass::Reversal) {
         const double pooled = f.adjusted ? f.adjusted_pooled.slope : f.pooled.slope;
         const double within = f.adjusted ? f.adjusted_within.slope : f.within.slope;
         if (std::isnan(pooled) || std::isnan(within) || std::isnan(f.p_reversal)) std::abort();

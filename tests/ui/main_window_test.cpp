@@ -1,5 +1,5 @@
 // tests/ui/main_window_test.cpp <-> ui/main_window.h (and the path through every step)
-#include "core/io/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
 
 #include <QAction>
 #include <QLabel>
