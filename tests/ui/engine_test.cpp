@@ -30,7 +30,7 @@ constexpr std::uint64_t kSeed = 5000000011ull;  // above 2^32
 
 QString pdf_text(const QString& pdftotext, const QString& pdf) {
     QProcess p;
-    p.start(pdftotext, {QStringLiteral("-layout"), pdf, QStringLiteral("-")});
+    p.start(pdftotext, {pdf, QStringLiteral("-")});
     if (!p.waitForFinished(60000) || p.exitCode() != 0) return {};
     return QString::fromUtf8(p.readAllStandardOutput());
 }
