@@ -106,20 +106,6 @@ int run(int argc, char** argv) {
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
-    if (a.flag("help", false)) {
-        std::cout << "foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
-                     "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
-                     "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
-                     "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
-                     "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
-                     "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
-                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
-                     "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
-                     "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
-                     "foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to the database)\n"
-                     "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
-        return kOk;
-    }
     const bool from_db = a.has("source");
     if (from_db ? !a.positional().empty() : a.positional().size() != 1)
         return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both" : "expected one DATA file (CSV or TSV)");
@@ -365,12 +351,27 @@ int run(int argc, char** argv) {
 }
 
 const CommandRegistration reg{Command{
-    "scan",
-    "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
-    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf] "
-    "[--trend X:Y] [--covariates C1,C2]",
-    "search every stratifier and pair for reversals of the outcome rate between groups",
-    run}};
+    .name = "scan",
+    .synopsis = "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
+                "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] "
+                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2]",
+    .summary = "search every stratifier and pair for reversals of the outcome rate between groups",
+    .help = "Usage: foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
+            "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
+            "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
+            "  [--delimiter CHAR]   field delimiter of DATA (tab or \\t for a tab; default: detected)\n"
+            "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
+            "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
+            "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
+            "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
+            "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
+            "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
+            "Usage: foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to "
+            "the database)\n"
+            "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n"
+            "Exit codes: 0 done, 2 usage error, 3 input error, 1 internal error.\n",
+    .run = run,
+}};
 
 }  // namespace
 }  // namespace foldline::cli
