@@ -1,7 +1,11 @@
 // foldline: no arguments (or only Qt options) → the workbench; a subcommand → headless.
+// `--help` / `-h` after a subcommand prints its help from the registration (before the command
+// parses anything); `--version` / `-V` and the no-display check never touch Qt.
+#include <cstdlib>
 #include <cstring>
 #include <exception>
 #include <iostream>
+#include <string>
 
 #include "app/cli/command.h"
 
@@ -9,14 +13,39 @@
 #include "ui/workbench.h"
 #endif
 
+#ifndef FOLDLINE_VERSION
+#error "FOLDLINE_VERSION is set by app/CMakeLists.txt from the project's version"
+#endif
+
 namespace {
 
-void print_usage(std::ostream& os) {
-    os << "Usage: foldline                 open the workbench\n"
-          "       foldline COMMAND [ARGS]  run headless\n\nCommands:\n";
-    for (const auto& c : foldline::cli::commands())
-        os << "  " << c.synopsis << "\n      " << c.summary << "\n";
-    os << "\nExit codes: 0 done, 2 usage error, 3 input error, 1 internal error.\n";
+bool is(const char* arg, const char* a, const char* b) { return !std::strcmp(arg, a) || !std::strcmp(arg, b); }
+
+#ifdef FOLDLINE_HAVE_UI
+/// False when Qt would find no display: on X11/Wayland systems, DISPLAY and WAYLAND_DISPLAY
+/// unset and no platform chosen (QT_QPA_PLATFORM or -platform, e.g. offscreen for tests).
+bool display_available(int argc, char** argv) {
+#if defined(_WIN32) || defined(__APPLE__)
+    (void)argc;
+    (void)argv;
+    return true;
+#else
+    auto set = [](const char* name) {
+        const char* v = std::getenv(name);
+        return v && *v;
+    };
+    if (set("DISPLAY") || set("WAYLAND_DISPLAY") || set("QT_QPA_PLATFORM")) return true;
+    for (int i = 1; i < argc; ++i)
+        if (is(argv[i], "-platform", "--platform")) return true;
+    return false;
+#endif
+}
+#endif
+
+std::string command_names() {
+    std::string names;
+    for (const auto& c : foldline::cli::commands()) names += (names.empty() ? "" : ", ") + c.name;
+    return names;
 }
 
 }  // namespace
@@ -27,8 +56,12 @@ int main(int argc, char** argv) {
         const Command* cmd = find_command(argv[1]);
         if (!cmd) {
             std::cerr << "foldline: unknown command '" << argv[1] << "'\n";
-            print_usage(std::cerr);
+            print_overview(std::cerr);
             return kUsage;
+        }
+        if (wants_help(argc, argv, 2)) {
+            std::cout << cmd->help;
+            return kOk;
         }
         try {
             return cmd->run(argc - 1, argv + 1);
@@ -36,15 +69,26 @@ int main(int argc, char** argv) {
             return fail(cmd->name, kInternal, std::string("internal error: ") + e.what());
         }
     }
-    if (argc >= 2 && (!std::strcmp(argv[1], "--help") || !std::strcmp(argv[1], "-h"))) {
-        print_usage(std::cout);
+    if (argc >= 2 && is(argv[1], "--help", "-h")) {
+        print_overview(std::cout);
+        return kOk;
+    }
+    if (argc >= 2 && is(argv[1], "--version", "-V")) {
+        std::cout << "foldline " << FOLDLINE_VERSION << "\n";
         return kOk;
     }
 #ifdef FOLDLINE_HAVE_UI
+    if (!display_available(argc, argv)) {
+        std::cerr << "foldline: the workbench needs a display (none found: DISPLAY and WAYLAND_DISPLAY are unset); "
+                     "these commands run headless: "
+                  << command_names() << " (foldline help)\n";
+        return kUsage;
+    }
     return foldline::ui::run_workbench(argc, argv);
 #else
-    std::cerr << "foldline: this build has no workbench (built with FOLDLINE_BUILD_UI=OFF)\n";
-    print_usage(std::cerr);
+    std::cerr << "foldline: this build has no workbench (built with FOLDLINE_BUILD_UI=OFF); these commands run "
+                 "headless: "
+              << command_names() << " (foldline help)\n";
     return kUsage;
 #endif
 }

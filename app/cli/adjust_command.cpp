@@ -120,10 +120,21 @@ int run_adjust(int argc, char** argv) {
 }
 
 const CommandRegistration registration{Command{
-    "adjust",
-    "adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-] [--dot FILE|-]",
-    "Roles, valid and minimal adjustment sets, and identifiability for the total effect in a causal diagram.",
-    run_adjust,
+    .name = "adjust",
+    .synopsis = "adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-] [--dot FILE|-]",
+    .summary = "Roles, valid and minimal adjustment sets, and identifiability for the total effect in a causal diagram.",
+    .help = "Usage: foldline adjust DIAGRAM.json [--exposure X --outcome Y] [--stratify COLUMN] [--json FILE|-]\n"
+            "  [--dot FILE|-]\n"
+            "Prints the roles of the diagram's variables for the total effect of X on Y, whether the pooled\n"
+            "comparison is valid, the minimal adjustment sets, the smallest, and identifiability.\n"
+            "  --exposure X       exposure column (overrides the file)\n"
+            "  --outcome Y        outcome column (overrides the file)\n"
+            "  --stratify COLUMN  also give the verdict for a finding stratified by this column\n"
+            "  --json FILE|-      write JSON to FILE, or to standard output with -\n"
+            "  --dot FILE|-       write the diagram as Graphviz DOT to FILE, or to standard output with -\n"
+            "Exit codes: 0 done, 2 usage error, 3 input error (the diagram's file, line and column), 1 internal\n"
+            "error.\n",
+    .run = run_adjust,
 }};
 
 }  // namespace

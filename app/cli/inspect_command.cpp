@@ -216,9 +216,21 @@ int run_inspect(int argc, char** argv) {
 }
 
 const CommandRegistration registration{Command{
-    kName, "inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST]",
-    "Reads a CSV/TSV file and lists each column's type, missing cells, distinct values and first levels.",
-    run_inspect}};
+    .name = kName,
+    .synopsis = "inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST]",
+    .summary = "Reads a CSV/TSV file and lists each column's type, missing cells, distinct values and first levels.",
+    .help = "Usage: foldline inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged]\n"
+            "  [--missing LIST] [--threads N]\n"
+            "Lists each column of a CSV/TSV file: type, missing cells, distinct values and first levels.\n"
+            "  --count-column C  name of the column holding pre-counted cell sizes\n"
+            "  --delimiter D     field delimiter: , ; | tab (default: detected)\n"
+            "  --json FILE|-     write the description as JSON to FILE, or - for standard output\n"
+            "  --skip-ragged     skip rows with the wrong number of fields and list their lines\n"
+            "  --missing LIST    comma-separated missing-value markers (default: empty,NA,N/A,NULL,.)\n"
+            "  --threads N       parser threads, 1 to 256 (default: all cores)\n"
+            "Exit codes: 0 done, 2 usage error, 3 input error (file, line and column), 1 internal error.\n",
+    .run = run_inspect,
+}};
 
 }  // namespace
 

@@ -16,14 +16,9 @@ const char* kName = "memo";
 
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
-        {"out", true, "FILE.pdf"}, {"data", true, "FILE"}, {"threads", true, "N"}, {"help", false, ""}};
+        {"out", true, "FILE.pdf"}, {"data", true, "FILE"}, {"threads", true, "N"}};
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
-    if (a.flag("help", false)) {
-        std::cout << "foldline memo PROJECT.foldline [--out FILE.pdf] [--data FILE]\n"
-                     "Writes the audit's PDF memo (default: the project's name with .pdf, beside it).\n";
-        return kOk;
-    }
     if (a.positional().size() != 1) return fail(kName, kUsage, "expected one PROJECT file (NAME.foldline)");
     if (!memo_available())
         return fail(kName, kUsage, "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF)");
@@ -46,8 +41,19 @@ int run(int argc, char** argv) {
     return kOk;
 }
 
-const CommandRegistration reg{Command{"memo", "memo PROJECT [--out FILE.pdf] [--data FILE]",
-                                      "write the PDF memo of a saved audit (needs the Qt build)", run}};
+const CommandRegistration reg{Command{
+    .name = "memo",
+    .synopsis = "memo PROJECT [--out FILE.pdf] [--data FILE]",
+    .summary = "write the PDF memo of a saved audit (needs the Qt build)",
+    .help = "Usage: foldline memo PROJECT.foldline [--out FILE.pdf] [--data FILE] [--threads N]\n"
+            "Writes the audit's PDF memo (default: the project's name with .pdf, beside it).\n"
+            "  --out      the PDF to write\n"
+            "  --data     re-run the audit on a new extract with the same columns\n"
+            "  --threads  parser and scan threads (default 2)\n"
+            "Exit codes: 0 done, 2 usage error (also: a build without the memo writer), 3 input error,\n"
+            "            1 internal error.\n",
+    .run = run,
+}};
 
 }  // namespace
 }  // namespace foldline::cli

@@ -24,20 +24,10 @@ std::string class_or(const std::optional<FindingClass>& c, const char* none) {
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"data", true, "FILE"}, {"json", true, "FILE|-"}, {"memo", true, "FILE.pdf"}, {"csv", true, "PREFIX"},
-        {"threads", true, "N"}, {"update", false, ""},    {"help", false, ""},
+        {"threads", true, "N"}, {"update", false, ""},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
-    if (a.flag("help", false)) {
-        std::cout << "foldline run PROJECT.foldline [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX]\n"
-                     "  [--threads N] [--update]\n"
-                     "Re-runs the saved audit with its question, settings, seed and diagram (rate or trend audits).\n"
-                     "  --data    a new extract with the same columns (the quarterly re-audit)\n"
-                     "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
-                     "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"
-                     "            2 usage error, 3 input error, 1 internal error.\n";
-        return kOk;
-    }
     if (a.positional().size() != 1) return fail(kName, kUsage, "expected one PROJECT file (NAME.foldline)");
     const std::string project_path = a.positional()[0];
     auto loaded = project::load_project(project_path);
@@ -129,10 +119,18 @@ int run(int argc, char** argv) {
 }
 
 const CommandRegistration reg{Command{
-    "run",
-    "run PROJECT [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
-    "re-run a saved audit (same question, settings, seed, diagram); exit 4 when a finding's class changed",
-    run}};
+    .name = "run",
+    .synopsis = "run PROJECT [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
+    .summary = "re-run a saved audit (same question, settings, seed, diagram); exit 4 when a finding's class changed",
+    .help = "Usage: foldline run PROJECT.foldline [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX]\n"
+            "  [--threads N] [--update]\n"
+            "Re-runs the saved audit with its question, settings, seed and diagram (rate or trend audits).\n"
+            "  --data    a new extract with the same columns (the quarterly re-audit)\n"
+            "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
+            "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"
+            "            2 usage error, 3 input error, 1 internal error.\n",
+    .run = run,
+}};
 
 }  // namespace
 }  // namespace foldline::cli

@@ -22,6 +22,7 @@
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
 #include "core/report/scan_json.h"
+#include "core/report/scan_summary.h"
 
 namespace foldline::cli {
 namespace {
@@ -51,104 +52,8 @@ bool parse_number(const std::string& s, double& out) {
     return end != s.c_str() && !*end && std::isfinite(out);
 }
 
-std::string fmt(double x, const char* f = "%.3f") {
-    if (!std::isfinite(x)) return "-";
-    char buf[64];
-    std::snprintf(buf, sizeof buf, f, x);
-    return buf;
-}
-
-// q-values that underflowed print as a bound, not as a misleading 0.
-std::string qfmt(double q) { return std::isfinite(q) && q < 1e-300 ? "<1e-300" : fmt(q, "%.2g"); }
-
-std::string pct(double x) { return std::isfinite(x) ? fmt(100 * x, "%.1f%%") : "-"; }
-
 void print_summary(std::ostream& os, const ScanResult& r, const std::string& path, std::size_t top) {
-    const auto& q = r.question;
-    os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows\n";
-    if (!q.outcome.empty()) {
-        os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
-        for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
-        os << " against " << q.reference << "\n";
-    }
-    os << "Stratifiers (" << r.candidates.size() << "):";
-    for (std::size_t i = 0; i < r.candidates.size(); ++i) os << (i ? ", " : " ") << r.candidates[i];
-    os << "\n";
-    if (!r.excluded.empty()) {
-        os << "Left out:";
-        for (std::size_t i = 0; i < r.excluded.size(); ++i)
-            os << (i ? ";" : "") << " " << r.excluded[i].column << " (" << r.excluded[i].reason << ")";
-        os << "\n";
-    }
-    int counts[5] = {0, 0, 0, 0, 0};
-    for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
-    char line[512];
-    if (!q.outcome.empty()) {
-    os << r.rate_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
-       << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable"
-       << " (FDR " << r.alpha << ")\n";
-    if (!r.rate_findings.empty()) {
-        const auto& f0 = r.rate_findings.front();
-        os << "Pooled rates: " << f0.focal << " " << pct(f0.crude.rate_focal) << ", " << f0.reference << " "
-           << pct(f0.crude.rate_reference) << " (on the rows of the first finding)\n";
-    }
-    os << "\n";
-    std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n", "class", "strata", "crude RD",
-                  "MH RD", "std RD", "MH OR (CI)", "q", "stab.");
-    os << line;
-    std::size_t shown = 0;
-    for (const auto& f : r.rate_findings) {
-        if (f.cls == FindingClass::Stable || shown >= top) continue;
-        ++shown;
-        std::string label = f.label();
-        if (q.focal.size() > 1) label += " [" + f.focal + "]";
-        if (label.size() > 40) label = label.substr(0, 37) + "...";
-        const auto& a = f.adjusted;
-        const std::string orci = fmt(a.mh_or.estimate, "%.2f") + " (" + fmt(a.mh_or.ci.lo, "%.2f") + "-" +
-                                 fmt(a.mh_or.ci.hi, "%.2f") + ")";
-        std::snprintf(line, sizeof line, "%-14s %-40s %9s %9s %9s %21s %9s %6s\n",
-                      std::string(to_string(f.cls)).c_str(), label.c_str(), fmt(f.crude.rd, "%+.4f").c_str(),
-                      fmt(a.mh_rd.greenland_robins.estimate, "%+.4f").c_str(),
-                      fmt(a.standardized.rd, "%+.4f").c_str(), orci.c_str(), qfmt(f.q_value).c_str(),
-                      fmt(f.stability.share, "%.2f").c_str());
-        os << line;
-    }
-    if (shown == 0) os << "(no comparison changes under stratification)\n";
-    const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
-    if (flagged > shown) os << "... " << flagged - shown << " more flagged (see the JSON)\n";
-    }
-    if (!r.slope_findings.empty()) {
-        int sc[5] = {0, 0, 0, 0, 0};
-        for (const auto& f : r.slope_findings) ++sc[rank(f.cls)];
-        const auto& cov = r.slope_question.covariates;
-        std::string adjusted;
-        for (std::size_t i = 0; i < cov.size(); ++i) adjusted += (i ? ", " : "") + cov[i];
-        os << "\nSlope of " << r.slope_question.y << " on " << r.slope_question.x
-           << (adjusted.empty() ? "" : " adjusted for " + adjusted) << ": " << r.slope_findings.size()
-           << " checks: " << sc[0] << " reversal, " << sc[1] << " explained, " << sc[2] << " masked, " << sc[3]
-           << " heterogeneous, " << sc[4] << " stable\n";
-        std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n", "class", "strata", "pooled",
-                      "within", "q", "stab.");
-        os << line;
-        std::size_t n = 0;
-        for (const auto& f : r.slope_findings) {
-            if (f.cls == FindingClass::Stable || n >= top) continue;
-            ++n;
-            std::string label;
-            for (std::size_t i = 0; i < f.strata.size(); ++i) label += (i ? " \u00d7 " : "") + f.strata[i];
-            std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
-                          std::string(to_string(f.cls)).c_str(), label.c_str(),
-                          fmt(f.adjusted ? f.adjusted_pooled.slope : f.pooled.slope, "%+.4g").c_str(),
-                          fmt(f.adjusted ? f.adjusted_within.slope : f.within.slope, "%+.4g").c_str(),
-                          qfmt(f.q_value).c_str(),
-                          f.stability.draws > 0 ? fmt(f.stability.share, "%.2f").c_str() : "-");
-            os << line;
-        }
-        if (n == 0) os << "(no slope changes under stratification)\n";
-    }
-    if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
-    os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
-          "counsel and licensed practice.\n";
+    os << scan_summary_text(r, path, top);
 }
 
 int run(int argc, char** argv) {
@@ -160,7 +65,7 @@ int run(int argc, char** argv) {
         {"bootstrap", true, "B"},            {"seed", true, "S"},
         {"json", true, "FILE|-"},            {"threads", true, "N"},
         {"top", true, "N"},                  {"delimiter", true, "CHAR"},
-        {"timings", false, ""},              {"help", false, ""},
+        {"timings", false, ""},
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
         {"diagram", true, "DIAGRAM.json"},
@@ -170,21 +75,6 @@ int run(int argc, char** argv) {
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
-    if (a.flag("help", false)) {
-        std::cout << "foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
-                     "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
-                     "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
-                     "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
-                     "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
-                     "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
-                     "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
-                     "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
-                     "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
-                     "  [--find-groups]   trend questions: also fit the hidden-group hint (mixtures of x and y)\n"
-                     "foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to the database)\n"
-                     "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n";
-        return kOk;
-    }
     const bool from_db = a.has("source");
     if (from_db ? !a.positional().empty() : a.positional().size() != 1)
         return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both" : "expected one DATA file (CSV or TSV)");
@@ -403,12 +293,29 @@ int run(int argc, char** argv) {
 }
 
 const CommandRegistration reg{Command{
-    "scan",
-    "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
-    "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] [--memo FILE.pdf] "
-    "[--trend X:Y] [--covariates C1,C2]",
-    "search every stratifier and pair for reversals of the outcome rate between groups",
-    run}};
+    .name = "scan",
+    .synopsis = "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
+                "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] "
+                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2]",
+    .summary = "search every stratifier and pair for reversals of the outcome rate between groups",
+    .help = "Usage: foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
+            "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
+            "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
+            "  [--delimiter CHAR]   field delimiter of DATA (tab or \\t for a tab; default: detected)\n"
+            "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
+            "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
+            "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
+            "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
+            "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
+            "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
+            "  [--find-groups]   trend questions: also fit the hidden-group hint (mixtures of x and y; a hint,\n"
+            "      never a finding: JSON kind \"latent\")\n"
+            "Usage: foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to "
+            "the database)\n"
+            "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n"
+            "Exit codes: 0 done, 2 usage error, 3 input error, 1 internal error.\n",
+    .run = run,
+}};
 
 }  // namespace
 }  // namespace foldline::cli

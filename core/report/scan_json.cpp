@@ -4,6 +4,7 @@
 #include <cstdio>
 #include <cmath>
 
+#include "core/report/json_number.h"
 #include "core/report/slope_json.h"
 #include "core/report/verdict_json.h"
 
@@ -13,11 +14,7 @@ namespace {
 
 using nlohmann::json;
 
-json num(double x) {
-    if (!std::isfinite(x)) return nullptr;
-    if (x == std::floor(x) && std::fabs(x) < 9.0e15) return static_cast<long long>(x);
-    return x;
-}
+json num(double x) { return json_number(x); }
 
 json interval(const stats::Interval& i) { return json::array({num(i.lo), num(i.hi)}); }
 
@@ -146,7 +143,7 @@ public:
         }
         char buf[32];
         std::to_chars_result r;
-        if (x == std::floor(x) && std::fabs(x) < 9.0e15) r = std::to_chars(buf, buf + sizeof buf, static_cast<long long>(x));
+        if (json_whole_number(x)) r = std::to_chars(buf, buf + sizeof buf, static_cast<long long>(x));
         else r = std::to_chars(buf, buf + sizeof buf, x);
         o_.append(buf, r.ptr);
     }

@@ -3,11 +3,15 @@
 
 #include <cmath>
 
+#include "core/report/json_number.h"
+
 namespace foldline {
 namespace {
 
 using nlohmann::json;
 
+// Estimates stay doubles (null when undefined); counts go through json_number (integers when
+// whole, so `"rows": 200`; a fractional weighted count stays fractional).
 json num(double v) { return std::isfinite(v) ? json(v) : json(nullptr); }
 json interval(double lo, double hi) { return json::array({num(lo), num(hi)}); }
 
@@ -36,7 +40,7 @@ json to_json(const SlopeFinding& f) {
     if (f.linear_probability)
         j["note"] = "The outcome is 0/1: slopes are linear-probability slopes (change in the "
                     "probability per unit of the exposure).";
-    j["rows"] = num(f.rows_used);
+    j["rows"] = json_number(f.rows_used);
     j["pooled"] = {{"slope", num(f.pooled.slope)},
                    {"slope_ci", interval(f.pooled.ci_low, f.pooled.ci_high)},
                    {"se", num(f.pooled.se)},
@@ -45,7 +49,7 @@ json to_json(const SlopeFinding& f) {
                    {"df", num(f.pooled.df)},
                    {"r", num(f.pooled.r)},
                    {"r_ci", interval(f.pooled.r_ci_low, f.pooled.r_ci_high)},
-                   {"n", num(f.pooled.n)}};
+                   {"n", json_number(f.pooled.n)}};
     const auto& pw = f.within.precision_weighted;
     j["within"] = {{"slope", num(f.within.slope)},
                    {"slope_ci", interval(f.within.ci_low, f.within.ci_high)},
@@ -69,7 +73,7 @@ json to_json(const SlopeFinding& f) {
     for (const auto& g : f.groups) {
         json o = {{"level", g.level},
                   {"levels", g.levels},
-                  {"n", num(g.n)},
+                  {"n", json_number(g.n)},
                   {"slope", num(g.slope)},
                   {"slope_ci", interval(g.ci_low, g.ci_high)},
                   {"se", num(g.se)},
@@ -102,7 +106,7 @@ json to_json(const LatentFinding& f) {
     json comps = json::array();
     for (const auto& c : f.components)
         comps.push_back({{"weight", num(c.weight)},
-                         {"n", num(c.n)},
+                         {"n", json_number(c.n)},
                          {"mean", json::array({num(c.mean_x), num(c.mean_y)})},
                          {"sd", json::array({num(c.sd_x), num(c.sd_y)})},
                          {"correlation", num(c.correlation)},

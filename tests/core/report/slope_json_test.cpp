@@ -88,3 +88,34 @@ TEST(SlopeJson, LatentFindingCarriesThePromisedKeys) {
     EXPECT_EQ(j["bic"].size(), 6u);
     EXPECT_TRUE(j["bic"][2].is_null());
 }
+
+// The README's JSON section promises that counts are integers (RFC 8259 §6 has one number type;
+// the text form is what a reader sees): whole counts print without a fraction, a fractional
+// weighted count keeps it, an undefined one is null; estimates stay doubles.
+TEST(SlopeJson, CountsAreIntegersWhenWhole) {
+    SlopeFinding f = sample();
+    f.rows_used = 200;
+    f.pooled.n = 200;
+    f.groups[0].n = 2;
+    SlopeGroup weighted = f.groups[0];
+    weighted.level = "mall";
+    weighted.n = 12.5;
+    f.groups.push_back(weighted);
+    SlopeGroup undefined = f.groups[0];
+    undefined.level = "outlet";
+    undefined.n = std::numeric_limits<double>::quiet_NaN();
+    f.groups.push_back(undefined);
+    const auto j = to_json(f);
+    EXPECT_TRUE(j["rows"].is_number_integer());
+    EXPECT_EQ(j["rows"].get<long long>(), 200);
+    EXPECT_TRUE(j["pooled"]["n"].is_number_integer());
+    EXPECT_TRUE(j["groups"][0]["n"].is_number_integer());
+    EXPECT_TRUE(j["groups"][1]["n"].is_number_float());
+    EXPECT_DOUBLE_EQ(j["groups"][1]["n"].get<double>(), 12.5);
+    EXPECT_TRUE(j["groups"][2]["n"].is_null());
+    const std::string text = j.dump();
+    EXPECT_NE(text.find("\"rows\":200,"), std::string::npos) << text;
+    EXPECT_EQ(text.find("200.0"), std::string::npos) << text;
+    // An estimate that happens to be whole is still a double (the pooled slope is 2.0).
+    EXPECT_TRUE(j["pooled"]["slope"].is_number_float());
+}
