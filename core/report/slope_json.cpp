@@ -116,33 +116,4 @@ json to_json(const LatentFinding& f) {
     return j;
 }
 
-json slope_scan_to_json(const SlopeScanResult& r, const DataInfo& data) {
-    json j;
-    j["version"] = kScanJsonVersion;
-    j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
-    const auto& q = r.question;
-    const bool lp = !r.findings.empty() && r.findings.front().linear_probability;
-    j["question"] = {{"kind", "slope"},
-                     {"outcome", q.y},
-                     {"exposure", q.x},
-                     {"covariates", q.covariates},
-                     {"linear_probability", lp}};
-    j["settings"] = {{"alpha", q.alpha}, {"bootstrap", q.bootstrap}, {"seed", q.seed}};
-    j["candidates"] = candidates_to_json(r.candidates, r.candidate_origin);
-    j["excluded"] = excluded_to_json(r.excluded);
-    json counts = empty_class_counts();
-    json reversals = json::array();
-    json findings = json::array();
-    for (const auto& f : r.findings) {
-        const std::string c(to_string(f.cls));
-        counts[c] = counts[c].get<int>() + 1;
-        if (f.reversal) reversals.push_back(f.strata);
-        findings.push_back(to_json(f));
-    }
-    if (r.latent) findings.push_back(to_json(*r.latent));
-    j["summary"] = {{"checks", r.findings.size()}, {"classes", counts}, {"reversals", reversals}};
-    j["findings"] = std::move(findings);
-    return j;
-}
-
 }  // namespace foldline

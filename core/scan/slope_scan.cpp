@@ -644,34 +644,4 @@ Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, st
     return f;
 }
 
-Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
-                                       const CandidateOptions& options, bool pairs, bool groups,
-                                       const Work& work) {
-    std::vector<std::string> skip = {q.x, q.y};
-    skip.insert(skip.end(), q.covariates.begin(), q.covariates.end());
-    auto cands = select_candidates(table, skip, options);
-    if (!cands) return cands.error();
-    if (cands->candidates.empty() && !groups)
-        return make_error("no column qualifies as a stratifier", table.source);
-    SlopeScanResult r;
-    r.question = q;
-    r.excluded = cands->excluded;
-    r.rows = table.total_weight();
-    for (const auto& c : cands->candidates) {
-        r.candidates.push_back(c.name);
-        r.candidate_origin.push_back(c.origin);
-    }
-    auto found = scan_slopes(table, q, *cands, pairs, work);
-    if (!found) return found.error();
-    r.findings = std::move(found.value());
-    apply_fdr(r.findings, q.alpha);
-    rank_findings(r.findings);
-    if (groups) {
-        auto latent = find_groups(table, q, q.seed, work);
-        if (!latent) return latent.error();
-        r.latent = std::move(latent.value());
-    }
-    return r;
-}
-
 }  // namespace foldline

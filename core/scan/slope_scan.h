@@ -168,22 +168,4 @@ struct LatentFinding {
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
                                   const Work& work = {});
 
-/// A whole slope scan, as `foldline scan` with a numeric outcome and exposure runs it.
-struct SlopeScanResult {
-    SlopeQuestion question;
-    std::vector<std::string> candidates;        ///< stratifier names
-    std::vector<std::string> candidate_origin;  ///< as select_candidates says
-    std::vector<Exclusion> excluded;
-    std::vector<SlopeFinding> findings;         ///< q-values filled, ranked
-    std::optional<LatentFinding> latent;        ///< with find_groups only
-    double rows = 0;                            ///< Σ weights of the table
-};
-
-/// select_candidates (skipping x, y and the covariates), scan_slopes, apply_fdr, rank_findings
-/// and, when `groups` is true, find_groups with q.seed. Errors: those of the steps, and no
-/// column qualifying as a stratifier while `groups` is false.
-Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
-                                       const CandidateOptions& options, bool pairs, bool groups,
-                                       const Work& work = {});
-
 }  // namespace foldline

@@ -12,6 +12,7 @@
 #include "core/audit/memo_input.h"
 #include "core/audit/project_file.h"
 #include "core/io/csv_reader.h"
+#include "core/report/scan_summary.h"
 
 using namespace foldline;
 
@@ -198,4 +199,35 @@ TEST(ClassChanges, ReportsMovedVanishedAndNewClasses) {
     EXPECT_EQ(audit::class_changes(p, r).size(), 1u);  // the vanished one stays recorded
     project::Project none;
     EXPECT_TRUE(audit::class_changes(none, r).empty());
+}
+
+// A slope question on the committed retail sample, whose generator (sample_data/generate_retail.py)
+// plants a reversal of weekly_sales on promo_spend by store_format: the document and the printed
+// summary of the audit service, with the hidden-group hint, laid out as docs/json.md says.
+TEST(RunAudit, SlopeQuestionDocumentAndSummary) {
+    project::AuditSpec spec;
+    spec.question.kind = project::QuestionKind::Slope;
+    spec.question.outcome = "weekly_sales";
+    spec.question.exposure = "promo_spend";
+    spec.scan.find_groups = true;
+    auto table = read_csv(kSamples + "retail_weeks.csv");
+    ASSERT_TRUE(table.ok());
+    auto r = audit::scan_table(*table, spec);
+    ASSERT_TRUE(r.ok()) << r.error().to_string();
+    EXPECT_EQ(r->candidates.size(), 4u);  // store_format, region, quarter, footfall (binned)
+    const auto j = scan_to_json(*r, DataInfo{"retail_weeks.csv", "abc", 5000});
+    for (const char* k : {"version", "data", "question", "settings", "candidates", "excluded", "summary", "findings"})
+        EXPECT_TRUE(j.contains(k)) << k;
+    EXPECT_EQ(j["question"]["exposure"], "promo_spend");
+    EXPECT_EQ(j["summary"]["checks"], 10);
+    ASSERT_EQ(j["findings"].size(), 11u);  // 4 singles + 6 pairs + the latent finding
+    EXPECT_EQ(j["findings"].back()["kind"], "latent");
+    EXPECT_EQ(j["findings"][0]["kind"], "slope");
+    EXPECT_EQ(j["findings"][0]["class"], "reversal");
+    EXPECT_EQ(j["findings"][0]["strata"], nlohmann::json::array({"store_format"}));
+    EXPECT_GE(j["summary"]["classes"]["reversal"].get<int>(), 4);
+    const std::string text = scan_summary_text(*r, "retail_weeks.csv", 20);
+    EXPECT_NE(text.find("Slope of weekly_sales on promo_spend"), std::string::npos) << text;
+    EXPECT_NE(text.find("Hidden-group hint (not a finding)"), std::string::npos) << text;
+    EXPECT_NE(text.find("not a legal, lending or clinical determination"), std::string::npos);
 }
