@@ -150,6 +150,10 @@ int run(int argc, char** argv) {
             a.get("covariates")->front() == ',' || a.get("covariates")->back() == ',')
             return fail(kName, kUsage, "--covariates needs column names separated by commas (an empty name in '" +
                                            *a.get("covariates") + "')");
+        for (const auto& c : covariates)
+            if (std::find(spec.scan.strata.begin(), spec.scan.strata.end(), c) != spec.scan.strata.end())
+                return fail(kName, kUsage, "column '" + c + "' is in both --strata and --covariates: a column either "
+                                               "stratifies the trend or adjusts it");
     }
     if (a.has("diagram")) {
         auto diagram = causal::read_diagram(*a.get("diagram"));

@@ -52,7 +52,7 @@ private slots:
         project::AuditSpec base;
         base.trend = project::TrendSettings{"x", "y", {}};
         base.scan.bootstrap = 77;
-        QuestionSpec q;
+        ui::QuestionSpec q;
         q.slope = true;
         q.outcome = "sales";
         q.exposure = "spend";
@@ -72,7 +72,7 @@ private slots:
         QVERIFY(s.trend.has_value());    // what the workbench does not edit survives
         QVERIFY(s.scan.find_groups);
         QCOMPARE(s.scan.strata, (std::vector<std::string>{"region", "size"}));  // a covariate never stratifies
-        const QuestionSpec back = question_spec(s);
+        const ui::QuestionSpec back = question_spec(s);
         QCOMPARE(back.seed, kSeed);
         QCOMPARE(back.max_levels, std::uint64_t(7));
         QCOMPARE(back.bins, 6);
@@ -124,7 +124,7 @@ private slots:
                                      w.findings_model()->size() > 0,
                                  300000);
         QTest::qWait(200);  // the restore finishes on the event loop after the scan
-        const QuestionSpec q = w.question_page()->spec();
+        const ui::QuestionSpec q = w.question_page()->spec();
         QCOMPARE(q.seed, kSeed);
         QCOMPARE(q.max_levels, std::uint64_t(7));
         QCOMPARE(q.bins, 6);
