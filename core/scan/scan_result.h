@@ -29,13 +29,16 @@ struct ScanResult {
     bool cancelled = false;                  ///< stopped early: findings are incomplete
 };
 
-/// BH q-values over every finding's p_reversal (rate and slope findings together; a NaN p gets
-/// no q-value and does not count), then each class recomputed with its q-value. No-op on an
-/// empty result.
+/// The one FDR step of every scan: BH q-values over every finding's p_reversal (rate and slope
+/// findings together; a NaN p gets no q-value and does not count), then each class recomputed
+/// with its q-value and a slope finding's stability re-read for its new class. No-op on an empty
+/// result.
 void apply_fdr(ScanResult& result);
 
-/// Orders each list (empty lists stay empty) by class (reversal first), then q-value, then size of the change (largest
-/// first: |crude RD - MH RD| for rates, |pooled - within slope| for slopes), then label.
+/// The one ranking of every scan: orders each list (empty lists stay empty) by class (reversal
+/// first), then q-value, then size of the change (largest first: |crude RD - MH RD| for rates,
+/// |pooled - within slope| for slopes, adjusted slopes when there are covariates), then fewer
+/// stratifiers, then label.
 void rank_findings(ScanResult& result);
 
 }  // namespace foldline

@@ -544,41 +544,6 @@ SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::strin
     return f;
 }
 
-void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {
-    if (findings.empty()) return;
-    std::vector<double> p;
-    for (const auto& f : findings) p.push_back(f.p_reversal);
-    const std::vector<double> qv = stats::benjamini_hochberg(p);
-    for (std::size_t i = 0; i < findings.size(); ++i) {
-        SlopeFinding& f = findings[i];
-        f.q_value = qv[i];
-        classify(f, alpha);
-        if (f.stability.draws > 0)
-            f.stability.share = static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.cls))]) /
-                          f.stability.draws;
-    }
-}
-
-void rank_findings(std::vector<SlopeFinding>& findings) {
-    auto change = [](const SlopeFinding& f) {
-        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope
-                                    : f.within.slope - f.pooled.slope;
-        return std::isnan(c) ? -1.0 : std::abs(c);
-    };
-    auto label = [](const SlopeFinding& f) {
-        std::string s;
-        for (const auto& n : f.strata) s += n + "\x1f";
-        return s;
-    };
-    auto q = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
-    std::stable_sort(findings.begin(), findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
-        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
-        if (q(a) != q(b)) return q(a) < q(b);
-        if (change(a) != change(b)) return change(a) > change(b);
-        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
-        return label(a) < label(b);
-    });
-}
 
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
                                   const Work& work) {

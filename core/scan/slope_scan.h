@@ -122,15 +122,6 @@ SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::strin
                                         const BivariateMoments& pooled, double hc3,
                                         bool linear_probability);
 
-/// Benjamini-Hochberg q-values over every finding's p_reversal (core/stats/fdr.h), then each
-/// class recomputed with its q-value and its stability re-read for the new class from
-/// draws_by_class. No-op on an empty vector.
-void apply_fdr(std::vector<SlopeFinding>& findings, double alpha);
-
-/// Orders findings by class (reversal first), then q-value, then the size of the change
-/// |within − pooled| (largest first), then fewer stratifiers, then label.
-void rank_findings(std::vector<SlopeFinding>& findings);
-
 /// Every check for a candidate list: each candidate alone and, if `pairs`, every pair (i < j),
 /// singles first, in candidate order. q-values are left NaN for the caller. An empty candidate
 /// list gives an empty vector. Errors as for check_slope. Bootstrap stability, when asked for,

@@ -5,6 +5,7 @@
 
 #include "core/io/csv_reader.h"
 #include "core/scan/candidates.h"
+#include "core/scan/scan_result.h"
 
 #include <gtest/gtest.h>
 
@@ -173,11 +174,15 @@ TEST(SlopeScan, RetailSampleHasItsPlantedReversal) {
     auto cands = select_candidates(t, {q.x, q.y}, CandidateOptions{});
     ASSERT_TRUE(cands.ok());
     ASSERT_EQ(cands->candidates.size(), 4u);
-    auto all = scan_slopes(t, q, *cands, true);
-    ASSERT_TRUE(all.ok());
-    ASSERT_EQ(all->size(), 10u);
-    apply_fdr(*all, q.alpha);
-    rank_findings(*all);
+    auto found = scan_slopes(t, q, *cands, true);
+    ASSERT_TRUE(found.ok());
+    ASSERT_EQ(found->size(), 10u);
+    ScanResult scanned;
+    scanned.alpha = q.alpha;
+    scanned.slope_findings = std::move(*found);
+    apply_fdr(scanned);
+    rank_findings(scanned);
+    const auto* all = &scanned.slope_findings;
     EXPECT_EQ(all->front().strata.front(), "store_format");
     int reversals = 0;
     for (const auto& g : *all) {
@@ -451,7 +456,10 @@ TEST(SlopeScan, FdrDemotesAWeakReversalAmongManyChecks) {
     f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Reversal))] = 7;
     f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Stable))] = 3;
     f.stability.share = 0.7;
-    std::vector<SlopeFinding> all(20, f);
+    ScanResult r;
+    r.alpha = 0.05;
+    r.slope_findings.assign(20, f);
+    auto& all = r.slope_findings;
     for (std::size_t i = 1; i < all.size(); ++i) {
         all[i].pooled.slope = 0.01;
         all[i].pooled.p = 0.98;
@@ -460,7 +468,7 @@ TEST(SlopeScan, FdrDemotesAWeakReversalAmongManyChecks) {
     }
     const double p = all[0].p_reversal;
     EXPECT_NEAR(p, 0.00701, 1e-4);
-    apply_fdr(all, 0.05);
+    apply_fdr(r);  // the one FDR step of every scan
     EXPECT_NEAR(all[0].q_value, std::min(1.0, 20 * p), 1e-12);  // the smallest p: q = m p / 1
     EXPECT_FALSE(all[0].reversal);
     // Both slopes stay significant, so neither "explained" nor "masked" holds: stable.
