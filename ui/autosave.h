@@ -8,7 +8,7 @@
 // Recovery files live in QStandardPaths::AppDataLocation/recovery/ (set_folder overrides it),
 // one per running window: audit-<time>-<pid>.foldline-recovery, held with a QLockFile so a
 // second running workbench never offers the first one's live file.
-#include "core/io/project_file.h"  // core before Qt: core headers use `slots` as a name
+#include "core/audit/project_file.h"  // core before Qt: core headers use `slots` as a name
 
 #include <QDateTime>
 #include <QLockFile>

@@ -2,7 +2,7 @@
 
 #include <QSet>
 
-#include "core/causal/verdict.h"
+#include "ui/engine.h"
 #include <algorithm>
 #include <functional>
 
@@ -199,46 +199,14 @@ QHash<QString, QPointF> DiagramDoc::layout() const {
     return pos;
 }
 
+void DiagramDoc::set_judge(Judge judge) {
+    judge_ = std::move(judge);
+    emit structure_changed();
+}
+
 DiagramVerdict DiagramDoc::verdict() const {
-    DiagramVerdict v;
-    auto graph = causal::CausalGraph::build(d_);
-    if (!graph) {
-        v.problem = qs(graph.error().message);
-        return v;
-    }
-    std::vector<std::string> strata;
-    for (const QString& s : strata_) strata.push_back(ss(s));
-    auto r = causal::decide(*graph, ss(exposure_), ss(outcome_), strata);
-    if (!r) {
-        v.problem = qs(r.error().message);
-        return v;
-    }
-    v.computed = true;
-    v.answer = qs(std::string(causal::to_string(r->answer)));
-    const QString s = strata_.join(QStringLiteral(" × "));
-    switch (r->answer) {
-        case causal::Answer::Stratified: v.recommended = tr("the table within strata of %1").arg(s); break;
-        case causal::Answer::Pooled: v.recommended = tr("the pooled table"); break;
-        case causal::Answer::Both: v.recommended = tr("either table — both estimate the same effect"); break;
-        case causal::Answer::OtherSet: {
-            QStringList set;
-            if (r->standardise_over)
-                for (const auto& n : *r->standardise_over) set << qs(n);
-            v.standardise_over = set;
-            v.recommended = tr("a table standardised over %1").arg(set.join(QStringLiteral(" × ")));
-            break;
-        }
-        case causal::Answer::NotIdentifiable: v.recommended = tr("neither — not identifiable by adjustment"); break;
-    }
-    v.reason = qs(r->reason);
-    for (const auto& nr : r->roles) v.roles.insert(qs(nr.name), qs(std::string(causal::to_string(nr.role))));
-    for (const auto& set : r->valid_sets) {
-        QStringList l;
-        for (const auto& n : set) l << qs(n);
-        v.valid_sets << l;
-    }
-    if (r->direct_effect.applies) v.direct_effect = qs(r->direct_effect.reason);
-    return v;
+    if (judge_) return judge_(d_, exposure_, outcome_, strata_);
+    return judge(d_, exposure_, outcome_, strata_, nullptr, nullptr, project::AuditSpec{});
 }
 
 }  // namespace foldline::ui

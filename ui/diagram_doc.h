@@ -7,10 +7,12 @@
 #include <QPointF>
 #include <QString>
 #include <QStringList>
+#include <functional>
 #include <optional>
 #include <vector>
 
 #include "core/causal/diagram.h"
+#include "core/causal/verdict.h"
 
 namespace foldline::ui {
 
@@ -28,13 +30,13 @@ struct DiagramEdge {
 /// What the engine concludes from the diagram for one stratification.
 struct DiagramVerdict {
     bool computed = false;        ///< false when the engine is missing or the diagram is invalid
-    QString answer;               ///< "stratified", "pooled", "both", "other_set", "not_identifiable"
+    std::optional<causal::Answer> answer;  ///< which view answers; set when computed
     QString recommended;          ///< the view to quote, in words
     QString reason;               ///< one plain sentence
     QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
     QList<QStringList> valid_sets;///< minimal valid adjustment sets
     QStringList standardise_over; ///< the set whose adjusted figure answers the question (other_set)
-    QString adjusted;             ///< adjusted estimate text, when the engine computed one
+    QString adjusted;             ///< the estimate the verdict points to, in words, when there is one
     QString direct_effect;        ///< what the direct effect "not through the mediators" needs
     QString problem;              ///< why no verdict (invalid diagram), empty otherwise
 };
@@ -79,7 +81,12 @@ public:
     /// Positions in layers by longest path from the sources (exposure far left).
     QHash<QString, QPointF> layout() const;
 
-    /// The engine's verdict for the current diagram and strata.
+    /// How verdicts are computed (ui/engine judge, i.e. core/audit): the diagram, the question's
+    /// exposure and outcome, and the strata. The default judges the diagram alone (no estimate).
+    using Judge = std::function<DiagramVerdict(const causal::Diagram&, const QString& exposure,
+                                               const QString& outcome, const QStringList& strata)>;
+    void set_judge(Judge judge);
+    /// The verdict for the current diagram and strata.
     DiagramVerdict verdict() const;
 
 signals:
@@ -87,6 +94,7 @@ signals:
     void node_moved(const QString& name, QPointF pos);
 
 private:
+    Judge judge_;
     causal::Diagram d_;
     QString exposure_, outcome_;
     QStringList strata_;

@@ -321,8 +321,6 @@ void DiagramPage::set_connect_mode(bool on) {
 
 void DiagramPage::refresh_verdict() {
     verdict_ = doc_->verdict();
-    if (verdict_.computed && verdict_.answer == QLatin1String("other_set") && estimator_)
-        verdict_.adjusted = estimator_(verdict_.standardise_over);
     QString html;
     if (!verdict_.computed) {
         html = tr("<p><b>No verdict yet.</b></p><p>%1</p>").arg(verdict_.problem.toHtmlEscaped());
@@ -330,7 +328,7 @@ void DiagramPage::refresh_verdict() {
         html = tr("<p style='font-size:large'><b>Quote: %1</b></p>").arg(verdict_.recommended.toHtmlEscaped());
         html += QStringLiteral("<p>%1</p>").arg(verdict_.reason.toHtmlEscaped());
         if (!verdict_.adjusted.isEmpty())
-            html += tr("<p><b>Adjusted estimate:</b> %1</p>").arg(verdict_.adjusted.toHtmlEscaped());
+            html += tr("<p><b>Estimate to quote:</b> %1</p>").arg(verdict_.adjusted.toHtmlEscaped());
         html += tr("<p><b>Valid adjustment sets</b> (smallest first):</p><ul>");
         if (verdict_.valid_sets.isEmpty()) html += tr("<li>none made of observed columns</li>");
         for (const QStringList& s : verdict_.valid_sets)

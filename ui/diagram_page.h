@@ -30,9 +30,7 @@ public:
     void seed(const QString& exposure, const QString& outcome, const QStringList& strata,
               const QStringList& columns);
 
-    /// How the page gets the adjusted estimate over a set of columns the verdict names
-    /// (returns display text, or empty when there is none).
-    void set_estimator(std::function<QString(const QStringList&)> estimator) { estimator_ = std::move(estimator); }
+    // The verdict and the estimate it points to come from the doc's judge (DiagramDoc::set_judge).
 
     DiagramDoc* doc() const { return doc_; }
     DiagramScene* scene() const { return scene_; }
@@ -88,7 +86,6 @@ private:
     QSplitter* split_;
     DiagramVerdict verdict_;
     QStringList data_columns_;
-    std::function<QString(const QStringList&)> estimator_;
 };
 
 }  // namespace foldline::ui

@@ -4,20 +4,20 @@
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
 #endif
-#include "core/scan/candidates.h"
-#include "core/scan/estimate_over.h"
-#include "core/scan/question.h"
-#include "core/scan/rate_scan.h"
-#include "core/scan/slope_scan.h"
+#include "core/audit/memo_input.h"
+#include "core/audit/project_file.h"
+#include "core/audit/run_audit.h"
+#include "core/audit/verdicts.h"
 #include "core/common/sha256.h"
-#include "core/io/project_file.h"
 #include "core/report/memo_content.h"
-#include "core/causal/verdict.h"
+#include "core/report/slope_chart.h"
+#include "core/scan/candidates.h"
+#include "core/scan/question.h"
+#include "ui/findings_model.h"
 #include "ui/memo/memo_writer.h"
 
 #include "ui/engine.h"
 
-#include <QDate>
 #include <QObject>
 #include <algorithm>
 
@@ -56,7 +56,7 @@ FindingView to_view(const RateFinding& r) {
     f.adjusted = est(r.adjusted.standardized.rd, r.adjusted.standardized.rd_ci);
     f.p_value = r.p_reversal;
     f.q_value = r.q_value;
-    f.stability = r.stability;
+    f.stability = r.stability.share;
     f.within = r.decomposition.within;
     f.composition = r.decomposition.composition;
     GroupRow& p = f.pooled;
@@ -113,12 +113,23 @@ FindingView to_view(const RateFinding& r) {
 }
 
 /// Up to this many points of a slope finding are drawn; more are thinned evenly.
-constexpr std::size_t kMaxPoints = 4000;
+constexpr std::size_t kMaxPoints = report::kMaxChartPoints;
+using report::MemoScatter;
+using report::MemoScatterLine;
 
-FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<const Column*>& strata) {
+/// The index into the finding's groups of the chart line `line` (lines are the groups with a
+/// defined slope, in group order); -1 when none matches.
+int line_group(const report::MemoScatter& chart, const SlopeFinding& sf, int line) {
+    const std::string& label = chart.lines[std::size_t(line)].label;
+    for (std::size_t g = 0; g < sf.groups.size(); ++g)
+        if (sf.groups[g].level == label) return int(g);
+    return -1;
+}
+
+FindingView to_view(const SlopeFinding& sf, const Table& t, int bins, std::size_t max_levels) {
     FindingView f;
     f.slope = true;
-    f.cls = sf.finding_class;
+    f.cls = sf.cls;
     for (const auto& s : sf.strata) f.strata << qs(s);
     f.focal = qs(sf.x);
     f.reference = qs(sf.y);
@@ -131,7 +142,7 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<co
                      : Estimate{sf.within.slope, sf.within.ci_low, sf.within.ci_high};
     f.p_value = sf.p_reversal;
     f.q_value = sf.q_value;
-    f.stability = sf.stability_draws > 0 ? sf.stability : kNaN;
+    f.stability = sf.stability.share;
     f.more = {
         {QObject::tr("Pooled correlation r"),
          QStringLiteral("%1 [%2, %3]").arg(num(sf.pooled.r), num(sf.pooled.r_ci_low), num(sf.pooled.r_ci_high)),
@@ -144,132 +155,24 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, const std::vector<co
          QObject::tr("Evidence that pooled and within slopes point opposite ways (intersection-union p) and its q-value")},
         {QObject::tr("Observations used"), QString::number(sf.n, 'f', 0), QObject::tr("Rows with x, y and the strata present (weighted)")},
     };
-    // Points and per-stratum centres for drawing: a line of known slope needs one point it
-    // passes through, and a least-squares line passes through the group's mean (x, y).
-    const Column* xc = t.column(sf.x);
-    const Column* yc = t.column(sf.y);
-    std::size_t groups = sf.groups.size();
-    std::vector<double> sx(groups, 0), sy(groups, 0), sn(groups, 0);
-    double px = 0, py = 0, pn = 0;
-    std::size_t usable = 0;
-    // Joint code of the strata → index of the finding's group, built once from the level labels.
-    std::vector<std::size_t> radix;
-    std::size_t combos = 1;
-    for (const Column* c : strata) {
-        radix.push_back(combos);
-        combos *= c->levels.size() + 1;
+    // Points and lines as the memo draws them (core/report/slope_chart): one computation.
+    const MemoScatter chart = report::slope_chart(t, sf, bins, max_levels, kMaxPoints);
+    for (std::size_t i = 0; i < chart.x.size(); ++i) {
+        f.points.push_back({chart.x[i], chart.y[i]});
+        f.point_stratum.push_back(chart.group[i] >= 0 ? line_group(chart, sf, chart.group[i]) : -1);
     }
-    std::vector<int> group_at(combos, -1);
-    for (std::size_t k = 0; k < combos && !strata.empty(); ++k) {
-        std::vector<std::string> labels;
-        for (std::size_t s = 0; s < strata.size(); ++s) {
-            const std::size_t code = (k / radix[s]) % (strata[s]->levels.size() + 1);
-            labels.push_back(code < strata[s]->levels.size() ? strata[s]->levels[code] : std::string("(missing)"));
-        }
-        for (std::size_t g = 0; g < groups; ++g)
-            if (sf.groups[g].levels == labels) group_at[k] = int(g);
-    }
-    auto group_of = [&](std::size_t i) -> int {
-        if (strata.empty()) return -1;
-        std::size_t k = 0;
-        for (std::size_t s = 0; s < strata.size(); ++s) k += radix[s] * strata[s]->code(i);
-        return group_at[k];
-    };
-    if (xc && yc && xc->is_numeric() && yc->is_numeric()) {
-        for (std::size_t i = 0; i < t.rows; ++i)
-            if (!std::isnan(xc->values[i]) && !std::isnan(yc->values[i])) ++usable;
-        const std::size_t stride = std::max<std::size_t>(1, usable / kMaxPoints + (usable % kMaxPoints ? 1 : 0));
-        std::size_t k = 0;
-        for (std::size_t i = 0; i < t.rows; ++i) {
-            const double x = xc->values[i], y = yc->values[i];
-            if (std::isnan(x) || std::isnan(y)) continue;
-            const int g = group_of(i);
-            const double w = t.weight(i);
-            if (g >= 0) sx[std::size_t(g)] += w * x, sy[std::size_t(g)] += w * y, sn[std::size_t(g)] += w;
-            px += w * x, py += w * y, pn += w;
-            if (k++ % stride == 0) {
-                f.points.push_back({x, y});
-                f.point_stratum.push_back(g);
-            }
-        }
-        f.points_note = stride > 1 ? QObject::tr("%L1 of %L2 points drawn (1 row in %3); the lines are fitted to every row")
-                                         .arg(qulonglong(f.points.size())).arg(qulonglong(usable)).arg(stride)
-                                   : QObject::tr("all %L1 points drawn").arg(qulonglong(usable));
-    }
-    if (pn > 0 && std::isfinite(f.crude.value)) f.pooled_intercept = py / pn - f.crude.value * px / pn;
-    for (std::size_t g = 0; g < groups; ++g) {
-        const SlopeGroup& sg = sf.groups[g];
+    f.points_note = QString::fromStdString(chart.note);
+    if (chart.pooled) f.pooled_intercept = chart.pooled->intercept;
+    for (const SlopeGroup& sg : sf.groups) {
         SlopeRow r;
         r.level = qs(sg.level);
         r.n = sg.n;
         r.slope = {sg.slope, sg.ci_low, sg.ci_high};
-        if (sn[g] > 0 && std::isfinite(sg.slope)) r.intercept = sy[g] / sn[g] - sg.slope * sx[g] / sn[g];
+        for (const MemoScatterLine& l : chart.lines)
+            if (l.label == sg.level) r.intercept = l.intercept;
         f.slope_rows.push_back(std::move(r));
     }
     return f;
-}
-
-SlopeQuestion slope_question(const QuestionSpec& q) {
-    SlopeQuestion sq;
-    sq.x = q.exposure.toStdString();
-    sq.y = q.outcome.toStdString();
-    for (const QString& c : q.covariates) sq.covariates.push_back(c.toStdString());
-    sq.alpha = q.alpha;
-    sq.bootstrap = q.bootstrap;
-    sq.seed = q.seed;
-    return sq;
-}
-
-Result<ScanOutcome> run_slope_scan(const Table& t, const QuestionSpec& q, const Work& work,
-                                   const std::function<void(FindingView)>& on_provisional) {
-    const SlopeQuestion sq = slope_question(q);
-    CandidateOptions copts;
-    copts.bins = q.bins;
-    // A covariate adjusts the slopes; it does not also stratify them.
-    for (const QString& c : q.candidates)
-        if (!q.covariates.contains(c)) copts.columns.push_back(c.toStdString());
-    std::vector<std::string> skip = {sq.x, sq.y};
-    skip.insert(skip.end(), sq.covariates.begin(), sq.covariates.end());
-    auto candidates = select_candidates(t, skip, copts, nullptr);
-    if (!candidates) return candidates.error();
-    std::vector<const Column*> cols;
-    for (const Candidate& c : candidates->candidates) cols.push_back(c.column);
-    auto findings = scan_slopes(t, sq, cols, q.pairs, work);
-    ScanOutcome out;
-    if (!findings) {
-        if (work.cancelled()) {
-            out.cancelled = true;
-            return out;
-        }
-        return findings.error();
-    }
-    // The same result `foldline scan` builds for a slope question (app/cli slope_audit): the
-    // scan's FDR step and ranking, so the workbench, its memo and the CLI agree finding by finding.
-    auto result = std::make_shared<ScanResult>();
-    result->slope_question = sq;
-    result->excluded = candidates->excluded;
-    for (const Candidate& c : candidates->candidates) {
-        result->candidates.push_back(c.name);
-        result->candidate_origin.push_back(c.origin);
-    }
-    result->rows = t.total_weight();
-    result->alpha = sq.alpha;
-    result->seed = sq.seed;
-    result->slope_findings = std::move(*findings);
-    apply_fdr(*result);
-    rank_findings(*result);
-    for (const SlopeFinding& f : result->slope_findings) {
-        std::vector<const Column*> strata;
-        for (const auto& name : f.strata)
-            for (const Candidate& c : candidates->candidates)
-                if (c.name == name) strata.push_back(c.column);
-        FindingView v = to_view(f, t, strata);
-        if (on_provisional) on_provisional(v);
-        out.findings.push_back(std::move(v));
-    }
-    for (const Exclusion& e : candidates->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
-    out.result = std::move(result);
-    return out;
 }
 
 }  // namespace
@@ -296,6 +199,7 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
         for (const QString& c : q.covariates) skip.push_back(c.toStdString());
     CandidateOptions opts;
     opts.bins = q.bins;
+    opts.max_levels = static_cast<std::size_t>(q.max_levels);
     auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
     if (!set) return out;
     for (const Column& c : t.columns) {
@@ -331,7 +235,7 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
         else if (!x->is_numeric()) problems << QObject::tr("The exposure \"%1\" is not numeric; a trend needs numbers.").arg(q.exposure);
         if (x && x == y) problems << QObject::tr("The outcome and the exposure must be different columns.");
         if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
-        if (q.alpha <= 0 || q.alpha >= 0.5) problems << QObject::tr("Alpha must lie between 0 and 0.5.");
+        for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
         return problems;
     }
     if (q.outcome.isEmpty()) problems << QObject::tr("Choose the outcome column.");
@@ -342,62 +246,142 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
     auto resolved = resolve_question(t, core_spec(q));
     if (!resolved) problems << qs(resolved.error().message);
     if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
-    if (q.alpha <= 0 || q.alpha >= 0.5) problems << QObject::tr("Alpha must lie between 0 and 0.5.");
+    for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
     return problems;
 }
 
 bool scan_available() { return true; }
 
-Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
+project::AuditSpec audit_spec(const QuestionSpec& q, const project::AuditSpec& base) {
+    project::AuditSpec spec = base;
+    auto& qs = spec.question;
+    qs = project::QuestionSettings{};
+    qs.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
+    qs.outcome = q.outcome.toStdString();
+    qs.exposure = q.exposure.toStdString();
+    if (!q.slope) {
+        if (!q.positive.isEmpty()) qs.positive = q.positive.toStdString();
+        if (!q.focal.isEmpty()) qs.focal = {q.focal.toStdString()};
+        if (!q.reference.isEmpty()) qs.reference = q.reference.toStdString();
+    } else {
+        for (const QString& c : q.covariates) qs.covariates.push_back(c.toStdString());
+    }
+    spec.scan.strata.clear();
+    // A covariate adjusts the slopes; it does not also stratify them.
+    if (!q.all_candidates)
+        for (const QString& c : q.candidates)
+            if (!(q.slope && q.covariates.contains(c))) spec.scan.strata.push_back(c.toStdString());
+    spec.scan.pairs = q.pairs;
+    spec.scan.bins = q.bins;
+    spec.scan.max_levels = q.max_levels;
+    spec.scan.alpha = q.alpha;
+    // The workbench has one resample count: the rate bootstrap, or the slope stability draws.
+    if (q.slope) spec.scan.slope_bootstrap = q.bootstrap;
+    else spec.scan.bootstrap = q.bootstrap;
+    spec.scan.seed = q.seed;
+    spec.scan.find_groups = q.slope && q.find_groups;
+    return spec;
+}
+
+QuestionSpec question_spec(const project::AuditSpec& spec) {
+    QuestionSpec q;
+    const auto& p = spec.question;
+    q.slope = p.kind == project::QuestionKind::Slope;
+    q.outcome = qs(p.outcome);
+    q.positive = p.positive ? qs(*p.positive) : QString();
+    q.exposure = qs(p.exposure);
+    q.focal = p.focal.empty() ? QString() : qs(p.focal.front());
+    q.reference = p.reference ? qs(*p.reference) : QString();
+    for (const auto& c : spec.scan.strata) q.candidates << qs(c);
+    q.all_candidates = spec.scan.strata.empty();
+    if (q.slope)
+        for (const auto& c : p.covariates) q.covariates << qs(c);
+    q.pairs = spec.scan.pairs;
+    q.bins = spec.scan.bins;
+    q.max_levels = spec.scan.max_levels;
+    q.alpha = spec.scan.alpha;
+    q.bootstrap = q.slope ? spec.scan.slope_bootstrap : spec.scan.bootstrap;
+    q.seed = spec.scan.seed;
+    q.find_groups = spec.scan.find_groups;
+    return q;
+}
+
+Result<ScanOutcome> run_scan(const Table& t, const project::AuditSpec& spec, const Work& work,
                              const std::function<void(FindingView)>& on_provisional) {
-    if (q.slope) return run_slope_scan(t, q, work, on_provisional);
-    auto question = resolve_question(t, core_spec(q));
-    if (!question) return question.error();
-    CandidateOptions copts;
-    copts.bins = q.bins;
-    for (const QString& c : q.candidates) copts.columns.push_back(c.toStdString());
-    auto candidates = select_candidates(t, {question->outcome, question->exposure}, copts,
-                                        &t.columns[question->exposure_column]);
-    if (!candidates) return candidates.error();
-    RateScanOptions opts;
-    opts.pairs = q.pairs;
-    opts.alpha = q.alpha;
-    opts.bootstrap = q.bootstrap;
-    opts.seed = q.seed;
-    auto result = rate_scan(t, *question, *candidates, opts, work, [&](const RateFinding& r) {
+    audit::RunOptions options;
+    options.threads = 0;
+    options.work = work;
+    options.on_rate_finding = [&](const RateFinding& r) {
         if (on_provisional) on_provisional(to_view(r));
-    });
+    };
+    auto result = audit::scan_table(t, spec, options);
     if (!result) return result.error();
     ScanOutcome out;
     out.cancelled = result->cancelled;
-    out.result = std::make_shared<const ScanResult>(*result);
+    const int bins = spec.scan.bins;
+    const auto max_levels = static_cast<std::size_t>(spec.scan.max_levels);
     for (const RateFinding& r : result->rate_findings) out.findings.push_back(to_view(r));
+    for (const SlopeFinding& f : result->slope_findings) {
+        FindingView v = to_view(f, t, bins, max_levels);
+        // A slope scan has no provisional findings: each arrives once it is final.
+        if (on_provisional && result->rate_findings.empty()) on_provisional(v);
+        out.findings.push_back(std::move(v));
+    }
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
+    out.result = std::make_shared<const ScanResult>(std::move(*result));
     return out;
 }
 
-Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set) {
-    if (set.isEmpty()) return make_error("the empty set needs no adjustment: the pooled figure applies");
+DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, const QString& outcome,
+                     const QStringList& strata, const ScanResult* scan, const Table* table,
+                     const project::AuditSpec& spec) {
+    DiagramVerdict v;
     std::vector<std::string> names;
-    for (const QString& s : set) names.push_back(s.toStdString());
-    FindingView f;
-    f.strata = set;
-    f.slope = q.slope;
-    Result<EstimateOver> e = make_error("not computed");
-    if (q.slope) {
-        f.adjusted_name = QObject::tr("within-stratum slope");
-        e = within_slope_over(t, slope_question(q), names, q.bins);
-    } else {
-        f.adjusted_name = QObject::tr("standardised difference");
-        auto question = resolve_question(t, core_spec(q));
-        if (!question) return question.error();
-        e = standardised_rd_over(t, encode_rows(t, *question), names, 0, q.alpha, q.bins);
+    for (const QString& s : strata) names.push_back(s.toStdString());
+    auto r = audit::judge(diagram, exposure.toStdString(), outcome.toStdString(), names, scan, table,
+                          audit::estimate_settings(spec));
+    if (!r) {
+        v.problem = qs(r.error().message);
+        return v;
     }
-    if (!e) return e.error();
-    if (!std::isfinite(e->estimate))
-        return make_error(q.slope ? "no joint stratum has spread in the exposure" : "no joint stratum holds both groups");
-    f.adjusted = {e->estimate, e->ci_low, e->ci_high};
-    return f;
+    const causal::Verdict& cv = r->verdict;
+    v.computed = true;
+    v.answer = cv.answer;
+    const QString s = strata.join(QStringLiteral(" × "));
+    switch (cv.answer) {
+        case causal::Answer::Stratified: v.recommended = QObject::tr("the table within strata of %1").arg(s); break;
+        case causal::Answer::Pooled: v.recommended = QObject::tr("the pooled table"); break;
+        case causal::Answer::Both: v.recommended = QObject::tr("either table — both estimate the same effect"); break;
+        case causal::Answer::OtherSet: {
+            if (cv.standardise_over)
+                for (const auto& n : *cv.standardise_over) v.standardise_over << qs(n);
+            v.recommended = QObject::tr("a table standardised over %1").arg(v.standardise_over.join(QStringLiteral(" × ")));
+            break;
+        }
+        case causal::Answer::NotIdentifiable: v.recommended = QObject::tr("neither — not identifiable by adjustment"); break;
+    }
+    v.reason = qs(cv.reason);
+    for (const auto& nr : cv.roles) v.roles.insert(qs(nr.name), qs(std::string(causal::to_string(nr.role))));
+    for (const auto& set : cv.valid_sets) {
+        QStringList l;
+        for (const auto& n : set) l << qs(n);
+        v.valid_sets << l;
+    }
+    if (cv.direct_effect.applies) v.direct_effect = qs(cv.direct_effect.reason);
+    if (const auto& e = r->estimate) {
+        const bool slope = e->measure == "slope";
+        const QString what = e->view == AdjustedEstimate::View::Pooled
+                                 ? (slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
+                                 : (slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised difference"));
+        QStringList over;
+        for (const auto& n : e->over) over << qs(n);
+        const QString est = format_estimate(Estimate{e->estimate, e->ci_low, e->ci_high});
+        v.adjusted = over.isEmpty() ? QObject::tr("%1: %2").arg(what, est)
+                                    : QObject::tr("%1 over %2: %3").arg(what, over.join(QStringLiteral(" × ")), est);
+    } else if (!r->estimate_problem.empty()) {
+        v.adjusted = QObject::tr("not computed: %1").arg(qs(r->estimate_problem));
+    }
+    return v;
 }
 
 namespace {
@@ -422,29 +406,25 @@ report::MemoContent memo_content(const MemoRequest& request) {
             r.note = f.note.toStdString();
         }
     }
-    report::MemoInput in;
-    in.scan = &scan;
-    in.data.path = request.data_path.toStdString();
-    in.data.rows = request.rows;
+    DataInfo data;
+    data.path = request.data_path.toStdString();
+    data.rows = request.rows;
     if (request.database) {
-        in.data.database = request.database;
-        in.data.rows = request.database->rows;
+        data.database = request.database;
+        data.rows = request.database->rows;
     } else if (request.project && !request.project->data.sha256.empty()) {
-        in.data.sha256 = request.project->data.sha256;
-    } else if (auto h = sha256_file(in.data.path)) {
-        in.data.sha256 = *h;
+        data.sha256 = request.project->data.sha256;
+    } else if (auto h = sha256_file(data.path)) {
+        data.sha256 = *h;
     }
-    in.project = &proj;
-    in.table = request.table;
-    in.date = (request.date.isEmpty() ? QDate::currentDate().toString(Qt::ISODate) : request.date).toStdString();
-    // Rate verdicts as `foldline run` decides them; slope verdicts are decided inside build_memo.
+    // The verdicts of the diagram as drawn now, attached by core/audit as `foldline run` does.
+    ScanResult judged = scan;
     if (const causal::Diagram* d = proj.diagram())
-        if (auto graph = causal::CausalGraph::build(*d))
-            for (const RateFinding& f : scan.rate_findings) {
-                auto v = causal::decide(*graph, scan.question.exposure, scan.question.outcome, f.strata);
-                in.verdicts.push_back(v ? std::optional<causal::Verdict>(*v) : std::nullopt);
-            }
-    return report::build_memo(in);
+        audit::attach_verdicts(judged, request.table, *d, audit::estimate_settings(proj));
+    const std::string date =
+        (request.date.isEmpty() ? QString::fromStdString(audit::today()) : request.date).toStdString();
+    return report::build_memo(audit::memo_input(judged, data, &proj, request.table, date,
+                                                request.data_change.toStdString()));
 }
 
 }  // namespace

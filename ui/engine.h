@@ -15,6 +15,8 @@
 #include "core/common/progress.h"
 #include "core/io/source_record.h"
 #include "core/table/table.h"
+#include "core/audit/audit_spec.h"
+#include "ui/diagram_doc.h"
 #include "ui/finding_view.h"
 
 namespace foldline {
@@ -68,19 +70,30 @@ QString masked_connection(const QString& connection);
 /// Errors name the SQLSTATE and the driver's words; a build without ODBC is an Error.
 Result<Table> load_database(const DatabaseRequest& request, const Work& work, DatabaseRecord* record = nullptr);
 
+/// What the Question step edits. audit_spec() and question_spec() map it to and from the audit's
+/// specification (core/audit), so the workbench runs exactly what `foldline run` runs.
 struct QuestionSpec {
     bool slope = false;             ///< false: rates of a binary outcome between two groups;
                                     ///< true: trend of numeric `outcome` (y) on numeric `exposure` (x)
     QString outcome, positive;      ///< binary outcome and its positive level
     QString exposure, focal, reference;
     QStringList candidates;         ///< chosen stratifiers
+    bool all_candidates = false;    ///< the saved audit's "auto": every column that qualifies
     QStringList covariates;         ///< trend only: numeric columns the slopes are adjusted for
     bool pairs = true;
     int bins = 4;
+    std::uint64_t max_levels = 50;  ///< categorical candidates need 2..max_levels levels
     double alpha = 0.05;
-    int bootstrap = 200;
-    unsigned seed = 1;
+    int bootstrap = 200;            ///< resamples: the rate bootstrap, or a trend's slope bootstrap
+    std::uint64_t seed = 1;
+    bool find_groups = false;       ///< trend only: the hidden-group hint
 };
+
+/// The audit the workbench runs: `base` (the opened project's specification: data, trend checks,
+/// diagrams, the other kind's resample count) with the Question step's settings over it.
+project::AuditSpec audit_spec(const QuestionSpec& q, const project::AuditSpec& base);
+/// The Question step's settings of a saved audit (the inverse of audit_spec on what it edits).
+QuestionSpec question_spec(const project::AuditSpec& spec);
 
 /// A column and whether it may stratify; `reason` says why not.
 struct CandidateView {
@@ -121,6 +134,7 @@ struct MemoRequest {
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
     QString title;
     QString date;                            ///< YYYY-MM-DD; empty → today
+    QString data_change;                     ///< how the data changed since the project was saved
     std::optional<DatabaseRecord> database;  ///< a database source: recorded instead of a file digest
 };
 
@@ -132,18 +146,20 @@ Status export_memo(const MemoRequest& request, const QString& path);
 /// action. Null image when there is no scan or width_px <= 0.
 QImage memo_preview(const MemoRequest& request, int width_px);
 
-/// Runs the scan. Each finding is handed to `on_provisional` as soon as it is computed (from
-/// the calling thread; class still decided on the raw p, before the FDR step and the
-/// bootstrap); the result holds the final, ranked findings. Honours work.stop (cancelled set).
-Result<ScanOutcome> run_scan(const Table& t, const QuestionSpec& q, const Work& work,
+/// Runs the audit (core/audit/run_audit.h, as `foldline run` does). Each rate finding is handed
+/// to `on_provisional` as soon as it is computed (from the calling thread; class still decided on
+/// the raw p, before the FDR step and the bootstrap); the result holds the final, ranked findings
+/// (trend checks and the hidden-group hint included). Honours work.stop (cancelled set).
+Result<ScanOutcome> run_scan(const Table& t, const project::AuditSpec& spec, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
 
-/// The adjusted estimate over the joint strata of `set` (any number of columns), computed by
-/// core/scan/estimate_over as the verdicts of `foldline scan --diagram` and `run` are: the
-/// difference standardised to the pooled mix for rates, the within-stratum slope (adjusted for
-/// the covariates) for trends. Only `adjusted`, `adjusted_name`, `strata` and `slope` are set.
-/// An Error when the set is empty, a column is unknown, or no joint stratum holds both groups
-/// (rates) or spread in x (trends).
-Result<FindingView> adjusted_over(const Table& t, const QuestionSpec& q, const QStringList& set);
+/// The diagram's verdict for the finding compared by `exposure` and `outcome` and stratified by
+/// `strata`, with the estimate it points to, computed by core/audit exactly as `foldline run`'s
+/// verdicts are (the audit's bins and level limit; `scan` and `table` may be null before a scan:
+/// then no estimate). The words the diagram step shows; `computed` false with `problem` set when
+/// the diagram cannot judge.
+DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, const QString& outcome,
+                     const QStringList& strata, const ScanResult* scan, const Table* table,
+                     const project::AuditSpec& spec);
 
 }  // namespace foldline::ui

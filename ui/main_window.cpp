@@ -1,7 +1,7 @@
 #include "ui/main_window.h"
 
 #include "core/common/sha256.h"
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 
 #include <QAction>
 #include <QActionGroup>
@@ -108,11 +108,11 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(memo_, &MemoPage::export_requested, this, &MainWindow::export_memo_dialog);
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
 
-    diagram_->set_estimator([this](const QStringList& set) -> QString {
-        if (!source_->table()) return {};
-        auto f = adjusted_over(*source_->table(), last_question_, set);
-        if (!f) return tr("not computed: %1").arg(QString::fromStdString(f.error().message));
-        return tr("%1 over %2: %3").arg(f->adjusted_name, set.join(QStringLiteral(" × ")), format_estimate(f->adjusted));
+    // The diagram step's verdict and the estimate it points to come from core/audit, computed
+    // on the scan's findings with the audit's settings, as `foldline run` computes them.
+    diagram_->doc()->set_judge([this](const causal::Diagram& d, const QString& exposure, const QString& outcome,
+                                      const QStringList& strata) {
+        return judge(d, exposure, outcome, strata, scan_->scan_result().get(), source_->table().get(), last_spec_);
     });
     build_menus();
     restore_layout();
@@ -187,8 +187,9 @@ bool MainWindow::start_scan() {
         return false;
     }
     last_question_ = question_->spec();
+    last_spec_ = audit_spec(last_question_, base_ ? static_cast<const project::AuditSpec&>(*base_) : project::AuditSpec{});
     seeded_row_ = -1;
-    if (!scan_->start(source_->table(), last_question_)) return false;
+    if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);
@@ -391,6 +392,7 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     r.reviewed = model_->findings();
     if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
+    r.data_change = data_change_;
     if ((r.database = source_->database_record()))
         r.title = tr("Audit of %1").arg(QString::fromStdString(r.database->table.empty() ? r.database->database
                                                                                          : r.database->table));
@@ -462,26 +464,7 @@ Result<project::Project> MainWindow::current_project() const {
     }
     p.data.type_overrides = o.type_overrides;
     const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
-    p.question = project::QuestionSettings{};
-    p.question.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
-    p.question.outcome = q.outcome.toStdString();
-    p.question.exposure = q.exposure.toStdString();
-    if (!q.slope) {
-        if (!q.positive.isEmpty()) p.question.positive = q.positive.toStdString();
-        if (!q.focal.isEmpty()) p.question.focal = {q.focal.toStdString()};
-        if (!q.reference.isEmpty()) p.question.reference = q.reference.toStdString();
-    } else {
-        for (const QString& c : q.covariates) p.question.covariates.push_back(c.toStdString());
-    }
-    p.scan.strata.clear();
-    for (const QString& c : q.candidates) p.scan.strata.push_back(c.toStdString());
-    p.scan.pairs = q.pairs;
-    p.scan.bins = q.bins;
-    p.scan.alpha = q.alpha;
-    // The workbench has one resample count: the rate bootstrap, or the slope stability draws.
-    if (q.slope) p.scan.slope_bootstrap = q.bootstrap;
-    else p.scan.bootstrap = q.bootstrap;
-    p.scan.seed = q.seed;
+    static_cast<project::AuditSpec&>(p) = audit_spec(q, p);
     if (seeded_row_ >= 0) {
         const std::string name = !p.active_diagram.empty() ? p.active_diagram
                                  : p.diagrams.empty()      ? std::string("as drawn")
@@ -580,23 +563,7 @@ void MainWindow::restore_pending() {
                 statusBar()->showMessage(tr("Warning: %1.").arg(pending->data_change), 15000);
             }
         }
-        QuestionSpec q = question_->spec();
-        q.slope = p.question.kind == project::QuestionKind::Slope;
-        q.outcome = QString::fromStdString(p.question.outcome);
-        q.positive = p.question.positive ? QString::fromStdString(*p.question.positive) : QString();
-        q.exposure = QString::fromStdString(p.question.exposure);
-        q.focal = p.question.focal.empty() ? QString() : QString::fromStdString(p.question.focal.front());
-        q.reference = p.question.reference ? QString::fromStdString(*p.question.reference) : QString();
-        q.candidates.clear();
-        for (const auto& s : p.scan.strata) q.candidates << QString::fromStdString(s);
-        q.covariates.clear();
-        if (q.slope)
-            for (const auto& c : p.question.covariates) q.covariates << QString::fromStdString(c);
-        q.pairs = p.scan.pairs;
-        q.bins = p.scan.bins;
-        q.alpha = p.scan.alpha;
-        q.bootstrap = q.slope ? p.scan.slope_bootstrap : p.scan.bootstrap;
-        q.seed = unsigned(p.scan.seed);
+        const QuestionSpec q = question_spec(p);
         question_->set_spec(q);
         pending->scanned = true;
         if (!start_scan()) pending_.reset();

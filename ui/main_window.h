@@ -1,7 +1,7 @@
 #pragma once
 // The workbench window: the step strip (Source → Question → Scan → Findings → Diagram → Memo)
 // over one page per step, every action in a menu with a shortcut, layout kept between runs.
-#include "core/io/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
 #include "core/table/table.h"
 #include "ui/autosave.h"
 #include "ui/engine.h"
@@ -121,6 +121,7 @@ private:
     QMenu* recent_menu_ = nullptr;
     QHash<QString, QAction*> actions_;
     QuestionSpec last_question_;
+    project::AuditSpec last_spec_;  ///< the audit the last scan ran (core/audit), for verdicts
     int seeded_row_ = -1;
     struct PendingProject;
     std::shared_ptr<PendingProject> pending_;  ///< a project being opened (load → scan → restore)

@@ -7,6 +7,8 @@
 #include <QGroupBox>
 #include <QHBoxLayout>
 #include <QLabel>
+#include <QLineEdit>
+#include <QRegularExpressionValidator>
 #include <QListWidget>
 #include <QPushButton>
 #include <QRadioButton>
@@ -70,12 +72,13 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     pairs_->setChecked(true);
     pairs_->setToolTip(tr("Joint strata of two columns can reveal reversals neither shows alone"));
     bins_ = new QSpinBox;
-    bins_->setRange(2, 20);
+    bins_->setRange(0, project::limits::kMaxBins);
+    bins_->setSpecialValueText(tr("off"));
     bins_->setValue(4);
     bins_->setToolTip(tr("Numeric candidates are cut into this many quantile bins"));
     alpha_ = new QDoubleSpinBox;
     alpha_->setDecimals(3);
-    alpha_->setRange(0.001, 0.499);
+    alpha_->setRange(0.001, project::limits::kMaxAlpha);
     alpha_->setSingleStep(0.01);
     alpha_->setValue(0.05);
     alpha_->setToolTip(tr("False discovery rate controlled across everything scanned (Benjamini-Hochberg)"));
@@ -84,17 +87,27 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     bootstrap_->setSingleStep(100);
     bootstrap_->setValue(200);
     bootstrap_->setToolTip(tr("Resamples used to measure how often a flagged finding keeps its class (0 = skip)"));
-    seed_ = new QSpinBox;
-    seed_->setRange(0, 1 << 30);
-    seed_->setValue(1);
-    seed_->setToolTip(tr("Seed of the resampling, so a scan can be repeated exactly"));
+    max_levels_ = new QSpinBox;
+    max_levels_->setRange(int(project::limits::kMinMaxLevels), int(project::limits::kMaxMaxLevels));
+    max_levels_->setValue(50);
+    max_levels_->setToolTip(tr("A column with more distinct values than this is left out (numbers are cut into bins instead)"));
+    seed_ = new QLineEdit(QStringLiteral("1"));
+    seed_->setObjectName(QStringLiteral("seed"));
+    seed_->setValidator(new QRegularExpressionValidator(QRegularExpression(QStringLiteral("[0-9]{1,20}")), seed_));
+    seed_->setToolTip(tr("Seed of the resampling, so a scan can be repeated exactly (a whole number up to 18446744073709551615)"));
+    find_groups_ = new QCheckBox(tr("Also look for hidden groups in the trend (a hint, not a finding)"));
+    find_groups_->setObjectName(QStringLiteral("find_groups"));
+    find_groups_->setVisible(false);  // rates first: set_kind shows it for trends
+    find_groups_->setToolTip(tr("Fits mixtures of the two columns and says when the points fall into overlapping groups whose trends run against the pooled one"));
     auto* how = new QGroupBox(tr("How to scan"));
     auto* h = new QFormLayout(how);
     h->addRow(pairs_);
     h->addRow(tr("Bins for numeric columns"), bins_);
+    h->addRow(tr("Most levels of a column"), max_levels_);
     h->addRow(tr("False discovery rate (alpha)"), alpha_);
     h->addRow(tr("Bootstrap resamples"), bootstrap_);
     h->addRow(tr("Seed"), seed_);
+    h->addRow(find_groups_);
 
     candidates_ = new QListWidget;
     candidates_->setObjectName(QStringLiteral("candidates"));
@@ -168,8 +181,20 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     });
     for (QComboBox* b : {positive_, focal_, reference_})
         connect(b, &QComboBox::currentTextChanged, this, [this] { if (!filling_) validate(); });
-    connect(candidates_, &QListWidget::itemChanged, this, [this] { if (!filling_) validate(); });
+    connect(candidates_, &QListWidget::itemChanged, this, [this] {
+        if (filling_) return;
+        all_candidates_ = false;  // the reviewer chose: the list is theirs now
+        validate();
+    });
+    connect(seed_, &QLineEdit::textChanged, this, [this] { validate(); });
     connect(alpha_, &QDoubleSpinBox::valueChanged, this, [this] { validate(); });
+    // The level limit and the bins decide which columns qualify: offer the list again.
+    for (QSpinBox* b : {bins_, max_levels_})
+        connect(b, &QSpinBox::valueChanged, this, [this] {
+            if (filling_) return;
+            refresh_candidates();
+            validate();
+        });
     set_table(nullptr);
 }
 
@@ -217,6 +242,7 @@ void QuestionPage::set_kind(bool slope) {
     who_form_->setRowVisible(positive_, !slope);
     who_form_->setRowVisible(focal_, !slope);
     who_form_->setRowVisible(reference_, !slope);
+    if (find_groups_) find_groups_->setVisible(slope);
     who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : tr("Outcome"));
     who_form_->labelForField(exposure_)->setProperty("text", slope ? tr("Exposure (x)") : tr("Groups column"));
     fill_columns();
@@ -292,6 +318,7 @@ void QuestionPage::refresh_candidates() {
         q.outcome = outcome_->currentText();
         q.exposure = exposure_->currentText();
         q.bins = bins_->value();
+        q.max_levels = std::uint64_t(max_levels_->value());
         q.covariates = covariates_;
         std::vector<CandidateView> all = propose_candidates(*table_, q);
         std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
@@ -325,9 +352,18 @@ QuestionSpec QuestionPage::spec() const {
         if (candidates_->item(i)->checkState() == Qt::Checked) q.candidates << candidates_->item(i)->data(Qt::UserRole).toString();
     q.pairs = pairs_->isChecked();
     q.bins = bins_->value();
+    q.max_levels = std::uint64_t(max_levels_->value());
     q.alpha = alpha_->value();
     q.bootstrap = bootstrap_->value();
-    q.seed = unsigned(seed_->value());
+    bool ok = false;
+    q.seed = seed_->text().toULongLong(&ok);
+    if (!ok) q.seed = 0;
+    q.find_groups = q.slope && find_groups_->isChecked();
+    bool every = true;
+    for (int i = 0; i < candidates_->count(); ++i)
+        if ((candidates_->item(i)->flags() & Qt::ItemIsEnabled) && candidates_->item(i)->checkState() != Qt::Checked)
+            every = false;
+    q.all_candidates = all_candidates_ && every;
     if (q.slope)
         for (const QString& c : covariates_)
             if (c != q.outcome && c != q.exposure) q.covariates << c;
@@ -351,9 +387,12 @@ void QuestionPage::set_spec(const QuestionSpec& q) {
                                                     ? Qt::Checked : Qt::Unchecked);
     pairs_->setChecked(q.pairs);
     bins_->setValue(q.bins);
+    max_levels_->setValue(int(std::min<std::uint64_t>(q.max_levels, std::uint64_t(project::limits::kMaxMaxLevels))));
     alpha_->setValue(q.alpha);
     bootstrap_->setValue(q.bootstrap);
-    seed_->setValue(int(q.seed));
+    seed_->setText(QString::number(qulonglong(q.seed)));
+    find_groups_->setChecked(q.find_groups);
+    all_candidates_ = q.all_candidates || q.candidates.isEmpty();
     validate();
 }
 

@@ -14,6 +14,7 @@ class QRadioButton;
 class QComboBox;
 class QDoubleSpinBox;
 class QLabel;
+class QLineEdit;
 class QListWidget;
 class QPushButton;
 class QSpinBox;
@@ -51,7 +52,10 @@ private:
     QFormLayout* who_form_;
     QListWidget* candidates_;
     QCheckBox* pairs_;
-    QSpinBox *bins_, *bootstrap_, *seed_;
+    QSpinBox *bins_, *bootstrap_, *max_levels_;
+    QLineEdit* seed_;            ///< any 64-bit seed (a saved audit may hold one above 2^32)
+    QCheckBox* find_groups_ = nullptr;  ///< trends: the hidden-group hint
+    bool all_candidates_ = false;///< the saved audit's "auto" list, kept until the reviewer edits the ticks
     QDoubleSpinBox* alpha_;
     QLabel* problems_;
     QPushButton* scan_;

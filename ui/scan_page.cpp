@@ -104,7 +104,7 @@ bool ScanPage::wait(int ms) { return job_->wait(ms); }
 QString ScanPage::status() const { return status_->text(); }
 double ScanPage::elapsed_seconds() const { return running() ? double(clock_.elapsed()) / 1000.0 : seconds_; }
 
-bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q) {
+bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q, const project::AuditSpec& spec) {
     if (job_->running() || !table) return false;
     model_->clear();
     scan_result_.reset();
@@ -133,8 +133,8 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q) 
     auto result = result_;
     auto table_ref = table_;
     flush_timer_->start();
-    job_->start([this, result, table_ref, q](const Work& work) {
-        *result = run_scan(*table_ref, q, work, [this](FindingView f) {
+    job_->start([this, result, table_ref, spec](const Work& work) {
+        *result = run_scan(*table_ref, spec, work, [this](FindingView f) {
             std::lock_guard<std::mutex> lock(mutex_);
             inbox_.push_back(std::move(f));
         });

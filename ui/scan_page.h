@@ -29,7 +29,8 @@ public:
     ~ScanPage() override;
 
     /// Starts a scan of `table` (replacing the findings); false when one is running.
-    bool start(std::shared_ptr<const Table> table, const QuestionSpec& q);
+    /// Starts the audit `spec` (core/audit) on `table`; `q` words the question above the progress.
+    bool start(std::shared_ptr<const Table> table, const QuestionSpec& q, const project::AuditSpec& spec);
     bool running() const;
     /// Waits up to `ms` for the worker (tests and shutdown).
     bool wait(int ms);

@@ -5,8 +5,9 @@
 #include <iostream>
 
 #include "app/cli/args.h"
-#include "app/cli/audit_run.h"
 #include "app/cli/command.h"
+#include "app/cli/outputs.h"
+#include "core/audit/run_audit.h"
 
 namespace foldline::cli {
 namespace {
@@ -15,7 +16,7 @@ const char* kName = "memo";
 
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
-        {"out", true, "FILE.pdf"}, {"data", true, "FILE"}, {"threads", true, "N"}, {"help", false, ""}};
+        {"out", true, "FILE.pdf"}, {"data", true, "FILE"}, {"threads", true, "N"}};
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
     if (a.positional().size() != 1) return fail(kName, kUsage, "expected one PROJECT file (NAME.foldline)");
@@ -28,13 +29,12 @@ int run(int argc, char** argv) {
     if (!loaded) return fail(kName, kInput, loaded.error().to_string());
     if (auto msg = overwrites_input(out, {project_path, loaded->data.path, a.get_or("data", "")}); !msg.empty())
         return fail(kName, kUsage, msg);
-    unsigned threads = 2;
-    if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
-    int code = kOk;
-    auto run = run_audit(*loaded, a.get_or("data", ""), threads, code);
-    if (!run) return fail(kName, code, run.error().to_string());
+    audit::RunOptions options;
+    if (a.has("threads")) options.threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
+    auto run = audit::run_audit(*loaded, a.get_or("data", ""), options);
+    if (!run) return fail(kName, run.error());
     if (!run->data_change.empty()) std::cerr << "foldline memo: warning: " << run->data_change << "\n";
-    if (int rc = write_memo(kName, run->result, run->info, &*loaded, run->verdicts, run->data_change, out, &run->table);
+    if (int rc = write_memo(kName, run->result, run->info, &*loaded, run->data_change, out, &run->table);
         rc != kOk)
         return rc;
     std::cout << "Memo: " << out << "\n";

@@ -5,8 +5,10 @@
 #include <iostream>
 
 #include "app/cli/args.h"
-#include "app/cli/audit_run.h"
 #include "app/cli/command.h"
+#include "app/cli/outputs.h"
+#include "core/audit/class_changes.h"
+#include "core/audit/run_audit.h"
 #include "core/common/atomic_file.h"
 #include "core/report/csv_export.h"
 
@@ -22,7 +24,7 @@ std::string class_or(const std::optional<FindingClass>& c, const char* none) {
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"data", true, "FILE"}, {"json", true, "FILE|-"}, {"memo", true, "FILE.pdf"}, {"csv", true, "PREFIX"},
-        {"threads", true, "N"}, {"update", false, ""},    {"help", false, ""},
+        {"threads", true, "N"}, {"update", false, ""},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -35,8 +37,8 @@ int run(int argc, char** argv) {
     const std::string memo_path = a.get_or("memo", "");
     if (!memo_path.empty() && !memo_available())
         return fail(kName, kUsage, "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF)");
-    unsigned threads = 2;
-    if (a.has("threads")) threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
+    audit::RunOptions options;
+    if (a.has("threads")) options.threads = static_cast<unsigned>(std::atoi(a.get("threads")->c_str()));
 
     {
         const std::string prefix = a.get_or("csv", "");
@@ -48,9 +50,8 @@ int run(int argc, char** argv) {
         for (const auto& out : outputs)
             if (auto msg = overwrites_input(out, inputs); !msg.empty()) return fail(kName, kUsage, msg);
     }
-    int code = kOk;
-    auto run = run_audit(p, override_data, threads, code);
-    if (!run) return fail(kName, code, run.error().to_string());
+    auto run = audit::run_audit(p, override_data, options);
+    if (!run) return fail(kName, run.error());
     const ScanResult& r = run->result;
     std::ostream& out = a.get_or("json", "") == "-" ? std::cerr : std::cout;
 
@@ -67,14 +68,14 @@ int run(int argc, char** argv) {
     }
     if (!r.slope_question.x.empty()) {
         int counts[5] = {0, 0, 0, 0, 0};
-        for (const auto& f : r.slope_findings) ++counts[rank(f.finding_class)];
+        for (const auto& f : r.slope_findings) ++counts[rank(f.cls)];
         out << "Slope of " << r.slope_question.y << " on " << r.slope_question.x << ": " << r.slope_findings.size()
             << " checks: " << counts[0] << " reversal, " << counts[1] << " explained, " << counts[2] << " masked, "
             << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha << ", seed " << r.seed
             << ")\n";
     }
 
-    const auto changes = class_changes(p, r);
+    const auto changes = audit::class_changes(p, r);
     if (changes.empty()) {
         out << "Classes: as saved in the project.\n";
     } else {
@@ -100,8 +101,7 @@ int run(int argc, char** argv) {
         out << "\n";
     }
     if (!memo_path.empty()) {
-        if (int rc = write_memo(kName, r, run->info, &p, run->verdicts, run->data_change, memo_path,
-                            &run->table);
+        if (int rc = write_memo(kName, r, run->info, &p, run->data_change, memo_path, &run->table);
             rc != kOk)
             return rc;
         out << "Memo: " << memo_path << "\n";
@@ -109,7 +109,7 @@ int run(int argc, char** argv) {
     if (a.flag("update", false)) {
         if (!override_data.empty()) p.data.path = override_data;
         if (auto st = project::record_data(p.data, run->table); !st) return fail(kName, kInput, st.error().to_string());
-        record_classes(p, r);
+        audit::record_classes(p, r);
         if (auto st = project::save_project(p, project_path); !st) return fail(kName, kInput, st.error().to_string());
         out << "Project updated: " << project_path << "\n";
     }

@@ -1,6 +1,8 @@
 // foldline scan: the rate-reversal scan from the command line. Prints a ranked summary and
 // writes the JSON document (core/report/scan_json.h).
 #include <algorithm>
+#include <cerrno>
+#include <cstdlib>
 #include <chrono>
 #include <csignal>
 #include <cmath>
@@ -11,22 +13,16 @@
 #include <thread>
 
 #include "app/cli/args.h"
-#include "app/cli/audit_run.h"
 #include "app/cli/command.h"
-#include "core/causal/diagram.h"
+#include "app/cli/outputs.h"
+#include "core/audit/database_source.h"
+#include "core/audit/run_audit.h"
 #include "core/causal/diagram_file.h"
-#include "app/cli/scan_source.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
 #include "core/report/scan_json.h"
 #include "core/report/scan_summary.h"
-#include "core/scan/candidates.h"
-#include "core/scan/grouped_cubes.h"
-#include "core/scan/grouped_slopes.h"
-#include "core/scan/question.h"
-#include "core/scan/rate_scan.h"
-#include "core/scan/slope_scan.h"
 
 namespace foldline::cli {
 namespace {
@@ -60,33 +56,6 @@ void print_summary(std::ostream& os, const ScanResult& r, const std::string& pat
     os << scan_summary_text(r, path, top);
 }
 
-/// Reads --covariates C1,C2 into q.covariates (q.x and q.y set): an error message naming the
-/// column when one is empty, repeated, x or y, missing from the data or not numeric; empty = fine.
-std::string parse_covariates(const std::string& list, const Table& table, SlopeQuestion& q) {
-    std::vector<std::string> names;
-    std::size_t start = 0;
-    while (true) {
-        const std::size_t comma = list.find(',', start);
-        names.push_back(list.substr(start, comma == std::string::npos ? std::string::npos : comma - start));
-        if (comma == std::string::npos) break;
-        start = comma + 1;
-    }
-    for (const auto& name : names) {
-        if (name.empty()) return "--covariates needs column names separated by commas (an empty name in '" + list + "')";
-        if (name == q.x || name == q.y)
-            return "--covariates column '" + name + "' is the trend's " + (name == q.x ? "exposure (x)" : "outcome (y)") +
-                   "; a covariate must be another column";
-        if (std::count(names.begin(), names.end(), name) > 1)
-            return "--covariates names column '" + name + "' twice";
-        const Column* c = table.column(name);
-        if (!c) return "--covariates column '" + name + "' not found in the data";
-        if (!c->is_numeric())
-            return "--covariates column '" + name + "' is not numeric (a covariate enters the regression as a number)";
-    }
-    q.covariates = std::move(names);
-    return {};
-}
-
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"outcome", true, "C[=LEVEL]"},      {"exposure", true, "C[=FOCAL[,REF]]"},
@@ -96,13 +65,13 @@ int run(int argc, char** argv) {
         {"bootstrap", true, "B"},            {"seed", true, "S"},
         {"json", true, "FILE|-"},            {"threads", true, "N"},
         {"top", true, "N"},                  {"delimiter", true, "CHAR"},
-        {"timings", false, ""},              {"help", false, ""},
+        {"timings", false, ""},
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
         {"diagram", true, "DIAGRAM.json"},
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
-        {"covariates", true, "C1,C2"},
+        {"covariates", true, "C1,C2"},      {"find-groups", false, ""},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -114,14 +83,23 @@ int run(int argc, char** argv) {
     if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
     if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
 
-    QuestionSpec spec;
-    parse_outcome_arg(*a.get("outcome"), spec);
-    parse_exposure_arg(*a.get("exposure"), spec);
-    CandidateOptions copt;
+    // Everything asked becomes one audit specification (core/audit), the same `foldline run`
+    // reads from a project file and the workbench builds from its Question step.
+    project::AuditSpec spec;
+    {
+        QuestionSpec q;
+        parse_outcome_arg(*a.get("outcome"), q);
+        parse_exposure_arg(*a.get("exposure"), q);
+        spec.question.outcome = q.outcome;
+        spec.question.positive = q.positive;
+        spec.question.exposure = q.exposure;
+        spec.question.focal = q.focal;
+        spec.question.reference = q.reference;
+    }
     const std::string strata = a.get_or("strata", "auto");
-    if (strata != "auto") copt.columns = split_list(strata);
-    RateScanOptions sopt;
-    sopt.pairs = a.flag("pairs", true);
+    if (strata != "auto") spec.scan.strata = split_list(strata);
+    spec.scan.pairs = a.flag("pairs", true);
+    spec.scan.find_groups = a.flag("find-groups", false);
     double v;
     auto number = [&](const char* name, double lo, double hi, double& out) -> bool {
         if (!a.has(name)) return true;
@@ -129,20 +107,59 @@ int run(int argc, char** argv) {
         out = v;
         return true;
     };
-    double bins = copt.bins, max_levels = static_cast<double>(copt.max_levels), boot = sopt.bootstrap,
-           seed = static_cast<double>(sopt.seed), threads = 2, top = 20;
-    if (!number("bins", 0, 1000, bins)) return fail(kName, kUsage, "--bins needs a whole number 0..1000 (0 = off)");
-    if (!number("max-levels", 2, 100000, max_levels)) return fail(kName, kUsage, "--max-levels needs a number >= 2");
-    if (!number("alpha", 1e-12, 0.5, sopt.alpha)) return fail(kName, kUsage, "--alpha needs a number in (0, 0.5]");
-    if (!number("bootstrap", 0, 1e6, boot)) return fail(kName, kUsage, "--bootstrap needs a whole number >= 0");
-    if (!number("seed", 0, 9e15, seed)) return fail(kName, kUsage, "--seed needs a whole number >= 0");
+    namespace lim = project::limits;
+    double bins = spec.scan.bins, max_levels = static_cast<double>(spec.scan.max_levels), boot = spec.scan.bootstrap,
+           slope_boot = spec.scan.slope_bootstrap, threads = 2, top = 20;
+    if (!number("bins", 0, lim::kMaxBins, bins)) return fail(kName, kUsage, "--bins needs a whole number 0..1000 (0 = off)");
+    if (!number("max-levels", lim::kMinMaxLevels, lim::kMaxMaxLevels, max_levels))
+        return fail(kName, kUsage, "--max-levels needs a whole number 2..1000000");
+    if (!number("alpha", lim::kMinAlpha, lim::kMaxAlpha, spec.scan.alpha))
+        return fail(kName, kUsage, "--alpha needs a number in (0, 0.5]");
+    if (!number("bootstrap", 0, lim::kMaxBootstrap, boot)) return fail(kName, kUsage, "--bootstrap needs a whole number 0..1000000");
+    if (!number("slope-bootstrap", 0, lim::kMaxBootstrap, slope_boot))
+        return fail(kName, kUsage, "--slope-bootstrap needs a whole number 0..1000000");
     if (!number("threads", 0, 256, threads)) return fail(kName, kUsage, "--threads needs a number 0..256");
     if (!number("top", 0, 1e9, top)) return fail(kName, kUsage, "--top needs a number >= 0");
-    copt.bins = static_cast<int>(bins);
-    copt.max_levels = static_cast<std::size_t>(max_levels);
-    sopt.bootstrap = static_cast<int>(boot);
-    sopt.seed = static_cast<std::uint64_t>(seed);
-    sopt.threads = static_cast<unsigned>(threads);
+    if (a.has("seed")) {
+        // Every 64-bit seed is valid (a project may record any); parsed exactly, not through a double.
+        const std::string s = *a.get("seed");
+        char* end = nullptr;
+        errno = 0;
+        const unsigned long long seed = std::strtoull(s.c_str(), &end, 10);
+        if (s.empty() || s[0] == '-' || *end || errno == ERANGE)
+            return fail(kName, kUsage, "--seed needs a whole number 0..18446744073709551615");
+        spec.scan.seed = seed;
+    }
+    spec.scan.bins = static_cast<int>(bins);
+    spec.scan.max_levels = static_cast<std::uint64_t>(max_levels);
+    spec.scan.bootstrap = static_cast<int>(boot);
+    spec.scan.slope_bootstrap = static_cast<int>(slope_boot);
+    audit::RunOptions options;
+    options.threads = static_cast<unsigned>(threads);
+    if (a.has("trend")) {
+        const std::string t = *a.get("trend");
+        const auto colon = t.find(':');
+        if (colon == std::string::npos || colon == 0 || colon + 1 == t.size())
+            return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
+        spec.trend = project::TrendSettings{t.substr(0, colon), t.substr(colon + 1), {}};
+    }
+    std::vector<std::string> covariates;
+    if (a.has("covariates")) {
+        covariates = split_list(*a.get("covariates"));
+        if (covariates.empty() || a.get("covariates")->find(",,") != std::string::npos ||
+            a.get("covariates")->front() == ',' || a.get("covariates")->back() == ',')
+            return fail(kName, kUsage, "--covariates needs column names separated by commas (an empty name in '" +
+                                           *a.get("covariates") + "')");
+        for (const auto& c : covariates)
+            if (std::find(spec.scan.strata.begin(), spec.scan.strata.end(), c) != spec.scan.strata.end())
+                return fail(kName, kUsage, "column '" + c + "' is in both --strata and --covariates: a column either "
+                                               "stratifies the trend or adjusts it");
+    }
+    if (a.has("diagram")) {
+        auto diagram = causal::read_diagram(*a.get("diagram"));
+        if (!diagram) return fail(kName, kInput, diagram.error().to_string());
+        spec.diagrams.push_back({"as drawn", std::move(*diagram)});
+    }
 
     using clock = std::chrono::steady_clock;
     const auto t0 = clock::now();
@@ -153,38 +170,34 @@ int run(int argc, char** argv) {
     });
     CsvOptions ropt;
     ropt.count_column = a.get_or("count-column", "");
-    ropt.threads = sopt.threads;
+    ropt.threads = options.threads;
     if (a.has("delimiter")) {
         const auto d = *a.get("delimiter");
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
     }
-    DatabaseInfo db;
-    DatabaseCounts counted;
+    audit::DatabaseInfo db;
+    audit::DatabaseCounts counted;
     bool from_cubes = false;
     auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
     if (from_db) {
-        DatabaseRequest req;
+        audit::DatabaseRequest req;
         req.source = *a.get("source");
         req.table = a.get_or("table", "");
         req.query = a.get_or("query", "");
-        req.required = {spec.outcome, spec.exposure};
-        for (const auto& c : copt.columns) req.required.push_back(c);
-        if (a.has("covariates"))
-            for (const auto& c : split_list(*a.get("covariates"))) req.required.push_back(c);
-        req.all_columns = copt.columns.empty();
+        req.required = {spec.question.outcome, spec.question.exposure};
+        for (const auto& c : spec.scan.strata) req.required.push_back(c);
+        for (const auto& c : covariates) req.required.push_back(c);
+        req.all_columns = spec.scan.strata.empty();
         req.count_column = ropt.count_column;
+        CandidateOptions copt;
+        copt.columns = spec.scan.strata;
+        copt.bins = spec.scan.bins;
+        copt.max_levels = static_cast<std::size_t>(spec.scan.max_levels);
         // A rate question runs on the cubes of one GROUPING SETS query, and its trend checks
         // on per-stratum moment sums. The diagram's verdicts (joint strata of any set), slope
         // stability (resampled rows) and trends of a pre-counted source need rows, so those
         // scans load the joint cells instead.
-        std::string tx, ty;
-        if (a.has("trend")) {
-            const std::string t = *a.get("trend");
-            const auto colon = t.find(':');
-            if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
-            tx = t.substr(0, colon);
-            ty = t.substr(colon + 1);
-        }
+        const std::string tx = spec.trend ? spec.trend->x : std::string(), ty = spec.trend ? spec.trend->y : std::string();
         Work work;
         work.stop = interrupt_token();
         std::signal(SIGINT, on_interrupt);
@@ -194,7 +207,9 @@ int run(int argc, char** argv) {
             for (const auto& c : {tx, ty})
                 if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
                     req.required.push_back(c);
-            auto c = load_database_counts(req, copt, spec, sopt.pairs, !spec.positive, tx, ty, work);
+            QuestionSpec qs{spec.question.outcome, spec.question.positive, spec.question.exposure, spec.question.focal,
+                            spec.question.reference};
+            auto c = audit::load_database_counts(req, copt, qs, spec.scan.pairs, !spec.question.positive, tx, ty, work);
             if (!c) {
                 table = c.error();
             } else if (!c->numeric_question) {
@@ -206,7 +221,7 @@ int run(int argc, char** argv) {
             }
         }
         if (!from_cubes && (cells || table.error().message.empty())) {
-            auto loaded = load_database_source(req, copt, work);
+            auto loaded = audit::load_database_source(req, copt, work);
             if (loaded) {
                 db = *loaded;
                 path = db.description;
@@ -225,102 +240,33 @@ int run(int argc, char** argv) {
     if (!digest) return fail(kName, kInput, digest.error().to_string());
     const auto t1 = clock::now();
 
-    // Slope checks: a numeric outcome on a numeric exposure (with many values) is a slope
-    // question; --trend X:Y adds slope checks of Y on X to a rate scan.
-    const Column* oc = table->column(spec.outcome);
-    const Column* ec = table->column(spec.exposure);
-    const bool slope_only = oc && ec && oc->is_numeric() && ec->is_numeric() && !spec.positive &&
-                            ec->distinct_count() > copt.max_levels;
-    SlopeQuestion sq;
-    sq.alpha = sopt.alpha;
-    // Slope stability resamples rows (cost grows with the row count), so it is opt-in.
-    double slope_boot = 0;
-    if (!number("slope-bootstrap", 0, 1e6, slope_boot))
-        return fail(kName, kUsage, "--slope-bootstrap needs a whole number >= 0");
-    sq.bootstrap = static_cast<int>(slope_boot);
-    sq.seed = sopt.seed;
-    if (slope_only) {
-        sq.x = spec.exposure;
-        sq.y = spec.outcome;
-    } else if (a.has("trend")) {
-        const std::string t = *a.get("trend");
-        const auto colon = t.find(':');
-        if (colon == std::string::npos) return fail(kName, kUsage, "--trend needs X:Y (two numeric columns)");
-        sq.x = t.substr(0, colon);
-        sq.y = t.substr(colon + 1);
-        // (A database source checked the trend columns when it summed their moments.)
-        for (const auto& c : from_cubes ? std::vector<std::string>{} : std::vector<std::string>{sq.x, sq.y}) {
-            const Column* col = table->column(c);
-            if (!col) return fail(kName, kUsage, "--trend column '" + c + "' not found");
-            if (!col->is_numeric()) return fail(kName, kUsage, "--trend column '" + c + "' is not numeric");
-        }
-    }
-    if (a.has("covariates")) {
-        if (sq.x.empty())
+    // A numeric outcome on a numeric exposure with many values is a slope question; covariates
+    // adjust that trend, or the --trend checks of a rate question.
+    if (!from_cubes)
+        spec.question.kind = audit::infer_kind(*table, spec.question, static_cast<std::size_t>(spec.scan.max_levels));
+    const bool slope_only = spec.question.kind == project::QuestionKind::Slope;
+    if (!covariates.empty()) {
+        if (slope_only) spec.question.covariates = covariates;
+        else if (spec.trend) spec.trend->covariates = covariates;
+        else
             return fail(kName, kUsage,
                         "--covariates adjusts a trend: give a numeric --outcome and --exposure, or --trend X:Y");
-        if (auto msg = parse_covariates(*a.get("covariates"), *table, sq); !msg.empty())
-            return fail(kName, kUsage, msg);
-        for (const auto& c : sq.covariates)
-            if (std::find(copt.columns.begin(), copt.columns.end(), c) != copt.columns.end())
-                return fail(kName, kUsage, "column '" + c + "' is in both --strata and --covariates: a column either "
-                                           "stratifies the trend or adjusts it");
     }
-    // A slope-only scan honours --pairs; --trend checks each single stratifier. Both go through
-    // the helpers `foldline run` uses, so a saved trend audit re-runs to the same findings.
-    Result<ScanResult> result = make_error("not run");
-    if (slope_only) {
-        int code = kOk;
-        result = slope_audit(*table, sq, copt, sopt.pairs, code);
-        if (!result) return fail(kName, code, result.error().to_string());
-        result->bootstrap = sopt.bootstrap;
-    } else if (from_cubes) {
-        auto in = cubes_from_groups(counted.counts, spec, copt, sopt.pairs);
-        if (!in) return fail(kName, kUsage, in.error().to_string());
-        if (in->cubes.stratifiers.empty())
-            return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
-        std::vector<SlopeFinding> slopes;
-        if (counted.moments) {
-            auto s = slope_checks_from_groups(*counted.moments, counted.counts, *in, sq);
-            if (!s) return fail(kName, kInput, s.error().to_string());
-            slopes = std::move(*s);
-        }
-        result = rate_scan(in->cubes, in->question, sopt, {}, {}, std::move(slopes));
-        if (!result) return fail(kName, kInternal, result.error().to_string());
-        if (!sq.x.empty()) result->slope_question = sq;
-    } else {
-        auto q = resolve_question(*table, spec);
-        if (!q) return fail(kName, kUsage, q.error().to_string());
-        auto cands = select_candidates(*table, {spec.outcome, spec.exposure}, copt, ec);
-        if (!cands) return fail(kName, kUsage, cands.error().to_string());
-        if (cands->candidates.empty()) return fail(kName, kInput, "no column qualifies as a stratifier (see --strata)");
-        std::vector<SlopeFinding> slopes;
-        if (!sq.x.empty()) {
-            int code = kOk;
-            auto checks = trend_checks(*table, sq, *cands, code);
-            if (!checks) return fail(kName, code, checks.error().to_string());
-            slopes = std::move(*checks);
-        }
-        result = rate_scan(*table, *q, *cands, sopt, {}, {}, std::move(slopes));
-        if (!result) return fail(kName, kInternal, result.error().to_string());
-        if (!sq.x.empty()) result->slope_question = sq;
-    }
-    if (a.has("diagram")) {
-        // Diagram nodes are matched to data columns by name; an observed node missing from the
-        // data is an input error that names it.
-        const std::string dpath = *a.get("diagram");
-        auto diagram = causal::read_diagram(dpath);
-        if (!diagram) return fail(kName, kInput, diagram.error().to_string());
-        auto graph = causal::CausalGraph::build(*diagram, dpath);
-        if (!graph) return fail(kName, kInput, graph.error().to_string());
-        std::vector<std::string> names;
-        for (const auto& c : table->columns) names.push_back(c.name);
-        if (auto st = causal::check_columns(*graph, names, dpath); !st) return fail(kName, kInput, st.error().to_string());
+    if (!spec.diagrams.empty())
+        if (auto st = audit::check_diagram_columns(spec.diagrams.front().diagram, *table, *a.get("diagram")); !st)
+            return fail(kName, kInput, st.error().to_string());
+    auto result = from_cubes ? audit::scan_groups(counted.counts, counted.moments, spec, options)
+                             : audit::scan_table(*table, spec, options);
+    if (!result) return fail(kName, result.error());
+    if (!spec.diagrams.empty()) {
         std::string problem;
-        attach_verdicts(*result, *table, *diagram, problem);
+        for (const auto& f : result->rate_findings)
+            if (problem.empty()) problem = f.verdict_problem;
+        for (const auto& f : result->slope_findings)
+            if (problem.empty()) problem = f.verdict_problem;
         if (!problem.empty()) std::cerr << "foldline scan: the diagram cannot judge every finding: " << problem << '\n';
     }
-    if (from_db) merge_left_out(result->excluded, db.left_out, db.columns);
+    if (from_db) audit::merge_left_out(result->excluded, db.left_out, db.columns);
     const auto t2 = clock::now();
 
     DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows), std::nullopt};
@@ -366,6 +312,8 @@ const CommandRegistration reg{Command{
             "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
             "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
             "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
+            "  [--find-groups]   trend questions: also fit the hidden-group hint (mixtures of x and y; a hint,\n"
+            "      never a finding: JSON kind \"latent\")\n"
             "Usage: foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to "
             "the database)\n"
             "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n"

@@ -9,12 +9,18 @@
 
 namespace foldline {
 
+/// Whose fault a failure is, for a front end's exit code or dialog: the input (a file or a
+/// database), the way the audit was asked for (options, a question that does not fit the data),
+/// or Foldline itself.
+enum class ErrorKind { Input, Usage, Internal };
+
 /// Where and why something failed. line/column are 1-based; 0 means "not applicable".
 struct Error {
     std::string file;      ///< path or source name; empty when not about a file
     std::size_t line = 0;  ///< 1-based physical line
     std::size_t column = 0;///< 1-based field (column) number
     std::string message;   ///< what was expected / what went wrong, in plain words
+    ErrorKind kind = ErrorKind::Input;
 
     /// "file:line:column: message", omitting parts that are empty or zero.
     std::string to_string() const;
@@ -49,6 +55,18 @@ using Status = Result<Ok>;
 inline Error make_error(std::string message, std::string file = {}, std::size_t line = 0,
                         std::size_t column = 0) {
     return Error{std::move(file), line, column, std::move(message)};
+}
+
+/// The same error, marked as a usage error (an option or a question that does not fit).
+inline Error usage_error(Error e) {
+    e.kind = ErrorKind::Usage;
+    return e;
+}
+
+/// The same error, marked as an internal error.
+inline Error internal_error(Error e) {
+    e.kind = ErrorKind::Internal;
+    return e;
 }
 
 }  // namespace foldline

@@ -26,6 +26,11 @@ std::string joined(const std::vector<std::string>& v, const char* sep) {
     return s;
 }
 
+// The answer a diagram gave for a finding ("pooled", "stratified", ...); empty when none judged it.
+std::string verdict_answer(const FindingHeader& f) {
+    return f.verdict ? std::string(causal::to_string(f.verdict->verdict.answer)) : std::string();
+}
+
 }  // namespace
 
 std::string csv_field(std::string_view s) {
@@ -73,10 +78,10 @@ std::string findings_csv(const ScanResult& r, const project::Project* project) {
                   csv_number(a.mh_or.ci.lo), csv_number(a.mh_or.ci.hi), csv_number(a.mh_rr.estimate),
                   csv_number(a.standardized.rd), csv_number(a.standardized.rd_ci.lo),
                   csv_number(a.standardized.rd_ci.hi), csv_number(f.cmh.p), csv_number(f.breslow_day.p_tarone),
-                  csv_number(f.p_reversal), csv_number(f.q_value), csv_number(f.stability),
+                  csv_number(f.p_reversal), csv_number(f.q_value), csv_number(f.stability.share),
                   csv_number(f.decomposition.within), csv_number(f.decomposition.composition),
                   csv_number(f.e_value.estimate), csv_number(f.e_value.ci_limit),
-                  std::to_string(f.informative_strata), csv_field(f.verdict), csv_field(decision), csv_field(note)});
+                  std::to_string(f.informative_strata), csv_field(verdict_answer(f)), csv_field(decision), csv_field(note)});
     }
     return out;
 }
@@ -104,20 +109,6 @@ std::string strata_csv(const ScanResult& r) {
     return out;
 }
 
-namespace {
-
-// The answer a diagram gave for a slope finding ("pooled", "stratified", ...), from its verdict
-// JSON; empty when no diagram judged it.
-std::string slope_verdict_answer(const SlopeFinding& f) {
-    if (f.verdict_detail.empty()) return {};
-    const auto j = nlohmann::json::parse(f.verdict_detail, nullptr, false);
-    if (!j.is_object()) return {};
-    const auto it = j.find("answer");
-    return it != j.end() && it->is_string() ? it->get<std::string>() : std::string();
-}
-
-}  // namespace
-
 std::string slope_findings_csv(const ScanResult& r, const project::Project* project) {
     std::string out;
     row(out, {"finding", "kind", "class", "strata", "x", "y", "covariates", "rows_used", "n", "pooled_slope",
@@ -139,7 +130,7 @@ std::string slope_findings_csv(const ScanResult& r, const project::Project* proj
         const double nan = std::nan("");
         const auto& ap = f.adjusted_pooled;
         const auto& aw = f.adjusted_within;
-        row(out, {std::to_string(++n), "slope", std::string(to_string(f.finding_class)),
+        row(out, {std::to_string(++n), "slope", std::string(to_string(f.cls)),
                   csv_field(joined(f.strata, " × ")), csv_field(f.x), csv_field(f.y),
                   csv_field(joined(f.covariates, "; ")), csv_number(f.rows_used), csv_number(f.n),
                   csv_number(f.pooled.slope), csv_number(f.pooled.ci_low), csv_number(f.pooled.ci_high),
@@ -151,9 +142,9 @@ std::string slope_findings_csv(const ScanResult& r, const project::Project* proj
                   csv_number(f.adjusted ? aw.slope : nan), csv_number(f.adjusted ? aw.ci_low : nan),
                   csv_number(f.adjusted ? aw.ci_high : nan), csv_number(f.equal_slopes.f),
                   csv_number(f.equal_slopes.p), csv_number(f.p_reversal), csv_number(f.q_value),
-                  f.stability_draws > 0 ? csv_number(f.stability) : std::string(), std::to_string(f.stability_draws),
+                  f.stability.draws > 0 ? csv_number(f.stability.share) : std::string(), std::to_string(f.stability.draws),
                   f.linear_probability ? "yes" : "no", std::to_string(f.uninformative.size()),
-                  csv_field(slope_verdict_answer(f)), csv_field(decision), csv_field(note)});
+                  csv_field(verdict_answer(f)), csv_field(decision), csv_field(note)});
     }
     return out;
 }

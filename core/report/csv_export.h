@@ -9,7 +9,7 @@
 #include <string_view>
 #include <vector>
 
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 #include "core/scan/scan_result.h"
 
 namespace foldline::report {

@@ -1,6 +1,5 @@
 #include "core/report/memo_content.h"
 #include "core/report/slope_chart.h"
-#include "core/scan/estimate_over.h"
 
 #include <cmath>
 #include <cstdio>
@@ -126,7 +125,7 @@ MemoTable figures_table(const RateFinding& f, double alpha) {
         {"CMH test p", p_text(f.cmh.p), ""},
         {"Breslow-Day (Tarone) p", p_text(f.breslow_day.p_tarone), ""},
         {"Reversal q-value", p_text(f.q_value), ""},
-        {"Stability (bootstrap)", std::isfinite(f.stability) ? percent(f.stability) : "not run", ""},
+        {"Stability (bootstrap)", std::isfinite(f.stability.share) ? percent(f.stability.share) : "not run", ""},
     };
     return t;
 }
@@ -219,7 +218,7 @@ std::string slope_lead(const SlopeFinding& f) {
                     slope_strata_words(f) + " (" + std::to_string(f.within.strata) + " strata), by " +
                     slope(f.within.slope) + " (" + slope_interval(f.within.ci_low, f.within.ci_high) + ", p " +
                     p_text(f.within.p) + ").";
-    switch (f.finding_class) {
+    switch (f.cls) {
         case FindingClass::Reversal: s += " The trend reverses within the strata."; break;
         case FindingClass::Explained: s += " Within the strata no clear trend is left."; break;
         case FindingClass::Masked: s += " A trend hidden in the pooled data appears within the strata."; break;
@@ -256,7 +255,7 @@ MemoTable slope_figures(const SlopeFinding& f, double alpha) {
     }
     t.rows.push_back({"Equal slopes F-test p", p_text(f.equal_slopes.p), ""});
     t.rows.push_back({"Reversal q-value", p_text(f.q_value), ""});
-    t.rows.push_back({"Stability (bootstrap)", f.stability_draws > 0 ? percent(f.stability) : "not run", ""});
+    t.rows.push_back({"Stability (bootstrap)", f.stability.draws > 0 ? percent(f.stability.share) : "not run", ""});
     return t;
 }
 
@@ -273,17 +272,19 @@ MemoTable slope_strata(const SlopeFinding& f) {
     return t;
 }
 
-/// " Over a, b: +6.3 pp (95% CI +4.3 pp to +8.2 pp)." — the estimate an OtherSet verdict points
-/// to; a sentence saying why when it could not be computed.
+/// " The estimate to quote, the ... over a, b: +6.3 pp (95% CI +4.3 pp to +8.2 pp)." — the
+/// estimate an OtherSet verdict points to (computed once, core/audit/verdicts); a sentence saying
+/// why when it could not be computed.
 template <typename Format>
-std::string estimate_sentence(const Result<EstimateOver>& e, const std::vector<std::string>& set, const char* what,
-                              Format format, double alpha) {
-    const std::string over = joined(set, ", ");
-    if (!e) return " The " + std::string(what) + " over " + over + " could not be computed: " + e.error().message + ".";
-    if (!std::isfinite(e->estimate))
+std::string estimate_sentence(const FindingVerdict& v, const char* what, Format format, double alpha) {
+    const std::string over = v.verdict.standardise_over ? joined(*v.verdict.standardise_over, ", ") : std::string();
+    if (!v.estimate_problem.empty())
+        return " The " + std::string(what) + " over " + over + " could not be computed: " + v.estimate_problem + ".";
+    if (!v.estimate)
         return " The " + std::string(what) + " over " + over + " is undefined (no stratum of that set informs it).";
-    return " The estimate to quote, the " + std::string(what) + " over " + over + ": " + format(e->estimate) +
-           " (" + fmt("%.0f%% CI ", 100 * (1 - alpha)) + format(e->ci_low) + " to " + format(e->ci_high) + ").";
+    const auto& e = *v.estimate;
+    return " The estimate to quote, the " + std::string(what) + " over " + over + ": " + format(e.estimate) + " (" +
+           fmt("%.0f%% CI ", 100 * (1 - alpha)) + format(e.ci_low) + " to " + format(e.ci_high) + ").";
 }
 
 std::string decomposition_sentence(const RateFinding& f) {
@@ -352,7 +353,7 @@ bool included_in_memo(const RateFinding& f, const project::Project* project) {
 
 bool included_in_memo(const SlopeFinding& f, const project::Project* project) {
     const auto* r = project ? project->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
-    return included(r, f.finding_class, project);
+    return included(r, f.cls, project);
 }
 
 MemoContent build_memo(const MemoInput& in) {
@@ -426,18 +427,18 @@ MemoContent build_memo(const MemoInput& in) {
              percent(top.crude.rate_focal) + " against " + top.reference + " " + percent(top.crude.rate_reference) +
              " (" + points(top.crude.rd) + "); within " + strata_words(top) + ", " +
              points(top.adjusted.mh_rd.greenland_robins.estimate) + " (Mantel-Haenszel).";
-        if (!in.verdicts.empty() && in.verdicts.front()) {
+        if (top.verdict) {
             const auto* diag_name = p && !p->diagrams.empty() ? &p->diagrams.front().name : nullptr;
             if (p && !p->active_diagram.empty()) diag_name = &p->active_diagram;
             s += " Under the causal diagram" + (diag_name && !diag_name->empty() ? " \"" + *diag_name + "\"" : "") +
-                 ", the view that answers the question is " + answer_words(*in.verdicts.front(), top) + ".";
+                 ", the view that answers the question is " + answer_words(top.verdict->verdict, top) + ".";
         } else {
             s += " No causal diagram was given, so the memo does not say which view answers the question.";
         }
     }
     }
     int slope_counts[5] = {0, 0, 0, 0, 0};
-    for (const auto& f : r.slope_findings) ++slope_counts[rank(f.finding_class)];
+    for (const auto& f : r.slope_findings) ++slope_counts[rank(f.cls)];
     const std::size_t slope_flagged = r.slope_findings.size() - static_cast<std::size_t>(slope_counts[4]);
     if (slopes) {
         s += (s.empty() ? "" : " ") + std::string("Foldline measured the trend of ") + sq.y + " on " + sq.x + " on " +
@@ -451,6 +452,8 @@ MemoContent build_memo(const MemoInput& in) {
                  ", within " + slope(top.within.slope) + ".";
         }
     }
+    // The hidden-group hint, when the audit asked for it: labelled as a hint, never a finding.
+    if (r.latent) s += (s.empty() ? "" : " ") + std::string("Hidden-group hint (not a finding): ") + r.latent->note;
     m.summary = s;
 
     // Findings table: every flagged finding, or all of them when none is flagged.
@@ -467,21 +470,21 @@ MemoContent build_memo(const MemoInput& in) {
         m.findings.rows.push_back({std::to_string(i + 1), std::string(to_string(f.cls)), strata_words(f),
                                    comparison_words(f), points(f.crude.rd),
                                    points(f.adjusted.mh_rd.greenland_robins.estimate), p_text(f.q_value),
-                                   std::isfinite(f.stability) ? percent(f.stability) : "-",
+                                   std::isfinite(f.stability.share) ? percent(f.stability.share) : "-",
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
         if (included_in_memo(f, p)) section_of.push_back(i);
     }
     std::vector<std::size_t> slope_section_of;
     for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
         const auto& f = r.slope_findings[i];
-        if (slope_flagged > 0 && f.finding_class == FindingClass::Stable && !included_in_memo(f, p)) continue;
+        if (slope_flagged > 0 && f.cls == FindingClass::Stable && !included_in_memo(f, p)) continue;
         if (slope_flagged == 0 && flagged > 0) continue;
         ++listed;
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
-        m.findings.rows.push_back({"s" + std::to_string(i + 1), std::string(to_string(f.finding_class)),
+        m.findings.rows.push_back({"s" + std::to_string(i + 1), std::string(to_string(f.cls)),
                                    slope_strata_words(f), f.y + " on " + f.x, slope(f.pooled.slope),
                                    slope(f.within.slope), p_text(f.q_value),
-                                   f.stability_draws > 0 ? percent(f.stability) : "-",
+                                   f.stability.draws > 0 ? percent(f.stability.share) : "-",
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
         if (included_in_memo(f, p)) slope_section_of.push_back(i);
     }
@@ -535,23 +538,14 @@ MemoContent build_memo(const MemoInput& in) {
         sec.figures = figures_table(f, r.alpha);
         sec.strata = strata_table(f);
         sec.chart = chart_of(f, q);
-        const causal::Verdict* v = i < in.verdicts.size() && in.verdicts[i] ? &*in.verdicts[i] : nullptr;
+        const causal::Verdict* v = f.verdict ? &f.verdict->verdict : nullptr;
         if (diagram) sec.diagram = diagram_of(*diagram, diagram_name, v, question_roles, f.strata);
         if (v) {
             sec.verdict = "Which view answers the question: " + answer_words(*v, f) + ". " + v->reason;
-            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
-                auto e = standardised_rd_over(*in.table, encode_rows(*in.table, q), *v->standardise_over, f.comparison,
-                                              r.alpha, bins, max_levels);
-                sec.verdict += estimate_sentence(e, *v->standardise_over, "difference standardised", points, r.alpha);
-            }
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over)
+                sec.verdict += estimate_sentence(*f.verdict, "difference standardised", points, r.alpha);
         } else if (diagram) {
-            std::string why = "the diagram is not valid";
-            if (graph) {
-                auto attempt = causal::decide(*graph, q.exposure, q.outcome, f.strata);
-                why = attempt ? std::string("no verdict was computed") : attempt.error().message;
-            } else if (auto cg = causal::CausalGraph::build(*diagram); !cg) {
-                why = cg.error().message;
-            }
+            const std::string why = f.verdict_problem.empty() ? "no verdict was computed" : f.verdict_problem;
             sec.verdict = "The diagram cannot judge this finding: " + why +
                           ". Add the column to the diagram to learn which view answers the question.";
         } else {
@@ -569,25 +563,20 @@ MemoContent build_memo(const MemoInput& in) {
     for (std::size_t k = 0; k < slope_with_section; ++k) {
         const auto& f = r.slope_findings[slope_section_of[k]];
         MemoSection sec;
-        sec.finding_class = std::string(to_string(f.finding_class));
-        sec.heading = std::to_string(with_section + k + 1) + ". " + capitalised(to_string(f.finding_class)) +
+        sec.finding_class = std::string(to_string(f.cls));
+        sec.heading = std::to_string(with_section + k + 1) + ". " + capitalised(to_string(f.cls)) +
                       ": " + slope_strata_words(f) + " (" + f.y + " on " + f.x + ")";
         sec.lead = slope_lead(f);
         sec.figures = slope_figures(f, r.alpha);
         sec.strata = slope_strata(f);
         if (in.table) sec.scatter = slope_chart(*in.table, f, bins, max_levels);
-        std::optional<causal::Verdict> v;
-        std::string why;
-        if (graph) {
-            auto attempt = causal::decide(*graph, f.x, f.y, f.strata);
-            if (attempt) v = std::move(*attempt);
-            else why = attempt.error().message;
-        }
+        const causal::Verdict* v = f.verdict ? &f.verdict->verdict : nullptr;
+        const std::string& why = f.verdict_problem;
         if (diagram) {
             std::vector<causal::NamedRole> roles;
             if (graph)
                 if (auto rep = causal::analyse_adjustment(*graph, f.x, f.y)) roles = rep->roles;
-            sec.diagram = diagram_of(*diagram, diagram_name, v ? &*v : nullptr, roles, f.strata);
+            sec.diagram = diagram_of(*diagram, diagram_name, v, roles, f.strata);
         }
         if (v) {
             const std::string answer = v->answer == causal::Answer::Stratified
@@ -596,12 +585,8 @@ MemoContent build_memo(const MemoInput& in) {
                                        : v->answer == causal::Answer::Both   ? "both slopes (they estimate the same effect)"
                                                                              : "neither slope as shown";
             sec.verdict = "Which view answers the question: " + answer + ". " + v->reason;
-            if (v->answer == causal::Answer::OtherSet && v->standardise_over && in.table) {
-                SlopeQuestion fq = sq;
-                fq.x = f.x, fq.y = f.y, fq.covariates = f.covariates;
-                auto e = within_slope_over(*in.table, fq, *v->standardise_over, bins, max_levels);
-                sec.verdict += estimate_sentence(e, *v->standardise_over, "within slope", slope, sq.alpha);
-            }
+            if (v->answer == causal::Answer::OtherSet && v->standardise_over)
+                sec.verdict += estimate_sentence(*f.verdict, "within slope", slope, sq.alpha);
         } else if (diagram) {
             sec.verdict = "The diagram cannot judge this finding: " + (why.empty() ? "the diagram is not valid" : why) + ".";
         } else {

@@ -8,7 +8,7 @@
 #include <vector>
 
 #include "core/causal/verdict.h"
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 #include "core/report/scan_json.h"
 #include "core/scan/scan_result.h"
 #include "core/table/table.h"
@@ -108,14 +108,12 @@ struct MemoInput {
     const ScanResult* scan = nullptr;
     DataInfo data;                                    ///< path, SHA-256, rows read
     const project::Project* project = nullptr;        ///< title, analyst, reviews, diagram, page size
-    std::vector<std::optional<causal::Verdict>> verdicts;  ///< per rate finding (scan order); may be empty
-                                                      ///< (slope verdicts are decided from the diagram)
     std::string date;                                 ///< "2026-12-02"; the caller's clock, for reproducibility
     std::string data_change;                          ///< DataChange::message when changed, else empty
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
-    const Table* table = nullptr;                     ///< the rows, for the trend charts and the estimate a
-                                                      ///< verdict points to over another set
-                                                      ///< (core/scan/estimate_over); null → neither
+    const Table* table = nullptr;                     ///< the rows, for the trend charts; null → none
+                                                      ///< (verdicts and their estimates come with the
+                                                      ///< findings: core/audit/verdicts.h)
 };
 
 /// The caution every memo closes with.

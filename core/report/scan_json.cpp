@@ -6,6 +6,7 @@
 
 #include "core/report/json_number.h"
 #include "core/report/slope_json.h"
+#include "core/report/verdict_json.h"
 
 namespace foldline {
 
@@ -18,91 +19,6 @@ json num(double x) { return json_number(x); }
 json interval(const stats::Interval& i) { return json::array({num(i.lo), num(i.hi)}); }
 
 }  // namespace
-
-json rate_finding_to_json(const RateFinding& f) {
-    json j;
-    j["kind"] = "rate";
-    j["strata"] = f.strata;
-    j["focal"] = f.focal;
-    j["reference"] = f.reference;
-    j["class"] = std::string(to_string(f.cls));
-    j["reversal"] = f.reversal();
-    j["direction_flip"] = f.direction_flip;
-    j["p_reversal"] = num(f.p_reversal);
-    j["q_value"] = num(f.q_value);
-    j["stability"] = num(f.stability);
-    j["change"] = num(f.change);
-    j["rows_used"] = num(f.rows_used);
-    const auto& c = f.crude;
-    j["crude"] = {{"n_focal", num(c.n_focal)},
-                  {"pos_focal", num(c.pos_focal)},
-                  {"n_reference", num(c.n_reference)},
-                  {"pos_reference", num(c.pos_reference)},
-                  {"rate_focal", num(c.rate_focal)},
-                  {"rate_focal_ci", interval(c.rate_focal_ci)},
-                  {"rate_reference", num(c.rate_reference)},
-                  {"rate_reference_ci", interval(c.rate_reference_ci)},
-                  {"rd", num(c.rd)},
-                  {"rd_ci", interval(c.rd_ci)},
-                  {"rr", num(c.rr)},
-                  {"or", num(c.odds_ratio)},
-                  {"selection_ratio", num(c.selection_ratio)},
-                  {"below_four_fifths", c.below_four_fifths},
-                  {"z", num(c.z)},
-                  {"p", num(c.p)}};
-    const auto& a = f.adjusted;
-    j["adjusted"] = {{"mh_or", num(a.mh_or.estimate)},
-                     {"mh_or_ci", interval(a.mh_or.ci)},
-                     {"mh_rr", num(a.mh_rr.estimate)},
-                     {"mh_rr_ci", interval(a.mh_rr.ci)},
-                     {"mh_rd", num(a.mh_rd.greenland_robins.estimate)},
-                     {"mh_rd_ci", interval(a.mh_rd.greenland_robins.ci)},
-                     {"mh_rd_se_sato", num(a.mh_rd.se_sato)},
-                     {"std_rate_focal", num(a.standardized.rate_focal)},
-                     {"std_rate_reference", num(a.standardized.rate_reference)},
-                     {"std_rd", num(a.standardized.rd)},
-                     {"std_rd_ci", interval(a.standardized.rd_ci)}};
-    j["cmh"] = {{"statistic", num(f.cmh.statistic)},
-                {"p", num(f.cmh.p)},
-                {"statistic_corrected", num(f.cmh.statistic_corrected)},
-                {"p_corrected", num(f.cmh.p_corrected)},
-                {"z", num(f.cmh.z)}};
-    j["breslow_day"] = {{"statistic", num(f.breslow_day.statistic_tarone)},
-                        {"p", num(f.breslow_day.p_tarone)},
-                        {"statistic_uncorrected", num(f.breslow_day.statistic)},
-                        {"p_uncorrected", num(f.breslow_day.p)},
-                        {"df", num(f.breslow_day.df)},
-                        {"strata_used", f.breslow_day.strata_used}};
-    j["decomposition"] = {{"crude_gap", num(f.decomposition.crude_gap)},
-                          {"within", num(f.decomposition.within)},
-                          {"composition", num(f.decomposition.composition)}};
-    j["e_value"] = {{"estimate", num(f.e_value.estimate)}, {"ci_limit", num(f.e_value.ci_limit)}};
-    json rows = json::array();
-    for (const auto& r : f.strata_table) {
-        rows.push_back({{"level", r.level},
-                        {"levels", r.levels},
-                        {"n_focal", num(r.n_focal)},
-                        {"pos_focal", num(r.pos_focal)},
-                        {"n_reference", num(r.n_reference)},
-                        {"pos_reference", num(r.pos_reference)},
-                        {"rate_focal", num(r.rate_focal)},
-                        {"rate_focal_ci", interval(r.rate_focal_ci)},
-                        {"rate_reference", num(r.rate_reference)},
-                        {"rate_reference_ci", interval(r.rate_reference_ci)},
-                        {"rd", num(r.rd)},
-                        {"rd_ci", interval(r.rd_ci)},
-                        {"selection_ratio", num(r.selection_ratio)},
-                        {"share", num(r.share)},
-                        {"informative", r.informative},
-                        {"reason", r.reason}});
-    }
-    j["strata_table"] = std::move(rows);
-    j["uninformative"] = f.uninformative;
-    j["informative_strata"] = f.informative_strata;
-    if (!f.verdict_detail.empty()) j["verdict"] = json::parse(f.verdict_detail);
-    else j["verdict"] = f.verdict.empty() ? json(nullptr) : json({{"answer", f.verdict}});
-    return j;
-}
 
 json candidates_to_json(const std::vector<std::string>& names, const std::vector<std::string>& origins) {
     json cands = json::array();
@@ -133,8 +49,8 @@ json scan_to_json_summary(const ScanResult& r) {
         if (f.reversal()) reversals.push_back(f.strata);
     }
     for (const auto& f : r.slope_findings) {
-        counts[std::string(to_string(f.finding_class))] = counts[std::string(to_string(f.finding_class))].get<int>() + 1;
-        if (f.finding_class == FindingClass::Reversal) slope_reversals.push_back(f.strata);
+        counts[std::string(to_string(f.cls))] = counts[std::string(to_string(f.cls))].get<int>() + 1;
+        if (f.cls == FindingClass::Reversal) slope_reversals.push_back(f.strata);
     }
     return {{"checks", r.rate_findings.size() + r.slope_findings.size()},
             {"rate_checks", r.rate_findings.size()},
@@ -175,6 +91,7 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     json findings = json::array();
     for (const auto& f : r.rate_findings) findings.push_back(rate_finding_to_json(f));
     for (const auto& f : r.slope_findings) findings.push_back(to_json(f));
+    if (r.latent) findings.push_back(to_json(*r.latent));
     if (!r.slope_question.x.empty()) {
         j["slope_question"] = {{"x", r.slope_question.x}, {"y", r.slope_question.y}};
         // Only when given, so documents of unadjusted trends keep their bytes.
@@ -189,7 +106,7 @@ namespace {
 
 // A streaming writer for the bulk of the document (the rate findings and their stratum tables):
 // building them as a JSON tree first cost more than the whole scan. Produces exactly the values
-// of rate_finding_to_json (checked by the test), numbers in shortest round-trip form.
+// rate_finding_to_json parses what it writes. Numbers in shortest round-trip form.
 class Writer {
 public:
     explicit Writer(std::string& out) : o_(out) {}
@@ -281,7 +198,7 @@ void write_rate_finding(Writer& w, const RateFinding& f) {
     w.raw(",");
     w.field("p_reversal", f.p_reversal);
     w.field("q_value", f.q_value);
-    w.field("stability", f.stability);
+    w.field("stability", f.stability.share);
     w.field("change", f.change);
     w.field("rows_used", f.rows_used);
     const auto& c = f.crude;
@@ -375,19 +292,19 @@ void write_rate_finding(Writer& w, const RateFinding& f) {
     w.raw(",");
     w.field("informative_strata", static_cast<double>(f.informative_strata));
     w.key("verdict");
-    if (!f.verdict_detail.empty()) {
-        w.raw(f.verdict_detail);
-    } else if (f.verdict.empty()) {
-        w.raw("null");
-    } else {
-        w.raw("{\"answer\":");
-        w.str(f.verdict);
-        w.raw("}");
-    }
+    w.raw(f.verdict ? report::verdict_to_json(*f.verdict).dump() : std::string("null"));
     w.raw("}");
 }
 
 }  // namespace
+
+json rate_finding_to_json(const RateFinding& f) {
+    // One writer per kind: the tree is the streamed text, parsed.
+    std::string text;
+    Writer w(text);
+    write_rate_finding(w, f);
+    return json::parse(text);
+}
 
 std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     // Everything but the rate findings through the JSON library, then the findings streamed in.
@@ -407,6 +324,7 @@ std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     doc["summary"] = scan_to_json_summary(r);
     json slopes = json::array();
     for (const auto& f : r.slope_findings) slopes.push_back(to_json(f));
+    if (r.latent) slopes.push_back(to_json(*r.latent));
     doc.erase("findings");
     std::string out = doc.dump();
     out.pop_back();  // the closing brace

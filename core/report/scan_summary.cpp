@@ -64,7 +64,7 @@ void rate_part(std::ostream& os, const ScanResult& r, std::size_t top) {
                       std::string(to_string(f.cls)).c_str(), label.c_str(), fmt(f.crude.rd, "%+.4f").c_str(),
                       fmt(a.mh_rd.greenland_robins.estimate, "%+.4f").c_str(),
                       fmt(a.standardized.rd, "%+.4f").c_str(), orci.c_str(), qfmt(f.q_value).c_str(),
-                      fmt(f.stability, "%.2f").c_str());
+                      fmt(f.stability.share, "%.2f").c_str());
         os << line;
     }
     const std::size_t flagged = r.rate_findings.size() - static_cast<std::size_t>(counts[4]);
@@ -79,7 +79,7 @@ void rate_part(std::ostream& os, const ScanResult& r, std::size_t top) {
 
 void slope_part(std::ostream& os, const ScanResult& r, std::size_t top) {
     int sc[5] = {0, 0, 0, 0, 0};
-    for (const auto& f : r.slope_findings) ++sc[rank(f.finding_class)];
+    for (const auto& f : r.slope_findings) ++sc[rank(f.cls)];
     const auto& cov = r.slope_question.covariates;
     std::string adjusted;
     for (std::size_t i = 0; i < cov.size(); ++i) adjusted += (i ? ", " : "") + cov[i];
@@ -93,7 +93,7 @@ void slope_part(std::ostream& os, const ScanResult& r, std::size_t top) {
     os << line;
     std::size_t n = 0, flips = 0;
     for (const auto& f : r.slope_findings) {
-        if (f.finding_class == FindingClass::Stable) {
+        if (f.cls == FindingClass::Stable) {
             if (opposite_signs(shown_pooled(f), shown_within(f))) ++flips;
             continue;
         }
@@ -102,9 +102,9 @@ void slope_part(std::ostream& os, const ScanResult& r, std::size_t top) {
         std::string label;
         for (std::size_t i = 0; i < f.strata.size(); ++i) label += (i ? " \u00d7 " : "") + f.strata[i];
         std::snprintf(line, sizeof line, "%-14s %-40s %12s %12s %9s %6s\n",
-                      std::string(to_string(f.finding_class)).c_str(), label.c_str(),
+                      std::string(to_string(f.cls)).c_str(), label.c_str(),
                       fmt(shown_pooled(f), "%+.4g").c_str(), fmt(shown_within(f), "%+.4g").c_str(),
-                      qfmt(f.q_value).c_str(), f.stability_draws > 0 ? fmt(f.stability, "%.2f").c_str() : "-");
+                      qfmt(f.q_value).c_str(), f.stability.draws > 0 ? fmt(f.stability.share, "%.2f").c_str() : "-");
         os << line;
     }
     const std::size_t flagged = r.slope_findings.size() - static_cast<std::size_t>(sc[4]);
@@ -139,6 +139,7 @@ std::string scan_summary_text(const ScanResult& r, const std::string& path, std:
     }
     if (!q.outcome.empty()) rate_part(os, r, top);
     if (!r.slope_findings.empty()) slope_part(os, r, top);
+    if (r.latent) os << "\nHidden-group hint (not a finding): " << r.latent->note << "\n";
     if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
     os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
           "counsel and licensed practice.\n";

@@ -1,6 +1,6 @@
 #pragma once
 // The readable ranked summary of a scan (rate comparisons and trend checks) that `foldline scan`
-// prints; the slope-only summary of a SlopeScanResult is core/report/slope_summary.h.
+// prints, for every kind of question.
 #include <cstddef>
 #include <string>
 

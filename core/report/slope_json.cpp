@@ -1,4 +1,5 @@
 #include "core/report/slope_json.h"
+#include "core/report/verdict_json.h"
 
 #include <cmath>
 
@@ -29,12 +30,12 @@ json to_json(const SlopeFinding& f) {
     j["y"] = f.y;
     j["covariates"] = f.covariates;
     j["strata"] = f.strata;
-    j["class"] = std::string(to_string(f.finding_class));
+    j["class"] = std::string(to_string(f.cls));
     j["reversal"] = f.reversal;
     j["p_reversal"] = num(f.p_reversal);
     j["q_value"] = num(f.q_value);
-    j["stability"] = num(f.stability);
-    j["stability_draws"] = f.stability_draws;
+    j["stability"] = num(f.stability.share);
+    j["stability_draws"] = f.stability.draws;
     j["linear_probability"] = f.linear_probability;
     if (f.linear_probability)
         j["note"] = "The outcome is 0/1: slopes are linear-probability slopes (change in the "
@@ -84,7 +85,7 @@ json to_json(const SlopeFinding& f) {
     }
     j["groups"] = std::move(groups);
     j["uninformative"] = f.uninformative;
-    j["verdict"] = f.verdict_detail.empty() ? json(nullptr) : json::parse(f.verdict_detail);
+    j["verdict"] = f.verdict ? report::verdict_to_json(*f.verdict) : json(nullptr);
     return j;
 }
 
@@ -112,35 +113,6 @@ json to_json(const LatentFinding& f) {
                          {"slope", num(c.slope)}});
     j["components"] = std::move(comps);
     j["note"] = f.note;
-    return j;
-}
-
-json slope_scan_to_json(const SlopeScanResult& r, const DataInfo& data) {
-    json j;
-    j["version"] = kScanJsonVersion;
-    j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
-    const auto& q = r.question;
-    const bool lp = !r.findings.empty() && r.findings.front().linear_probability;
-    j["question"] = {{"kind", "slope"},
-                     {"outcome", q.y},
-                     {"exposure", q.x},
-                     {"covariates", q.covariates},
-                     {"linear_probability", lp}};
-    j["settings"] = {{"alpha", q.alpha}, {"bootstrap", q.bootstrap}, {"seed", q.seed}};
-    j["candidates"] = candidates_to_json(r.candidates, r.candidate_origin);
-    j["excluded"] = excluded_to_json(r.excluded);
-    json counts = empty_class_counts();
-    json reversals = json::array();
-    json findings = json::array();
-    for (const auto& f : r.findings) {
-        const std::string c(to_string(f.finding_class));
-        counts[c] = counts[c].get<int>() + 1;
-        if (f.reversal) reversals.push_back(f.strata);
-        findings.push_back(to_json(f));
-    }
-    if (r.latent) findings.push_back(to_json(*r.latent));
-    j["summary"] = {{"checks", r.findings.size()}, {"classes", counts}, {"reversals", reversals}};
-    j["findings"] = std::move(findings);
     return j;
 }
 

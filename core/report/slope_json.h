@@ -19,10 +19,4 @@ nlohmann::json to_json(const SlopeFinding& f);
 /// slope, ...}], "pooled_slope", "opposite", "note", ...}. Never fails.
 nlohmann::json to_json(const LatentFinding& f);
 
-/// The whole scan document for a slope question, laid out as scan_to_json's: "version",
-/// "data", "question" {kind "slope", outcome, exposure, covariates, linear_probability},
-/// "settings", "candidates", "excluded", "summary" {checks, classes, reversals}, "findings"
-/// (ranked slope findings, then the latent finding when there is one). Never fails.
-nlohmann::json slope_scan_to_json(const SlopeScanResult& result, const DataInfo& data);
-
 }  // namespace foldline

@@ -1,31 +1,16 @@
 #pragma once
-// A diagram's verdict on a finding, with the estimate that answers the question: the pooled
-// figure, the finding's own stratified figure, or a standardisation over another observed set
-// that the diagram names (computed here with the same engine, over the joint strata of that set).
-#include <string>
-
+// JSON form of a finding's verdict (core/audit/verdicts.h computes it): causal::Verdict's JSON
+// (core/report/causal_json.h) plus `adjusted_estimate` {view: "pooled"|"stratified"|
+// "standardised", over: [columns], measure: "risk_difference"|"slope", estimate, ci} — null when
+// the effect is not identifiable by adjustment or the estimate is undefined — and, when an
+// estimate over another set could not be computed, `estimate_problem` saying why.
 #include <nlohmann/json.hpp>
 
-#include "core/causal/verdict.h"
-#include "core/scan/question.h"
-#include "core/scan/rate_finding.h"
-#include "core/scan/slope_scan.h"
-#include "core/table/table.h"
+#include "core/scan/finding.h"
 
 namespace foldline::report {
 
-/// The verdict object of a rate finding: causal::Verdict's JSON plus `adjusted_estimate`
-/// {view: "pooled"|"stratified"|"standardised", over: [columns], measure: "risk_difference",
-/// estimate, ci} — null when the effect is not identifiable by adjustment, or when the set to
-/// standardise over has no stratum with both groups. `rows` are encode_rows(table, question) of
-/// the question the finding answers.
-nlohmann::json rate_verdict_json(const Table& table, const RowCells& rows,
-                                 const RateFinding& finding, const causal::Verdict& verdict, double alpha);
-
-/// The verdict object of a slope finding; the estimate is the pooled slope, the finding's
-/// within slope, or the within slope over another set (measure "slope"), each adjusted for the
-/// question's covariates when it has any; null as above.
-nlohmann::json slope_verdict_json(const Table& table, const SlopeQuestion& question, const SlopeFinding& finding,
-                                  const causal::Verdict& verdict);
+/// The verdict object of any finding.
+nlohmann::json verdict_to_json(const FindingVerdict& verdict);
 
 }  // namespace foldline::report

@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "core/scan/classify.h"
+#include "core/scan/finding.h"
 #include "core/scan/finding_class.h"
 #include "core/stats/decomposition.h"
 #include "core/stats/evalue.h"
@@ -50,10 +51,12 @@ struct AdjustedFigures {
     stats::Standardized standardized; ///< back-door adjustment, standard = pooled stratum mix
 };
 
-struct RateFinding {
+/// A rate comparison stratified by one column or a pair (the shared part in FindingHeader:
+/// strata, class, p_reversal, q_value, stability, verdict).
+struct RateFinding : FindingHeader {
+    RateFinding() { kind = FindingKind::Rate; }
     std::size_t comparison = 0;       ///< index into Question::focal
     std::string focal, reference;
-    std::vector<std::string> strata;  ///< stratifier column names (1, or 2 for a pair)
     double rows_used = 0;             ///< weighted rows in the comparison with known strata
 
     CrudeFigures crude;
@@ -68,24 +71,11 @@ struct RateFinding {
     std::size_t informative_strata = 0;
     bool strata_disagree = false;       ///< informative strata with RD of both signs
 
-    FindingClass cls = FindingClass::Stable;
     bool direction_flip = false;        ///< MH OR on the other side of 1 from the crude RD
-    double p_reversal = 1;              ///< intersection-union p (see classify.h)
-    double q_value = 1;                 ///< BH over every finding of the scan
-    double stability;                   ///< share of bootstrap resamples keeping the class; NaN = not run
     double change = 0;                  ///< |crude RD - MH RD|, for ranking
     ClassInputs class_inputs{};         ///< what the class was decided from (kept to re-decide)
 
-    /// Filled by the causal layer when a diagram is given (which view answers the question);
-    /// empty otherwise.
-    std::string verdict;
-    /// The full verdict as a compact JSON object (answer, roles, valid sets, adjusted estimate,
-    /// reason) when a diagram was given; empty otherwise. Written by core/report/verdict_json.
-    std::string verdict_detail;
-
     bool reversal() const { return cls == FindingClass::Reversal; }
-    /// "product" or "product × branch"; "" when no stratifier is named.
-    std::string label() const;
 };
 
 }  // namespace foldline

@@ -65,7 +65,7 @@ std::string join_levels(const std::vector<std::string>& v) {
 
 }  // namespace
 
-std::string RateFinding::label() const {
+std::string FindingHeader::label() const {
     std::string s;
     for (std::size_t i = 0; i < strata.size(); ++i) s += (i ? " \u00d7 " : "") + strata[i];
     return s;
@@ -75,7 +75,6 @@ RateFinding analyse_strata(const stats::Strata& strata, const std::vector<std::v
                            const std::vector<std::string>& names, double alpha) {
     RateFinding f;
     f.strata = names;
-    f.stability = kNaN;
     const auto p = stats::pooled(strata);
     f.rows_used = p.total();
 
@@ -163,47 +162,6 @@ double class_stability(const stats::Strata& strata, FindingClass cls, double alp
     return stats::bootstrap_share(strata, draws, seed, [&](const stats::Strata& s) {
         const auto in = quick_inputs(s, need_h);
         return classify(in, reversal_p(in), alpha) == cls;
-    });
-}
-
-void apply_fdr(ScanResult& r) {
-    std::vector<double> p;
-    p.reserve(r.rate_findings.size() + r.slope_findings.size());
-    for (const auto& f : r.rate_findings) p.push_back(f.p_reversal);
-    for (const auto& f : r.slope_findings) p.push_back(f.p_reversal);
-    const auto q = stats::benjamini_hochberg(p);
-    const std::size_t nr = r.rate_findings.size();
-    for (std::size_t i = 0; i < nr; ++i) {
-        auto& f = r.rate_findings[i];
-        f.q_value = std::isnan(q[i]) ? 1.0 : q[i];
-        f.cls = classify(f.class_inputs, f.q_value, r.alpha);
-    }
-    for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
-        auto& f = r.slope_findings[i];
-        f.q_value = q[nr + i];
-        classify(f, r.alpha);
-    }
-}
-
-void rank_findings(ScanResult& r) {
-    std::stable_sort(r.rate_findings.begin(), r.rate_findings.end(), [](const RateFinding& a, const RateFinding& b) {
-        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
-        if (a.q_value != b.q_value) return a.q_value < b.q_value;
-        if (a.change != b.change) return a.change > b.change;
-        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
-        return a.label() < b.label();
-    });
-    auto change = [](const SlopeFinding& f) {
-        const double c = std::fabs(f.pooled.slope - f.within.slope);
-        return std::isnan(c) ? 0.0 : c;
-    };
-    auto qv = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
-    std::stable_sort(r.slope_findings.begin(), r.slope_findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
-        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
-        if (qv(a) != qv(b)) return qv(a) < qv(b);
-        if (change(a) != change(b)) return change(a) > change(b);
-        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
-        return a.strata < b.strata;
     });
 }
 
@@ -352,7 +310,7 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesO
                 stats::Strata canonical;
                 canonical.reserve(st.size());
                 for (auto z : order) canonical.push_back(st[z]);
-                f.stability = class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed);
+                f.stability = {class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed), opt.bootstrap};
                 work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
             }
         };

@@ -2,6 +2,7 @@
 // Everything one scan produced, in plain structs: rate findings and slope findings side by side;
 // apply_fdr controls the false discovery rate over both kinds together and rank_findings orders
 // each list.
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -21,19 +22,23 @@ struct ScanResult {
     std::vector<RateFinding> rate_findings;  ///< ranked (see rank_findings)
     std::vector<SlopeFinding> slope_findings;  ///< trend checks of the same scan, ranked
     SlopeQuestion slope_question;            ///< what the slope findings answer (x, y empty if none)
+    std::optional<LatentFinding> latent;     ///< the hidden-group hint of a trend audit, when asked
     double alpha = 0.05;
     int bootstrap = 0;
     unsigned long long seed = 0;
     bool cancelled = false;                  ///< stopped early: findings are incomplete
 };
 
-/// BH q-values over every finding's p_reversal (rate and slope findings together; a NaN p gets
-/// no q-value and does not count), then each class recomputed with its q-value. No-op on an
-/// empty result.
+/// The one FDR step of every scan: BH q-values over every finding's p_reversal (rate and slope
+/// findings together; a NaN p gets no q-value and does not count), then each class recomputed
+/// with its q-value and a slope finding's stability re-read for its new class. No-op on an empty
+/// result.
 void apply_fdr(ScanResult& result);
 
-/// Orders each list (empty lists stay empty) by class (reversal first), then q-value, then size of the change (largest
-/// first: |crude RD - MH RD| for rates, |pooled - within slope| for slopes), then label.
+/// The one ranking of every scan: orders each list (empty lists stay empty) by class (reversal
+/// first), then q-value, then size of the change (largest first: |crude RD - MH RD| for rates,
+/// |pooled - within slope| for slopes, adjusted slopes when there are covariates), then fewer
+/// stratifiers, then label.
 void rank_findings(ScanResult& result);
 
 }  // namespace foldline

@@ -275,11 +275,11 @@ void bootstrap_stability(SlopeFinding& f, const Prepared& d, const std::vector<s
         const SlopeFinding r = figures(ms, d.p > 0 ? &mm : nullptr, pooled, d.p > 0 ? &pm : nullptr,
                                        kNaN, q.alpha);
         ++draws;
-        ++f.draws_by_class[static_cast<std::size_t>(rank(r.finding_class))];
+        ++f.draws_by_class[static_cast<std::size_t>(rank(r.cls))];
     }
-    f.stability_draws = draws;
-    f.stability = draws > 0 ? static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) / draws
-                            : 0.0;
+    f.stability.draws = draws;
+    f.stability.share = draws > 0 ? static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.cls))]) / draws
+                            : kNaN;
 }
 
 // The question's names and each group's labels ("(missing)" for the spare code).
@@ -351,7 +351,7 @@ Result<SlopeFinding> run_check(const Scan& s, const Column* ca, const Column* cb
                              s.d.p > 0 ? &s.d.pooled_matrix : nullptr, s.d.hc3, s.q.alpha);
     f.linear_probability = s.d.linear_probability;
     name_groups(f, s.q, ca->name, ca->levels, cb ? &cb->name : nullptr, cb ? &cb->levels : nullptr);
-    if (s.q.bootstrap > 0 && f.finding_class != FindingClass::Stable) {
+    if (s.q.bootstrap > 0 && f.cls != FindingClass::Stable) {
         std::vector<std::uint32_t> joint(codes_a.size());
         for (std::size_t i = 0; i < joint.size(); ++i)
             joint[i] = static_cast<std::uint32_t>(b ? std::size_t{codes_a[i]} * kb + b[i]
@@ -482,12 +482,12 @@ FindingClass classify(SlopeFinding& f, double alpha) {
         down = down || g.slope < 0;
     }
     const bool pooled_sig = pp <= alpha, within_sig = wp <= alpha;
-    if (f.reversal) f.finding_class = FindingClass::Reversal;
-    else if (up && down && f.equal_slopes.p <= alpha) f.finding_class = FindingClass::Heterogeneous;
-    else if (pooled_sig && !within_sig) f.finding_class = FindingClass::Explained;
-    else if (!pooled_sig && within_sig) f.finding_class = FindingClass::Masked;
-    else f.finding_class = FindingClass::Stable;
-    return f.finding_class;
+    if (f.reversal) f.cls = FindingClass::Reversal;
+    else if (up && down && f.equal_slopes.p <= alpha) f.cls = FindingClass::Heterogeneous;
+    else if (pooled_sig && !within_sig) f.cls = FindingClass::Explained;
+    else if (!pooled_sig && within_sig) f.cls = FindingClass::Masked;
+    else f.cls = FindingClass::Stable;
+    return f.cls;
 }
 
 Result<SlopeFinding> check_slope(const Table& table, const SlopeQuestion& q,
@@ -544,41 +544,6 @@ SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::strin
     return f;
 }
 
-void apply_fdr(std::vector<SlopeFinding>& findings, double alpha) {
-    if (findings.empty()) return;
-    std::vector<double> p;
-    for (const auto& f : findings) p.push_back(f.p_reversal);
-    const std::vector<double> qv = stats::benjamini_hochberg(p);
-    for (std::size_t i = 0; i < findings.size(); ++i) {
-        SlopeFinding& f = findings[i];
-        f.q_value = qv[i];
-        classify(f, alpha);
-        if (f.stability_draws > 0)
-            f.stability = static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.finding_class))]) /
-                          f.stability_draws;
-    }
-}
-
-void rank_findings(std::vector<SlopeFinding>& findings) {
-    auto change = [](const SlopeFinding& f) {
-        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope
-                                    : f.within.slope - f.pooled.slope;
-        return std::isnan(c) ? -1.0 : std::abs(c);
-    };
-    auto label = [](const SlopeFinding& f) {
-        std::string s;
-        for (const auto& n : f.strata) s += n + "\x1f";
-        return s;
-    };
-    auto q = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
-    std::stable_sort(findings.begin(), findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
-        if (rank(a.finding_class) != rank(b.finding_class)) return rank(a.finding_class) < rank(b.finding_class);
-        if (q(a) != q(b)) return q(a) < q(b);
-        if (change(a) != change(b)) return change(a) > change(b);
-        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
-        return label(a) < label(b);
-    });
-}
 
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
                                   const Work& work) {
@@ -642,36 +607,6 @@ Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, st
                  "groups.";
     }
     return f;
-}
-
-Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
-                                       const CandidateOptions& options, bool pairs, bool groups,
-                                       const Work& work) {
-    std::vector<std::string> skip = {q.x, q.y};
-    skip.insert(skip.end(), q.covariates.begin(), q.covariates.end());
-    auto cands = select_candidates(table, skip, options);
-    if (!cands) return cands.error();
-    if (cands->candidates.empty() && !groups)
-        return make_error("no column qualifies as a stratifier", table.source);
-    SlopeScanResult r;
-    r.question = q;
-    r.excluded = cands->excluded;
-    r.rows = table.total_weight();
-    for (const auto& c : cands->candidates) {
-        r.candidates.push_back(c.name);
-        r.candidate_origin.push_back(c.origin);
-    }
-    auto found = scan_slopes(table, q, *cands, pairs, work);
-    if (!found) return found.error();
-    r.findings = std::move(found.value());
-    apply_fdr(r.findings, q.alpha);
-    rank_findings(r.findings);
-    if (groups) {
-        auto latent = find_groups(table, q, q.seed, work);
-        if (!latent) return latent.error();
-        r.latent = std::move(latent.value());
-    }
-    return r;
 }
 
 }  // namespace foldline

@@ -27,7 +27,7 @@
 #include "core/common/error.h"
 #include "core/common/progress.h"
 #include "core/scan/candidates.h"
-#include "core/scan/finding_class.h"
+#include "core/scan/finding.h"
 #include "core/stats/regression.h"
 #include "core/table/table.h"
 
@@ -73,16 +73,13 @@ struct WithinSlope {
     PrecisionWeightedSlope precision_weighted;  ///< inverse-variance mean of informative strata
 };
 
-struct SlopeFinding {
-    std::vector<std::string> strata;  ///< stratifier column names (1 or 2)
+/// A trend check stratified by one column or a pair (the shared part in FindingHeader: strata,
+/// class, p_reversal, q_value, stability {share, draws}, verdict).
+struct SlopeFinding : FindingHeader {
+    SlopeFinding() { kind = FindingKind::Slope; }
     std::string x, y;
     std::vector<std::string> covariates;
-    FindingClass finding_class = FindingClass::Stable;
     bool reversal = false;
-    double p_reversal = 0;   ///< intersection-union p; NaN when a slope is undefined
-    double q_value = 0;      ///< NaN until the caller fills it (Benjamini-Hochberg over the scan)
-    double stability = 0;    ///< share of resamples keeping the class; 0 when not computed
-    int stability_draws = 0; ///< resamples behind `stability` (0: not computed)
     std::array<int, 5> draws_by_class{};  ///< resamples per class, indexed by rank(FindingClass)
     PooledSlope pooled;      ///< unadjusted
     WithinSlope within;      ///< unadjusted
@@ -90,9 +87,6 @@ struct SlopeFinding {
     SlopeEstimate adjusted_pooled;
     SlopeEstimate adjusted_within;
     EqualSlopesTest equal_slopes;
-    /// A diagram's verdict on this finding as a compact JSON object (core/report/verdict_json);
-    /// empty when no diagram was given.
-    std::string verdict_detail;
     bool linear_probability = false;  ///< y is 0/1: slopes are differences in probability
     std::vector<SlopeGroup> groups;   ///< non-empty strata, in code order
     std::vector<std::string> uninformative;  ///< labels of groups with informative == false
@@ -127,15 +121,6 @@ SlopeFinding slope_finding_from_moments(const SlopeQuestion& q, const std::strin
                                         const std::vector<BivariateMoments>& strata,
                                         const BivariateMoments& pooled, double hc3,
                                         bool linear_probability);
-
-/// Benjamini-Hochberg q-values over every finding's p_reversal (core/stats/fdr.h), then each
-/// class recomputed with its q-value and its stability re-read for the new class from
-/// draws_by_class. No-op on an empty vector.
-void apply_fdr(std::vector<SlopeFinding>& findings, double alpha);
-
-/// Orders findings by class (reversal first), then q-value, then the size of the change
-/// |within − pooled| (largest first), then fewer stratifiers, then label.
-void rank_findings(std::vector<SlopeFinding>& findings);
 
 /// Every check for a candidate list: each candidate alone and, if `pairs`, every pair (i < j),
 /// singles first, in candidate order. q-values are left NaN for the caller. An empty candidate
@@ -173,23 +158,5 @@ struct LatentFinding {
 /// numeric, fewer than 12 usable rows, cancellation.
 Result<LatentFinding> find_groups(const Table& table, const SlopeQuestion& q, std::uint64_t seed,
                                   const Work& work = {});
-
-/// A whole slope scan, as `foldline scan` with a numeric outcome and exposure runs it.
-struct SlopeScanResult {
-    SlopeQuestion question;
-    std::vector<std::string> candidates;        ///< stratifier names
-    std::vector<std::string> candidate_origin;  ///< as select_candidates says
-    std::vector<Exclusion> excluded;
-    std::vector<SlopeFinding> findings;         ///< q-values filled, ranked
-    std::optional<LatentFinding> latent;        ///< with find_groups only
-    double rows = 0;                            ///< Σ weights of the table
-};
-
-/// select_candidates (skipping x, y and the covariates), scan_slopes, apply_fdr, rank_findings
-/// and, when `groups` is true, find_groups with q.seed. Errors: those of the steps, and no
-/// column qualifying as a stratifier while `groups` is false.
-Result<SlopeScanResult> run_slope_scan(const Table& table, const SlopeQuestion& q,
-                                       const CandidateOptions& options, bool pairs, bool groups,
-                                       const Work& work = {});
 
 }  // namespace foldline

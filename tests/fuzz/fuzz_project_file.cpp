@@ -6,7 +6,7 @@
 #include <string>
 #include <string_view>
 
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 
 using namespace foldline;
 using namespace foldline::project;

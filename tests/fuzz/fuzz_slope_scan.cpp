@@ -13,6 +13,7 @@
 #include <string>
 #include <vector>
 
+#include "core/audit/run_audit.h"
 #include "core/scan/slope_scan.h"
 
 using namespace foldline;
@@ -53,12 +54,12 @@ void check_finding(const SlopeFinding& f) {
     finite_or_nan(f.p_reversal);
     probability_or_nan(f.p_reversal);
     probability_or_nan(f.q_value);
-    if (f.stability < 0 || f.stability > 1) std::abort();
+    if (f.stability.share < 0 || f.stability.share > 1) std::abort();
     for (const SlopeGroup& g : f.groups) {
         for (double v : {g.n, g.rows, g.slope, g.se, g.ci_low, g.ci_high, g.p, g.r}) finite_or_nan(v);
         probability_or_nan(g.p);
     }
-    if (f.reversal || f.finding_class == FindingClass::Reversal) {
+    if (f.reversal || f.cls == FindingClass::Reversal) {
         const double pooled = f.adjusted ? f.adjusted_pooled.slope : f.pooled.slope;
         const double within = f.adjusted ? f.adjusted_within.slope : f.within.slope;
         if (std::isnan(pooled) || std::isnan(within) || std::isnan(f.p_reversal)) std::abort();
@@ -127,13 +128,21 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
         check_finding(*f);
     }
 
-    auto scan = run_slope_scan(t, q, CandidateOptions{}, /*pairs=*/true,
-                               /*groups=*/(flags & 128) != 0);
+    // The whole slope question through the audit service, as `foldline scan` runs it.
+    project::AuditSpec spec;
+    spec.question.kind = project::QuestionKind::Slope;
+    spec.question.outcome = q.y;
+    spec.question.exposure = q.x;
+    spec.question.covariates = q.covariates;
+    spec.scan.slope_bootstrap = q.bootstrap;
+    spec.scan.seed = q.seed;
+    spec.scan.find_groups = (flags & 128) != 0;
+    auto scan = audit::scan_table(t, spec);
     if (!scan.ok()) {
         if (scan.error().message.empty()) std::abort();
         return 0;
     }
-    for (const SlopeFinding& f : scan->findings) check_finding(f);
+    for (const SlopeFinding& f : scan->slope_findings) check_finding(f);
     if (scan->latent) {
         for (double b2 : scan->latent->bic) finite_or_nan(b2);
         for (const LatentComponent& k : scan->latent->components)

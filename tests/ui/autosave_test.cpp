@@ -1,7 +1,7 @@
 // tests/ui/autosave_test.cpp <-> ui/autosave.h (and the workbench's recovery path in
 // ui/main_window.h): the recovery file's format, when it is written and removed, and a
 // simulated crash followed by a restore.
-#include "core/io/project_file.h"  // core before Qt
+#include "core/audit/project_file.h"  // core before Qt
 
 #include <QFile>
 #include <QFileInfo>

@@ -1,27 +1,38 @@
-// tests/ui/engine_test.cpp <-> ui/engine.h: the workbench's adjusted estimate over a set of any
-// size (the diagram step's "estimate to quote"), through the same core function the CLI's
-// verdicts use. Checked by hand and against statsmodels.
-#include "core/table/table.h"  // core before Qt (see DEVELOPERS.md)
+// tests/ui/engine_test.cpp <-> ui/engine.h: one audit, one truth. A saved audit with settings off
+// every default (a seed above 2^32, a level limit of 7, 6 bins, alpha 0.5, a diagram whose verdict
+// on one finding points to another set) is opened in the workbench and re-run by `foldline run`;
+// the JSON documents and the memos' text must be identical, because both front ends call the one
+// audit service in core/audit.
+#include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/io/csv_reader.h"
+#include "core/report/scan_json.h"
 
+#include <QProcess>
+#include <QStandardPaths>
+#include <QTemporaryDir>
 #include <QtTest>
+
+#include <nlohmann/json.hpp>
 
 #include "ui/demo.h"
 #include "ui/engine.h"
+#include "ui/findings_model.h"
+#include "ui/main_window.h"
+#include "ui/question_page.h"
+#include "ui/scan_page.h"
 
 using namespace foldline;
 using namespace foldline::ui;
 
 namespace {
 
-Column categorical(const std::string& name, const std::vector<std::string>& cells) {
-    std::vector<std::string> levels;
-    std::vector<std::uint32_t> codes;
-    for (const auto& cell : cells) {
-        auto it = std::find(levels.begin(), levels.end(), cell);
-        if (it == levels.end()) it = levels.insert(levels.end(), cell);
-        codes.push_back(static_cast<std::uint32_t>(it - levels.begin()));
-    }
-    return Column::categorical(name, levels, codes);
+constexpr std::uint64_t kSeed = 5000000011ull;  // above 2^32
+
+QString pdf_text(const QString& pdftotext, const QString& pdf) {
+    QProcess p;
+    p.start(pdftotext, {pdf, QStringLiteral("-")});
+    if (!p.waitForFinished(60000) || p.exitCode() != 0) return {};
+    return QString::fromUtf8(p.readAllStandardOutput());
 }
 
 }  // namespace
@@ -29,77 +40,125 @@ Column categorical(const std::string& name, const std::vector<std::string>& cell
 class EngineTest : public QObject {
     Q_OBJECT
 private slots:
-    // Three joint strata of (a, b, c): focal/reference 6/10 vs 3/10, 1/5 vs 6/15, 10/20 vs 4/20.
-    // By hand (direct standardisation to the pooled mix, weights 0.25, 0.25, 0.5):
-    // 0.25 × 0.3 + 0.25 × (−0.2) + 0.5 × 0.3 = 0.175; Wald 95% limits −0.0299779 and 0.3799779
-    // (Var = 0.0109375; z = scipy.stats.norm.ppf(0.975)).
-    void rate_estimate_over_three_columns() {
-        std::vector<std::string> out, grp, a, b, c;
-        auto add = [&](const char* ga, const char* gb, const char* gc, const char* group, int n, int pos) {
-            for (int i = 0; i < n; ++i) {
-                out.push_back(i < pos ? "1" : "0");
-                grp.push_back(group);
-                a.push_back(ga), b.push_back(gb), c.push_back(gc);
-            }
-        };
-        add("x", "x", "x", "F", 10, 6);
-        add("x", "x", "x", "R", 10, 3);
-        add("x", "y", "x", "F", 5, 1);
-        add("x", "y", "x", "R", 15, 6);
-        add("y", "y", "y", "F", 20, 10);
-        add("y", "y", "y", "R", 20, 4);
-        Table t;
-        t.rows = out.size();
-        t.columns = {categorical("cured", out), categorical("group", grp), categorical("a", a), categorical("b", b),
-                     categorical("c", c)};
-        QuestionSpec q;
-        q.outcome = "cured";
-        q.positive = "1";
-        q.exposure = "group";
-        q.focal = "F";
-        q.reference = "R";
-        auto f = adjusted_over(t, q, {"a", "b", "c"});
-        QVERIFY2(f.ok(), f.ok() ? "" : f.error().message.c_str());
-        QVERIFY(qAbs(f->adjusted.value - 0.175) < 1e-12);
-        QVERIFY(qAbs(f->adjusted.lo - -0.02997793991388928) < 1e-9);
-        QVERIFY(qAbs(f->adjusted.hi - 0.3799779399138893) < 1e-9);
-        QCOMPARE(f->strata, (QStringList{"a", "b", "c"}));
-        QVERIFY(!f->slope);
-        // Two columns go the same way: over (a, c) the strata are those of (a, b, c) merged where
-        // b varies within a level of (a, c): (x, x) holds 7 of 15 focal and 9 of 25 reference
-        // positives, so by hand
-        // 0.5 × (7/15 − 9/25) + 0.5 × 0.3 = 0.2033333.
-        auto two = adjusted_over(t, q, {"a", "c"});
-        QVERIFY(two.ok());
-        QVERIFY(qAbs(two->adjusted.value - (0.5 * (7.0 / 15.0 - 9.0 / 25.0) + 0.5 * 0.3)) < 1e-12);
-        // Errors say what is wrong.
-        QVERIFY(!adjusted_over(t, q, {}).ok());
-        auto unknown = adjusted_over(t, q, {"a", "b", "nope"});
-        QVERIFY(!unknown.ok());
-        QVERIFY(QString::fromStdString(unknown.error().message).contains("nope"));
-        auto none = adjusted_over(t, q, {"group", "a", "b"});
-        QVERIFY(!none.ok());
-        QVERIFY(QString::fromStdString(none.error().message).contains("both groups"));
+    void initTestCase() {
+        QCoreApplication::setOrganizationName("FoldlineTest");
+        QCoreApplication::setApplicationName("FoldlineEngineTest");
+        // Both memos carry the same date (core/audit today() honours SOURCE_DATE_EPOCH).
+        qputenv("SOURCE_DATE_EPOCH", "1764806400");
     }
 
-    // sample_data/retail_weeks.csv; statsmodels 0.13.5 OLS weekly_sales ~ promo_spend +
-    // C(store_format:region:quarter) [calc]: slope −3.7510981662171075, 95% CI
-    // −3.978314799084222 to −3.523881533349993 (80 joint strata).
-    void slope_estimate_over_three_columns() {
-        const QString path = find_sample("retail_weeks.csv");
-        if (path.isEmpty()) QSKIP("sample_data/retail_weeks.csv not found");
-        auto t = load_table(path, {}, Work{});
-        QVERIFY(t.ok());
-        QuestionSpec q;
+    // The Question step's settings map to the audit's specification and back without loss.
+    void question_settings_round_trip() {
+        project::AuditSpec base;
+        base.trend = project::TrendSettings{"x", "y", {}};
+        base.scan.bootstrap = 77;
+        ui::QuestionSpec q;
         q.slope = true;
-        q.outcome = "weekly_sales";
-        q.exposure = "promo_spend";
-        auto f = adjusted_over(*t, q, {"store_format", "region", "quarter"});
-        QVERIFY2(f.ok(), f.ok() ? "" : f.error().message.c_str());
-        QVERIFY(f->slope);
-        QVERIFY(qAbs(f->adjusted.value - -3.7510981662171075) < 1e-9);
-        QVERIFY(qAbs(f->adjusted.lo - -3.978314799084222) < 1e-8);
-        QVERIFY(qAbs(f->adjusted.hi - -3.523881533349993) < 1e-8);
+        q.outcome = "sales";
+        q.exposure = "spend";
+        q.candidates = {"region", "size", "footfall"};
+        q.covariates = {"footfall"};
+        q.bins = 6;
+        q.max_levels = 7;
+        q.alpha = 0.5;
+        q.bootstrap = 30;
+        q.seed = kSeed;
+        q.find_groups = true;
+        const project::AuditSpec s = audit_spec(q, base);
+        QCOMPARE(s.scan.seed, kSeed);
+        QCOMPARE(s.scan.max_levels, std::uint64_t(7));
+        QCOMPARE(s.scan.slope_bootstrap, 30);
+        QCOMPARE(s.scan.bootstrap, 77);  // the other kind's count is the base's
+        QVERIFY(s.trend.has_value());    // what the workbench does not edit survives
+        QVERIFY(s.scan.find_groups);
+        QCOMPARE(s.scan.strata, (std::vector<std::string>{"region", "size"}));  // a covariate never stratifies
+        const ui::QuestionSpec back = question_spec(s);
+        QCOMPARE(back.seed, kSeed);
+        QCOMPARE(back.max_levels, std::uint64_t(7));
+        QCOMPARE(back.bins, 6);
+        QCOMPARE(back.alpha, 0.5);
+        QCOMPARE(back.bootstrap, 30);
+        QVERIFY(back.find_groups);
+        QVERIFY(!back.all_candidates);
+        // "auto" stays auto.
+        q.all_candidates = true;
+        QVERIFY(audit_spec(q, base).scan.strata.empty());
+        QVERIFY(question_spec(audit_spec(q, base)).all_candidates);
+    }
+
+    void workbench_and_run_agree_on_json_and_memo() {
+        const QString sample = find_sample("clinic_audit.foldline");
+        if (sample.isEmpty()) QSKIP("sample_data/clinic_audit.foldline not found");
+        const QString pdftotext = QStandardPaths::findExecutable("pdftotext");
+        if (pdftotext.isEmpty()) QSKIP("poppler-utils (pdftotext) not installed");
+        auto loaded = project::load_project(sample.toStdString());
+        QVERIFY(loaded.ok());
+        project::Project p = std::move(*loaded);
+        p.scan.seed = kSeed;
+        p.scan.max_levels = 7;
+        p.scan.bins = 6;
+        p.scan.alpha = 0.5;
+        p.scan.bootstrap = 40;  // enough resamples to make the seed matter, few enough to be quick
+        auto table = read_csv(p.data.path, project::reading_options(p.data));
+        QVERIFY(table.ok());
+        QVERIFY(project::record_data(p.data, *table).ok());
+        QTemporaryDir dir;
+        const QString path = dir.filePath(QStringLiteral("clinic settings.foldline"));
+        QVERIFY(project::save_project(p, path.toStdString()).ok());
+
+        // foldline run, as a scheduled re-audit would call it.
+        QProcess run;
+        run.start(QStringLiteral(FOLDLINE_CLI),
+                  {QStringLiteral("run"), path, QStringLiteral("--json"), dir.filePath("run.json"), QStringLiteral("--memo"),
+                   dir.filePath("run.pdf")});
+        QVERIFY(run.waitForFinished(300000));
+        QVERIFY2(run.exitCode() == 0 || run.exitCode() == 4, run.readAllStandardError().constData());
+        QFile json_file(dir.filePath("run.json"));
+        QVERIFY(json_file.open(QIODevice::ReadOnly));
+        const auto from_run = nlohmann::json::parse(json_file.readAll().toStdString());
+
+        // The workbench opens the same file and re-runs it.
+        MainWindow w;
+        QVERIFY(w.open_project(path).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(w.scan_page()->scan_result() && !w.scan_page()->running() &&
+                                     w.findings_model()->size() > 0,
+                                 300000);
+        QTest::qWait(200);  // the restore finishes on the event loop after the scan
+        const ui::QuestionSpec q = w.question_page()->spec();
+        QCOMPARE(q.seed, kSeed);
+        QCOMPARE(q.max_levels, std::uint64_t(7));
+        QCOMPARE(q.bins, 6);
+        QCOMPARE(q.alpha, 0.5);
+        const auto result = w.scan_page()->scan_result();
+        const DataInfo info{p.data.path, from_run["data"]["sha256"].get<std::string>(),
+                            from_run["data"]["rows"].get<double>()};
+        const auto from_workbench = nlohmann::json::parse(scan_json_text(*result, info));
+        QCOMPARE(from_workbench["settings"].dump(), from_run["settings"].dump());
+        QCOMPARE(from_workbench["summary"].dump(), from_run["summary"].dump());
+        QCOMPARE(from_workbench["findings"].size(), from_run["findings"].size());
+        for (std::size_t i = 0; i < from_run["findings"].size(); ++i)
+            QVERIFY2(from_workbench["findings"][i] == from_run["findings"][i],
+                     qPrintable(QString::fromStdString(from_run["findings"][i]["strata"].dump())));
+        QVERIFY(from_workbench == from_run);
+        // The verdict that points to another set carries its estimate, computed with 6 bins.
+        bool other_set = false;
+        for (const auto& f : from_run["findings"])
+            if (f["verdict"].is_object() && f["verdict"]["answer"] == "other_set")
+                other_set = other_set || f["verdict"]["adjusted_estimate"].is_object();
+        QVERIFY(other_set);
+
+        // The memos: the same words, figures and verdicts.
+        QVERIFY(w.export_memo_to(dir.filePath("workbench.pdf")).ok());
+        const QString a = pdf_text(pdftotext, dir.filePath("run.pdf"));
+        const QString b = pdf_text(pdftotext, dir.filePath("workbench.pdf"));
+        QVERIFY(!a.isEmpty());
+        QVERIFY(a.contains(QStringLiteral("not a legal or clinical determination")));
+        if (a != b) {
+            const QStringList la = a.split(QLatin1Char('\n')), lb = b.split(QLatin1Char('\n'));
+            for (int i = 0; i < std::min(la.size(), lb.size()); ++i)
+                if (la[i] != lb[i]) QFAIL(qPrintable(QStringLiteral("line %1:\n run: %2\n workbench: %3").arg(i + 1).arg(la[i], lb[i])));
+            QFAIL("the memos differ in length");
+        }
     }
 };
 

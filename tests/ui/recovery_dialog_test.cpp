@@ -1,6 +1,6 @@
 // tests/ui/recovery_dialog_test.cpp <-> ui/recovery_dialog.h: the offer names what the copy holds
 // (literally, never as markup) and every answer is reachable from the keyboard.
-#include "core/io/project_file.h"  // core before Qt
+#include "core/audit/project_file.h"  // core before Qt
 
 #include <QApplication>
 #include <QDir>

@@ -67,7 +67,7 @@ private slots:
             if (ticks++ > 0) worst = std::max(worst, tick.elapsed());
             tick.restart();
         });
-        QVERIFY(page.start(table, question()));
+        QVERIFY(page.start(table, question(), audit_spec(question(), {})));
         tick.start();
         timer.start();
         QTRY_VERIFY_WITH_TIMEOUT(!page.running(), 240000);
@@ -99,7 +99,7 @@ private slots:
             running_at_first = page.running();
             first_s = page.elapsed_seconds();
         });
-        QVERIFY(page.start(table, question(40)));
+        QVERIFY(page.start(table, question(40), audit_spec(question(40), {})));
         QTRY_VERIFY_WITH_TIMEOUT(!page.running(), 240000);
         qInfo("2M-row scan: first finding shown after %.3f s of %.2f s, %d findings", first_s,
               page.elapsed_seconds(), model.size());
@@ -114,7 +114,7 @@ private slots:
         auto table = million_rows(40);
         FindingsModel model;
         ScanPage page(&model);
-        QVERIFY(page.start(table, question(40)));
+        QVERIFY(page.start(table, question(40), audit_spec(question(40), {})));
         QTest::qWait(50);
         QVERIFY(page.running());
         QElapsedTimer clock;

@@ -9,7 +9,7 @@
 // dropped to the unprivileged user 65534 first.
 #include "core/causal/diagram_file.h"
 #include "core/io/csv_reader.h"
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 #include "core/report/csv_export.h"
 
 #include <gtest/gtest.h>

@@ -3,6 +3,8 @@
 // checked against published values; the rest checks what the memo says and includes.
 #include "core/report/memo_content.h"
 
+#include "core/audit/verdicts.h"
+
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -28,7 +30,7 @@ ScanResult penicillin_scan(const std::vector<std::string>& levels = {"1/8", "1/4
     f.reference = "delay_1.5h";
     f.cls = FindingClass::Explained;  // the class itself is the scan's business; fixed for the memo
     f.q_value = 0.03;
-    f.stability = 0.91;
+    f.stability.share = 0.91;
     ScanResult r;
     r.question.outcome = "cured";
     r.question.positive = "yes";
@@ -164,14 +166,11 @@ TEST(MemoContent, DiagramGivesVerdictAndRoles) {
     d.outcome = "cured";
     project::Project p;
     p.diagrams.push_back({"rabbits", d});
-    auto cg = causal::CausalGraph::build(d);
-    ASSERT_TRUE(cg.ok());
-    auto v = causal::decide(*cg, "delay", "cured", {"penicillin"});
-    ASSERT_TRUE(v.ok());
+    // The verdicts come with the findings, as core/audit attaches them.
+    EXPECT_EQ(audit::attach_verdicts(r, nullptr, d, audit::EstimateSettings{}), "");
     MemoInput in;
     in.scan = &r;
     in.project = &p;
-    in.verdicts = {*v};
     const MemoContent m = build_memo(in);
     ASSERT_EQ(m.sections.size(), 1u);
     const auto& s = m.sections[0];
@@ -189,7 +188,7 @@ TEST(MemoContent, DiagramGivesVerdictAndRoles) {
 
     // A stratifier missing from the diagram: the memo says so instead of guessing.
     r.rate_findings[0].strata = {"cage"};
-    in.verdicts = {std::nullopt};
+    EXPECT_NE(audit::attach_verdicts(r, nullptr, d, audit::EstimateSettings{}).find("cage"), std::string::npos);
     const MemoContent m2 = build_memo(in);
     EXPECT_NE(m2.sections[0].verdict.find("cannot judge"), std::string::npos) << m2.sections[0].verdict;
     EXPECT_NE(m2.sections[0].verdict.find("cage"), std::string::npos) << m2.sections[0].verdict;
@@ -233,7 +232,7 @@ TEST(MemoContent, SlopeFindingsGetTheirOwnSections) {
     f.x = "Sepal.Length";
     f.y = "Sepal.Width";
     f.strata = {"Species"};
-    f.finding_class = FindingClass::Reversal;
+    f.cls = FindingClass::Reversal;
     f.pooled.slope = -0.0618848;
     f.pooled.n = 150;
     f.within.slope = 0.3498801;
@@ -247,7 +246,7 @@ TEST(MemoContent, SlopeFindingsGetTheirOwnSections) {
     f.groups = {g};
     SlopeFinding stable = f;
     stable.strata = {"petal_bin"};
-    stable.finding_class = FindingClass::Stable;
+    stable.cls = FindingClass::Stable;
     r.slope_findings = {f, stable};
     MemoInput in;
     in.scan = &r;

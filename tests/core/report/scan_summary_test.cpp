@@ -24,7 +24,7 @@ RateFinding rate(const std::string& stratum, FindingClass cls, bool flip, double
     f.crude.rd = crude_rd;
     f.adjusted.mh_rd.greenland_robins.estimate = mh_rd;
     f.q_value = cls == FindingClass::Stable ? 0.4 : 0.01;
-    f.stability = std::numeric_limits<double>::quiet_NaN();
+    f.stability.share = std::numeric_limits<double>::quiet_NaN();
     return f;
 }
 
@@ -45,7 +45,7 @@ SlopeFinding slope(const std::string& stratum, FindingClass cls, double pooled, 
     f.x = "promo_spend";
     f.y = "weekly_sales";
     f.strata = {stratum};
-    f.finding_class = cls;
+    f.cls = cls;
     f.pooled.slope = pooled;
     f.within.slope = within;
     f.q_value = cls == FindingClass::Stable ? 0.3 : 0.02;

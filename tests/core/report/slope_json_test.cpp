@@ -18,7 +18,7 @@ SlopeFinding sample() {
     f.x = "promo_spend";
     f.y = "weekly_sales";
     f.strata = {"store_format"};
-    f.finding_class = FindingClass::Reversal;
+    f.cls = FindingClass::Reversal;
     f.reversal = true;
     f.p_reversal = 0.001;
     f.q_value = std::numeric_limits<double>::quiet_NaN();

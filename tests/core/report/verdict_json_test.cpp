@@ -1,4 +1,5 @@
-// Tests of core/report/verdict_json.h on the invented sample scenarios. The estimate a verdict
+// Tests of core/audit/verdicts.h and its JSON form (core/report/verdict_json.h) on the invented
+// sample scenarios. The estimate a verdict
 // points to must be the figure the engine already computes for that view: the crude difference
 // for "pooled", the finding's standardised difference for "stratified", and for another set
 // the standardised difference of a scan stratified by that set (computed independently here).
@@ -6,6 +7,7 @@
 
 #include <gtest/gtest.h>
 
+#include "core/audit/verdicts.h"
 #include "core/causal/diagram_file.h"
 #include "core/io/csv_reader.h"
 #include "core/scan/candidates.h"
@@ -59,9 +61,9 @@ const RateFinding& finding(const Audit& a, const std::string& stratum) {
 nlohmann::json verdict_for(const Audit& a, const RateFinding& f) {
     auto cg = causal::CausalGraph::build(a.diagram);
     EXPECT_TRUE(cg.ok());
-    auto v = causal::decide(*cg, a.question.exposure, a.question.outcome, f.strata);
+    auto v = audit::rate_verdict(*cg, a.result, f, &a.table, audit::EstimateSettings{});
     EXPECT_TRUE(v.ok());
-    return report::rate_verdict_json(a.table, encode_rows(a.table, a.question), f, *v, 0.05);
+    return report::verdict_to_json(*v);
 }
 
 }  // namespace

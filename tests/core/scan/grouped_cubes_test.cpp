@@ -129,7 +129,7 @@ void expect_same(const ScanResult& a, const ScanResult& b) {
         EXPECT_PRED2(same, x.crude.rd, y.crude.rd);
         EXPECT_PRED2(same, x.adjusted.mh_or.estimate, y.adjusted.mh_or.estimate);
         EXPECT_PRED2(same, x.q_value, y.q_value);
-        EXPECT_PRED2(same, x.stability, y.stability);  // the bootstrap draws from the cube: equal cubes, equal draws
+        EXPECT_PRED2(same, x.stability.share, y.stability.share);  // the bootstrap draws from the cube: equal cubes, equal draws
         ASSERT_EQ(x.strata_table.size(), y.strata_table.size());
         for (std::size_t k = 0; k < x.strata_table.size(); ++k) {
             EXPECT_EQ(x.strata_table[k].level, y.strata_table[k].level);

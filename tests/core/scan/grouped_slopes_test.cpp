@@ -186,7 +186,7 @@ TEST(GroupedSlopes, MomentSumsPerValueGiveTheSlopesOfTheRows) {
         EXPECT_NEAR(b.pooled.slope, a.pooled.slope, 1e-9 * std::abs(a.pooled.slope));
         EXPECT_NEAR(b.within.slope, a.within.slope, 1e-9 * std::abs(a.within.slope));
         EXPECT_NEAR(b.within.se, a.within.se, 1e-9 * a.within.se);
-        EXPECT_EQ(a.finding_class, b.finding_class);
+        EXPECT_EQ(a.cls, b.cls);
         EXPECT_EQ(a.uninformative, b.uninformative);
         ASSERT_EQ(a.groups.size(), b.groups.size());
         for (std::size_t j = 0; j < a.groups.size(); ++j) {

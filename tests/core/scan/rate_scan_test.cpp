@@ -59,7 +59,7 @@ TEST(RateScan, FindsPlantedReversalAndOnlyIt) {
     EXPECT_LT(prod->crude.rd, 0);
     EXPECT_GT(prod->adjusted.mh_rd.greenland_robins.estimate, 0);
     EXPECT_GT(prod->adjusted.standardized.rd, 0);
-    EXPECT_GT(prod->stability, 0.9);
+    EXPECT_GT(prod->stability.share, 0.9);
     EXPECT_NEAR(prod->decomposition.within + prod->decomposition.composition, prod->crude.rd, 1e-12);
     EXPECT_EQ(r->rate_findings.front().cls, FindingClass::Reversal);  // ranked first
     int reversals = 0;
@@ -68,7 +68,7 @@ TEST(RateScan, FindsPlantedReversalAndOnlyIt) {
         EXPECT_EQ(f.reversal(), has_product) << f.label();
         reversals += f.reversal();
         if (!has_product) {
-            EXPECT_TRUE(std::isnan(f.stability) || f.cls != FindingClass::Stable);
+            EXPECT_TRUE(std::isnan(f.stability.share) || f.cls != FindingClass::Stable);
         }
     }
     EXPECT_EQ(reversals, 5);
@@ -119,8 +119,8 @@ TEST(RateScan, PrecountedEqualsRowLevel) {
         EXPECT_NEAR(x.cmh.statistic, y->cmh.statistic, 1e-9);
         EXPECT_NEAR(x.q_value, y->q_value, 1e-12);
         // Same cube, same seed: the same stability (NaN for unflagged findings on both sides).
-        EXPECT_TRUE(x.stability == y->stability || (std::isnan(x.stability) && std::isnan(y->stability)))
-            << x.label() << " " << x.stability << " vs " << y->stability;
+        EXPECT_TRUE(x.stability.share == y->stability.share || (std::isnan(x.stability.share) && std::isnan(y->stability.share)))
+            << x.label() << " " << x.stability.share << " vs " << y->stability.share;
         ASSERT_EQ(x.strata_table.size(), y->strata_table.size());
     }
 }
@@ -165,8 +165,8 @@ TEST(RateScan, StabilityDeterministicForASeed) {
     for (std::size_t i = 0; i < r1->rate_findings.size(); ++i) {
         const auto& a = r1->rate_findings[i];
         EXPECT_EQ(a.strata, r2->rate_findings[i].strata);
-        if (!std::isnan(a.stability)) {
-            EXPECT_EQ(a.stability, r2->rate_findings[i].stability);
+        if (!std::isnan(a.stability.share)) {
+            EXPECT_EQ(a.stability.share, r2->rate_findings[i].stability.share);
         }
     }
 }

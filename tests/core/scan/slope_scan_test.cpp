@@ -5,6 +5,7 @@
 
 #include "core/io/csv_reader.h"
 #include "core/scan/candidates.h"
+#include "core/scan/scan_result.h"
 
 #include <gtest/gtest.h>
 
@@ -94,7 +95,7 @@ TEST(SlopeScan, IrisSepalWidthOnLengthReversesWithinSpecies) {
     EXPECT_NEAR(group(f, "2").r, 0.4572278, 5e-8);
     // The pooled slope is not significant, the within one is: by our rules "masked", and the
     // intersection-union p is the pooled one-sided p (about 0.076), not a reversal at 0.05.
-    EXPECT_EQ(f.finding_class, FindingClass::Masked);
+    EXPECT_EQ(f.cls, FindingClass::Masked);
     EXPECT_FALSE(f.reversal);
     EXPECT_NEAR(f.p_reversal, 0.1519 / 2, 1e-4);
     EXPECT_TRUE(f.uninformative.empty());
@@ -131,7 +132,7 @@ TEST(SlopeScan, PenguinsBillDepthOnLengthIsAReversal) {
     EXPECT_NEAR(group(f, "Gentoo").r, 0.6433839, 5e-8);
     EXPECT_EQ(group(f, "Gentoo").n, 123);
     EXPECT_NEAR(group(f, "Gentoo").slope, 0.2048443, 5e-8);
-    EXPECT_EQ(f.finding_class, FindingClass::Reversal);
+    EXPECT_EQ(f.cls, FindingClass::Reversal);
     EXPECT_TRUE(f.reversal);
     EXPECT_LT(f.p_reversal, 1e-4);
 
@@ -163,37 +164,41 @@ TEST(SlopeScan, RetailSampleHasItsPlantedReversal) {
     ASSERT_EQ(r->size(), 6u);
     const SlopeFinding& f = r->front();
     EXPECT_NEAR(f.pooled.slope, 21.5657, 1e-4);
-    EXPECT_EQ(f.finding_class, FindingClass::Reversal);
+    EXPECT_EQ(f.cls, FindingClass::Reversal);
     for (const auto& g : f.groups) EXPECT_LT(g.ci_high, 0) << g.level;
     EXPECT_NEAR(group(f, "mall").slope, -3.7186, 1e-4);
-    EXPECT_EQ((*r)[1].finding_class, FindingClass::Stable);  // region: noise
+    EXPECT_EQ((*r)[1].cls, FindingClass::Stable);  // region: noise
 
     // Through the scan's own candidate selection (footfall is cut into quantile bins), FDR and
     // ranking: store_format and every pair holding it are reversals and rank first.
     auto cands = select_candidates(t, {q.x, q.y}, CandidateOptions{});
     ASSERT_TRUE(cands.ok());
     ASSERT_EQ(cands->candidates.size(), 4u);
-    auto all = scan_slopes(t, q, *cands, true);
-    ASSERT_TRUE(all.ok());
-    ASSERT_EQ(all->size(), 10u);
-    apply_fdr(*all, q.alpha);
-    rank_findings(*all);
+    auto found = scan_slopes(t, q, *cands, true);
+    ASSERT_TRUE(found.ok());
+    ASSERT_EQ(found->size(), 10u);
+    ScanResult scanned;
+    scanned.alpha = q.alpha;
+    scanned.slope_findings = std::move(*found);
+    apply_fdr(scanned);
+    rank_findings(scanned);
+    const auto* all = &scanned.slope_findings;
     EXPECT_EQ(all->front().strata.front(), "store_format");
     int reversals = 0;
     for (const auto& g : *all) {
         EXPECT_FALSE(std::isnan(g.q_value));
         EXPECT_GE(g.q_value, g.p_reversal);
         const bool has_format = std::find(g.strata.begin(), g.strata.end(), "store_format") != g.strata.end();
-        reversals += g.finding_class == FindingClass::Reversal;
+        reversals += g.cls == FindingClass::Reversal;
         if (has_format) {
-            EXPECT_EQ(g.finding_class, FindingClass::Reversal) << g.strata.back();
+            EXPECT_EQ(g.cls, FindingClass::Reversal) << g.strata.back();
         }
     }
     // footfall follows sales, so within its bins the promo slope can turn too: at least the 4
     // checks holding store_format, and classes stay ordered.
     EXPECT_GE(reversals, 4);
     for (std::size_t i = 1; i < all->size(); ++i)
-        EXPECT_LE(rank((*all)[i - 1].finding_class), rank((*all)[i].finding_class));
+        EXPECT_LE(rank((*all)[i - 1].cls), rank((*all)[i].cls));
 }
 
 // Planted structures (synthetic, seeded): each class arises where it is planted.
@@ -204,7 +209,7 @@ TEST(SlopeScan, PlantedClasses) {
     auto cls = [&](const Table& t) {
         auto r = check_slope(t, q, {t.column("g")});
         EXPECT_TRUE(r.ok());
-        return r->finding_class;
+        return r->cls;
     };
     // Group centres rise along x and y, the trend inside every group falls: reversal.
     EXPECT_EQ(cls(planted(200, {0, 3, 6}, {0, 6, 12}, {-0.5, -0.5, -0.5}, 0.5, 1)),
@@ -238,8 +243,8 @@ TEST(SlopeScan, ScanRunsSinglesAndPairsAndHonoursQValues) {
         EXPECT_DOUBLE_EQ(f.pooled.slope, (*r)[0].pooled.slope);
         EXPECT_TRUE(std::isnan(f.q_value));
     }
-    EXPECT_EQ((*r)[0].finding_class, FindingClass::Reversal);
-    EXPECT_EQ((*r)[1].finding_class, FindingClass::Stable);  // noise: within ≈ pooled
+    EXPECT_EQ((*r)[0].cls, FindingClass::Reversal);
+    EXPECT_EQ((*r)[1].cls, FindingClass::Stable);  // noise: within ≈ pooled
     SlopeFinding f = (*r)[0];
     f.q_value = 0.2;
     EXPECT_NE(classify(f, 0.05), FindingClass::Reversal);
@@ -296,21 +301,21 @@ TEST(SlopeScan, BootstrapStabilityIsSeededAndSensible) {
     auto a = check_slope(strong, q, {strong.column("g")});
     auto b = check_slope(strong, q, {strong.column("g")});
     ASSERT_TRUE(a.ok() && b.ok());
-    EXPECT_EQ(a->stability_draws, 200);
-    EXPECT_EQ(a->stability, b->stability);
-    EXPECT_GT(a->stability, 0.95);
+    EXPECT_EQ(a->stability.draws, 200);
+    EXPECT_EQ(a->stability.share, b->stability.share);
+    EXPECT_GT(a->stability.share, 0.95);
     q.bootstrap = 0;
     auto c = check_slope(strong, q, {strong.column("g")});
-    EXPECT_EQ(c->stability, 0);
-    EXPECT_EQ(c->stability_draws, 0);
+    EXPECT_TRUE(std::isnan(c->stability.share));  // not resampled: undefined, not 0
+    EXPECT_EQ(c->stability.draws, 0);
     // Weighted rows resample by multinomial counts and stay deterministic.
     Table w = strong;
     w.weights.assign(w.rows, 3.0);
     q.bootstrap = 50;
     auto d1 = check_slope(w, q, {w.column("g")});
     auto d2 = check_slope(w, q, {w.column("g")});
-    EXPECT_EQ(d1->stability, d2->stability);
-    EXPECT_GT(d1->stability, 0.9);
+    EXPECT_EQ(d1->stability.share, d2->stability.share);
+    EXPECT_GT(d1->stability.share, 0.9);
 }
 
 // Covariates: with a covariate that is the real driver the adjusted figures take over
@@ -334,7 +339,7 @@ TEST(SlopeScan, CovariatesAdjustAndLinearProbabilityIsFlagged) {
     ASSERT_TRUE(r.ok()) << r.error().to_string();
     EXPECT_TRUE(r->adjusted);
     EXPECT_NEAR(r->adjusted_within.slope, -0.5, 0.1);
-    EXPECT_EQ(r->finding_class, FindingClass::Reversal);
+    EXPECT_EQ(r->cls, FindingClass::Reversal);
     EXPECT_FALSE(r->linear_probability);
     q.covariates.clear();
     q.y = "y01";
@@ -415,7 +420,7 @@ TEST(SlopeScan, ScanEqualsSeparateChecks) {
             ASSERT_TRUE(one.ok());
             const SlopeFinding& a = (*all)[idx++];
             EXPECT_EQ(a.strata, one->strata);
-            EXPECT_EQ(a.finding_class, one->finding_class);
+            EXPECT_EQ(a.cls, one->cls);
             EXPECT_NEAR(a.within.slope, one->within.slope, 1e-12);
             EXPECT_NEAR(a.within.se, one->within.se, 1e-12);
             EXPECT_NEAR(a.equal_slopes.f, one->equal_slopes.f, 1e-9);
@@ -447,25 +452,28 @@ TEST(SlopeScan, FdrDemotesAWeakReversalAmongManyChecks) {
     f.within.df = 100;
     f.within.p = 0.014;
     ASSERT_EQ(classify(f, 0.05), FindingClass::Reversal);
-    f.stability_draws = 10;
+    f.stability.draws = 10;
     f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Reversal))] = 7;
     f.draws_by_class[static_cast<std::size_t>(rank(FindingClass::Stable))] = 3;
-    f.stability = 0.7;
-    std::vector<SlopeFinding> all(20, f);
+    f.stability.share = 0.7;
+    ScanResult r;
+    r.alpha = 0.05;
+    r.slope_findings.assign(20, f);
+    auto& all = r.slope_findings;
     for (std::size_t i = 1; i < all.size(); ++i) {
         all[i].pooled.slope = 0.01;
         all[i].pooled.p = 0.98;
-        all[i].stability_draws = 0;
+        all[i].stability.draws = 0;
         classify(all[i], 0.05);
     }
     const double p = all[0].p_reversal;
     EXPECT_NEAR(p, 0.00701, 1e-4);
-    apply_fdr(all, 0.05);
+    apply_fdr(r);  // the one FDR step of every scan
     EXPECT_NEAR(all[0].q_value, std::min(1.0, 20 * p), 1e-12);  // the smallest p: q = m p / 1
     EXPECT_FALSE(all[0].reversal);
     // Both slopes stay significant, so neither "explained" nor "masked" holds: stable.
-    EXPECT_EQ(all[0].finding_class, FindingClass::Stable);
-    EXPECT_DOUBLE_EQ(all[0].stability, 0.3);
+    EXPECT_EQ(all[0].cls, FindingClass::Stable);
+    EXPECT_DOUBLE_EQ(all[0].stability.share, 0.3);
 }
 
 // Pairs of 400-level stratifiers (160,801 joint strata each) overflow one batch's memory budget,

@@ -1,6 +1,6 @@
 #pragma once
-// `foldline scan --source odbc:... --table T | --query "SELECT ..."`: the database side of the
-// scan command. A rate question is counted by one GROUPING SETS query whose cells become the
+// An audit of a database table or query (`foldline scan --source odbc:... --table T | --query
+// "SELECT ..."`; the workbench's database source). A rate question is counted by one GROUPING SETS query whose cells become the
 // scan's count cubes (core/scan/grouped_cubes.h); other questions load the pushed-down joint
 // cells as a pre-counted Table (core/io/odbc_source.h). Either way the source is described for
 // the JSON data block without the credentials.
@@ -16,7 +16,7 @@
 #include "core/table/grouped_counts.h"
 #include "core/table/table.h"
 
-namespace foldline::cli {
+namespace foldline::audit {
 
 /// What the reports say about a database source (never a credential).
 struct DatabaseInfo {
@@ -70,4 +70,4 @@ Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, cons
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,
                     const std::vector<std::string>& columns);
 
-}  // namespace foldline::cli
+}  // namespace foldline::audit

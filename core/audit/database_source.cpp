@@ -1,4 +1,4 @@
-#include "app/cli/scan_source.h"
+#include "core/audit/database_source.h"
 
 #include <algorithm>
 
@@ -7,7 +7,7 @@
 #include "core/scan/grouped_cubes.h"
 #endif
 
-namespace foldline::cli {
+namespace foldline::audit {
 
 #ifdef FOLDLINE_HAS_ODBC
 namespace {
@@ -109,4 +109,4 @@ void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusio
                      [&](const Exclusion& a, const Exclusion& b) { return pos(a.column) < pos(b.column); });
 }
 
-}  // namespace foldline::cli
+}  // namespace foldline::audit

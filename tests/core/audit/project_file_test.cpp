@@ -1,7 +1,7 @@
-// Tests of core/io/project_file.h: the NAME.foldline schema, its round trips, atomic saves and
+// Tests of core/audit/project_file.h: the NAME.foldline schema, its round trips, atomic saves and
 // the data-change check. The JSON it writes is also read back by Python's json module in
 // tests/reference/memo_reference.py (an outside parser).
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 
 #include <gtest/gtest.h>
 #include <unistd.h>

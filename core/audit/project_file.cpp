@@ -1,4 +1,4 @@
-#include "core/io/project_file.h"
+#include "core/audit/project_file.h"
 
 #include <algorithm>
 #include <cstdio>
@@ -194,16 +194,9 @@ std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "
 
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
-                        p.trend.has_value() || p.scan.slope_bootstrap != 0;
+                        p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
-}
-
-const causal::Diagram* Project::diagram() const {
-    if (diagrams.empty()) return nullptr;
-    for (const auto& d : diagrams)
-        if (d.name == active_diagram) return &d.diagram;
-    return &diagrams.front().diagram;
 }
 
 const FindingReview* Project::review(const FindingKey& key) const {
@@ -274,6 +267,7 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     s["bootstrap"] = p.scan.bootstrap;
     s["seed"] = p.scan.seed;
     if (version >= 2) s["slope_bootstrap"] = p.scan.slope_bootstrap;
+    if (p.scan.find_groups) s["find_groups"] = true;  // only when asked: older projects keep their bytes
     doc["scan"] = s;
 
     json diagrams = json::array();
@@ -402,12 +396,13 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
             else r.strings(*s, "scan", "strata", p.scan.strata);
         }
         r.boolean(*s, "scan", "pairs", p.scan.pairs);
-        r.whole(*s, "scan", "bins", p.scan.bins, 0, 1000);
-        r.whole(*s, "scan", "max_levels", p.scan.max_levels, 2, 1e6);
-        r.number(*s, "scan", "alpha", p.scan.alpha, 1e-12, 0.5);
-        r.whole(*s, "scan", "bootstrap", p.scan.bootstrap, 0, 1e6);
+        r.whole(*s, "scan", "bins", p.scan.bins, 0, limits::kMaxBins);
+        r.whole(*s, "scan", "max_levels", p.scan.max_levels, limits::kMinMaxLevels, limits::kMaxMaxLevels);
+        r.number(*s, "scan", "alpha", p.scan.alpha, limits::kMinAlpha, limits::kMaxAlpha);
+        r.whole(*s, "scan", "bootstrap", p.scan.bootstrap, 0, limits::kMaxBootstrap);
         r.whole(*s, "scan", "seed", p.scan.seed, 0, 1.8446744073709552e19);
-        r.whole(*s, "scan", "slope_bootstrap", p.scan.slope_bootstrap, 0, 1e6);
+        r.whole(*s, "scan", "slope_bootstrap", p.scan.slope_bootstrap, 0, limits::kMaxBootstrap);
+        r.boolean(*s, "scan", "find_groups", p.scan.find_groups);
     }
     if (const json* ds = r.array(doc, "", "diagrams")) {
         for (std::size_t i = 0; i < ds->size() && !r.error; ++i) {

@@ -16,6 +16,7 @@
 #include <string_view>
 #include <vector>
 
+#include "core/audit/audit_spec.h"
 #include "core/causal/diagram.h"
 #include "core/common/error.h"
 #include "core/io/source_record.h"
@@ -31,59 +32,6 @@ namespace foldline::project {
 /// misread instead of dropping the trend.
 inline constexpr int kProjectVersion = 2;
 inline constexpr std::string_view kProjectFormat = "foldline-project";
-
-struct DataSource {
-    std::string path;            ///< in memory: usable path; on disk: relative to the project folder
-    std::uint64_t size = 0;      ///< bytes when saved
-    std::string sha256;          ///< hex digest when saved; empty = never hashed
-    std::uint64_t rows = 0;      ///< data rows when saved (for the "what changed" message)
-    std::vector<std::string> columns;  ///< column names when saved (the count column excluded)
-    std::string count_column;    ///< empty: row-level data
-    char delimiter = 0;          ///< 0 = detect
-    std::vector<std::string> missing_markers = {"", "NA", "N/A", "NULL", "."};
-    std::map<std::string, ColumnType> type_overrides;
-    std::optional<DatabaseRecord> database;  ///< a database source (no size or digest then); never a credential
-};
-
-/// What the audit compares: a rate between groups, or the slope of a numeric outcome on a
-/// numeric exposure (a trend audit).
-enum class QuestionKind { Rate, Slope };
-/// "rate" or "slope".
-std::string_view to_string(QuestionKind k);
-
-struct QuestionSettings {
-    QuestionKind kind = QuestionKind::Rate;  ///< absent in a version 1 file: rate
-    std::string outcome;                   ///< slope: the numeric outcome y
-    std::optional<std::string> positive;   ///< absent: the reader's default rule
-    std::string exposure;                  ///< slope: the numeric exposure x
-    std::vector<std::string> focal;        ///< empty: every level except the reference
-    std::optional<std::string> reference;  ///< absent: the most frequent level
-    std::vector<std::string> covariates;   ///< slope: numeric columns adjusted for (may be empty)
-};
-
-/// Slope checks added to a rate audit (`scan --trend X:Y`): the slope of y on x within each
-/// single stratifier of the rate question.
-struct TrendSettings {
-    std::string x, y;
-    std::vector<std::string> covariates;  ///< numeric columns adjusted for (may be empty)
-    auto operator<=>(const TrendSettings&) const = default;
-};
-
-struct ScanSettings {
-    std::vector<std::string> strata;  ///< empty = auto (every qualifying column)
-    bool pairs = true;
-    int bins = 4;
-    std::uint64_t max_levels = 50;
-    double alpha = 0.05;
-    int bootstrap = 1000;
-    std::uint64_t seed = 20240601;
-    int slope_bootstrap = 0;  ///< resamples for the stability of flagged slope findings; 0 = none
-};
-
-struct NamedDiagram {
-    std::string name;  ///< the reviewer's label ("as drawn", "alternative: no income path", ...)
-    causal::Diagram diagram;
-};
 
 /// Identifies a finding across re-runs: kind ("rate" or "slope"), stratifier column names in
 /// order, and the comparison ("B vs A" for rates; "y on x" for slopes).
@@ -123,19 +71,12 @@ struct MemoSettings {
     std::string findings = "flagged";
 };
 
-struct Project {
-    DataSource data;
-    QuestionSettings question;
-    ScanSettings scan;
-    std::vector<NamedDiagram> diagrams;
-    std::string active_diagram;  ///< name of the diagram used for verdicts; empty = the first
+/// The audit project: the audit's specification (core/audit/audit_spec.h: source, question,
+/// scan settings, diagrams) and what the reviewers added — decisions, notes, memo settings.
+struct Project : AuditSpec {
     std::vector<FindingReview> reviews;  ///< sorted by key when saved
     MemoSettings memo;
-    std::optional<TrendSettings> trend;  ///< absent: no slope checks beside a rate question
 
-    /// The diagram used for verdicts: the one named active_diagram, else the first; nullptr
-    /// when there is none.
-    const causal::Diagram* diagram() const;
     /// The review for a key; nullptr when the reviewer never touched that finding.
     const FindingReview* review(const FindingKey& key) const;
     FindingReview& review_for(const FindingKey& key);  ///< adds an empty review when absent

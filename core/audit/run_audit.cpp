@@ -1,0 +1,267 @@
+#include "core/audit/run_audit.h"
+
+#include <algorithm>
+#include <thread>
+
+#include "core/audit/project_file.h"
+#include "core/common/sha256.h"
+#include "core/io/csv_reader.h"
+#include "core/scan/candidates.h"
+#include "core/scan/grouped_cubes.h"
+#include "core/scan/grouped_slopes.h"
+#include "core/scan/question.h"
+#include "core/scan/slope_scan.h"
+
+namespace foldline::audit {
+namespace {
+
+CandidateOptions candidate_options(const AuditSpec& spec) {
+    CandidateOptions o;
+    o.columns = spec.scan.strata;
+    o.bins = spec.scan.bins;
+    o.max_levels = static_cast<std::size_t>(spec.scan.max_levels);
+    return o;
+}
+
+QuestionSpec question_spec(const AuditSpec& spec) {
+    QuestionSpec q;
+    q.outcome = spec.question.outcome;
+    q.positive = spec.question.positive;
+    q.exposure = spec.question.exposure;
+    q.focal = spec.question.focal;
+    q.reference = spec.question.reference;
+    return q;
+}
+
+/// The trend a spec asks for: the slope question itself, or the trend checks beside a rate
+/// question; x empty when neither.
+SlopeQuestion slope_question(const AuditSpec& spec) {
+    SlopeQuestion q;
+    q.alpha = spec.scan.alpha;
+    q.bootstrap = spec.scan.slope_bootstrap;
+    q.seed = spec.scan.seed;
+    if (spec.question.kind == project::QuestionKind::Slope) {
+        q.x = spec.question.exposure;
+        q.y = spec.question.outcome;
+        q.covariates = spec.question.covariates;
+    } else if (spec.trend) {
+        q.x = spec.trend->x;
+        q.y = spec.trend->y;
+        q.covariates = spec.trend->covariates;
+    }
+    return q;
+}
+
+// The trend columns must exist and be numeric, and a covariate must be another column than x,
+// y and the named stratifiers; a usage error names the one that is not.
+Status check_slope_columns(const Table& table, const SlopeQuestion& q, const std::vector<std::string>& strata,
+                           bool trend_checks) {
+    auto check = [&](const std::string& name, const std::string& role) -> Status {
+        const Column* c = table.column(name);
+        if (!c) return usage_error(make_error(role + " column '" + name + "' not found in the data"));
+        if (!c->is_numeric()) return usage_error(make_error(role + " column '" + name + "' is not numeric"));
+        return Ok{};
+    };
+    if (auto st = check(q.x, trend_checks ? "trend x" : "exposure (x)"); !st) return st;
+    if (auto st = check(q.y, trend_checks ? "trend y" : "outcome (y)"); !st) return st;
+    for (std::size_t i = 0; i < q.covariates.size(); ++i) {
+        const std::string& c = q.covariates[i];
+        if (c == q.x || c == q.y)
+            return usage_error(make_error("covariate '" + c + "' is the trend's " +
+                                          (c == q.x ? "exposure (x)" : "outcome (y)") +
+                                          "; a covariate must be another column"));
+        if (std::count(q.covariates.begin(), q.covariates.end(), c) > 1)
+            return usage_error(make_error("covariate '" + c + "' is named twice"));
+        if (std::find(strata.begin(), strata.end(), c) != strata.end())
+            return usage_error(make_error("column '" + c + "' is both a stratifier and a covariate: a column either "
+                                          "stratifies the trend or adjusts it"));
+        if (auto st = check(c, "covariate"); !st) return st;
+    }
+    return Ok{};
+}
+
+std::vector<std::string> slope_columns(const SlopeQuestion& q) {
+    std::vector<std::string> cols = {q.x, q.y};
+    cols.insert(cols.end(), q.covariates.begin(), q.covariates.end());
+    return cols;
+}
+
+Status check_spec(const AuditSpec& spec) {
+    const auto problems = settings_problems(spec.scan);
+    if (!problems.empty()) return usage_error(make_error(problems.front()));
+    return Ok{};
+}
+
+void fill_candidates(ScanResult& r, const CandidateSet& cands) {
+    r.excluded = cands.excluded;
+    r.candidates.clear();
+    r.candidate_origin.clear();
+    for (const auto& c : cands.candidates) {
+        r.candidates.push_back(c.name);
+        r.candidate_origin.push_back(c.origin);
+    }
+}
+
+Result<ScanResult> scan_slopes_only(const Table& table, const AuditSpec& spec, const RunOptions& opt) {
+    const SlopeQuestion sq = slope_question(spec);
+    if (auto st = check_slope_columns(table, sq, spec.scan.strata, false); !st) return st.error();
+    auto cands = select_candidates(table, slope_columns(sq), candidate_options(spec), nullptr);
+    if (!cands) return usage_error(cands.error());
+    ScanResult r;
+    r.slope_question = sq;
+    fill_candidates(r, *cands);
+    r.rows = table.total_weight();
+    r.alpha = sq.alpha;
+    r.bootstrap = spec.scan.bootstrap;
+    r.seed = sq.seed;
+    auto slopes = scan_slopes(table, sq, *cands, spec.scan.pairs, opt.work);
+    if (!slopes) {
+        if (opt.work.cancelled()) {
+            r.cancelled = true;
+            return r;
+        }
+        return slopes.error();
+    }
+    r.slope_findings = std::move(*slopes);
+    apply_fdr(r);
+    rank_findings(r);
+    if (spec.scan.find_groups) {
+        auto latent = find_groups(table, sq, sq.seed, opt.work);
+        if (!latent) {
+            if (opt.work.cancelled()) {
+                r.cancelled = true;
+                return r;
+            }
+            return latent.error();
+        }
+        r.latent = std::move(*latent);
+    }
+    return r;
+}
+
+Result<ScanResult> scan_rates(const Table& table, const AuditSpec& spec, const RunOptions& opt) {
+    const QuestionSpec qs = question_spec(spec);
+    auto q = resolve_question(table, qs);
+    if (!q) return usage_error(q.error());
+    auto cands = select_candidates(table, {qs.outcome, qs.exposure}, candidate_options(spec), table.column(qs.exposure));
+    if (!cands) return usage_error(cands.error());
+    if (cands->candidates.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)", table.source);
+    const SlopeQuestion sq = slope_question(spec);
+    std::vector<SlopeFinding> trend;
+    if (!sq.x.empty()) {
+        if (auto st = check_slope_columns(table, sq, spec.scan.strata, true); !st) return st.error();
+        const auto skip = slope_columns(sq);
+        std::vector<const Column*> cols;
+        for (const auto& c : cands->candidates)
+            if (std::find(skip.begin(), skip.end(), c.name) == skip.end()) cols.push_back(c.column);
+        auto checks = scan_slopes(table, sq, cols, false, opt.work);
+        if (!checks) {
+            if (opt.work.cancelled()) {
+                ScanResult r;
+                r.cancelled = true;
+                return r;
+            }
+            return checks.error();
+        }
+        trend = std::move(*checks);
+    }
+    RateScanOptions so;
+    so.pairs = spec.scan.pairs;
+    so.alpha = spec.scan.alpha;
+    so.bootstrap = spec.scan.bootstrap;
+    so.seed = spec.scan.seed;
+    so.threads = opt.threads;
+    auto r = rate_scan(table, *q, *cands, so, opt.work, opt.on_rate_finding, std::move(trend));
+    if (!r) return internal_error(r.error());
+    if (!sq.x.empty()) r->slope_question = sq;
+    return r;
+}
+
+}  // namespace
+
+project::QuestionKind infer_kind(const Table& table, const project::QuestionSettings& question, std::size_t max_levels) {
+    const Column* oc = table.column(question.outcome);
+    const Column* ec = table.column(question.exposure);
+    const bool slope = oc && ec && oc->is_numeric() && ec->is_numeric() && !question.positive &&
+                       ec->distinct_count() > max_levels;
+    return slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
+}
+
+EstimateSettings estimate_settings(const AuditSpec& spec) {
+    return {spec.scan.bins, static_cast<std::size_t>(spec.scan.max_levels), spec.scan.alpha};
+}
+
+Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const RunOptions& options) {
+    if (auto st = check_spec(spec); !st) return st.error();
+    auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(table, spec, options)
+                                                                : scan_rates(table, spec, options);
+    if (!r) return r;
+    if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &table, *d, estimate_settings(spec));
+    return r;
+}
+
+Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<GroupedMoments>& moments,
+                               const AuditSpec& spec, const RunOptions& options) {
+    if (auto st = check_spec(spec); !st) return st.error();
+    if (spec.question.kind == project::QuestionKind::Slope)
+        return usage_error(make_error("a trend question needs the rows, not counts"));
+    auto in = cubes_from_groups(counts, question_spec(spec), candidate_options(spec), spec.scan.pairs);
+    if (!in) return usage_error(in.error());
+    if (in->cubes.stratifiers.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)");
+    const SlopeQuestion sq = slope_question(spec);
+    std::vector<SlopeFinding> slopes;
+    if (moments && !sq.x.empty()) {
+        auto s = slope_checks_from_groups(*moments, counts, *in, sq);
+        if (!s) return s.error();
+        slopes = std::move(*s);
+    }
+    RateScanOptions so;
+    so.pairs = spec.scan.pairs;
+    so.alpha = spec.scan.alpha;
+    so.bootstrap = spec.scan.bootstrap;
+    so.seed = spec.scan.seed;
+    so.threads = options.threads;
+    auto r = rate_scan(in->cubes, in->question, so, options.work, options.on_rate_finding, std::move(slopes));
+    if (!r) return internal_error(r.error());
+    if (!sq.x.empty()) r->slope_question = sq;
+    return r;
+}
+
+Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_override, const RunOptions& options) {
+    AuditRun run;
+    const std::string path = data_override.empty() ? spec.data.path : data_override;
+    if (path.empty()) return make_error("the project names no data file");
+    if (data_override.empty()) {
+        auto change = project::check_data_file(spec.data);
+        if (change.missing) return make_error(change.message);
+        if (change.changed) run.data_change = change.message;
+    }
+    Result<std::string> digest = std::string();
+    std::thread hasher([&] { digest = sha256_file(path); });
+    CsvOptions ropt = project::reading_options(spec.data);
+    ropt.threads = options.threads;
+    auto table = read_csv(path, ropt, nullptr, options.work);
+    hasher.join();
+    if (!table) return table.error();
+    if (!digest) return digest.error();
+    run.table = std::move(*table);
+    auto result = scan_table(run.table, spec, options);
+    if (!result) return result.error();
+    run.result = std::move(*result);
+    run.info = DataInfo{path, *digest, static_cast<double>(run.table.rows)};
+    for (const auto& f : run.result.rate_findings)
+        if (run.diagram_problem.empty()) run.diagram_problem = f.verdict_problem;
+    for (const auto& f : run.result.slope_findings)
+        if (run.diagram_problem.empty()) run.diagram_problem = f.verdict_problem;
+    return run;
+}
+
+Status check_diagram_columns(const causal::Diagram& diagram, const Table& table, const std::string& source) {
+    auto graph = causal::CausalGraph::build(diagram, source);
+    if (!graph) return graph.error();
+    std::vector<std::string> names;
+    for (const auto& c : table.columns) names.push_back(c.name);
+    return causal::check_columns(*graph, names, source);
+}
+
+}  // namespace foldline::audit

@@ -1,0 +1,57 @@
+#include "core/scan/scan_result.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/stats/fdr.h"
+
+namespace foldline {
+
+void apply_fdr(ScanResult& r) {
+    std::vector<double> p;
+    p.reserve(r.rate_findings.size() + r.slope_findings.size());
+    for (const auto& f : r.rate_findings) p.push_back(f.p_reversal);
+    for (const auto& f : r.slope_findings) p.push_back(f.p_reversal);
+    const auto q = stats::benjamini_hochberg(p);
+    const std::size_t nr = r.rate_findings.size();
+    for (std::size_t i = 0; i < nr; ++i) {
+        auto& f = r.rate_findings[i];
+        f.q_value = std::isnan(q[i]) ? 1.0 : q[i];
+        f.cls = classify(f.class_inputs, f.q_value, r.alpha);
+    }
+    for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
+        auto& f = r.slope_findings[i];
+        f.q_value = q[nr + i];
+        classify(f, r.alpha);
+        // The stability is the share of resamples that kept the class the finding has now.
+        if (f.stability.draws > 0)
+            f.stability.share =
+                static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.cls))]) / f.stability.draws;
+    }
+}
+
+void rank_findings(ScanResult& r) {
+    std::stable_sort(r.rate_findings.begin(), r.rate_findings.end(), [](const RateFinding& a, const RateFinding& b) {
+        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
+        if (a.q_value != b.q_value) return a.q_value < b.q_value;
+        if (a.change != b.change) return a.change > b.change;
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return a.label() < b.label();
+    });
+    // The size of a slope finding's change is measured on the figures its class was decided on:
+    // the covariate-adjusted slopes when there are covariates.
+    auto change = [](const SlopeFinding& f) {
+        const double c = f.adjusted ? f.adjusted_within.slope - f.adjusted_pooled.slope : f.within.slope - f.pooled.slope;
+        return std::isnan(c) ? -1.0 : std::abs(c);
+    };
+    auto qv = [](const SlopeFinding& f) { return std::isnan(f.q_value) ? 2.0 : f.q_value; };
+    std::stable_sort(r.slope_findings.begin(), r.slope_findings.end(), [&](const SlopeFinding& a, const SlopeFinding& b) {
+        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
+        if (qv(a) != qv(b)) return qv(a) < qv(b);
+        if (change(a) != change(b)) return change(a) > change(b);
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        return a.strata < b.strata;
+    });
+}
+
+}  // namespace foldline
