@@ -1,11 +1,10 @@
 #include "core/scan/candidates.h"
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
 #include <optional>
-#include <thread>
 
+#include "core/common/run_tasks.h"
 #include "core/table/binning.h"
 
 namespace foldline {
@@ -69,7 +68,7 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
     auto mostly_missing = [&](const Column& c) {
         return rows > 0 && static_cast<double>(c.missing_count) > o.max_missing_share * rows;
     };
-    // Numeric columns become levels or bins first, on the machine's threads: each conversion
+    // Numeric columns become levels or bins first, on o.threads threads: each conversion
     // reads a whole column, and they do not depend on each other.
     struct Derived {
         std::optional<Column> levels, bins;
@@ -78,22 +77,12 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
     std::vector<std::size_t> numeric;
     for (std::size_t k = 0; k < order.size(); ++k)
         if (!t.columns[order[k]].is_categorical() && !mostly_missing(t.columns[order[k]])) numeric.push_back(k);
-    {
-        std::atomic<std::size_t> next{0};
-        auto convert = [&] {
-            for (std::size_t n; (n = next.fetch_add(1)) < numeric.size();) {
-                const std::size_t k = numeric[n];
-                const Column& c = t.columns[order[k]];
-                derived[k].levels = integer_levels(c, o.max_levels);
-                if (!derived[k].levels && o.bins >= 2) derived[k].bins = quantile_bins(c, o.bins, t.weights);
-            }
-        };
-        const std::size_t nt = std::min<std::size_t>(numeric.size(), std::max(1u, std::thread::hardware_concurrency()));
-        std::vector<std::thread> pool;
-        for (std::size_t k = 1; k < nt; ++k) pool.emplace_back(convert);
-        convert();
-        for (auto& th : pool) th.join();
-    }
+    run_tasks(numeric.size(), o.threads, [&](std::size_t n) {
+        const std::size_t k = numeric[n];
+        const Column& c = t.columns[order[k]];
+        derived[k].levels = integer_levels(c, o.max_levels);
+        if (!derived[k].levels && o.bins >= 2) derived[k].bins = quantile_bins(c, o.bins, t.weights);
+    });
     for (std::size_t k = 0; k < order.size(); ++k) {
         const std::size_t idx = order[k];
         const Column& c = t.columns[idx];

@@ -16,6 +16,7 @@ struct CandidateOptions {
     std::size_t max_levels = 50;        ///< categorical candidates need 2..max_levels levels
     int bins = 4;                       ///< quantile bins for numeric columns; < 2 = leave them out
     double max_missing_share = 0.5;     ///< more missing than this: "mostly missing"
+    unsigned threads = 0;               ///< threads converting numeric columns (0 = hardware concurrency)
 };
 
 /// A stratifier ready for counting: always a categorical column (codes + levels).
