@@ -6,15 +6,12 @@
 #include <algorithm>
 #include <atomic>
 #include <cctype>
-#include <chrono>
 #include <cmath>
-#include <condition_variable>
 #include <cstdlib>
 #include <ctime>
 #include <functional>
 #include <limits>
-#include <mutex>
-#include <thread>
+#include <stop_token>
 #include <unordered_map>
 
 #include "core/stats/moments.h"
@@ -95,38 +92,26 @@ struct Statement {
     }
 };
 
-/// Calls SQLCancel on `stmt` when the stop token fires, until destroyed.
+/// While alive, a stop request calls SQLCancel on `stmt` at once, on the thread that asks the
+/// stop (std::stop_callback). Its destructor waits for a cancel already running, so the
+/// statement handle outlives every SQLCancel on it: declare the watch after the Statement.
 class CancelWatch {
 public:
-    CancelWatch(SQLHSTMT stmt, const Work& work) {
-        thread_ = std::thread([this, stmt, stop = work.stop] {
-            std::unique_lock<std::mutex> lock(m_);
-            while (!done_) {
-                if (stop.stop_requested()) {
-                    SQLCancel(stmt);
-                    cancelled_ = true;
-                    return;
-                }
-                cv_.wait_for(lock, std::chrono::milliseconds(50));
-            }
-        });
-    }
-    ~CancelWatch() {
-        {
-            std::lock_guard<std::mutex> lock(m_);
-            done_ = true;
-        }
-        cv_.notify_all();
-        thread_.join();
-    }
-    bool cancelled() const { return cancelled_; }
+    CancelWatch(SQLHSTMT stmt, const Work& work)
+        : callback_(work.stop.token(), Cancel{stmt, &cancelled_}) {}
+    bool cancelled() const { return cancelled_.load(); }
 
 private:
-    std::mutex m_;
-    std::condition_variable cv_;
-    bool done_ = false;
-    std::atomic<bool> cancelled_{false};
-    std::thread thread_;
+    struct Cancel {
+        SQLHSTMT stmt;
+        std::atomic<bool>* cancelled;
+        void operator()() const noexcept {
+            cancelled->store(true);
+            SQLCancel(stmt);
+        }
+    };
+    std::atomic<bool> cancelled_{false};  // declared before the callback, which may run in its constructor
+    std::stop_callback<Cancel> callback_;
 };
 
 bool numeric_type(SQLSMALLINT t) {
@@ -204,6 +189,8 @@ public:
         if (o_.timeout_seconds > 0)
             SQLSetStmtAttr(st.h, SQL_ATTR_QUERY_TIMEOUT, reinterpret_cast<SQLPOINTER>(o_.timeout_seconds), 0);
         CancelWatch watch(st.h, work_);
+        // A stop asked before the watch existed has no statement to cancel yet: do not start one.
+        if (work_.cancelled()) return make_error("cancelled before " + std::string(what));
         SQLRETURN rc = SQLExecDirect(st.h, reinterpret_cast<SQLCHAR*>(const_cast<char*>(sql.c_str())), SQL_NTS);
         auto failure = [&]() -> Error {
             if (watch.cancelled() || work_.cancelled()) return make_error(std::string("cancelled while ") + what);
