@@ -15,6 +15,7 @@
 #include <unordered_map>
 
 #include "core/stats/moments.h"
+#include "core/table/column_profile.h"
 
 namespace foldline {
 namespace {
@@ -412,19 +413,16 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
         if (it == profiled.end()) continue;
         const std::size_t k = static_cast<std::size_t>(it - profiled.begin());
         const double distinct = distincts[k];
-        const double missing = rows - present[k];
-        if (rows > 0 && missing > o.max_missing_share * rows) {
-            out.left_out.push_back({c.name, "mostly missing (" + std::to_string(static_cast<long long>(missing)) + " of " +
-                                                std::to_string(static_cast<long long>(rows)) + " rows)"});
-            continue;
-        }
-        if (!c.numeric && distinct >= 2 && distinct == present[k] && rows > static_cast<double>(o.max_levels)) {
-            out.left_out.push_back({c.name, "one value per row"});
-            continue;
-        }
-        if (!c.numeric && distinct > static_cast<double>(o.max_levels)) {
-            out.left_out.push_back({c.name, "too many levels (" + std::to_string(static_cast<long long>(distinct)) +
-                                                " > " + std::to_string(o.max_levels) + ")"});
+        // The candidate selection's own rule (core/table/column_profile.h), so a column left out
+        // here gets the words a scan of the same rows gives.
+        ColumnProfile profile;
+        profile.rows = rows;
+        profile.missing = rows - present[k];
+        profile.distinct = distinct;
+        profile.categorical = !c.numeric;
+        profile.row_level = o.count_column.empty();
+        if (auto why = exclusion_reason(profile, o.max_levels, o.max_missing_share)) {
+            out.left_out.push_back({c.name, std::move(*why)});
             continue;
         }
         plan.keep.push_back(c);
