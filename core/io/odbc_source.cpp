@@ -263,69 +263,6 @@ private:
 
 }  // namespace
 
-std::string odbc_connection_string(std::string_view text) {
-    std::string s(text);
-    if (lower(s.substr(0, 5)) == "odbc:") s = s.substr(5);
-    if (s.empty()) return s;
-    const std::string l = lower(s);
-    const bool has_pwd = l.rfind("pwd=", 0) == 0 || l.find(";pwd=") != std::string::npos ||
-                         l.rfind("password=", 0) == 0 || l.find(";password=") != std::string::npos;
-    if (!has_pwd) {
-        if (const char* p = std::getenv("FOLDLINE_ODBC_PASSWORD"); p && *p) {
-            if (s.back() != ';') s += ';';
-            s += "PWD={" + std::string(p) + "};";
-        }
-    }
-    return s;
-}
-
-std::string redact_connection_string(std::string_view text) {
-    // Attributes are KEY=VALUE separated by ';'; a value in braces may hold ';' and '}}'
-    // (ODBC's SQLDriverConnect grammar [from memory]), so it runs to its closing brace.
-    auto trim = [](std::string k) {
-        while (!k.empty() && k.front() == ' ') k.erase(k.begin());
-        while (!k.empty() && k.back() == ' ') k.pop_back();
-        return k;
-    };
-    std::string out;
-    std::size_t i = 0;
-    while (i < text.size()) {
-        const std::size_t eq = text.find('=', i);
-        const std::size_t semi = text.find(';', i);
-        if (eq == std::string_view::npos || (semi != std::string_view::npos && semi < eq)) {
-            const std::size_t end = semi == std::string_view::npos ? text.size() : semi + 1;
-            out += text.substr(i, end - i);
-            i = end;
-            continue;
-        }
-        std::size_t v = eq + 1;
-        while (v < text.size() && text[v] == ' ') ++v;
-        std::size_t end = v;
-        if (v < text.size() && text[v] == '{') {
-            end = v + 1;
-            while (end < text.size()) {
-                if (text[end] == '}') {
-                    if (end + 1 < text.size() && text[end + 1] == '}') {
-                        end += 2;
-                        continue;
-                    }
-                    ++end;
-                    break;
-                }
-                ++end;
-            }
-        }
-        end = text.find(';', end);
-        if (end == std::string_view::npos) end = text.size();
-        const std::string key = lower(trim(std::string(text.substr(i, eq - i))));
-        out += text.substr(i, eq + 1 - i);
-        out += key == "pwd" || key == "password" ? std::string("***") : std::string(text.substr(eq + 1, end - eq - 1));
-        if (end < text.size()) out += ';';
-        i = end + 1;
-    }
-    return out;
-}
-
 namespace {
 
 /// The source's FROM item and the columns worth fetching.
