@@ -51,10 +51,12 @@ Result<AuditRun> run_audit(const project::Project& p, const std::string& data_ov
     copt.columns = p.scan.strata;
     copt.bins = p.scan.bins;
     copt.max_levels = static_cast<std::size_t>(p.scan.max_levels);
+    copt.threads = threads;
     SlopeQuestion sq;
     sq.alpha = p.scan.alpha;
     sq.bootstrap = p.scan.slope_bootstrap;
     sq.seed = p.scan.seed;
+    sq.threads = threads;
     if (p.question.kind == project::QuestionKind::Slope) {
         sq.x = p.question.exposure;
         sq.y = p.question.outcome;

@@ -255,6 +255,7 @@ int run(int argc, char** argv) {
     CsvOptions ropt;
     ropt.count_column = a.get_or("count-column", "");
     ropt.threads = sopt.threads;
+    copt.threads = sopt.threads;
     if (a.has("delimiter")) {
         const auto d = *a.get("delimiter");
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
@@ -336,6 +337,7 @@ int run(int argc, char** argv) {
         return fail(kName, kUsage, "--slope-bootstrap needs a whole number >= 0");
     sq.bootstrap = static_cast<int>(slope_boot);
     sq.seed = sopt.seed;
+    sq.threads = sopt.threads;
     if (slope_only) {
         sq.x = spec.exposure;
         sq.y = spec.outcome;
