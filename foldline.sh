@@ -16,7 +16,7 @@ say() { printf '\033[1mfoldline.sh:\033[0m %s\n' "$*"; }
 # Packages to build and run; test-only packages are added for `test`.
 PKGS=(cmake g++ ninja-build pkg-config
       qt6-base-dev qt6-svg-dev libqcustomplot-dev libgl-dev
-      libeigen3-dev nlohmann-json3-dev libboost-math-dev libgtest-dev)
+      libeigen3-dev nlohmann-json3-dev libboost-math-dev libgtest-dev libssl-dev)
 TEST_PKGS=(python3 python3-pandas python3-statsmodels python3-scipy python3-networkx
            r-cran-palmerpenguins python3-sklearn poppler-utils graphviz xvfb xauth
            unixodbc-dev odbc-postgresql postgresql)

@@ -1,5 +1,6 @@
 // Core headers first: they use `slots` as a name, which Qt defines as a keyword macro.
 #include "core/io/csv_reader.h"
+#include "core/io/odbc_connection.h"
 #include "core/io/sql_pushdown.h"
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
@@ -449,14 +450,7 @@ bool database_available() {
 
 namespace {
 
-bool has_password(const QString& connection) {
-    for (const QString& part : connection.split(QLatin1Char(';'))) {
-        const QString key = part.section(QLatin1Char('='), 0, 0).trimmed().toLower();
-        if (part.contains(QLatin1Char('=')) && (key == QLatin1String("pwd") || key == QLatin1String("password")))
-            return true;
-    }
-    return false;
-}
+bool has_password(const QString& connection) { return connection_has_password(connection.toStdString()); }
 
 }  // namespace
 
@@ -497,12 +491,7 @@ Result<Table> load_database(const DatabaseRequest& r, const Work& work, Database
     if (password.isEmpty() && !r.password_env.trimmed().isEmpty())
         password = qEnvironmentVariable(r.password_env.trimmed().toLocal8Bit().constData());
     OdbcOptions o;
-    o.connection = conn.toStdString();
-    if (!password.isEmpty()) {
-        // Braced, with '}' doubled, so a password may hold ';' (the ODBC connection grammar).
-        if (!o.connection.empty() && o.connection.back() != ';') o.connection += ';';
-        o.connection += "PWD={" + password.replace(QLatin1String("}"), QLatin1String("}}")).toStdString() + "};";
-    }
+    o.connection = connection_with_password(conn.toStdString(), password.toStdString());
     o.source.table = r.table.trimmed().toStdString();
     o.source.query = r.query.trimmed().toStdString();
     o.all_columns = true;

@@ -4,7 +4,6 @@
 #include <cerrno>
 #include <cstdlib>
 #include <chrono>
-#include <csignal>
 #include <cmath>
 #include <cstdio>
 #include <iostream>
@@ -20,6 +19,7 @@
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
+#include "core/common/stop_on_signal.h"
 #include "core/io/csv_reader.h"
 #include "core/report/scan_json.h"
 #include "core/report/scan_summary.h"
@@ -28,14 +28,6 @@ namespace foldline::cli {
 namespace {
 
 const char* kName = "scan";
-
-// Ctrl-C (or a TERM signal) during a database scan cancels the statement running in the
-// engine (the driver's SQLCancel, through the stop token) instead of leaving it running there.
-StopToken& interrupt_token() {
-    static StopToken token;
-    return token;
-}
-extern "C" void on_interrupt(int) { interrupt_token().request_stop(); }
 
 std::vector<std::string> split_list(const std::string& s) {
     std::vector<std::string> out;
@@ -198,10 +190,10 @@ int run(int argc, char** argv) {
         // stability (resampled rows) and trends of a pre-counted source need rows, so those
         // scans load the joint cells instead.
         const std::string tx = spec.trend ? spec.trend->x : std::string(), ty = spec.trend ? spec.trend->y : std::string();
+        // Ctrl-C (or a TERM signal) during the counting cancels the statement running in the
+        // engine (the driver's SQLCancel, through the stop token) instead of leaving it there.
         Work work;
-        work.stop = interrupt_token();
-        std::signal(SIGINT, on_interrupt);
-        std::signal(SIGTERM, on_interrupt);
+        const StopOnSignal interrupts(work.stop);
         const bool cells = a.has("diagram") || (!tx.empty() && (a.has("slope-bootstrap") || !ropt.count_column.empty()));
         if (!cells) {
             for (const auto& c : {tx, ty})
@@ -232,10 +224,6 @@ int run(int argc, char** argv) {
         }
     }
     hasher.join();
-    if (from_db) {
-        std::signal(SIGINT, SIG_DFL);
-        std::signal(SIGTERM, SIG_DFL);
-    }
     if (!table) return fail(kName, kInput, table.error().to_string());
     if (!digest) return fail(kName, kInput, digest.error().to_string());
     const auto t1 = clock::now();

@@ -15,8 +15,9 @@
 namespace foldline::audit {
 namespace {
 
-CandidateOptions candidate_options(const AuditSpec& spec) {
+CandidateOptions candidate_options(const AuditSpec& spec, unsigned threads) {
     CandidateOptions o;
+    o.threads = threads;
     o.columns = spec.scan.strata;
     o.bins = spec.scan.bins;
     o.max_levels = static_cast<std::size_t>(spec.scan.max_levels);
@@ -35,8 +36,9 @@ QuestionSpec question_spec(const AuditSpec& spec) {
 
 /// The trend a spec asks for: the slope question itself, or the trend checks beside a rate
 /// question; x empty when neither.
-SlopeQuestion slope_question(const AuditSpec& spec) {
+SlopeQuestion slope_question(const AuditSpec& spec, unsigned threads) {
     SlopeQuestion q;
+    q.threads = threads;
     q.alpha = spec.scan.alpha;
     q.bootstrap = spec.scan.slope_bootstrap;
     q.seed = spec.scan.seed;
@@ -103,9 +105,9 @@ void fill_candidates(ScanResult& r, const CandidateSet& cands) {
 }
 
 Result<ScanResult> scan_slopes_only(const Table& table, const AuditSpec& spec, const RunOptions& opt) {
-    const SlopeQuestion sq = slope_question(spec);
+    const SlopeQuestion sq = slope_question(spec, opt.threads);
     if (auto st = check_slope_columns(table, sq, spec.scan.strata, false); !st) return st.error();
-    auto cands = select_candidates(table, slope_columns(sq), candidate_options(spec), nullptr);
+    auto cands = select_candidates(table, slope_columns(sq), candidate_options(spec, opt.threads), nullptr);
     if (!cands) return usage_error(cands.error());
     ScanResult r;
     r.slope_question = sq;
@@ -143,10 +145,10 @@ Result<ScanResult> scan_rates(const Table& table, const AuditSpec& spec, const R
     const QuestionSpec qs = question_spec(spec);
     auto q = resolve_question(table, qs);
     if (!q) return usage_error(q.error());
-    auto cands = select_candidates(table, {qs.outcome, qs.exposure}, candidate_options(spec), table.column(qs.exposure));
+    auto cands = select_candidates(table, {qs.outcome, qs.exposure}, candidate_options(spec, opt.threads), table.column(qs.exposure));
     if (!cands) return usage_error(cands.error());
     if (cands->candidates.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)", table.source);
-    const SlopeQuestion sq = slope_question(spec);
+    const SlopeQuestion sq = slope_question(spec, opt.threads);
     std::vector<SlopeFinding> trend;
     if (!sq.x.empty()) {
         if (auto st = check_slope_columns(table, sq, spec.scan.strata, true); !st) return st.error();
@@ -205,10 +207,10 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
     if (auto st = check_spec(spec); !st) return st.error();
     if (spec.question.kind == project::QuestionKind::Slope)
         return usage_error(make_error("a trend question needs the rows, not counts"));
-    auto in = cubes_from_groups(counts, question_spec(spec), candidate_options(spec), spec.scan.pairs);
+    auto in = cubes_from_groups(counts, question_spec(spec), candidate_options(spec, options.threads), spec.scan.pairs);
     if (!in) return usage_error(in.error());
     if (in->cubes.stratifiers.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)");
-    const SlopeQuestion sq = slope_question(spec);
+    const SlopeQuestion sq = slope_question(spec, options.threads);
     std::vector<SlopeFinding> slopes;
     if (moments && !sq.x.empty()) {
         auto s = slope_checks_from_groups(*moments, counts, *in, sq);

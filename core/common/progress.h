@@ -1,21 +1,24 @@
 #pragma once
 // Long work (load, scan, bootstrap) reports progress and honours cancellation through these
 // two plain types, so core never needs to know about Qt or threads of the caller.
-#include <atomic>
 #include <functional>
-#include <memory>
+#include <stop_token>
 
 namespace foldline {
 
-/// Shared cancel flag. Copies share the same flag. A default-constructed token never stops.
+/// Shared cancel flag: a thin wrapper over std::stop_source. Copies share the same state; a
+/// default-constructed token has its own state and never stops until asked. Code that must act
+/// the moment a stop is asked (a database driver's cancel) registers a std::stop_callback on
+/// token(); the callback runs on the thread that calls request_stop, so request_stop is not
+/// for signal handlers (core/common/stop_on_signal.h bridges signals to it).
 class StopToken {
 public:
-    StopToken() : flag_(std::make_shared<std::atomic<bool>>(false)) {}
-    void request_stop() const { flag_->store(true, std::memory_order_relaxed); }
-    bool stop_requested() const { return flag_->load(std::memory_order_relaxed); }
+    void request_stop() const { source_.request_stop(); }
+    bool stop_requested() const { return source_.stop_requested(); }
+    std::stop_token token() const { return source_.get_token(); }
 
 private:
-    std::shared_ptr<std::atomic<bool>> flag_;
+    mutable std::stop_source source_;
 };
 
 /// Progress callback: done and total in the caller's units (bytes, candidates, draws), plus a

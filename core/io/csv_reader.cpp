@@ -7,16 +7,15 @@
 #include <cstdio>
 #include <mutex>
 #include <set>
-#include <thread>
 #include <type_traits>
 #include <unordered_set>
 
 #include <sys/mman.h>
 
+#include "core/common/run_tasks.h"
 #include "core/io/csv_chunk.h"
 #include "core/io/csv_tokenizer.h"
 #include "core/io/mapped_file.h"
-#include "core/io/parallel_tasks.h"
 #include "core/io/utf8.h"
 
 namespace foldline {
@@ -293,7 +292,7 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     // and ends cleanly proves the next one starts right after a record too. When a quoted
     // field spans a split (the chunk "overran"), the split moves to the end of that field's
     // record and both chunks are read again.
-    const unsigned threads = opts.threads ? opts.threads : std::max(1u, std::thread::hardware_concurrency());
+    const unsigned threads = resolve_threads(opts.threads);
     const std::size_t body = text.size() - body_start;
     std::size_t target = opts.chunk_bytes;
     if (target == 0) target = std::clamp<std::size_t>(body / (std::size_t{threads} * 4), kMiB, 8 * kMiB);

@@ -6,18 +6,16 @@
 #include <algorithm>
 #include <atomic>
 #include <cctype>
-#include <chrono>
 #include <cmath>
-#include <condition_variable>
 #include <cstdlib>
 #include <ctime>
 #include <functional>
 #include <limits>
-#include <mutex>
-#include <thread>
+#include <stop_token>
 #include <unordered_map>
 
 #include "core/stats/moments.h"
+#include "core/table/column_profile.h"
 
 namespace foldline {
 namespace {
@@ -95,38 +93,26 @@ struct Statement {
     }
 };
 
-/// Calls SQLCancel on `stmt` when the stop token fires, until destroyed.
+/// While alive, a stop request calls SQLCancel on `stmt` at once, on the thread that asks the
+/// stop (std::stop_callback). Its destructor waits for a cancel already running, so the
+/// statement handle outlives every SQLCancel on it: declare the watch after the Statement.
 class CancelWatch {
 public:
-    CancelWatch(SQLHSTMT stmt, const Work& work) {
-        thread_ = std::thread([this, stmt, stop = work.stop] {
-            std::unique_lock<std::mutex> lock(m_);
-            while (!done_) {
-                if (stop.stop_requested()) {
-                    SQLCancel(stmt);
-                    cancelled_ = true;
-                    return;
-                }
-                cv_.wait_for(lock, std::chrono::milliseconds(50));
-            }
-        });
-    }
-    ~CancelWatch() {
-        {
-            std::lock_guard<std::mutex> lock(m_);
-            done_ = true;
-        }
-        cv_.notify_all();
-        thread_.join();
-    }
-    bool cancelled() const { return cancelled_; }
+    CancelWatch(SQLHSTMT stmt, const Work& work)
+        : callback_(work.stop.token(), Cancel{stmt, &cancelled_}) {}
+    bool cancelled() const { return cancelled_.load(); }
 
 private:
-    std::mutex m_;
-    std::condition_variable cv_;
-    bool done_ = false;
-    std::atomic<bool> cancelled_{false};
-    std::thread thread_;
+    struct Cancel {
+        SQLHSTMT stmt;
+        std::atomic<bool>* cancelled;
+        void operator()() const noexcept {
+            cancelled->store(true);
+            SQLCancel(stmt);
+        }
+    };
+    std::atomic<bool> cancelled_{false};  // declared before the callback, which may run in its constructor
+    std::stop_callback<Cancel> callback_;
 };
 
 bool numeric_type(SQLSMALLINT t) {
@@ -204,6 +190,8 @@ public:
         if (o_.timeout_seconds > 0)
             SQLSetStmtAttr(st.h, SQL_ATTR_QUERY_TIMEOUT, reinterpret_cast<SQLPOINTER>(o_.timeout_seconds), 0);
         CancelWatch watch(st.h, work_);
+        // A stop asked before the watch existed has no statement to cancel yet: do not start one.
+        if (work_.cancelled()) return make_error("cancelled before " + std::string(what));
         SQLRETURN rc = SQLExecDirect(st.h, reinterpret_cast<SQLCHAR*>(const_cast<char*>(sql.c_str())), SQL_NTS);
         auto failure = [&]() -> Error {
             if (watch.cancelled() || work_.cancelled()) return make_error(std::string("cancelled while ") + what);
@@ -274,69 +262,6 @@ private:
 };
 
 }  // namespace
-
-std::string odbc_connection_string(std::string_view text) {
-    std::string s(text);
-    if (lower(s.substr(0, 5)) == "odbc:") s = s.substr(5);
-    if (s.empty()) return s;
-    const std::string l = lower(s);
-    const bool has_pwd = l.rfind("pwd=", 0) == 0 || l.find(";pwd=") != std::string::npos ||
-                         l.rfind("password=", 0) == 0 || l.find(";password=") != std::string::npos;
-    if (!has_pwd) {
-        if (const char* p = std::getenv("FOLDLINE_ODBC_PASSWORD"); p && *p) {
-            if (s.back() != ';') s += ';';
-            s += "PWD={" + std::string(p) + "};";
-        }
-    }
-    return s;
-}
-
-std::string redact_connection_string(std::string_view text) {
-    // Attributes are KEY=VALUE separated by ';'; a value in braces may hold ';' and '}}'
-    // (ODBC's SQLDriverConnect grammar [from memory]), so it runs to its closing brace.
-    auto trim = [](std::string k) {
-        while (!k.empty() && k.front() == ' ') k.erase(k.begin());
-        while (!k.empty() && k.back() == ' ') k.pop_back();
-        return k;
-    };
-    std::string out;
-    std::size_t i = 0;
-    while (i < text.size()) {
-        const std::size_t eq = text.find('=', i);
-        const std::size_t semi = text.find(';', i);
-        if (eq == std::string_view::npos || (semi != std::string_view::npos && semi < eq)) {
-            const std::size_t end = semi == std::string_view::npos ? text.size() : semi + 1;
-            out += text.substr(i, end - i);
-            i = end;
-            continue;
-        }
-        std::size_t v = eq + 1;
-        while (v < text.size() && text[v] == ' ') ++v;
-        std::size_t end = v;
-        if (v < text.size() && text[v] == '{') {
-            end = v + 1;
-            while (end < text.size()) {
-                if (text[end] == '}') {
-                    if (end + 1 < text.size() && text[end + 1] == '}') {
-                        end += 2;
-                        continue;
-                    }
-                    ++end;
-                    break;
-                }
-                ++end;
-            }
-        }
-        end = text.find(';', end);
-        if (end == std::string_view::npos) end = text.size();
-        const std::string key = lower(trim(std::string(text.substr(i, eq - i))));
-        out += text.substr(i, eq + 1 - i);
-        out += key == "pwd" || key == "password" ? std::string("***") : std::string(text.substr(eq + 1, end - eq - 1));
-        if (end < text.size()) out += ';';
-        i = end + 1;
-    }
-    return out;
-}
 
 namespace {
 
@@ -425,19 +350,16 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
         if (it == profiled.end()) continue;
         const std::size_t k = static_cast<std::size_t>(it - profiled.begin());
         const double distinct = distincts[k];
-        const double missing = rows - present[k];
-        if (rows > 0 && missing > o.max_missing_share * rows) {
-            out.left_out.push_back({c.name, "mostly missing (" + std::to_string(static_cast<long long>(missing)) + " of " +
-                                                std::to_string(static_cast<long long>(rows)) + " rows)"});
-            continue;
-        }
-        if (!c.numeric && distinct >= 2 && distinct == present[k] && rows > static_cast<double>(o.max_levels)) {
-            out.left_out.push_back({c.name, "one value per row"});
-            continue;
-        }
-        if (!c.numeric && distinct > static_cast<double>(o.max_levels)) {
-            out.left_out.push_back({c.name, "too many levels (" + std::to_string(static_cast<long long>(distinct)) +
-                                                " > " + std::to_string(o.max_levels) + ")"});
+        // The candidate selection's own rule (core/table/column_profile.h), so a column left out
+        // here gets the words a scan of the same rows gives.
+        ColumnProfile profile;
+        profile.rows = rows;
+        profile.missing = rows - present[k];
+        profile.distinct = distinct;
+        profile.categorical = !c.numeric;
+        profile.row_level = o.count_column.empty();
+        if (auto why = exclusion_reason(profile, o.max_levels, o.max_missing_share)) {
+            out.left_out.push_back({c.name, std::move(*why)});
             continue;
         }
         plan.keep.push_back(c);

@@ -11,8 +11,8 @@
 // Read-only by construction: only SELECT statements are sent (the user's query is checked and
 // wrapped, see core/io/sql_pushdown.h) and the connection is put in read-only access mode.
 // Credentials come only from the connection string the caller passes or the environment
-// variable FOLDLINE_ODBC_PASSWORD (added as PWD= when the string has none); the source
-// description kept for reports never contains them.
+// variable FOLDLINE_ODBC_PASSWORD (added as PWD= when the string has none, see
+// core/io/odbc_connection.h); the source description kept for reports never contains them.
 //
 // Built only when unixODBC is found (CMake option FOLDLINE_ODBC; FOLDLINE_HAS_ODBC is then 1).
 #include <cstddef>
@@ -24,6 +24,7 @@
 
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/io/odbc_connection.h"
 #include "core/io/sql_pushdown.h"
 #include "core/table/grouped_counts.h"
 #include "core/table/table.h"
@@ -88,13 +89,6 @@ struct OdbcGroups : OdbcSourceInfo {
     /// slope question may be meant, so no counting query was sent (counts are empty).
     bool numeric_question = false;
 };
-
-/// The connection string with an "odbc:" prefix removed and, when it has no PWD= and the
-/// environment variable FOLDLINE_ODBC_PASSWORD is set, PWD=<that value> appended. "" stays "".
-std::string odbc_connection_string(std::string_view text);
-
-/// The connection string with every PWD=/PASSWORD= value replaced by "***" (for messages).
-std::string redact_connection_string(std::string_view text);
 
 /// Connects, discovers the columns (a `WHERE 1 = 0` describe), profiles them (rows, present and
 /// distinct values, sql::profile_sql), fetches the joint cells of the columns kept and builds the pre-counted Table.

@@ -1,11 +1,10 @@
 #include "core/scan/candidates.h"
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
 #include <optional>
-#include <thread>
 
+#include "core/common/run_tasks.h"
 #include "core/table/binning.h"
 
 namespace foldline {
@@ -65,11 +64,27 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
         identity_conv = integer_levels(*identity_with, 1u << 16);
         identity_with = identity_conv ? &*identity_conv : nullptr;
     }
-    const double rows = static_cast<double>(t.rows);
-    auto mostly_missing = [&](const Column& c) {
-        return rows > 0 && static_cast<double>(c.missing_count) > o.max_missing_share * rows;
+    // What exclusion_reason needs of each column: missing rows in Σ weights (a row of a
+    // pre-counted table stands for many), levels in use for a categorical column.
+    const double rows = t.total_weight();
+    auto profile = [&](const Column& c) {
+        ColumnProfile p;
+        p.rows = rows;
+        p.missing = static_cast<double>(c.missing_count);
+        if (t.weighted()) {
+            p.missing = 0;
+            for (std::size_t i = 0; i < t.rows; ++i)
+                if (c.is_missing(i)) p.missing += t.weights[i];
+        }
+        p.categorical = c.is_categorical();
+        p.distinct = p.categorical ? static_cast<double>(used_levels(c)) : 0.0;
+        p.row_level = !t.weighted();
+        return p;
     };
-    // Numeric columns become levels or bins first, on the machine's threads: each conversion
+    std::vector<std::optional<std::string>> reason(order.size());
+    run_tasks(order.size(), o.threads,
+              [&](std::size_t k) { reason[k] = exclusion_reason(profile(t.columns[order[k]]), o); });
+    // Numeric columns become levels or bins first, on o.threads threads: each conversion
     // reads a whole column, and they do not depend on each other.
     struct Derived {
         std::optional<Column> levels, bins;
@@ -77,48 +92,24 @@ Result<CandidateSet> select_candidates(const Table& t, const std::vector<std::st
     std::vector<Derived> derived(order.size());
     std::vector<std::size_t> numeric;
     for (std::size_t k = 0; k < order.size(); ++k)
-        if (!t.columns[order[k]].is_categorical() && !mostly_missing(t.columns[order[k]])) numeric.push_back(k);
-    {
-        std::atomic<std::size_t> next{0};
-        auto convert = [&] {
-            for (std::size_t n; (n = next.fetch_add(1)) < numeric.size();) {
-                const std::size_t k = numeric[n];
-                const Column& c = t.columns[order[k]];
-                derived[k].levels = integer_levels(c, o.max_levels);
-                if (!derived[k].levels && o.bins >= 2) derived[k].bins = quantile_bins(c, o.bins, t.weights);
-            }
-        };
-        const std::size_t nt = std::min<std::size_t>(numeric.size(), std::max(1u, std::thread::hardware_concurrency()));
-        std::vector<std::thread> pool;
-        for (std::size_t k = 1; k < nt; ++k) pool.emplace_back(convert);
-        convert();
-        for (auto& th : pool) th.join();
-    }
+        if (!t.columns[order[k]].is_categorical() && !reason[k]) numeric.push_back(k);
+    run_tasks(numeric.size(), o.threads, [&](std::size_t n) {
+        const std::size_t k = numeric[n];
+        const Column& c = t.columns[order[k]];
+        derived[k].levels = integer_levels(c, o.max_levels);
+        if (!derived[k].levels && o.bins >= 2) derived[k].bins = quantile_bins(c, o.bins, t.weights);
+    });
     for (std::size_t k = 0; k < order.size(); ++k) {
         const std::size_t idx = order[k];
         const Column& c = t.columns[idx];
         auto exclude = [&](std::string why) { out.excluded.push_back({c.name, std::move(why)}); };
-        if (mostly_missing(c)) {
-            exclude("mostly missing (" + std::to_string(c.missing_count) + " of " + std::to_string(t.rows) +
-                    " rows)");
+        if (reason[k]) {
+            exclude(std::move(*reason[k]));
             continue;
         }
         Candidate cand;
         cand.name = c.name;
         if (c.is_categorical()) {
-            const auto n = used_levels(c);
-            if (n < 2) {
-                exclude("constant");
-                continue;
-            }
-            if (!t.weighted() && n == t.rows - c.missing_count && t.rows > o.max_levels) {
-                exclude("one value per row");
-                continue;
-            }
-            if (n > o.max_levels) {
-                exclude("too many levels (" + std::to_string(n) + " > " + std::to_string(o.max_levels) + ")");
-                continue;
-            }
             cand.origin = "categorical";
             cand.column = &c;
         } else {

@@ -3,10 +3,12 @@
 // and the slope scans.
 #include <cstddef>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "core/common/error.h"
+#include "core/table/column_profile.h"
 #include "core/table/table.h"
 
 namespace foldline {
@@ -16,6 +18,7 @@ struct CandidateOptions {
     std::size_t max_levels = 50;        ///< categorical candidates need 2..max_levels levels
     int bins = 4;                       ///< quantile bins for numeric columns; < 2 = leave them out
     double max_missing_share = 0.5;     ///< more missing than this: "mostly missing"
+    unsigned threads = 0;               ///< threads converting numeric columns (0 = hardware concurrency)
 };
 
 /// A stratifier ready for counting: always a categorical column (codes + levels).
@@ -36,12 +39,19 @@ struct CandidateSet {
     std::vector<Exclusion> excluded;    ///< every other column except the skipped ones
 };
 
+/// exclusion_reason (core/table/column_profile.h) with the options' limits: the words of every
+/// scan path (table, grouping-set cells, database profile) for a column left out before counting.
+inline std::optional<std::string> exclusion_reason(const ColumnProfile& p, const CandidateOptions& o) {
+    return exclusion_reason(p, o.max_levels, o.max_missing_share);
+}
+
 /// Selects candidates among the table's columns, never those named in `skip` (outcome,
 /// exposure). Categorical columns qualify with 2..max_levels levels in use; numeric columns with
 /// integer values and at most max_levels distinct values become one level per value; other
 /// numeric columns are cut into quantile bins (left out when bins < 2). A column is left out,
-/// with its reason, when it is constant, has a different value in every row (row-level tables
-/// only), has too many levels, is mostly missing, or splits the rows exactly as `identity_with`
+/// with its reason, when exclusion_reason says so (mostly missing, counted in Σ weights for a
+/// pre-counted table; constant; a different value in every row, row-level tables only; too
+/// many levels), when its levels or bins are constant, or when it splits the rows exactly as `identity_with`
 /// does (pass the exposure column; nullptr skips that check). An explicit list naming an unknown
 /// column is an error. The table must outlive the result (candidates point into it).
 Result<CandidateSet> select_candidates(const Table& table, const std::vector<std::string>& skip,

@@ -105,27 +105,24 @@ Result<GroupedScanInput> cubes_from_groups(const GroupedCounts& g, const Questio
         }
     }
 
-    // Each stratifier decided on its own set: the same rules as select_candidates, with the
-    // shares that it counts in rows counted here in weighted rows (cells stand for many rows).
+    // Each stratifier decided on its own set by exclusion_reason, as select_candidates decides
+    // a table's column: rows and missing rows in Σ weights (cells stand for many rows), and
+    // "one value per row" only for a source of rows (not pre-counted). select_candidates on
+    // the set then forms the levels or bins (and finds a copy of the exposure).
     CandidateOptions one = options;
-    one.max_missing_share = 1.0;  // checked below in rows
+    one.max_missing_share = 1.0;  // decided below
     std::vector<Chosen> chosen;
     for (std::size_t k : order) {
         const Table& t = g.singles[k];
         const Column& c = t.columns[2];
-        const double rows = t.total_weight(), missing = missing_weight(t, c);
-        auto exclude = [&](std::string why) { out.cubes.excluded.push_back({c.name, std::move(why)}); };
-        if (rows > 0 && missing > options.max_missing_share * rows) {
-            exclude("mostly missing (" + std::to_string(static_cast<std::size_t>(missing)) + " of " +
-                    std::to_string(static_cast<std::size_t>(rows)) + " rows)");
-            continue;
-        }
-        // Every level of a set has a cell, so the levels in use are the levels (as in
-        // select_candidates, a column with fewer than two is "constant", decided there).
-        const double used = static_cast<double>(c.levels.size());
-        if (c.is_categorical() && !g.weighted_source && used >= 2 && used == rows - missing &&
-            rows > static_cast<double>(options.max_levels)) {
-            exclude("one value per row");
+        ColumnProfile profile;
+        profile.rows = t.total_weight();
+        profile.missing = missing_weight(t, c);
+        profile.categorical = c.is_categorical();
+        profile.distinct = static_cast<double>(c.levels.size());  // every level of a set has a cell
+        profile.row_level = !g.weighted_source;
+        if (auto why = exclusion_reason(profile, options)) {
+            out.cubes.excluded.push_back({c.name, std::move(*why)});
             continue;
         }
         one.columns = {c.name};

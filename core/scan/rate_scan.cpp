@@ -6,8 +6,8 @@
 #include <limits>
 #include <mutex>
 #include <functional>
-#include <thread>
 
+#include "core/common/run_tasks.h"
 #include "core/stats/bootstrap.h"
 #include "core/stats/distributions.h"
 #include "core/stats/fdr.h"
@@ -213,7 +213,7 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesO
     std::vector<RateFinding> findings(cubes.size() * ncomp);
     std::vector<stats::Strata> cube_strata(cubes.size() * ncomp);
     std::vector<char> done(cubes.size(), 0);
-    std::atomic<std::size_t> next{0}, finished{0};
+    std::atomic<std::size_t> finished{0};
     std::mutex emit;
     const double total = static_cast<double>(cubes.size());
     work.report(0, total, "counting strata");
@@ -250,29 +250,19 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesO
         const auto n = finished.fetch_add(1) + 1;
         work.report(static_cast<double>(n), total, "counting strata");
     };
-    auto worker = [&]() {
-        std::vector<std::size_t> kept;
+    // One task per batch of cubes; a stop request skips the batches not yet started.
+    const unsigned nthreads = resolve_threads(opt.threads);
+    run_tasks(tasks.size(), nthreads, [&](std::size_t t) {
+        if (work.cancelled()) return;
+        const auto& task = tasks[t];
+        const Cube& head = cubes[task.first];
         std::vector<std::size_t> js;
-        for (;;) {
-            const std::size_t t = next.fetch_add(1);
-            if (t >= tasks.size() || work.cancelled()) return;
-            const auto& task = tasks[t];
-            const Cube& head = cubes[task.first];
-            js.clear();
-            if (head.j != single)
-                for (std::size_t k = 0; k < task.count; ++k) js.push_back(cubes[task.first + k].j);
-            const auto built = cubes_of(head.i, js);
-            for (std::size_t k = 0; k < task.count; ++k) analyse(task.first + k, built[k], kept);
-        }
-    };
-    unsigned nthreads = opt.threads ? opt.threads : std::max(1u, std::thread::hardware_concurrency());
-    nthreads = static_cast<unsigned>(std::min<std::size_t>(nthreads, std::max<std::size_t>(1, tasks.size())));
-    {
-        std::vector<std::thread> pool;
-        for (unsigned k = 1; k < nthreads; ++k) pool.emplace_back(worker);
-        worker();
-        for (auto& th : pool) th.join();
-    }
+        if (head.j != single)
+            for (std::size_t k = 0; k < task.count; ++k) js.push_back(cubes[task.first + k].j);
+        const auto built = cubes_of(head.i, js);
+        std::vector<std::size_t> kept;
+        for (std::size_t k = 0; k < task.count; ++k) analyse(task.first + k, built[k], kept);
+    });
     result.cancelled = work.cancelled();
 
     std::vector<stats::Strata> kept_strata;
@@ -291,34 +281,26 @@ Result<ScanResult> scan_cubes(ScanResult result, const Question& q, const CubesO
         std::vector<std::size_t> flagged;
         for (std::size_t i = 0; i < result.rate_findings.size(); ++i)
             if (result.rate_findings[i].cls != FindingClass::Stable) flagged.push_back(i);
-        std::atomic<std::size_t> nb{0}, nbd{0};
+        std::atomic<std::size_t> nbd{0};
         const double btotal = static_cast<double>(flagged.size());
-        auto boot = [&]() {
-            for (;;) {
-                const std::size_t k = nb.fetch_add(1);
-                if (k >= flagged.size() || work.cancelled()) return;
-                auto& f = result.rate_findings[flagged[k]];
-                const std::uint64_t seed = fnv1a(f.label() + "\x1f" + f.focal, opt.seed * 0x9E3779B97F4A7C15ull + 1);
-                // Resample in a canonical stratum order (by label), so the draws do not depend on the
-                // order in which levels first appeared in the file.
-                const auto& st = kept_strata[flagged[k]];
-                std::vector<std::size_t> order(st.size());
-                for (std::size_t z = 0; z < order.size(); ++z) order[z] = z;
-                std::sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
-                    return f.strata_table[x].levels < f.strata_table[y].levels;
-                });
-                stats::Strata canonical;
-                canonical.reserve(st.size());
-                for (auto z : order) canonical.push_back(st[z]);
-                f.stability = {class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed), opt.bootstrap};
-                work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
-            }
-        };
-        std::vector<std::thread> pool;
-        for (unsigned k = 1; k < std::min<std::size_t>(nthreads, std::max<std::size_t>(1, flagged.size())); ++k)
-            pool.emplace_back(boot);
-        boot();
-        for (auto& th : pool) th.join();
+        run_tasks(flagged.size(), nthreads, [&](std::size_t k) {
+            if (work.cancelled()) return;
+            auto& f = result.rate_findings[flagged[k]];
+            const std::uint64_t seed = fnv1a(f.label() + "\x1f" + f.focal, opt.seed * 0x9E3779B97F4A7C15ull + 1);
+            // Resample in a canonical stratum order (by label), so the draws do not depend on the
+            // order in which levels first appeared in the file.
+            const auto& st = kept_strata[flagged[k]];
+            std::vector<std::size_t> order(st.size());
+            for (std::size_t z = 0; z < order.size(); ++z) order[z] = z;
+            std::sort(order.begin(), order.end(), [&](std::size_t x, std::size_t y) {
+                return f.strata_table[x].levels < f.strata_table[y].levels;
+            });
+            stats::Strata canonical;
+            canonical.reserve(st.size());
+            for (auto z : order) canonical.push_back(st[z]);
+            f.stability = {class_stability(canonical, f.cls, opt.alpha, opt.bootstrap, seed), opt.bootstrap};
+            work.report(static_cast<double>(nbd.fetch_add(1) + 1), btotal, "bootstrap");
+        });
         result.cancelled = work.cancelled();
     }
     rank_findings(result);

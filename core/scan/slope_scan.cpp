@@ -1,5 +1,6 @@
 #include "core/scan/slope_scan.h"
 
+#include "core/common/run_tasks.h"
 #include "core/stats/fdr.h"
 #include "core/stats/mixture.h"
 
@@ -8,7 +9,6 @@
 #include <cmath>
 #include <limits>
 #include <random>
-#include <thread>
 
 namespace foldline {
 namespace {
@@ -406,10 +406,10 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
             std::vector<StratumMoments> acc;
             acc.reserve(c1 - c0);
             for (std::size_t c = c0; c < c1; ++c) acc.emplace_back(strata_of(checks[c]));
-            // The batch's checks are shared out over the machine's threads, each folding the
-            // chunks into its own checks' sums (no sharing, so the sums are the same as on one
-            // thread); thread 0 reports progress.
-            const std::size_t nt = std::min<std::size_t>(c1 - c0, std::max(1u, std::thread::hardware_concurrency()));
+            // The batch's checks are shared out in nt parts (check c in part c mod nt), each
+            // folding the chunks into its own checks' sums (no sharing, so the sums are the same
+            // for any thread count); part 0 reports progress.
+            const std::size_t nt = std::min<std::size_t>(c1 - c0, resolve_threads(s.q.threads));
             std::atomic<bool> stopped{false};
             auto fold_checks = [&](std::size_t part) {
                 for (std::size_t i0 = 0; i0 < n; i0 += chunk) {
@@ -431,12 +431,7 @@ Result<std::vector<SlopeFinding>> run_scan(const Scan& s, const std::vector<cons
                                     total, "slope checks");
                 }
             };
-            {
-                std::vector<std::thread> pool;
-                for (std::size_t part = 1; part < nt; ++part) pool.emplace_back(fold_checks, part);
-                fold_checks(0);
-                for (auto& th : pool) th.join();
-            }
+            run_tasks(nt, static_cast<unsigned>(nt), fold_checks);
             if (stopped) return make_error("cancelled");
             for (std::size_t c = c0; c < c1; ++c) moments[c - c0] = acc[c - c0].finish();
         }

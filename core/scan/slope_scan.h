@@ -46,6 +46,7 @@ struct SlopeQuestion {
     double alpha = 0.05;
     int bootstrap = 0;                    ///< resamples for stability; 0 = none
     std::uint64_t seed = 1;
+    unsigned threads = 0;                 ///< threads sharing a scan's checks (0 = hardware concurrency)
 };
 
 /// One stratum of a check.

@@ -327,6 +327,18 @@ expect_error("refused query", ["--source", conn, "--query", "SELECT * FROM staff
 expect_error("ungroupable type", ["--source", conn, "--table", "blobs", *q, "--strata", "doc"], ["cannot be grouped"])
 expect_error("wrong password", ["--source", conn, "--table", "staffing", *q], ["cannot connect", "uid=reader"],
              env=dict(os.environ, FOLDLINE_ODBC_PASSWORD="wrong"))
+# A password holding ';', '}' and '{' logs in: it goes into the connection string braced with
+# '}' doubled (core/io/odbc_connection.h), and never appears in the output.
+awkward_pw = "se;c}r{et}"
+psql("CREATE ROLE awkward LOGIN PASSWORD '" + awkward_pw + "'")
+psql("GRANT SELECT ON staffing TO awkward")
+conn_awkward = f"odbc:Driver={driver};Server=127.0.0.1;Port={port};Database=audit;Uid=awkward"
+r, _ = scan(["--source", conn_awkward, "--table", "staffing", *q],
+            env=dict(os.environ, FOLDLINE_ODBC_PASSWORD=awkward_pw))
+if r.returncode or awkward_pw in r.stdout + r.stderr or not json.loads(r.stdout).get("findings"):
+    failures.append(f"password with ';', '}}' and '{{': exit {r.returncode}, message: {r.stderr.strip()[:300]}")
+else:
+    print("ok   a password holding ';', '}' and '{' logs in (braced, '}' doubled) and stays out of the output")
 # A query source gives the same findings as the table it selects from.
 a, _ = scan(["--source", conn, "--table", "staffing", *q])
 b, _ = scan(["--source", conn, "--query", 'SELECT * FROM staffing WHERE "select" IS NULL OR "select" <> \'zz\'', *q])

@@ -67,6 +67,41 @@ TEST(Candidates, ReasonsForEveryLeftOutColumn) {
     EXPECT_FALSE(select_candidates(t, {"g", "y"}, listed).ok());
 }
 
+// Numeric columns are converted on CandidateOptions::threads threads, one column per task:
+// the candidates, their levels and every code are the same on one thread and on several.
+TEST(Candidates, SelectionDoesNotDependOnTheThreadCount) {
+    const int n = 500;
+    Table t;
+    std::vector<std::string> g;
+    for (int i = 0; i < n; ++i) g.push_back(i % 2 ? "A" : "B");
+    t.columns.push_back(cat_column("g", g));
+    for (int c = 0; c < 7; ++c) {
+        std::vector<double> v;
+        for (int i = 0; i < n; ++i) v.push_back(c % 2 ? static_cast<double>((i * (c + 3)) % (c + 4)) : 0.37 * ((i * 7919 + c) % 211));
+        t.columns.push_back(Column::numeric(numbered("x", c), v));
+    }
+    t.rows = n;
+    CandidateOptions o;
+    o.threads = 1;
+    auto one = select_candidates(t, {"g"}, o);
+    ASSERT_TRUE(one.ok());
+    ASSERT_EQ(one->candidates.size(), 7u);
+    for (unsigned threads : {2u, 4u, 0u}) {
+        o.threads = threads;
+        auto many = select_candidates(t, {"g"}, o);
+        ASSERT_TRUE(many.ok());
+        ASSERT_EQ(many->candidates.size(), one->candidates.size());
+        for (std::size_t k = 0; k < one->candidates.size(); ++k) {
+            const auto& a = one->candidates[k];
+            const auto& b = many->candidates[k];
+            EXPECT_EQ(a.name, b.name);
+            EXPECT_EQ(a.origin, b.origin);
+            EXPECT_EQ(a.column->levels, b.column->levels);
+            for (std::size_t i = 0; i < t.rows; ++i) ASSERT_EQ(a.column->code(i), b.column->code(i)) << a.name << " row " << i;
+        }
+    }
+}
+
 TEST(Candidates, SamePartitionIgnoresLabels) {
     auto a = cat_column("a", {"x", "y", "x", ""});
     auto b = cat_column("b", {"1", "2", "1", ""});

@@ -168,6 +168,71 @@ TEST(GroupedCubes, ScanOfGroupedCountsEqualsScanOfRows) {
     expect_same(*want, *got);
 }
 
+// Columns left out before counting get the same words from the scan of the rows, the scan of
+// their grouping sets and the database profile, since all three describe the column as a
+// ColumnProfile for exclusion_reason (core/table/column_profile.h). The profile's figures are
+// those the database's profile query returns for these rows: COUNT(*), non-missing rows and
+// distinct non-missing values.
+TEST(GroupedCubes, LeftOutColumnsGetTheSameWordsOnEveryPath) {
+    Table rows = staffing(600, 11);
+    std::vector<std::string> constant, sparse, many;
+    for (std::size_t i = 0; i < rows.rows; ++i) {
+        constant.push_back("same");
+        sparse.push_back(i % 5 == 0 ? testing::numbered("s", static_cast<long>(i % 3)) : "");
+        many.push_back(testing::numbered("m", static_cast<long>(i % 80)));
+    }
+    rows.columns.push_back(testing::cat_column("constant", constant));
+    rows.columns.push_back(testing::cat_column("sparse", sparse));
+    rows.columns.push_back(testing::cat_column("many", many));
+    QuestionSpec spec;
+    spec.outcome = "hired";
+    spec.positive = "yes";
+    spec.exposure = "team";
+    CandidateOptions copt;
+
+    auto file = select_candidates(rows, {"hired", "team"}, copt, rows.column("team"));
+    ASSERT_TRUE(file.ok());
+    std::map<std::string, std::string> from_file;
+    for (const auto& e : file->excluded) from_file[e.column] = e.reason;
+    EXPECT_EQ(from_file["badge"], "one value per row");
+    EXPECT_EQ(from_file["constant"], "constant");
+    EXPECT_EQ(from_file["sparse"], "mostly missing (480 of 600 rows)");
+    EXPECT_EQ(from_file["many"], "too many levels (80 > 50)");
+
+    auto in = cubes_from_groups(group_all(rows, 1, 0, false), spec, copt, false);
+    ASSERT_TRUE(in.ok()) << in.error().to_string();
+    std::map<std::string, std::string> from_groups;
+    for (const auto& e : in->cubes.excluded) from_groups[e.column] = e.reason;
+    EXPECT_EQ(from_groups, from_file);
+
+    // The database profile's figures for each categorical column left out.
+    for (const char* name : {"badge", "constant", "sparse", "many"}) {
+        const Column& c = *rows.column(name);
+        std::vector<char> seen(c.levels.size(), 0);
+        double present = 0;
+        for (std::size_t i = 0; i < rows.rows; ++i)
+            if (!c.is_missing(i)) {
+                seen[c.code(i)] = 1;
+                ++present;
+            }
+        ColumnProfile profile;
+        profile.rows = static_cast<double>(rows.rows);
+        profile.missing = profile.rows - present;
+        profile.distinct = static_cast<double>(std::count(seen.begin(), seen.end(), 1));
+        EXPECT_EQ(exclusion_reason(profile, copt).value_or("kept"), from_file[name]) << name;
+    }
+
+    // Pre-counted: the same rows as weighted cells give the same shares (in Σ weights), and
+    // "one value per row" no longer applies.
+    Table counted = group_rows(rows, {0, 1, 2, 6, 7});
+    auto cells = select_candidates(counted, {"hired", "team"}, copt, counted.column("team"));
+    ASSERT_TRUE(cells.ok());
+    std::map<std::string, std::string> from_cells;
+    for (const auto& e : cells->excluded) from_cells[e.column] = e.reason;
+    EXPECT_EQ(from_cells["constant"], "constant");
+    EXPECT_EQ(from_cells["sparse"], "mostly missing (480 of 600 rows)");
+}
+
 TEST(GroupedCubes, NamedStratifiersKeepTheirOrderAndPairsFollowIt) {
     const Table rows = staffing(1500, 7);
     QuestionSpec spec;

@@ -255,6 +255,36 @@ TEST(SlopeScan, ScanRunsSinglesAndPairsAndHonoursQValues) {
     EXPECT_TRUE(none->empty());
 }
 
+// The checks of a scan are shared out over SlopeQuestion::threads; each check keeps its own
+// sums, so every figure is bit-for-bit the same on one thread and on several.
+TEST(SlopeScan, FiguresDoNotDependOnTheThreadCount) {
+    Table t = planted(400, {0, 3, 6, 9}, {0, 6, 12, 18}, {-0.5, -0.4, -0.6, -0.5}, 0.5, 16);
+    SlopeQuestion q;
+    q.x = "x";
+    q.y = "y";
+    q.threads = 1;
+    auto one = scan_slopes(t, q, {t.column("g"), t.column("noise")}, true);
+    ASSERT_TRUE(one.ok());
+    ASSERT_EQ(one->size(), 3u);
+    for (unsigned threads : {2u, 3u, 0u}) {
+        q.threads = threads;
+        auto many = scan_slopes(t, q, {t.column("g"), t.column("noise")}, true);
+        ASSERT_TRUE(many.ok());
+        ASSERT_EQ(many->size(), one->size());
+        for (std::size_t i = 0; i < one->size(); ++i) {
+            const auto& a = (*one)[i];
+            const auto& b = (*many)[i];
+            EXPECT_EQ(a.strata, b.strata);
+            EXPECT_EQ(a.finding_class, b.finding_class);
+            EXPECT_EQ(a.within.slope, b.within.slope) << threads << " threads, check " << i;
+            EXPECT_EQ(a.within.se, b.within.se);
+            EXPECT_EQ(a.pooled.slope, b.pooled.slope);
+            ASSERT_EQ(a.groups.size(), b.groups.size());
+            for (std::size_t g = 0; g < a.groups.size(); ++g) EXPECT_EQ(a.groups[g].slope, b.groups[g].slope);
+        }
+    }
+}
+
 // A pre-counted table (each row with a count) gives the same figures as the rows it stands for.
 TEST(SlopeScan, PreCountedEqualsRowLevel) {
     Table rows = planted(50, {0, 2}, {0, 3}, {-1, -1}, 0.3, 7);
