@@ -168,59 +168,26 @@ int run(int argc, char** argv) {
         ropt.delimiter = d == "\\t" || d == "tab" ? '\t' : d.empty() ? 0 : d[0];
     }
     audit::DatabaseInfo db;
-    audit::DatabaseCounts counted;
-    bool from_cubes = false;
+    std::optional<audit::DatabaseCounts> counted;
     auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
     if (from_db) {
         audit::DatabaseRequest req;
         req.source = *a.get("source");
         req.table = a.get_or("table", "");
         req.query = a.get_or("query", "");
-        req.required = {spec.question.outcome, spec.question.exposure};
-        for (const auto& c : spec.scan.strata) req.required.push_back(c);
-        for (const auto& c : covariates) req.required.push_back(c);
-        req.all_columns = spec.scan.strata.empty();
         req.count_column = ropt.count_column;
-        CandidateOptions copt;
-        copt.columns = spec.scan.strata;
-        copt.bins = spec.scan.bins;
-        copt.max_levels = static_cast<std::size_t>(spec.scan.max_levels);
-        // A rate question runs on the cubes of one GROUPING SETS query, and its trend checks
-        // on per-stratum moment sums. The diagram's verdicts (joint strata of any set), slope
-        // stability (resampled rows) and trends of a pre-counted source need rows, so those
-        // scans load the joint cells instead.
-        const std::string tx = spec.trend ? spec.trend->x : std::string(), ty = spec.trend ? spec.trend->y : std::string();
         // Ctrl-C (or a TERM signal) during the counting cancels the statement running in the
         // engine (the driver's SQLCancel, through the stop token) instead of leaving it there.
         Work work;
         const StopOnSignal interrupts(work.stop);
-        const bool cells = a.has("diagram") || (!tx.empty() && (a.has("slope-bootstrap") || !ropt.count_column.empty()));
-        if (!cells) {
-            for (const auto& c : {tx, ty})
-                if (!c.empty() && std::find(req.required.begin(), req.required.end(), c) == req.required.end())
-                    req.required.push_back(c);
-            QuestionSpec qs{spec.question.outcome, spec.question.positive, spec.question.exposure, spec.question.focal,
-                            spec.question.reference};
-            auto c = audit::load_database_counts(req, copt, qs, spec.scan.pairs, !spec.question.positive, tx, ty, work);
-            if (!c) {
-                table = c.error();
-            } else if (!c->numeric_question) {
-                counted = std::move(*c);
-                db = counted;
-                path = db.description;
-                table = counted.counts.pooled;
-                from_cubes = true;
-            }
-        }
-        if (!from_cubes && (cells || table.error().message.empty())) {
-            auto loaded = audit::load_database_source(req, copt, work);
-            if (loaded) {
-                db = *loaded;
-                path = db.description;
-                table = std::move(loaded->table);
-            } else {
-                table = loaded.error();
-            }
+        auto loaded = audit::load_for_audit(req, spec, covariates, work);
+        if (!loaded) {
+            table = loaded.error();
+        } else {
+            db = loaded->info;
+            path = db.description;
+            counted = std::move(loaded->counts);
+            table = counted ? counted->counts.pooled : std::move(loaded->cells);
         }
     }
     hasher.join();
@@ -230,6 +197,7 @@ int run(int argc, char** argv) {
 
     // A numeric outcome on a numeric exposure with many values is a slope question; covariates
     // adjust that trend, or the --trend checks of a rate question.
+    const bool from_cubes = counted.has_value();
     if (!from_cubes)
         spec.question.kind = audit::infer_kind(*table, spec.question, static_cast<std::size_t>(spec.scan.max_levels));
     const bool slope_only = spec.question.kind == project::QuestionKind::Slope;
@@ -243,7 +211,7 @@ int run(int argc, char** argv) {
     if (!spec.diagrams.empty())
         if (auto st = audit::check_diagram_columns(spec.diagrams.front().diagram, *table, *a.get("diagram")); !st)
             return fail(kName, kInput, st.error().to_string());
-    auto result = from_cubes ? audit::scan_groups(counted.counts, counted.moments, spec, options)
+    auto result = from_cubes ? audit::scan_groups(counted->counts, counted->moments, spec, options)
                              : audit::scan_table(*table, spec, options);
     if (!result) return fail(kName, result.error());
     if (!spec.diagrams.empty()) {

@@ -2,6 +2,8 @@
 
 #include <algorithm>
 
+#include "core/scan/question.h"
+
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
 #include "core/scan/grouped_cubes.h"
@@ -97,6 +99,48 @@ Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, cons
         (void)trend_y, (void)work;
     return make_error("this build has no database support (install unixodbc-dev and rebuild with -DFOLDLINE_ODBC=ON)");
 #endif
+}
+
+Result<DatabaseLoad> load_for_audit(DatabaseRequest request, const project::AuditSpec& spec,
+                                    const std::vector<std::string>& extra, const Work& work) {
+    auto need = [&](const std::string& c) {
+        if (!c.empty() && std::find(request.required.begin(), request.required.end(), c) == request.required.end())
+            request.required.push_back(c);
+    };
+    need(spec.question.outcome);
+    need(spec.question.exposure);
+    for (const auto& c : spec.scan.strata) need(c);
+    for (const auto& c : extra) need(c);
+    request.all_columns = spec.scan.strata.empty();
+    CandidateOptions copt;
+    copt.columns = spec.scan.strata;
+    copt.bins = spec.scan.bins;
+    copt.max_levels = static_cast<std::size_t>(spec.scan.max_levels);
+    const std::string tx = spec.trend ? spec.trend->x : std::string(), ty = spec.trend ? spec.trend->y : std::string();
+    // The diagram's verdicts (joint strata of any set), slope stability (resampled rows) and
+    // trends of a pre-counted source need rows; everything else is counted in the engine.
+    const bool rows = !spec.diagrams.empty() || (!tx.empty() && (spec.scan.slope_bootstrap > 0 || !request.count_column.empty()));
+    DatabaseLoad out;
+    if (!rows) {
+        DatabaseRequest counted = request;
+        for (const auto& c : {tx, ty})
+            if (!c.empty() && std::find(counted.required.begin(), counted.required.end(), c) == counted.required.end())
+                counted.required.push_back(c);
+        const QuestionSpec qs{spec.question.outcome, spec.question.positive, spec.question.exposure,
+                              spec.question.focal, spec.question.reference};
+        auto c = load_database_counts(counted, copt, qs, spec.scan.pairs, !spec.question.positive, tx, ty, work);
+        if (!c) return c.error();
+        if (!c->numeric_question) {
+            out.info = *c;
+            out.counts = std::move(*c);
+            return out;
+        }
+    }
+    auto loaded = load_database_source(request, copt, work);
+    if (!loaded) return loaded.error();
+    out.info = *loaded;
+    out.cells = std::move(loaded->table);
+    return out;
 }
 
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "core/common/error.h"
+#include "core/audit/audit_spec.h"
 #include "core/common/progress.h"
 #include "core/io/source_record.h"
 #include "core/scan/candidates.h"
@@ -65,6 +66,23 @@ Result<DatabaseCounts> load_database_counts(const DatabaseRequest& request, cons
                                             const QuestionSpec& spec, bool pairs, bool may_be_slopes,
                                             const std::string& trend_x = {}, const std::string& trend_y = {},
                                             const Work& work = {});
+
+/// What an audit of a database reads: the cubes of one GROUPING SETS query (a rate question,
+/// with the trend's moment sums), or the joint cells as a pre-counted table when the audit needs
+/// rows (a diagram's verdicts over any set, slope resampling, a trend of a pre-counted source, a
+/// slope question).
+struct DatabaseLoad {
+    DatabaseInfo info;
+    std::optional<DatabaseCounts> counts;  ///< set: run scan_groups over these
+    Table cells;                           ///< otherwise: run scan_table over this table
+};
+
+/// Loads what `spec` needs from the database named by `request` (its `required` columns are
+/// filled here: the question's, the named strata, the trend's and `extra`, e.g. covariates).
+/// A numeric outcome and exposure with no positive level come back as cells (the engine says it
+/// is not a rate question). Errors as for load_database_source.
+Result<DatabaseLoad> load_for_audit(DatabaseRequest request, const project::AuditSpec& spec,
+                                    const std::vector<std::string>& extra, const Work& work = {});
 
 /// Puts `left_out` into `excluded` and orders the list by the columns' positions in `columns`.
 void merge_left_out(std::vector<Exclusion>& excluded, const std::vector<Exclusion>& left_out,

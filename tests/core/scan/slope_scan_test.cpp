@@ -275,7 +275,7 @@ TEST(SlopeScan, FiguresDoNotDependOnTheThreadCount) {
             const auto& a = (*one)[i];
             const auto& b = (*many)[i];
             EXPECT_EQ(a.strata, b.strata);
-            EXPECT_EQ(a.finding_class, b.finding_class);
+            EXPECT_EQ(a.cls, b.cls);
             EXPECT_EQ(a.within.slope, b.within.slope) << threads << " threads, check " << i;
             EXPECT_EQ(a.within.se, b.within.se);
             EXPECT_EQ(a.pooled.slope, b.pooled.slope);
