@@ -187,3 +187,35 @@ TEST(MeanAnalysis, EmptyOrOneGroupIsStable) {
     EXPECT_EQ(f.strata_table[0].reason, "no focal rows");
     EXPECT_EQ(f.uninformative, std::vector<std::string>{"a"});
 }
+
+// Swapping focal and reference negates every difference and keeps the class and the reversal
+// p; reordering the strata changes nothing but the order of the table.
+TEST(MeanAnalysis, SwapAndReorderInvariance) {
+    const MeanCells cells = pay_cells(false);
+    const MeanFinding f = analyse_mean_strata(cells, kGrades, {"grade"}, kNames);
+    MeanCells swapped = cells, reordered;
+    for (auto& c : swapped) std::swap(c.focal, c.reference);
+    std::vector<std::vector<std::string>> labels;
+    for (std::size_t k = cells.size(); k-- > 0;) {
+        reordered.push_back(cells[k]);
+        labels.push_back(kGrades[k]);
+    }
+    const MeanFinding s = analyse_mean_strata(swapped, kGrades, {"grade"}, MeanNames{"salary", "A", "B"});
+    const MeanFinding r = analyse_mean_strata(reordered, labels, {"grade"}, kNames);
+    EXPECT_EQ(s.cls, f.cls);
+    EXPECT_EQ(r.cls, f.cls);
+    EXPECT_NEAR(s.p_reversal / f.p_reversal, 1.0, 1e-9);
+    EXPECT_NEAR(r.p_reversal / f.p_reversal, 1.0, 1e-9);
+    EXPECT_NEAR(s.crude.difference.estimate, -f.crude.difference.estimate, 1e-9);
+    EXPECT_NEAR(s.fixed_effects.estimate, -f.fixed_effects.estimate, 1e-9);
+    EXPECT_NEAR(s.fixed_effects.se_hc1, f.fixed_effects.se_hc1, 1e-9);
+    EXPECT_NEAR(s.standardised.estimate, -f.standardised.estimate, 1e-9);
+    EXPECT_NEAR(s.decomposition.within, -f.decomposition.within, 1e-9);
+    EXPECT_NEAR(s.interaction.f, f.interaction.f, 1e-9);
+    EXPECT_NEAR(r.fixed_effects.estimate, f.fixed_effects.estimate, 1e-9);
+    EXPECT_NEAR(r.cochran_q.q, f.cochran_q.q, 1e-9);
+    EXPECT_NEAR(r.decomposition.composition, f.decomposition.composition, 1e-8);
+    EXPECT_EQ(s.uninformative, std::vector<std::string>{"G6"});
+    EXPECT_EQ(s.strata_table[5].reason, "no reference rows");
+    EXPECT_EQ(r.strata_table[0].level, "G6");
+}
