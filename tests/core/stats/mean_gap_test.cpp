@@ -198,8 +198,8 @@ void check_variant(const std::string& variant) {
 TEST(MeanGap, PayReviewAgreesWithScipyAndStatsmodels) { check_variant("rows"); }
 
 // Values near 1e6 with a spread of a few units: differences, SEs and tests to 1e-9 relative of
-// the reference computed on the exactly shifted values. Raw sums Σy² would lose about
-// 1e-16 × 3e14 / 700 ≈ 4% of the centred sums here.
+// the reference computed on the exactly shifted values. Raw sums (Σy² near 3e14 against centred
+// sums near 1e3) would keep only about four significant digits of the centred sums.
 TEST(MeanGap, ValuesNearOneMillionKeepTheirDigits) { check_variant("near_1e6"); }
 
 // Pre-counted cells (row i with weight 1 + i % 3) against the reference on the rows they stand
