@@ -153,11 +153,19 @@ Result<EstimateOver> estimate_over_set(const ScanResult& result, FindingKind kin
     if (!table) return make_error("an estimate over another set needs the rows (this source gave only counts)");
     const bool slope = kind == FindingKind::Slope;
     Result<EstimateOver> e = make_error("not computed");
-    if (slope)
-        e = within_slope_over(*table, result.slope_question, set, settings.bins, settings.max_levels);
-    else
-        e = standardised_rd_over(*table, encode_rows(*table, result.question), set, comparison, settings.alpha,
-                                 settings.bins, settings.max_levels);
+    switch (kind) {
+        case FindingKind::Slope:
+            e = within_slope_over(*table, result.slope_question, set, settings.bins, settings.max_levels);
+            break;
+        case FindingKind::Rate:
+            e = standardised_rd_over(*table, encode_rows(*table, result.question), set, comparison, settings.alpha,
+                                     settings.bins, settings.max_levels);
+            break;
+        case FindingKind::Mean:
+            // Mean-gap findings are not yet part of a scan (core/scan/mean_analysis.h is their
+            // statistics only), so no estimate over another set exists for them.
+            return make_error("an estimate over another set is not available for mean-gap findings yet");
+    }
     if (!e) return e;
     if (!std::isfinite(e->estimate))
         return make_error(slope ? "no joint stratum of that set has spread in the exposure"

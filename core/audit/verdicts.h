@@ -53,7 +53,8 @@ std::string attach_verdicts(ScanResult& result, const Table* table, const causal
 /// The adjusted estimate over the joint strata of `set` for the result's question of `kind`: the
 /// rate difference of comparison `comparison` standardised to the set's pooled mix, or the
 /// trend's (result.slope_question) within slope with one intercept per joint stratum. Errors: an
-/// empty set, an unknown column, no rows (null table), or no joint stratum informing it.
+/// empty set, an unknown column, no rows (null table), no joint stratum informing it, or a
+/// mean-gap kind (not yet wired into scans).
 Result<EstimateOver> estimate_over_set(const ScanResult& result, FindingKind kind, const Table* table,
                                        const std::vector<std::string>& set, const EstimateSettings& settings,
                                        std::size_t comparison = 0);

@@ -1,8 +1,8 @@
 #pragma once
 // The part every kind of finding shares: what was stratified, its class, the reversal test and
 // its false-discovery-rate q-value, the stability of the class under resampling, and the
-// diagram's verdict with the adjusted estimate it points to. RateFinding and SlopeFinding add
-// their own figures beside it, so the memo, the JSON, the CSV, the project keys and the
+// diagram's verdict with the adjusted estimate it points to. RateFinding, SlopeFinding and
+// MeanFinding add their own figures beside it, so the memo, the JSON, the CSV, the project keys and the
 // workbench render this part once for every kind.
 #include <cmath>
 #include <limits>
@@ -16,10 +16,17 @@
 
 namespace foldline {
 
-enum class FindingKind { Rate, Slope };
+enum class FindingKind { Rate, Slope, Mean };
 
-/// "rate" or "slope": the JSON "kind", the project key's kind and the CSV file names use it.
-constexpr std::string_view to_string(FindingKind k) { return k == FindingKind::Rate ? "rate" : "slope"; }
+/// "rate", "slope" or "mean": the JSON "kind", the project key's kind and the CSV file names use it.
+constexpr std::string_view to_string(FindingKind k) {
+    switch (k) {
+        case FindingKind::Rate: return "rate";
+        case FindingKind::Slope: return "slope";
+        case FindingKind::Mean: return "mean";
+    }
+    return "rate";
+}
 
 /// How often resampled data kept the finding's class.
 struct Stability {

@@ -75,6 +75,10 @@ TEST(EstimateOverSet, RateDifferenceOverThreeColumns) {
     auto none = audit::estimate_over_set(r, FindingKind::Rate, &t, {"group", "a", "b"}, s);
     ASSERT_FALSE(none.ok());
     EXPECT_NE(none.error().message.find("both groups"), std::string::npos);
+    // Mean-gap findings are not wired into scans yet: an error that says so, not a rate estimate.
+    auto mean = audit::estimate_over_set(r, FindingKind::Mean, &t, {"a", "b", "c"}, s);
+    ASSERT_FALSE(mean.ok());
+    EXPECT_NE(mean.error().message.find("mean-gap"), std::string::npos);
 }
 
 // sample_data/retail_weeks.csv; statsmodels 0.13.5 OLS weekly_sales ~ promo_spend +
