@@ -180,7 +180,11 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
 Status DiagramPage::open_file(const QString& path) {
     auto d = causal::read_diagram(path.toStdString());
     if (!d) return d.error();
-    doc_->replace(*d);
+    if (auto st = doc_->replace(*d); !st) {
+        Error e = st.error();
+        e.file = path.toStdString();
+        return e;
+    }
     if (doc_->crowded()) {
         const QHash<QString, QPointF> pos = doc_->layout();
         for (auto it = pos.begin(); it != pos.end(); ++it) doc_->move_node(it.key(), it.value());

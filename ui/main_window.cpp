@@ -584,12 +584,14 @@ void MainWindow::restore_pending() {
     // Re-select so the detail panel shows the restored decision.
     findings_->list()->selectionModel()->setCurrentIndex(QModelIndex(), QItemSelectionModel::Clear);
     findings_->select_top();
+    QString diagram_problem;
     if (const causal::Diagram* d = p.diagram()) {
         seed_diagram_for(findings_->selected());
-        diagram_->doc()->replace(*d);
+        if (auto st = diagram_->doc()->replace(*d); !st) diagram_problem = QString::fromStdString(st.error().message);
         diagram_->undo_stack()->clear();
     }
     QString done = pending->path.isEmpty() ? tr("Restored the unsaved audit") : tr("Opened %1").arg(pending->path);
+    if (!diagram_problem.isEmpty()) done += tr(". The saved diagram was not restored: %1").arg(diagram_problem);
     if (!pending->data_change.isEmpty()) done += tr(". Warning: %1.").arg(pending->data_change);
     data_change_ = pending->data_change;
     statusBar()->showMessage(done, pending->data_change.isEmpty() ? 8000 : 0);
