@@ -10,24 +10,6 @@
 
 namespace foldline::ui {
 
-QString role_title(const QString& role) {
-    static const QHash<QString, QString> titles = {
-        {"exposure", QObject::tr("exposure")},
-        {"outcome", QObject::tr("outcome")},
-        {"confounder", QObject::tr("confounder")},
-        {"mediator", QObject::tr("mediator")},
-        {"mediator_descendant", QObject::tr("after a mediator")},
-        {"collider", QObject::tr("collider")},
-        {"collider_descendant", QObject::tr("after a collider")},
-        {"outcome_descendant", QObject::tr("after the outcome")},
-        {"exposure_descendant", QObject::tr("side effect of exposure")},
-        {"exposure_cause", QObject::tr("cause of exposure only")},
-        {"outcome_cause", QObject::tr("cause of outcome only")},
-        {"unrelated", QObject::tr("unrelated")},
-    };
-    return titles.value(role, role);
-}
-
 namespace {
 QString qs(const std::string& s) { return QString::fromStdString(s); }
 std::string ss(const QString& s) { return s.toStdString(); }

@@ -34,7 +34,7 @@ struct DiagramVerdict {
     std::optional<causal::Answer> answer;  ///< which view answers; set when computed
     QString recommended;          ///< the view to quote, in words
     QString reason;               ///< one plain sentence
-    QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
+    QHash<QString, causal::Role> roles;///< node → role; a node absent has none (no verdict)
     QList<QStringList> valid_sets;///< minimal valid adjustment sets
     QStringList standardise_over; ///< the set whose adjusted figure answers the question (other_set)
     QString adjusted;             ///< the estimate the verdict points to, in words, when there is one
@@ -101,8 +101,5 @@ private:
     QString exposure_, outcome_;
     QStringList strata_;
 };
-
-/// Display word of a role, as on the canvas ("confounder", "mediator", ...).
-QString role_title(const QString& role);
 
 }  // namespace foldline::ui

@@ -361,7 +361,7 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
         case causal::Answer::NotIdentifiable: v.recommended = QObject::tr("neither — not identifiable by adjustment"); break;
     }
     v.reason = qs(cv.reason);
-    for (const auto& nr : cv.roles) v.roles.insert(qs(nr.name), qs(std::string(causal::to_string(nr.role))));
+    for (const auto& nr : cv.roles) v.roles.insert(qs(nr.name), nr.role);
     for (const auto& set : cv.valid_sets) {
         QStringList l;
         for (const auto& n : set) l << qs(n);

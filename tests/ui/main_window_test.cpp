@@ -173,15 +173,17 @@ private slots:
         // (Pearl 2009, Causality, sec. 3.3.1) admits a confounder and excludes a descendant of
         // the exposure. The sample diagram draws the product as a mediator (sample_data/README.md).
         const bool was_mediator = d->doc()->has_edge(exposure, stratum);
-        const QString role_before = d->verdict().roles.value(stratum);
-        QCOMPARE(role_before, was_mediator ? QStringLiteral("mediator") : QStringLiteral("confounder"));
+        QVERIFY(d->verdict().roles.contains(stratum));
+        const causal::Role role_before = d->verdict().roles.value(stratum);
+        QVERIFY(role_before == (was_mediator ? causal::Role::Mediator : causal::Role::Confounder));
         QVERIFY(before == (was_mediator ? causal::Answer::Pooled : causal::Answer::Stratified));
         const QString from = was_mediator ? exposure : stratum, to = was_mediator ? stratum : exposure;
         d->undo_stack()->beginMacro("reverse");
         d->undo_stack()->push(new RemoveEdgeCommand(d->doc(), from, to));
         QVERIFY(d->request_edge(to, from));
         d->undo_stack()->endMacro();
-        QCOMPARE(d->verdict().roles.value(stratum), was_mediator ? QStringLiteral("confounder") : QStringLiteral("mediator"));
+        QVERIFY(d->verdict().roles.contains(stratum));
+        QVERIFY(d->verdict().roles.value(stratum) == (was_mediator ? causal::Role::Confounder : causal::Role::Mediator));
         QVERIFY(d->verdict().answer == (was_mediator ? causal::Answer::Stratified : causal::Answer::Pooled));
         // Drawing the old arrow back as well would close a cycle: refused with a message.
         QVERIFY(!d->request_edge(from, to));
@@ -189,7 +191,7 @@ private slots:
         d->undo_stack()->undo();
         QVERIFY(d->doc()->has_edge(from, to));
         QVERIFY(!d->doc()->has_edge(to, from));
-        QCOMPARE(d->verdict().roles.value(stratum), role_before);
+        QVERIFY(d->verdict().roles.value(stratum) == role_before);
 
         // Neither view valid: income band made a common cause of group and approval while the
         // product stays a mediator. The verdict names {income_band} and the page shows the
