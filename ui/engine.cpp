@@ -414,8 +414,8 @@ report::MemoContent memo_content(const MemoRequest& request) {
         data.rows = request.database->rows;
     } else if (request.project && !request.project->data.sha256.empty()) {
         data.sha256 = request.project->data.sha256;
-    } else if (auto h = sha256_file(data.path)) {
-        data.sha256 = *h;
+    } else if (request.data_is_file) {
+        if (auto h = sha256_file(data.path)) data.sha256 = *h;
     }
     // The verdicts of the diagram as drawn now, attached by core/audit as `foldline run` does.
     ScanResult judged = scan;

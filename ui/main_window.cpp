@@ -382,6 +382,7 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     r.scan = scan_->scan_result();
     if (!r.scan) return make_error("the memo needs a finished scan: run one first");
     r.data_path = source_->source();
+    r.data_is_file = source_->kind() == SourceKind::File;
     const std::shared_ptr<const Table> table = source_->table();
     r.rows = table ? double(table->rows) : 0;
     r.table = table.get();
@@ -433,7 +434,7 @@ void MainWindow::export_memo_dialog() {
 }
 
 Result<project::Project> MainWindow::current_project() const {
-    if (!source_->table() || source_->source() == tr("typed-in table"))
+    if (source_->kind() != SourceKind::File && source_->kind() != SourceKind::Database)
         return make_error("open a data file first: a project records the file, never the rows");
     // Start from the opened project, so what the workbench does not edit (memo settings, other
     // diagrams, trend checks, memo choices) survives a save.

@@ -77,6 +77,37 @@ private slots:
         QVERIFY(label->text().contains("must differ"));
     }
 
+    // Where the data came from is a kind, never the display name: a data file literally named
+    // like the grid's source ("typed-in table") is still a file a project can point to, and
+    // typed-in counts are never one.
+    void the_source_kind_decides_not_its_name() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        MainWindow w;
+        QCOMPARE(w.source_page()->kind(), SourceKind::None);
+        CountsGrid* g = w.source_page()->counts_grid();
+        g->set_rows({{"a", "5", "10", "3", "10"}, {"b", "2", "10", "6", "10"}});
+        g->use_table();
+        QCOMPARE(w.source_page()->kind(), SourceKind::TypedIn);
+        QVERIFY(!w.current_project().ok());
+
+        QTemporaryDir dir;
+        const QString old_cwd = QDir::currentPath();
+        QVERIFY(QDir::setCurrent(dir.path()));
+        const QString name = typed_in_source_name();
+        QFile f(name);
+        QVERIFY(f.open(QIODevice::WriteOnly));
+        f.write("region,group,approved\nnorth,a,1\nsouth,b,0\nnorth,b,1\n");
+        f.close();
+        w.source_page()->open_path(name);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading() && w.source_page()->kind() == SourceKind::File, 10000);
+        QCOMPARE(w.source_page()->source(), name);
+        auto p = w.current_project();
+        QDir::setCurrent(old_cwd);
+        QVERIFY2(p.ok(), p.ok() ? "" : p.error().to_string().c_str());
+        QCOMPARE(QString::fromStdString(p->data.path), name);
+        QCOMPARE(p->data.rows, std::uint64_t(3));
+    }
+
     void layout_is_remembered() {
         QList<int> sizes;
         {
