@@ -8,7 +8,6 @@
 #include "core/audit/project_file.h"
 #include "core/audit/run_audit.h"
 #include "core/audit/verdicts.h"
-#include "core/common/sha256.h"
 #include "core/report/memo_content.h"
 #include "core/report/slope_chart.h"
 #include "core/scan/candidates.h"
@@ -412,10 +411,10 @@ report::MemoContent memo_content(const MemoRequest& request) {
     if (request.database) {
         data.database = request.database;
         data.rows = request.database->rows;
-    } else if (request.project && !request.project->data.sha256.empty()) {
+    } else if (request.project) {
+        // The file's digest as the workbench computed it on a worker (MainWindow::data_digest);
+        // the memo never hashes on the calling (GUI) thread.
         data.sha256 = request.project->data.sha256;
-    } else if (request.data_is_file) {
-        if (auto h = sha256_file(data.path)) data.sha256 = *h;
     }
     // The verdicts of the diagram as drawn now, attached by core/audit as `foldline run` does.
     ScanResult judged = scan;

@@ -124,8 +124,6 @@ struct ScanOutcome {
 struct MemoRequest {
     std::shared_ptr<const ScanResult> scan;  ///< a finished rate or slope scan; null → Error
     QString data_path;                       ///< the data's path, or its display name when no file
-    bool data_is_file = false;               ///< data_path is a file (SourceKind::File): hashed for
-                                             ///< the memo's facts when the project has no digest
     double rows = 0;
     /// The audit as it would be saved (MainWindow::current_project): title, analyst, page size,
     /// decisions, notes, memo choices and the diagram. When set, `reviewed`, `diagram` and

@@ -1,5 +1,6 @@
 // tests/ui/main_window_test.cpp <-> ui/main_window.h (and the path through every step)
 #include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/common/sha256.h"
 
 #include <QAction>
 #include <QLabel>
@@ -106,6 +107,69 @@ private slots:
         QVERIFY2(p.ok(), p.ok() ? "" : p.error().to_string().c_str());
         QCOMPARE(QString::fromStdString(p->data.path), name);
         QCOMPARE(p->data.rows, std::uint64_t(3));
+    }
+
+    // The data file's digest is computed on a worker: when the table arrives it is not known
+    // yet, the GUI thread keeps turning its event loop (a 0 ms timer keeps firing) until the
+    // worker reports, and a save straight after the load waits for it rather than writing an
+    // empty digest. The digest saved is core's sha256_file of the file (FIPS 180-4; core's own
+    // tests check it against published vectors).
+    void data_digest_is_computed_off_the_gui_thread() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        QTemporaryDir dir;
+        const QString path = dir.filePath("branches.csv");
+        {
+            QFile f(path);
+            QVERIFY(f.open(QIODevice::WriteOnly));
+            f.write("region,group,approved,remark\n");
+            const QByteArray remark(400, 'x');
+            for (int i = 0; i < 100000; ++i)  // about 42 MB
+                f.write((i % 2 ? "north,a," : "south,b,") + QByteArray::number(i % 3 == 0) + "," + remark + "\n");
+        }
+        const auto expected = sha256_file(path.toStdString());
+        QVERIFY(expected.ok());
+
+        MainWindow w;
+        bool known_at_load = true;
+        bool saved = false;
+        QString save_error;
+        connect(w.source_page(), &SourcePage::table_loaded, &w, [&](std::shared_ptr<const Table> t, const QString&) {
+            if (!t) return;
+            known_at_load = w.data_digest().has_value();
+            // A save straight after the load, before the worker is done.
+            const Status st = w.save_project_to(dir.filePath("early.foldline"));
+            saved = st.ok();
+            if (!st.ok()) save_error = QString::fromStdString(st.error().to_string());
+        });
+        int ticks = 0;
+        qint64 longest_gap = 0;
+        QElapsedTimer since_tick;
+        QTimer tick;
+        tick.setInterval(0);
+        connect(&tick, &QTimer::timeout, &w, [&] {
+            if (ticks++ > 0) longest_gap = std::max(longest_gap, since_tick.elapsed());
+            since_tick.restart();
+        });
+        bool done = false;
+        connect(&w, &MainWindow::data_digest_done, &w, [&] { done = true; });
+        tick.start();
+        w.source_page()->open_path(path);
+        QTRY_VERIFY_WITH_TIMEOUT(saved || !save_error.isEmpty(), 60000);
+        tick.stop();
+        QVERIFY2(saved, qPrintable(save_error));
+        QVERIFY(done);
+        QVERIFY(!known_at_load);
+        QVERIFY(ticks > 1);
+        // Generous on purpose (a shared machine): only a GUI thread blocked for the whole hash
+        // of a much larger file would miss it.
+        QVERIFY2(longest_gap < 5000, qPrintable(QString::number(longest_gap)));
+        QCOMPARE(w.data_digest().value_or(""), *expected);
+        auto p = project::load_project(dir.filePath("early.foldline").toStdString());
+        QVERIFY(p.ok());
+        QCOMPARE(p->data.sha256, *expected);
+        // The project produced before the digest is known is still produced (autosave never
+        // waits); now it carries the digest too.
+        QCOMPARE(w.current_project()->data.sha256, *expected);
     }
 
     void layout_is_remembered() {
