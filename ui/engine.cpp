@@ -524,4 +524,8 @@ Result<Table> load_database(const DatabaseRequest& r, const Work& work, Database
 #endif
 }
 
+QString hidden_group_note(const ScanResult* r) {
+    return r && r->latent ? qs(r->latent->note) : QString();
+}
+
 }  // namespace foldline::ui

@@ -120,6 +120,10 @@ struct ScanOutcome {
     std::shared_ptr<const ScanResult> result;  ///< the engine's own result (rates or slopes), for the memo
 };
 
+/// The hidden-group hint of a trend audit (ScanResult::latent's note, core's words); empty when
+/// the audit did not ask for it or `r` is null.
+QString hidden_group_note(const ScanResult* r);
+
 /// What the PDF memo is made from, beyond the scan itself.
 struct MemoRequest {
     std::shared_ptr<const ScanResult> scan;  ///< a finished rate or slope scan; null → Error

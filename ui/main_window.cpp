@@ -97,6 +97,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Memo, StepBar::State::Open);
         action("action_stop")->setEnabled(false);
         statusBar()->showMessage(scan_->status(), 8000);
+        // A trend audit asked to look for hidden groups: core's note, shown as a hint.
+        findings_->set_hidden_group_hint(completed ? hidden_group_note(scan_->scan_result().get()) : QString());
         if (completed && n > 0 && step() == Scan) {
             go_to(Findings);
             findings_->select_top();
@@ -196,6 +198,7 @@ bool MainWindow::start_scan() {
     last_spec_ = audit_spec(last_question_, base_ ? static_cast<const project::AuditSpec&>(*base_) : project::AuditSpec{});
     seeded_row_ = -1;
     if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
+    findings_->set_hidden_group_hint({});
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);

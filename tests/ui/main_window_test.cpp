@@ -331,6 +331,45 @@ private slots:
         QVERIFY(f->points_note.contains("drawn"));
     }
 
+    // "Also look for hidden groups" on the retail sample: core's hint (ScanResult::latent) is
+    // shown above the findings as a labelled hint, and never becomes a finding row.
+    void hidden_group_hint_is_shown_as_a_hint() {
+        if (find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_weeks.csv not found");
+        MainWindow w;
+        const QString err = prepare_slope_demo(w, 120000);
+        QVERIFY2(err.isEmpty(), qPrintable(err));
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());  // not asked for
+        const int rows_without = w.findings_model()->size();
+        QuestionSpec q = w.question_page()->spec();
+        QVERIFY(q.slope);
+        QCOMPARE(q.outcome, QStringLiteral("weekly_sales"));
+        QCOMPARE(q.exposure, QStringLiteral("promo_spend"));
+        q.find_groups = true;
+        w.question_page()->set_spec(q);
+        QVERIFY(w.start_scan());
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());  // cleared while it runs
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QApplication::processEvents();
+        // Core's note as the engine hands it over (ScanResult::latent).
+        const QString note = hidden_group_note(w.scan_page()->scan_result().get());
+        QVERIFY(!note.isEmpty());
+        QCOMPARE(w.findings_page()->hidden_group_hint(), QStringLiteral("Hidden-group hint (not a finding): ") + note);
+        auto* label = w.findings_page()->findChild<QLabel*>("hidden_group_hint");
+        QVERIFY(label && !label->isHidden());
+        // The same findings as without the hint; none of them is the hint.
+        QCOMPARE(w.findings_model()->size(), rows_without);
+        for (int i = 0; i < w.findings_model()->size(); ++i)
+            for (int c = 0; c < w.findings_model()->columnCount(); ++c)
+                QVERIFY(!w.findings_model()->index(i, c).data().toString().contains(note));
+        // Asked off again, the hint goes.
+        q.find_groups = false;
+        w.question_page()->set_spec(q);
+        QVERIFY(w.start_scan());
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QApplication::processEvents();
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());
+    }
+
     void trend_project_opens_with_its_decision() {
         const QString audit = find_sample("retail_audit.foldline");
         if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
