@@ -1,6 +1,7 @@
 #include "ui/counts_grid.h"
 
 #include "core/table/typed_table.h"
+#include "ui/source_kind.h"
 
 #include <QApplication>
 #include <QClipboard>
@@ -138,7 +139,7 @@ bool CountsGrid::eventFilter(QObject* watched, QEvent* event) {
 }
 
 Result<Table> CountsGrid::to_table() const {
-    const QString source = tr("typed-in table");
+    const QString source = typed_in_source_name();
     const QString headers[kCols] = {tr("Stratum"), tr("Focal positives"), tr("Focal total"),
                                     tr("Reference positives"), tr("Reference total")};
     if (stratum_name().isEmpty() || focal_name().isEmpty() || reference_name().isEmpty() ||

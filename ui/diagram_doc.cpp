@@ -1,30 +1,14 @@
 #include "ui/diagram_doc.h"
 
-#include <QSet>
-
+#include "core/causal/diagram_edit.h"
 #include "ui/engine.h"
+
+#include <QSet>
 #include <algorithm>
+#include <cmath>
 #include <functional>
 
 namespace foldline::ui {
-
-QString role_title(const QString& role) {
-    static const QHash<QString, QString> titles = {
-        {"exposure", QObject::tr("exposure")},
-        {"outcome", QObject::tr("outcome")},
-        {"confounder", QObject::tr("confounder")},
-        {"mediator", QObject::tr("mediator")},
-        {"mediator_descendant", QObject::tr("after a mediator")},
-        {"collider", QObject::tr("collider")},
-        {"collider_descendant", QObject::tr("after a collider")},
-        {"outcome_descendant", QObject::tr("after the outcome")},
-        {"exposure_descendant", QObject::tr("side effect of exposure")},
-        {"exposure_cause", QObject::tr("cause of exposure only")},
-        {"outcome_cause", QObject::tr("cause of outcome only")},
-        {"unrelated", QObject::tr("unrelated")},
-    };
-    return titles.value(role, role);
-}
 
 namespace {
 QString qs(const std::string& s) { return QString::fromStdString(s); }
@@ -37,33 +21,35 @@ DiagramNode to_ui(const causal::DiagramNode& n) {
 DiagramDoc::DiagramDoc(QObject* parent) : QObject(parent) {}
 
 void DiagramDoc::seed(const QString& exposure, const QString& outcome, const QStringList& strata) {
-    d_ = causal::Diagram{};
     exposure_ = exposure;
     outcome_ = outcome;
     strata_ = strata;
-    d_.exposure = ss(exposure);
-    d_.outcome = ss(outcome);
-    d_.nodes.push_back({ss(exposure), true, 0.0, 0.0});
-    d_.nodes.push_back({ss(outcome), true, 360.0, 0.0});
-    d_.edges.push_back({ss(exposure), ss(outcome)});
+    // Built with the editor's edits, so the seed obeys the rules every later edit does; an edit
+    // they refuse (a stratifier that is the exposure or named twice) is left out.
+    causal::Diagram d;
+    (void)causal::add_node(d, {ss(exposure), true, 0.0, 0.0});
+    (void)causal::add_node(d, {ss(outcome), true, 360.0, 0.0});
+    (void)causal::add_edge(d, ss(exposure), ss(outcome));
     double y = -140;
     for (const QString& s : strata) {
-        if (d_.find_node(ss(s)) >= 0) continue;
-        d_.nodes.push_back({ss(s), true, 180.0, y});
-        d_.edges.push_back({ss(s), ss(exposure)});
-        d_.edges.push_back({ss(s), ss(outcome)});
+        if (!causal::add_node(d, {ss(s), true, 180.0, y})) continue;
+        (void)causal::add_edge(d, ss(s), ss(exposure));
+        (void)causal::add_edge(d, ss(s), ss(outcome));
         y -= 110;
     }
+    (void)causal::set_question(d, ss(exposure), ss(outcome));
+    d_ = std::move(d);
     emit structure_changed();
 }
 
-void DiagramDoc::replace(const causal::Diagram& d) {
-    d_ = d;
-    d_.exposure = ss(exposure_);
-    d_.outcome = ss(outcome_);
+Status DiagramDoc::replace(const causal::Diagram& d) {
+    causal::Diagram next = d;
     for (const QString& name : {exposure_, outcome_})
-        if (!name.isEmpty() && d_.find_node(ss(name)) < 0) d_.nodes.push_back({ss(name), true, 0.0, 0.0});
+        if (!name.isEmpty() && next.find_node(ss(name)) < 0) (void)causal::add_node(next, {ss(name), true, 0.0, 0.0});
+    if (auto st = causal::set_question(next, ss(exposure_), ss(outcome_)); !st) return st;
+    d_ = std::move(next);
     emit structure_changed();
+    return Ok{};
 }
 
 bool DiagramDoc::crowded() const {
@@ -106,63 +92,44 @@ bool DiagramDoc::has_edge(const QString& from, const QString& to) const {
 }
 
 QString DiagramDoc::check_node(const QString& name) const {
-    if (name.trimmed().isEmpty()) return tr("A node needs a name.");
-    if (node(name)) return tr("\"%1\" is already in the diagram.").arg(name);
+    if (auto st = causal::check_new_node(d_, ss(name)); !st) return tr("Node refused: %1.").arg(qs(st.error().message));
     return {};
 }
 
 QString DiagramDoc::check_edge(const QString& from, const QString& to) const {
-    if (!node(from) || !node(to)) return tr("Both ends of an arrow must be nodes of the diagram.");
-    if (from == to) return tr("An arrow cannot point from \"%1\" to itself.").arg(from);
-    if (has_edge(from, to)) return tr("The arrow %1 → %2 is already drawn.").arg(from, to);
-    // The engine validates the diagram with the arrow added; what is left to refuse is a cycle.
-    causal::Diagram trial = d_;
-    trial.edges.push_back({ss(from), ss(to)});
-    auto built = causal::CausalGraph::build(trial);
-    if (!built) return tr("Arrow %1 → %2 refused: %3").arg(from, to, qs(built.error().message));
+    if (auto st = causal::check_new_edge(d_, ss(from), ss(to)); !st)
+        return tr("Arrow %1 → %2 refused: %3.").arg(from, to, qs(st.error().message));
     return {};
 }
 
 bool DiagramDoc::add_node(const DiagramNode& n) {
-    if (!check_node(n.name).isEmpty()) return false;
-    d_.nodes.push_back({ss(n.name), n.observed, n.pos.x(), n.pos.y()});
+    if (!causal::add_node(d_, {ss(n.name), n.observed, n.pos.x(), n.pos.y()})) return false;
+    // A question node put back (an undone delete) is the question's again.
+    if (n.name == exposure_ || n.name == outcome_) (void)causal::set_question(d_, ss(exposure_), ss(outcome_));
     emit structure_changed();
     return true;
 }
 
 bool DiagramDoc::remove_node(const QString& name) {
-    const int i = d_.find_node(ss(name));
-    if (i < 0) return false;
-    d_.nodes.erase(d_.nodes.begin() + i);
-    const std::string n = ss(name);
-    d_.edges.erase(std::remove_if(d_.edges.begin(), d_.edges.end(),
-                                  [&](const causal::DiagramEdge& e) { return e.from == n || e.to == n; }),
-                   d_.edges.end());
+    if (!causal::remove_node(d_, ss(name))) return false;
     emit structure_changed();
     return true;
 }
 
 bool DiagramDoc::add_edge(const QString& from, const QString& to) {
-    if (!check_edge(from, to).isEmpty()) return false;
-    d_.edges.push_back({ss(from), ss(to)});
+    if (!causal::add_edge(d_, ss(from), ss(to))) return false;
     emit structure_changed();
     return true;
 }
 
 bool DiagramDoc::remove_edge(const QString& from, const QString& to) {
-    auto it = std::find_if(d_.edges.begin(), d_.edges.end(),
-                           [&](const causal::DiagramEdge& e) { return e.from == ss(from) && e.to == ss(to); });
-    if (it == d_.edges.end()) return false;
-    d_.edges.erase(it);
+    if (!causal::remove_edge(d_, ss(from), ss(to))) return false;
     emit structure_changed();
     return true;
 }
 
 void DiagramDoc::move_node(const QString& name, QPointF pos) {
-    const int i = d_.find_node(ss(name));
-    if (i < 0) return;
-    d_.nodes[std::size_t(i)].x = pos.x();
-    d_.nodes[std::size_t(i)].y = pos.y();
+    if (!causal::move_node(d_, ss(name), pos.x(), pos.y())) return;
     emit node_moved(name, pos);
 }
 

@@ -1,7 +1,8 @@
 #pragma once
 // The diagram being edited, as the editor sees it: the causal graph (held by the engine) plus
 // where each node sits on the canvas. Every edit goes through here and is announced by a
-// signal; the scene's items only mirror it, and the undo commands only call it.
+// signal; the scene's items only mirror it, and the undo commands only call it. The edits
+// themselves, and what they refuse, are core/causal/diagram_edit's: this class only converts.
 #include <QHash>
 #include <QObject>
 #include <QPointF>
@@ -33,7 +34,7 @@ struct DiagramVerdict {
     std::optional<causal::Answer> answer;  ///< which view answers; set when computed
     QString recommended;          ///< the view to quote, in words
     QString reason;               ///< one plain sentence
-    QHash<QString, QString> roles;///< node → role ("confounder", "mediator", ...)
+    QHash<QString, causal::Role> roles;///< node → role; a node absent has none (no verdict)
     QList<QStringList> valid_sets;///< minimal valid adjustment sets
     QStringList standardise_over; ///< the set whose adjusted figure answers the question (other_set)
     QString adjusted;             ///< the estimate the verdict points to, in words, when there is one
@@ -49,8 +50,9 @@ public:
     /// Starts a new diagram: exposure → outcome, each stratifier pointing at both.
     void seed(const QString& exposure, const QString& outcome, const QStringList& strata);
     /// Replaces the graph with `d` (a diagram read from a file). The current exposure and
-    /// outcome stay the question's: they are added as observed nodes if `d` lacks them.
-    void replace(const causal::Diagram& d);
+    /// outcome stay the question's: they are added as observed nodes if `d` lacks them. A
+    /// diagram that marks either unobserved is refused (Error, nothing changed).
+    Status replace(const causal::Diagram& d);
     /// True when two nodes sit closer than a node's size (positions from elsewhere).
     bool crowded() const;
     /// The finding's stratifiers the verdict is about.
@@ -67,8 +69,8 @@ public:
     QString outcome() const { return outcome_; }
     QStringList strata() const { return strata_; }
 
-    /// Why the edit cannot be made (empty when it can), in the engine's words: unknown node,
-    /// self-loop, duplicate, or a cycle (named by its nodes).
+    /// Why the edit cannot be made (empty when it can), in core/causal/diagram_edit's words:
+    /// unknown node, self-loop, duplicate, or a cycle (named by its path); a blank or used name.
     QString check_edge(const QString& from, const QString& to) const;
     QString check_node(const QString& name) const;
 
@@ -99,8 +101,5 @@ private:
     QString exposure_, outcome_;
     QStringList strata_;
 };
-
-/// Display word of a role, as on the canvas ("confounder", "mediator", ...).
-QString role_title(const QString& role);
 
 }  // namespace foldline::ui

@@ -37,8 +37,10 @@ public:
         setMinimumHeight(int(roles().size()) * 30 + 8);
         setToolTip(tr("Shapes of the roles; dashed outlines are unobserved variables"));
     }
-    static std::vector<QString> roles() {
-        return {"exposure", "outcome", "confounder", "mediator", "collider", "outcome_descendant", "exposure_cause"};
+    static std::vector<causal::Role> roles() {
+        using causal::Role;
+        return {Role::Exposure, Role::Outcome, Role::Confounder, Role::Mediator, Role::Collider, Role::OutcomeDescendant,
+                Role::ExposureCause};
     }
 
 protected:
@@ -47,14 +49,14 @@ protected:
         p.setRenderHint(QPainter::Antialiasing);
         const QPalette pal = palette();
         int y = 4;
-        for (const QString& r : roles()) {
+        for (const causal::Role r : roles()) {
             const QRectF box(4, y, 46, 22);
             p.setPen(QPen(pal.color(QPalette::WindowText), 1.4));
             p.setBrush(pal.color(QPalette::Base));
-            p.drawPath(NodeItem::role_path(r, box));
-            if (r == QLatin1String("exposure")) p.fillRect(QRectF(box.left() + 3, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
-            if (r == QLatin1String("outcome")) p.fillRect(QRectF(box.right() - 7, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
-            p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, role_title(r));
+            p.drawPath(role_path(role_style(r).shape, box));
+            if (r == causal::Role::Exposure) p.fillRect(QRectF(box.left() + 3, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
+            if (r == causal::Role::Outcome) p.fillRect(QRectF(box.right() - 7, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
+            p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, role_words(r));
             y += 30;
         }
     }
@@ -180,7 +182,11 @@ void DiagramPage::seed(const QString& exposure, const QString& outcome, const QS
 Status DiagramPage::open_file(const QString& path) {
     auto d = causal::read_diagram(path.toStdString());
     if (!d) return d.error();
-    doc_->replace(*d);
+    if (auto st = doc_->replace(*d); !st) {
+        Error e = st.error();
+        e.file = path.toStdString();
+        return e;
+    }
     if (doc_->crowded()) {
         const QHash<QString, QPointF> pos = doc_->layout();
         for (auto it = pos.begin(); it != pos.end(); ++it) doc_->move_node(it.key(), it.value());
@@ -337,8 +343,8 @@ void DiagramPage::refresh_verdict() {
         html += QStringLiteral("</ul>");
         html += tr("<p><b>Roles</b></p><ul>");
         for (const DiagramNode& n : doc_->nodes()) {
-            const QString r = verdict_.roles.value(n.name);
-            if (!r.isEmpty()) html += QStringLiteral("<li>%1: %2</li>").arg(n.name.toHtmlEscaped(), role_title(r).toHtmlEscaped());
+            if (auto r = verdict_.roles.constFind(n.name); r != verdict_.roles.cend())
+                html += QStringLiteral("<li>%1: %2</li>").arg(n.name.toHtmlEscaped(), role_words(*r).toHtmlEscaped());
         }
         html += QStringLiteral("</ul>");
         if (!verdict_.direct_effect.isEmpty())

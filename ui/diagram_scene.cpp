@@ -14,18 +14,9 @@ namespace foldline::ui {
 namespace {
 constexpr double kW = 150, kH = 62;
 
-QColor role_colour(const QString& role) {
-    if (role == QLatin1String("exposure")) return colors::okabe_ito(5);      // vermillion
-    if (role == QLatin1String("outcome")) return colors::okabe_ito(4);       // blue
-    if (role == QLatin1String("confounder")) return colors::okabe_ito(0);    // orange
-    if (role.startsWith(QLatin1String("mediator"))) return colors::okabe_ito(2);  // bluish green
-    if (role.startsWith(QLatin1String("collider"))) return colors::okabe_ito(6);  // reddish purple
-    if (role == QLatin1String("outcome_descendant")) return colors::okabe_ito(1);
-    return colors::okabe_ito(7);
-}
 }  // namespace
 
-NodeItem::NodeItem(const DiagramNode& node, const QString& role)
+NodeItem::NodeItem(const DiagramNode& node, std::optional<causal::Role> role)
     : name_(node.name), role_(role), observed_(node.observed), rect_(-kW / 2, -kH / 2, kW, kH) {
     setFlags(ItemIsMovable | ItemIsSelectable | ItemSendsGeometryChanges);
     setPos(node.pos);
@@ -38,49 +29,14 @@ QRectF NodeItem::boundingRect() const { return rect_.adjusted(-4, -4, 14, 4); }
 
 QRectF NodeItem::port_rect() const { return QRectF(rect_.right() - 2, -6, 12, 12); }
 
-QPainterPath NodeItem::role_path(const QString& role, const QRectF& r) {
-    QPainterPath p;
-    const double c = std::min(r.height(), r.width()) * 0.3;
-    if (role == QLatin1String("confounder")) {  // hexagon: a common cause reaching both sides
-        p.moveTo(r.left() + c, r.top());
-        p.lineTo(r.right() - c, r.top());
-        p.lineTo(r.right(), r.center().y());
-        p.lineTo(r.right() - c, r.bottom());
-        p.lineTo(r.left() + c, r.bottom());
-        p.lineTo(r.left(), r.center().y());
-        p.closeSubpath();
-    } else if (role.startsWith(QLatin1String("mediator"))) {  // capsule: something passed along
-        p.addRoundedRect(r, r.height() / 2, r.height() / 2);
-    } else if (role.startsWith(QLatin1String("collider"))) {  // funnel: arrows collide into it
-        p.moveTo(r.topLeft());
-        p.lineTo(r.topRight());
-        p.lineTo(r.right() - c, r.bottom());
-        p.lineTo(r.left() + c, r.bottom());
-        p.closeSubpath();
-    } else if (role == QLatin1String("exposure_cause")) {  // pointer: it only pushes the exposure
-        p.moveTo(r.topLeft());
-        p.lineTo(r.right() - c, r.top());
-        p.lineTo(r.right(), r.center().y());
-        p.lineTo(r.right() - c, r.bottom());
-        p.lineTo(r.bottomLeft());
-        p.closeSubpath();
-    } else if (role == QLatin1String("exposure") || role == QLatin1String("outcome")) {
-        p.addRoundedRect(r, 4, 4);
-    } else if (role == QLatin1String("outcome_descendant")) {  // notched: downstream of the outcome
-        p.moveTo(r.topLeft());
-        p.lineTo(r.topRight());
-        p.lineTo(r.right() - c, r.center().y());
-        p.lineTo(r.bottomRight());
-        p.lineTo(r.bottomLeft());
-        p.closeSubpath();
-    } else {
-        p.addRect(r);
-    }
-    return p;
+QColor NodeItem::fill(const QPalette& pal) const {
+    QColor c = role_style(role_).fill;
+    c.setAlpha(fill_alpha(colors::dark_theme(pal)));
+    return c;
 }
 
 QPainterPath NodeItem::shape() const {
-    QPainterPath p = role_path(role_, rect_);
+    QPainterPath p = role_path(role_style(role_).shape, rect_);
     p.addEllipse(port_rect());
     return p;
 }
@@ -89,19 +45,18 @@ void NodeItem::paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget*)
     const QPalette pal = QApplication::palette();
     const bool selected = opt->state & QStyle::State_Selected;
     const QColor fg = pal.color(QPalette::WindowText);
-    QColor fill = role_colour(role_);
-    fill.setAlpha(colors::dark_theme(pal) ? 110 : 70);
+    const QColor fill = this->fill(pal);
     p->setRenderHint(QPainter::Antialiasing);
     QPen pen(selected ? colors::accent(pal) : fg, selected ? 3 : 1.6, observed_ ? Qt::SolidLine : Qt::DashLine);
     p->setPen(pen);
     p->setBrush(pal.color(QPalette::Base));
-    const QPainterPath path = role_path(role_, rect_);
+    const QPainterPath path = role_path(role_style(role_).shape, rect_);
     p->drawPath(path);
     p->setBrush(fill);
     p->drawPath(path);
     // Exposure and outcome carry a heavy bar on the side the effect leaves or arrives.
-    if (role_ == QLatin1String("exposure") || role_ == QLatin1String("outcome")) {
-        const double x = role_ == QLatin1String("exposure") ? rect_.left() + 4 : rect_.right() - 10;
+    if (role_ == causal::Role::Exposure || role_ == causal::Role::Outcome) {
+        const double x = role_ == causal::Role::Exposure ? rect_.left() + 4 : rect_.right() - 10;
         p->setPen(Qt::NoPen);
         p->setBrush(fg);
         p->drawRect(QRectF(x, rect_.top() + 8, 6, rect_.height() - 16));
@@ -116,7 +71,7 @@ void NodeItem::paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget*)
     QFont small = QApplication::font();
     small.setPointSizeF(small.pointSizeF() * 0.85);
     p->setFont(small);
-    QString caption = role_.isEmpty() ? QString() : role_title(role_);
+    QString caption = role_words(role_);
     if (!observed_) caption += caption.isEmpty() ? QObject::tr("unobserved") : QObject::tr(" · unobserved");
     p->drawText(rect_.adjusted(6, rect_.height() / 2 - 2, -6, -4), Qt::AlignCenter, caption);
     // Arrow handle.
@@ -185,7 +140,7 @@ DiagramScene::DiagramScene(DiagramDoc* doc, QObject* parent) : QGraphicsScene(pa
 
 void DiagramScene::set_mode(Mode m) { mode_ = m; }
 
-void DiagramScene::set_roles(const QHash<QString, QString>& roles) {
+void DiagramScene::set_roles(const QHash<QString, causal::Role>& roles) {
     roles_ = roles;
     rebuild();
 }
@@ -209,9 +164,10 @@ void DiagramScene::rebuild() {
     clear();
     nodes_.clear();
     for (const DiagramNode& n : doc_->nodes()) {
-        QString role = roles_.value(n.name);
-        if (n.name == doc_->exposure()) role = QStringLiteral("exposure");
-        if (n.name == doc_->outcome()) role = QStringLiteral("outcome");
+        std::optional<causal::Role> role;
+        if (auto it = roles_.constFind(n.name); it != roles_.cend()) role = *it;
+        if (n.name == doc_->exposure()) role = causal::Role::Exposure;
+        if (n.name == doc_->outcome()) role = causal::Role::Outcome;
         auto* item = new NodeItem(n, role);
         addItem(item);
         item->setSelected(selected_nodes.contains(n.name));

@@ -2,21 +2,27 @@
 // The diagram canvas. It owns an editing mode and mirrors a DiagramDoc with one item per node
 // and arrow; edits the reviewer makes with the mouse go out as signals (the page turns them
 // into undoable commands), never straight into the document.
+#include "ui/diagram_doc.h"
+#include "ui/role_style.h"
+
 #include <QGraphicsItem>
 #include <QGraphicsScene>
 #include <QHash>
-
-#include "ui/diagram_doc.h"
+#include <optional>
 
 namespace foldline::ui {
 
-/// A node drawn with a shape for its role, its name, and the role spelled out beneath.
+/// A node drawn with a shape for its role, its name, and the role spelled out beneath (shape,
+/// colour and words from ui/role_style). No role (no verdict yet): a grey box, no words.
 class NodeItem : public QGraphicsItem {
 public:
     enum { Type = UserType + 31 };
-    NodeItem(const DiagramNode& node, const QString& role);
+    NodeItem(const DiagramNode& node, std::optional<causal::Role> role);
     int type() const override { return Type; }
     QString name() const { return name_; }
+    std::optional<causal::Role> role() const { return role_; }
+    /// The fill painted over the base colour of `pal` (role_style's colour, fill_alpha's opacity).
+    QColor fill(const QPalette& pal) const;
     QRectF boundingRect() const override;
     QPainterPath shape() const override;
     void paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget* w) override;
@@ -24,11 +30,9 @@ public:
     QPointF exit_point(QPointF towards) const;
     /// The handle on the right edge from which arrows are dragged.
     QRectF port_rect() const;
-    /// Outline of the shape that stands for `role` inside `r` (also used by the legend).
-    static QPainterPath role_path(const QString& role, const QRectF& r);
-
 private:
-    QString name_, role_;
+    QString name_;
+    std::optional<causal::Role> role_;
     bool observed_;
     QRectF rect_;
 };
@@ -58,7 +62,7 @@ public:
     Mode mode() const { return mode_; }
     void set_mode(Mode m);
     /// Roles from the latest verdict (node → role); redraws the nodes.
-    void set_roles(const QHash<QString, QString>& roles);
+    void set_roles(const QHash<QString, causal::Role>& roles);
     NodeItem* node_item(const QString& name) const { return nodes_.value(name); }
     QList<EdgeItem*> edge_items() const;
     /// Rebuilds every item from the document.
@@ -80,7 +84,7 @@ private:
     DiagramDoc* doc_;
     Mode mode_ = Mode::Move;
     QHash<QString, NodeItem*> nodes_;
-    QHash<QString, QString> roles_;
+    QHash<QString, causal::Role> roles_;
     NodeItem* connect_from_ = nullptr;
     QGraphicsLineItem* rubber_ = nullptr;
     QHash<QString, QPointF> press_pos_;

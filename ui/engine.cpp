@@ -9,7 +9,6 @@
 #include "core/audit/project_file.h"
 #include "core/audit/run_audit.h"
 #include "core/audit/verdicts.h"
-#include "core/common/sha256.h"
 #include "core/report/memo_content.h"
 #include "core/report/slope_chart.h"
 #include "core/scan/candidates.h"
@@ -362,7 +361,7 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
         case causal::Answer::NotIdentifiable: v.recommended = QObject::tr("neither — not identifiable by adjustment"); break;
     }
     v.reason = qs(cv.reason);
-    for (const auto& nr : cv.roles) v.roles.insert(qs(nr.name), qs(std::string(causal::to_string(nr.role))));
+    for (const auto& nr : cv.roles) v.roles.insert(qs(nr.name), nr.role);
     for (const auto& set : cv.valid_sets) {
         QStringList l;
         for (const auto& n : set) l << qs(n);
@@ -413,10 +412,10 @@ report::MemoContent memo_content(const MemoRequest& request) {
     if (request.database) {
         data.database = request.database;
         data.rows = request.database->rows;
-    } else if (request.project && !request.project->data.sha256.empty()) {
+    } else if (request.project) {
+        // The file's digest as the workbench computed it on a worker (MainWindow::data_digest);
+        // the memo never hashes on the calling (GUI) thread.
         data.sha256 = request.project->data.sha256;
-    } else if (auto h = sha256_file(data.path)) {
-        data.sha256 = *h;
     }
     // The verdicts of the diagram as drawn now, attached by core/audit as `foldline run` does.
     ScanResult judged = scan;
@@ -512,6 +511,10 @@ Result<Table> load_database(const DatabaseRequest& r, const Work& work, Database
     (void)r, (void)work, (void)record;
     return make_error("this build has no database support (install unixodbc-dev and rebuild)");
 #endif
+}
+
+QString hidden_group_note(const ScanResult* r) {
+    return r && r->latent ? qs(r->latent->note) : QString();
 }
 
 }  // namespace foldline::ui

@@ -120,10 +120,14 @@ struct ScanOutcome {
     std::shared_ptr<const ScanResult> result;  ///< the engine's own result (rates or slopes), for the memo
 };
 
+/// The hidden-group hint of a trend audit (ScanResult::latent's note, core's words); empty when
+/// the audit did not ask for it or `r` is null.
+QString hidden_group_note(const ScanResult* r);
+
 /// What the PDF memo is made from, beyond the scan itself.
 struct MemoRequest {
     std::shared_ptr<const ScanResult> scan;  ///< a finished rate or slope scan; null → Error
-    QString data_path;                       ///< hashed for the memo's facts when it is a file
+    QString data_path;                       ///< the data's path, or its display name when no file
     double rows = 0;
     /// The audit as it would be saved (MainWindow::current_project): title, analyst, page size,
     /// decisions, notes, memo choices and the diagram. When set, `reviewed`, `diagram` and

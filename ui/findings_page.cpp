@@ -115,10 +115,23 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     connect(list_->selectionModel(), &QItemSelectionModel::currentRowChanged, this,
             [this](const QModelIndex& cur) { show_finding(cur.isValid() ? filter_->mapToSource(cur).row() : -1); });
 
+    // The hidden-group hint: a note beside the findings, not one of them (it has no class, no
+    // q-value and no review), so it is a labelled line above the list, never a row in it.
+    hint_ = new QLabel;
+    hint_->setObjectName(QStringLiteral("hidden_group_hint"));
+    hint_->setWordWrap(true);
+    hint_->setTextFormat(Qt::PlainText);
+    hint_->setFrameShape(QFrame::StyledPanel);
+    hint_->setMargin(6);
+    hint_->setToolTip(tr("From \"Also look for hidden groups\": mixtures fitted to the two columns. "
+                         "A hint to look further, not a finding about any real group."));
+    hint_->hide();
+
     auto* left = new QWidget;
     auto* ll = new QVBoxLayout(left);
     ll->setContentsMargins(0, 0, 0, 0);
     ll->addLayout(chips);
+    ll->addWidget(hint_);
     ll->addWidget(search_);
     ll->addWidget(list_, 1);
 
@@ -274,6 +287,13 @@ int FindingsPage::select_top() {
 }
 
 void FindingsPage::set_search(const QString& text) { search_->setText(text); }
+
+void FindingsPage::set_hidden_group_hint(const QString& note) {
+    hint_->setText(note.isEmpty() ? QString() : tr("Hidden-group hint (not a finding): %1").arg(note));
+    hint_->setVisible(!note.isEmpty());
+}
+
+QString FindingsPage::hidden_group_hint() const { return hint_->isHidden() ? QString() : hint_->text(); }
 
 void FindingsPage::show_finding(int row) {
     const FindingView* f = model_->at(row);

@@ -42,6 +42,11 @@ public:
     QSplitter* main_splitter() const { return split_; }
     QSplitter* detail_splitter() const { return detail_split_; }
     FindingsFilter* filter() const { return filter_; }
+    /// Shows the hidden-group hint of a trend audit (core's ScanResult::latent note) above the
+    /// list, labelled as a hint and never as a finding row; empty text hides it.
+    void set_hidden_group_hint(const QString& note);
+    /// The hint line as shown; empty when hidden.
+    QString hidden_group_hint() const;
 
 signals:
     /// The selected finding changed (source row, or -1).
@@ -66,7 +71,7 @@ private:
     FindingsFilter* filter_;
     QTableView* list_;
     QLineEdit* search_;
-    QLabel *heading_, *meaning_, *empty_;
+    QLabel *heading_, *meaning_, *empty_, *hint_;
     QTableWidget *pooled_, *strata_;
     QTabWidget* charts_;
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;

@@ -8,6 +8,7 @@
 #include <QApplication>
 #include <QCloseEvent>
 #include <QDragEnterEvent>
+#include <QEventLoop>
 #include <QFile>
 #include <QFileDialog>
 #include <QFileInfo>
@@ -30,6 +31,7 @@
 #include "ui/diagram_page.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
+#include "ui/job.h"
 #include "ui/memo_page.h"
 #include "ui/question_page.h"
 #include "ui/scan_page.h"
@@ -42,7 +44,6 @@ struct MainWindow::PendingProject {
     project::Project project;
     QString path;
     bool scanned = false;
-    QString data_change;  ///< what changed in the data since the save; empty when unchanged
 };
 
 namespace {
@@ -96,6 +97,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Memo, StepBar::State::Open);
         action("action_stop")->setEnabled(false);
         statusBar()->showMessage(scan_->status(), 8000);
+        // A trend audit asked to look for hidden groups: core's note, shown as a hint.
+        findings_->set_hidden_group_hint(completed ? hidden_group_note(scan_->scan_result().get()) : QString());
         if (completed && n > 0 && step() == Scan) {
             go_to(Findings);
             findings_->select_top();
@@ -121,8 +124,12 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     autosave_ = new Autosave([this]() -> std::optional<project::Project> {
         auto p = current_project();
         if (!p) return std::nullopt;
+        recovery_lacks_digest_ = !p->data.database && p->data.sha256.empty();
         return std::move(*p);
     }, this);
+    // The data file's digest: hashed on a worker when a file is loaded (start_digest).
+    digest_job_ = new Job(this);
+    connect(digest_job_, &Job::finished, this, &MainWindow::digest_finished);
     prompt_ = [this](const RecoveryOffer& offer) { return ask_recovery(this, offer); };
     connect(model_, &FindingsModel::dataChanged, autosave_, &Autosave::mark_changed);
     connect(question_, &QuestionPage::changed, autosave_, &Autosave::mark_changed);
@@ -137,6 +144,7 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
             autosave_->set_project_file({});
         }
         autosave_->mark_changed();
+        if (t) start_digest();
     });
     connect(autosave_, &Autosave::written, this, [this] {
         statusBar()->showMessage(tr("Unsaved changes kept for recovery"), 3000);
@@ -190,6 +198,7 @@ bool MainWindow::start_scan() {
     last_spec_ = audit_spec(last_question_, base_ ? static_cast<const project::AuditSpec&>(*base_) : project::AuditSpec{});
     seeded_row_ = -1;
     if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
+    findings_->set_hidden_group_hint({});
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);
@@ -401,6 +410,13 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
 }
 
 Status MainWindow::export_memo_to(const QString& path) {
+    // The memo's facts carry the data file's digest: wait for the worker's, as a save does.
+    if (auto st = wait_for_data_digest(); !st) {
+        Error e = st.error();
+        e.message = "cannot record the data file's digest: " + e.message + " (" + e.file + ")";
+        e.file = path.toStdString();
+        return e;
+    }
     Status written = Ok{};
     if (auto st = with_memo_request([&](const MemoRequest& r) { written = export_memo(r, path); }); !st) {
         Error e = st.error();
@@ -433,7 +449,7 @@ void MainWindow::export_memo_dialog() {
 }
 
 Result<project::Project> MainWindow::current_project() const {
-    if (!source_->table() || source_->source() == tr("typed-in table"))
+    if (source_->kind() != SourceKind::File && source_->kind() != SourceKind::Database)
         return make_error("open a data file first: a project records the file, never the rows");
     // Start from the opened project, so what the workbench does not edit (memo settings, other
     // diagrams, trend checks, memo choices) survives a save.
@@ -447,12 +463,9 @@ Result<project::Project> MainWindow::current_project() const {
         p.data.path = data;
         const QFileInfo info(source_->source());
         p.data.size = std::uint64_t(info.size());
-        // Autosave asks for the document every interval: hash a file once per version of it.
-        if (digest_.path != source_->source() || digest_.size != info.size() || digest_.modified != info.lastModified()) {
-            auto h = sha256_file(data);
-            digest_ = {source_->source(), info.size(), info.lastModified(), h ? *h : std::string()};
-        }
-        p.data.sha256 = digest_.sha256;
+        // The digest as the worker computed it for this version of the file; empty until then
+        // (save_project_to and the memo wait for it; autosave writes again when it arrives).
+        p.data.sha256 = data_digest().value_or(std::string());
     }
     p.data.rows = source_->table()->rows;
     for (const Column& c : source_->table()->columns) p.data.columns.push_back(c.name);
@@ -492,7 +505,88 @@ Result<project::Project> MainWindow::current_project() const {
     return p;
 }
 
+std::optional<std::string> MainWindow::data_digest() const {
+    if (source_->kind() != SourceKind::File) return std::nullopt;
+    const QFileInfo info(source_->source());
+    if (digest_.sha256.empty() || digest_.path != source_->source() || digest_.size != info.size() ||
+        digest_.modified != info.lastModified())
+        return std::nullopt;
+    return digest_.sha256;
+}
+
+void MainWindow::start_digest() {
+    if (source_->kind() != SourceKind::File || data_digest()) return;
+    if (digest_job_->running()) {
+        digest_again_ = true;  // hashing an older file or version: this one follows
+        return;
+    }
+    const QFileInfo info(source_->source());
+    auto run = std::make_shared<DigestRun>();
+    run->of = {source_->source(), info.size(), info.lastModified(), {}};
+    digest_run_ = run;
+    digest_error_.reset();
+    const std::string path = source_->source().toStdString();
+    digest_job_->start([run, path](const Work&) { run->sha256 = sha256_file(path); });
+}
+
+void MainWindow::digest_finished() {
+    auto run = std::move(digest_run_);
+    if (run && run->sha256) {
+        if (run->sha256->ok()) {
+            digest_ = run->of;
+            digest_.sha256 = run->sha256->value();
+        } else if (run->of.path == source_->source()) {
+            digest_error_ = run->sha256->error();
+        }
+    }
+    if (digest_again_ || (!data_digest() && !digest_error_)) {
+        // The file changed (or another was loaded) while it was hashed: hash what is there now.
+        digest_again_ = false;
+        start_digest();
+        if (digest_job_->running()) return;
+    }
+    check_data_change();
+    if (data_digest() && recovery_lacks_digest_) autosave_->mark_changed();
+    emit data_digest_done();
+}
+
+Status MainWindow::wait_for_data_digest() {
+    if (source_->kind() != SourceKind::File || data_digest()) return Ok{};
+    start_digest();
+    if (digest_job_->running()) {
+        statusBar()->showMessage(tr("Computing the data file's digest…"));
+        QEventLoop loop;
+        connect(this, &MainWindow::data_digest_done, &loop, &QEventLoop::quit);
+        while (digest_job_->running() || (!data_digest() && !digest_error_ && digest_run_))
+            loop.exec(QEventLoop::ExcludeUserInputEvents);
+        statusBar()->clearMessage();
+    }
+    if (auto h = data_digest(); h) return Ok{};
+    if (digest_error_) return *digest_error_;
+    return make_error("the data file's digest could not be computed", source_->source().toStdString());
+}
+
+void MainWindow::check_data_change() {
+    if (!saved_data_ || saved_data_->database || !source_->table()) return;
+    if (source_->kind() != SourceKind::File || source_->source() != QString::fromStdString(saved_data_->path)) return;
+    const auto h = data_digest();
+    if (!h) return;  // the worker is still hashing; digest_finished calls again
+    const auto change = project::compare_data(*saved_data_, *h, std::uint64_t(QFileInfo(source_->source()).size()),
+                                              source_->table().get());
+    saved_data_.reset();
+    if (change.changed) {
+        data_change_ = QString::fromStdString(change.message);
+        statusBar()->showMessage(tr("Warning: %1.").arg(data_change_), 15000);
+    }
+}
+
 Status MainWindow::save_project_to(const QString& path) {
+    if (auto st = wait_for_data_digest(); !st) {
+        Error e = st.error();
+        e.message = "cannot record the data file's digest: " + e.message + " (" + e.file + ")";
+        e.file = path.toStdString();
+        return e;
+    }
     auto p = current_project();
     if (!p) {
         Error e = p.error();
@@ -520,6 +614,8 @@ void MainWindow::open_project_document(const project::Project& project, const QS
     pending_->path = path;
     base_ = project;
     project_path_ = path;
+    data_change_.clear();
+    saved_data_ = project.data;
     autosave_->set_project_file(path);
     const project::DataSource& d = pending_->project.data;
     LoadOptions o;
@@ -553,16 +649,9 @@ void MainWindow::restore_pending() {
     auto pending = pending_;
     const project::Project& p = pending->project;
     if (!pending->scanned) {
-        // The data is in: warn when it changed since the save, then ask the saved question.
-        // The table is already read, so rows and columns are compared without reading it again.
-        if (auto h = sha256_file(p.data.path)) {
-            const auto change = project::compare_data(p.data, *h, std::uint64_t(QFileInfo(QString::fromStdString(p.data.path)).size()),
-                                                      source_->table().get());
-            if (change.changed) {
-                pending->data_change = QString::fromStdString(change.message);
-                statusBar()->showMessage(tr("Warning: %1.").arg(pending->data_change), 15000);
-            }
-        }
+        // The data is in: ask the saved question. Whether the data changed since the save is
+        // told when the worker has the file's digest (check_data_change), maybe already now.
+        check_data_change();
         const QuestionSpec q = question_spec(p);
         question_->set_spec(q);
         pending->scanned = true;
@@ -584,15 +673,16 @@ void MainWindow::restore_pending() {
     // Re-select so the detail panel shows the restored decision.
     findings_->list()->selectionModel()->setCurrentIndex(QModelIndex(), QItemSelectionModel::Clear);
     findings_->select_top();
+    QString diagram_problem;
     if (const causal::Diagram* d = p.diagram()) {
         seed_diagram_for(findings_->selected());
-        diagram_->doc()->replace(*d);
+        if (auto st = diagram_->doc()->replace(*d); !st) diagram_problem = QString::fromStdString(st.error().message);
         diagram_->undo_stack()->clear();
     }
     QString done = pending->path.isEmpty() ? tr("Restored the unsaved audit") : tr("Opened %1").arg(pending->path);
-    if (!pending->data_change.isEmpty()) done += tr(". Warning: %1.").arg(pending->data_change);
-    data_change_ = pending->data_change;
-    statusBar()->showMessage(done, pending->data_change.isEmpty() ? 8000 : 0);
+    if (!diagram_problem.isEmpty()) done += tr(". The saved diagram was not restored: %1").arg(diagram_problem);
+    if (!data_change_.isEmpty()) done += tr(". Warning: %1.").arg(data_change_);
+    statusBar()->showMessage(done, data_change_.isEmpty() ? 8000 : 0);
 }
 
 void MainWindow::save_project_dialog() {

@@ -21,6 +21,7 @@ class QStackedWidget;
 namespace foldline::ui {
 
 class DiagramPage;
+class Job;
 class FindingsModel;
 class FindingsPage;
 class MemoPage;
@@ -56,15 +57,32 @@ public:
     /// What changed in the data file since the opened project was saved (rows, columns,
     /// digest), as shown in the status bar; empty when unchanged or no project was opened.
     QString data_change() const { return data_change_; }
+
     /// The audit as a project document (data source, question, settings, diagram, decisions,
     /// notes, memo settings; no rows). Error when no data file is open (typed-in counts have
     /// no file to point to).
+    /// The data file's digest is computed on a worker when the file is loaded, never on the
+    /// GUI thread, and cached by (path, size, modification time). Until it is known, the
+    /// project is still produced, with an empty digest (autosave never waits; the
+    /// recovery copy is written again when the digest arrives); an explicit save and the memo
+    /// wait for it instead (wait_for_data_digest), so neither ever records an empty or stale one.
     Result<project::Project> current_project() const;
+    /// The data file's SHA-256 when known for the file as it is now; nullopt while the worker
+    /// computes it, or when the source is not a file.
+    std::optional<std::string> data_digest() const;
+    /// Returns once the data file's digest is known (at once when it is): the worker computes
+    /// it while this runs the event loop without user input, so the window keeps painting.
+    /// Ok when the source is not a file; Error naming the data file when it cannot be read.
+    Status wait_for_data_digest();
 
     /// Asks what to do with a recovery file; the default shows RecoveryDialog. Tests inject
     /// their own answer so no modal dialog blocks them.
     using RecoveryPrompt = std::function<RecoveryChoice(const RecoveryOffer&)>;
     void set_recovery_prompt(RecoveryPrompt prompt) { prompt_ = std::move(prompt); }
+
+signals:
+    /// The data file's digest is known (data_digest) or failed (wait_for_data_digest says why).
+    void data_digest_done();
 
 public slots:
     void go_to(int step);
@@ -137,7 +155,22 @@ private:
         QDateTime modified;
         std::string sha256;
     };
-    mutable Digest digest_;  ///< the data file's SHA-256, computed once per version of the file
+    Digest digest_;  ///< the data file's SHA-256, computed once per version of the file
+    Job* digest_job_ = nullptr;  ///< computes digest_ off the GUI thread
+    struct DigestRun {
+        Digest of;                                 ///< the file as it was when hashing started
+        std::optional<Result<std::string>> sha256;  ///< set by the worker
+    };
+    std::shared_ptr<DigestRun> digest_run_;
+    std::optional<Error> digest_error_;  ///< why the current file's digest failed
+    bool digest_again_ = false;          ///< another file (or version) was loaded while hashing
+    bool recovery_lacks_digest_ = false; ///< the last recovery copy was written before the digest
+    /// Starts hashing the current data file on the worker unless its digest is known.
+    void start_digest();
+    void digest_finished();
+    /// With the opened project's data, the table and the digest all known: what changed.
+    void check_data_change();
+    std::optional<project::DataSource> saved_data_;  ///< the opened project's data, until checked
 };
 
 }  // namespace foldline::ui

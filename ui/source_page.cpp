@@ -119,7 +119,7 @@ SourcePage::SourcePage(QWidget* parent)
 
     grid_ = new CountsGrid;
     connect(grid_, &CountsGrid::table_ready, this,
-            [this](std::shared_ptr<const Table> t) { set_table(std::move(t), tr("typed-in table")); });
+            [this](std::shared_ptr<const Table> t) { set_table(std::move(t), SourceKind::TypedIn, typed_in_source_name()); });
     tabs_ = new QTabWidget;
     tabs_->addTab(splitter_, tr("Rows and columns"));
     tabs_->addTab(grid_, tr("Type in counts"));
@@ -155,7 +155,7 @@ SourcePage::SourcePage(QWidget* parent)
                 show_message(result ? QString::fromStdString(result->error().to_string()) : tr("Counting failed."), true);
                 return;
             }
-            set_table(std::make_shared<const Table>(std::move(*result).value()), database_source_);
+            set_table(std::make_shared<const Table>(std::move(*result).value()), SourceKind::Database, database_source_);
             record_ = *record;
             return;
         }
@@ -168,7 +168,7 @@ SourcePage::SourcePage(QWidget* parent)
             return;
         }
         add_recent(path_);
-        set_table(std::make_shared<const Table>(std::move(*result).value()), path_);
+        set_table(std::make_shared<const Table>(std::move(*result).value()), SourceKind::File, path_);
     });
 
     QStringList recent = recent_files();
@@ -247,9 +247,10 @@ void SourcePage::count_in_database(const DatabaseRequest& request) {
 
 void SourcePage::show_counts_grid() { tabs_->setCurrentWidget(grid_); }
 
-void SourcePage::set_table(std::shared_ptr<const Table> table, const QString& source) {
+void SourcePage::set_table(std::shared_ptr<const Table> table, SourceKind kind, const QString& source) {
     record_.reset();  // set again by a database load right after
     table_ = std::move(table);
+    kind_ = table_ ? kind : SourceKind::None;
     source_ = source;
     model_->set_table(table_);
     column_model_->set_table(table_);
@@ -275,7 +276,7 @@ void SourcePage::set_table(std::shared_ptr<const Table> table, const QString& so
             count_column_->addItem(w, w);
             count_column_->setCurrentIndex(count_column_->count() - 1);
         }
-        if (source != tr("typed-in table") && !database_job_) tabs_->setCurrentIndex(0);
+        if (kind_ != SourceKind::TypedIn) tabs_->setCurrentIndex(0);  // typed-in counts stay in their grid
         show_message(QString(), false);
     }
     emit table_loaded(table_, source_);
@@ -312,7 +313,7 @@ void SourcePage::show_message(const QString& text, bool error) {
 
 void SourcePage::column_menu(const QPoint& pos) {
     const QModelIndex idx = columns_->indexAt(pos);
-    if (!idx.isValid() || !table_ || path_.isEmpty() || source_ != path_) return;
+    if (!idx.isValid() || kind() != SourceKind::File || path_.isEmpty()) return;
     const Column& c = table_->columns[std::size_t(idx.row())];
     QMenu menu(this);
     const bool cat = c.is_categorical();

@@ -7,6 +7,7 @@
 
 #include "core/table/table.h"
 #include "ui/engine.h"
+#include "ui/source_kind.h"
 
 class QComboBox;
 class QLabel;
@@ -36,10 +37,13 @@ public:
     void open_path(const QString& path, const LoadOptions& options);
     /// The reader settings of the current file.
     LoadOptions options() const { return options_; }
-    /// Shows a table built elsewhere (typed-in counts, the demo) as the current source.
-    void set_table(std::shared_ptr<const Table> table, const QString& source);
+    /// Shows a table as the current source: `kind` says where it came from, `source` is its
+    /// path (a file) or display name (a database, typed-in counts).
+    void set_table(std::shared_ptr<const Table> table, SourceKind kind, const QString& source);
     std::shared_ptr<const Table> table() const { return table_; }
     QString source() const { return source_; }
+    /// Where the current table came from; None when there is none.
+    SourceKind kind() const { return table_ ? kind_ : SourceKind::None; }
     bool loading() const;
     QStringList recent_files() const;
     void clear_recent_files();
@@ -80,6 +84,7 @@ private:
 
     std::shared_ptr<const Table> table_;
     QString source_, path_;
+    SourceKind kind_ = SourceKind::None;
     LoadOptions options_;
     std::shared_ptr<Result<Table>> pending_;
     Job* job_;

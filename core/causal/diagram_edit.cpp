@@ -44,18 +44,37 @@ Status known(const Diagram& d, std::string_view name) {
 
 }  // namespace
 
-Status add_node(Diagram& d, const std::string& name, bool observed) {
-    if (name.empty()) return make_error("a node needs a name");
+Status check_new_node(const Diagram& d, std::string_view name) {
+    const bool blank = std::all_of(name.begin(), name.end(), [](char c) {
+        return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\v' || c == '\f';
+    });
+    if (blank) return make_error("a node needs a name");
     if (d.find_node(name) >= 0) return make_error("a node named " + quote_name(name) + " already exists");
-    d.nodes.push_back({name, observed, {}, {}});
+    return Ok{};
+}
+
+Status add_node(Diagram& d, const std::string& name, bool observed) {
+    return add_node(d, DiagramNode{name, observed, {}, {}});
+}
+
+Status add_node(Diagram& d, DiagramNode node) {
+    if (auto st = check_new_node(d, node.name); !st) return st;
+    d.nodes.push_back(std::move(node));
+    return Ok{};
+}
+
+Status move_node(Diagram& d, std::string_view name, double x, double y) {
+    if (auto st = known(d, name); !st) return st;
+    DiagramNode& n = d.nodes[static_cast<std::size_t>(d.find_node(name))];
+    n.x = x;
+    n.y = y;
     return Ok{};
 }
 
 Status rename_node(Diagram& d, std::string_view old_name, const std::string& new_name) {
     if (auto st = known(d, old_name); !st) return st;
     if (old_name == new_name) return Ok{};
-    if (new_name.empty()) return make_error("a node needs a name");
-    if (d.find_node(new_name) >= 0) return make_error("a node named " + quote_name(new_name) + " already exists");
+    if (auto st = check_new_node(d, new_name); !st) return st;
     const std::string old(old_name);
     d.nodes[static_cast<std::size_t>(d.find_node(old))].name = new_name;
     for (auto& e : d.edges) {
@@ -87,7 +106,7 @@ Status set_observed(Diagram& d, std::string_view name, bool observed) {
     return Ok{};
 }
 
-Status add_edge(Diagram& d, std::string_view from, std::string_view to) {
+Status check_new_edge(const Diagram& d, std::string_view from, std::string_view to) {
     if (auto st = known(d, from); !st) return st;
     if (auto st = known(d, to); !st) return st;
     if (from == to) return make_error("a node cannot cause itself (self-loop)");
@@ -98,6 +117,11 @@ Status add_edge(Diagram& d, std::string_view from, std::string_view to) {
         return make_error("the edge " + quote_name(from) + " -> " + quote_name(to) + " would close the cycle " + cycle +
                           quote_name(to));
     }
+    return Ok{};
+}
+
+Status add_edge(Diagram& d, std::string_view from, std::string_view to) {
+    if (auto st = check_new_edge(d, from, to); !st) return st;
     d.edges.push_back({std::string(from), std::string(to)});
     return Ok{};
 }

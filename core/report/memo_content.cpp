@@ -187,11 +187,11 @@ MemoDiagram diagram_of(const causal::Diagram& d, const std::string& name, const 
             mn.x = 200 + 160 * std::cos(angle);
             mn.y = 160 + 120 * std::sin(angle);
         }
-        if (node.name == d.exposure) mn.role = "exposure";
-        else if (node.name == d.outcome) mn.role = "outcome";
-        else mn.role = "unrelated";
+        if (node.name == d.exposure) mn.role = causal::Role::Exposure;
+        else if (node.name == d.outcome) mn.role = causal::Role::Outcome;
+        else mn.role = causal::Role::Unrelated;
         for (const auto& r : v ? v->roles : fallback_roles)
-            if (r.name == node.name) mn.role = std::string(causal::to_string(r.role));
+            if (r.name == node.name) mn.role = r.role;
         for (const auto& s : stratifier)
             if (s == node.name) mn.in_stratifier = true;
         md.nodes.push_back(std::move(mn));

@@ -61,7 +61,7 @@ struct MemoDiagramNode {
     std::string name;
     double x = 0, y = 0;       ///< editor position (laid out on a circle when never placed)
     bool observed = true;
-    std::string role;          ///< "exposure", "outcome", "confounder", ... (core/causal/roles.h)
+    causal::Role role = causal::Role::Unrelated;  ///< in text: causal::to_string (core/causal/roles.h)
     bool in_stratifier = false;
 };
 

@@ -41,7 +41,12 @@ private slots:
         QVERIFY(!page.request_edge("X", "X"));
         QVERIFY2(page.message().contains("itself"), qPrintable(page.message()));
         QVERIFY(!page.request_edge("X", "Y"));
-        QVERIFY2(page.message().contains("already drawn"), qPrintable(page.message()));
+        QVERIFY2(page.message().contains("already exists"), qPrintable(page.message()));
+        // Node names follow the same rules (core/causal/diagram_edit): blank or used is refused.
+        QVERIFY(!page.add_unobserved("   "));
+        QVERIFY2(page.message().contains("needs a name"), qPrintable(page.message()));
+        QVERIFY(!page.add_unobserved("S"));
+        QVERIFY2(page.message().contains("already exists"), qPrintable(page.message()));
         QCOMPARE(page.undo_stack()->count(), 0);
     }
 
@@ -169,6 +174,18 @@ private slots:
         QVERIFY(!st.ok());
         QVERIFY(QString::fromStdString(st.error().to_string()).contains("bad.diagram.json"));
         QCOMPARE(int(other.doc()->nodes().size()), 4);
+        // A file that marks the question's exposure unobserved is refused the same way: the
+        // exposure is a column of the data (core/causal/diagram_edit's set_question).
+        QFile hidden(dir.filePath("hidden.diagram.json"));
+        QVERIFY(hidden.open(QIODevice::WriteOnly));
+        hidden.write(R"({"nodes": [{"name": "X", "observed": false}, {"name": "Y"}], "edges": []})");
+        hidden.close();
+        const Status refused = other.open_file(hidden.fileName());
+        QVERIFY(!refused.ok());
+        const QString why = QString::fromStdString(refused.error().to_string());
+        QVERIFY2(why.contains("hidden.diagram.json") && why.contains("unobserved"), qPrintable(why));
+        QCOMPARE(int(other.doc()->nodes().size()), 4);
+        QVERIFY(other.doc()->node("X")->observed);
     }
 };
 

@@ -1,5 +1,6 @@
 // tests/ui/main_window_test.cpp <-> ui/main_window.h (and the path through every step)
 #include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
+#include "core/common/sha256.h"
 
 #include <QAction>
 #include <QLabel>
@@ -75,6 +76,100 @@ private slots:
         QVERIFY(w.question_page()->problems().join(' ').contains("must differ"));
         auto* label = w.question_page()->findChild<QLabel*>("question_problems");
         QVERIFY(label->text().contains("must differ"));
+    }
+
+    // Where the data came from is a kind, never the display name: a data file literally named
+    // like the grid's source ("typed-in table") is still a file a project can point to, and
+    // typed-in counts are never one.
+    void the_source_kind_decides_not_its_name() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        MainWindow w;
+        QCOMPARE(w.source_page()->kind(), SourceKind::None);
+        CountsGrid* g = w.source_page()->counts_grid();
+        g->set_rows({{"a", "5", "10", "3", "10"}, {"b", "2", "10", "6", "10"}});
+        g->use_table();
+        QCOMPARE(w.source_page()->kind(), SourceKind::TypedIn);
+        QVERIFY(!w.current_project().ok());
+
+        QTemporaryDir dir;
+        const QString old_cwd = QDir::currentPath();
+        QVERIFY(QDir::setCurrent(dir.path()));
+        const QString name = typed_in_source_name();
+        QFile f(name);
+        QVERIFY(f.open(QIODevice::WriteOnly));
+        f.write("region,group,approved\nnorth,a,1\nsouth,b,0\nnorth,b,1\n");
+        f.close();
+        w.source_page()->open_path(name);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading() && w.source_page()->kind() == SourceKind::File, 10000);
+        QCOMPARE(w.source_page()->source(), name);
+        auto p = w.current_project();
+        QDir::setCurrent(old_cwd);
+        QVERIFY2(p.ok(), p.ok() ? "" : p.error().to_string().c_str());
+        QCOMPARE(QString::fromStdString(p->data.path), name);
+        QCOMPARE(p->data.rows, std::uint64_t(3));
+    }
+
+    // The data file's digest is computed on a worker: when the table arrives it is not known
+    // yet, the GUI thread keeps turning its event loop (a 0 ms timer keeps firing) until the
+    // worker reports, and a save straight after the load waits for it rather than writing an
+    // empty digest. The digest saved is core's sha256_file of the file (FIPS 180-4; core's own
+    // tests check it against published vectors).
+    void data_digest_is_computed_off_the_gui_thread() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        QTemporaryDir dir;
+        const QString path = dir.filePath("branches.csv");
+        {
+            QFile f(path);
+            QVERIFY(f.open(QIODevice::WriteOnly));
+            f.write("region,group,approved,remark\n");
+            const QByteArray remark(400, 'x');
+            for (int i = 0; i < 100000; ++i)  // about 42 MB
+                f.write((i % 2 ? "north,a," : "south,b,") + QByteArray::number(i % 3 == 0) + "," + remark + "\n");
+        }
+        const auto expected = sha256_file(path.toStdString());
+        QVERIFY(expected.ok());
+
+        MainWindow w;
+        bool known_at_load = true;
+        bool saved = false;
+        QString save_error;
+        connect(w.source_page(), &SourcePage::table_loaded, &w, [&](std::shared_ptr<const Table> t, const QString&) {
+            if (!t) return;
+            known_at_load = w.data_digest().has_value();
+            // A save straight after the load, before the worker is done.
+            const Status st = w.save_project_to(dir.filePath("early.foldline"));
+            saved = st.ok();
+            if (!st.ok()) save_error = QString::fromStdString(st.error().to_string());
+        });
+        int ticks = 0;
+        qint64 longest_gap = 0;
+        QElapsedTimer since_tick;
+        QTimer tick;
+        tick.setInterval(0);
+        connect(&tick, &QTimer::timeout, &w, [&] {
+            if (ticks++ > 0) longest_gap = std::max(longest_gap, since_tick.elapsed());
+            since_tick.restart();
+        });
+        bool done = false;
+        connect(&w, &MainWindow::data_digest_done, &w, [&] { done = true; });
+        tick.start();
+        w.source_page()->open_path(path);
+        QTRY_VERIFY_WITH_TIMEOUT(saved || !save_error.isEmpty(), 60000);
+        tick.stop();
+        QVERIFY2(saved, qPrintable(save_error));
+        QVERIFY(done);
+        QVERIFY(!known_at_load);
+        QVERIFY(ticks > 1);
+        // Generous on purpose (a shared machine): only a GUI thread blocked for the whole hash
+        // of a much larger file would miss it.
+        QVERIFY2(longest_gap < 5000, qPrintable(QString::number(longest_gap)));
+        QCOMPARE(w.data_digest().value_or(""), *expected);
+        auto p = project::load_project(dir.filePath("early.foldline").toStdString());
+        QVERIFY(p.ok());
+        QCOMPARE(p->data.sha256, *expected);
+        // The project produced before the digest is known is still produced (autosave never
+        // waits); now it carries the digest too.
+        QCOMPARE(w.current_project()->data.sha256, *expected);
     }
 
     void layout_is_remembered() {
@@ -173,15 +268,17 @@ private slots:
         // (Pearl 2009, Causality, sec. 3.3.1) admits a confounder and excludes a descendant of
         // the exposure. The sample diagram draws the product as a mediator (sample_data/README.md).
         const bool was_mediator = d->doc()->has_edge(exposure, stratum);
-        const QString role_before = d->verdict().roles.value(stratum);
-        QCOMPARE(role_before, was_mediator ? QStringLiteral("mediator") : QStringLiteral("confounder"));
+        QVERIFY(d->verdict().roles.contains(stratum));
+        const causal::Role role_before = d->verdict().roles.value(stratum);
+        QVERIFY(role_before == (was_mediator ? causal::Role::Mediator : causal::Role::Confounder));
         QVERIFY(before == (was_mediator ? causal::Answer::Pooled : causal::Answer::Stratified));
         const QString from = was_mediator ? exposure : stratum, to = was_mediator ? stratum : exposure;
         d->undo_stack()->beginMacro("reverse");
         d->undo_stack()->push(new RemoveEdgeCommand(d->doc(), from, to));
         QVERIFY(d->request_edge(to, from));
         d->undo_stack()->endMacro();
-        QCOMPARE(d->verdict().roles.value(stratum), was_mediator ? QStringLiteral("confounder") : QStringLiteral("mediator"));
+        QVERIFY(d->verdict().roles.contains(stratum));
+        QVERIFY(d->verdict().roles.value(stratum) == (was_mediator ? causal::Role::Confounder : causal::Role::Mediator));
         QVERIFY(d->verdict().answer == (was_mediator ? causal::Answer::Stratified : causal::Answer::Pooled));
         // Drawing the old arrow back as well would close a cycle: refused with a message.
         QVERIFY(!d->request_edge(from, to));
@@ -189,7 +286,7 @@ private slots:
         d->undo_stack()->undo();
         QVERIFY(d->doc()->has_edge(from, to));
         QVERIFY(!d->doc()->has_edge(to, from));
-        QCOMPARE(d->verdict().roles.value(stratum), role_before);
+        QVERIFY(d->verdict().roles.value(stratum) == role_before);
 
         // Neither view valid: income band made a common cause of group and approval while the
         // product stays a mediator. The verdict names {income_band} and the page shows the
@@ -232,6 +329,45 @@ private slots:
         }
         QVERIFY(f->points.size() <= 4000 && !f->points.empty());
         QVERIFY(f->points_note.contains("drawn"));
+    }
+
+    // "Also look for hidden groups" on the retail sample: core's hint (ScanResult::latent) is
+    // shown above the findings as a labelled hint, and never becomes a finding row.
+    void hidden_group_hint_is_shown_as_a_hint() {
+        if (find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_weeks.csv not found");
+        MainWindow w;
+        const QString err = prepare_slope_demo(w, 120000);
+        QVERIFY2(err.isEmpty(), qPrintable(err));
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());  // not asked for
+        const int rows_without = w.findings_model()->size();
+        QuestionSpec q = w.question_page()->spec();
+        QVERIFY(q.slope);
+        QCOMPARE(q.outcome, QStringLiteral("weekly_sales"));
+        QCOMPARE(q.exposure, QStringLiteral("promo_spend"));
+        q.find_groups = true;
+        w.question_page()->set_spec(q);
+        QVERIFY(w.start_scan());
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());  // cleared while it runs
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QApplication::processEvents();
+        // Core's note as the engine hands it over (ScanResult::latent).
+        const QString note = hidden_group_note(w.scan_page()->scan_result().get());
+        QVERIFY(!note.isEmpty());
+        QCOMPARE(w.findings_page()->hidden_group_hint(), QStringLiteral("Hidden-group hint (not a finding): ") + note);
+        auto* label = w.findings_page()->findChild<QLabel*>("hidden_group_hint");
+        QVERIFY(label && !label->isHidden());
+        // The same findings as without the hint; none of them is the hint.
+        QCOMPARE(w.findings_model()->size(), rows_without);
+        for (int i = 0; i < w.findings_model()->size(); ++i)
+            for (int c = 0; c < w.findings_model()->columnCount(); ++c)
+                QVERIFY(!w.findings_model()->index(i, c).data().toString().contains(note));
+        // Asked off again, the hint goes.
+        q.find_groups = false;
+        w.question_page()->set_spec(q);
+        QVERIFY(w.start_scan());
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QApplication::processEvents();
+        QVERIFY(w.findings_page()->hidden_group_hint().isEmpty());
     }
 
     void trend_project_opens_with_its_decision() {

@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <cmath>
 #include <functional>
-#include <map>
 
 #include <QApplication>
 #include <QBuffer>
@@ -18,6 +17,7 @@
 #include <qcustomplot.h>
 
 #include "core/common/atomic_file.h"
+#include "ui/role_style.h"
 
 namespace foldline::ui {
 
@@ -33,7 +33,7 @@ namespace {
 constexpr int kDpi = 300;
 double pt(double points) { return points * kDpi / 72.0; }
 
-// Our palette: ink, rules, the two compared groups, and a fill per causal role.
+// Our palette: ink, rules and the two compared groups; a causal role's fill is ui/role_style's.
 const QColor kInk(0x22, 0x26, 0x2B);
 const QColor kMuted(0x5F, 0x66, 0x70);
 const QColor kRule(0xC9, 0xCE, 0xD4);
@@ -41,25 +41,6 @@ const QColor kBand(0xEE, 0xF1, 0xF4);
 const QColor kFocal(0x1B, 0x6F, 0x8A);
 const QColor kReference(0xD9, 0x8A, 0x2B);
 const QColor kAlert(0xA8, 0x32, 0x2D);
-
-QColor role_fill(const std::string& role) {
-    static const std::map<std::string, QColor> fills = {
-        {"exposure", QColor(0xF4, 0xD0, 0x6F)},          {"outcome", QColor(0x9D, 0xD9, 0xA5)},
-        {"confounder", QColor(0xF2, 0x8F, 0x79)},        {"mediator", QColor(0xB8, 0xA1, 0xE3)},
-        {"collider", QColor(0xE6, 0xA0, 0xC4)},          {"exposure_cause", QColor(0xCF, 0xE3, 0xF2)},
-        {"outcome_cause", QColor(0xCD, 0xEB, 0xD9)},     {"outcome_descendant", QColor(0xE3, 0xE3, 0xE3)},
-        {"mediator_descendant", QColor(0xE3, 0xE3, 0xE3)}, {"collider_descendant", QColor(0xE3, 0xE3, 0xE3)},
-        {"exposure_descendant", QColor(0xF0, 0xEB, 0xDA)},
-    };
-    auto it = fills.find(role);
-    return it == fills.end() ? QColor(0xF7, 0xF7, 0xF7) : it->second;
-}
-
-QString role_words(const std::string& role) {
-    QString s = QString::fromStdString(role);
-    s.replace('_', ' ');
-    return s;
-}
 
 bool is_control(char32_t c) {
     if (c == U'\n' || c == U'\t') return false;
@@ -580,16 +561,16 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         p.setPen(Qt::NoPen);
         p.drawPolygon(head);
     }
-    std::vector<std::string> roles_seen;
+    std::vector<causal::Role> roles_seen;
     for (std::size_t i = 0; i < d.nodes.size(); ++i) {
         const auto& n = d.nodes[i];
         QPen pen(n.in_stratifier ? kInk : kMuted, n.in_stratifier ? pt(1.8) : pt(0.7));
         if (!n.observed) pen.setStyle(Qt::DashLine);
         p.setPen(pen);
-        p.setBrush(role_fill(n.role));
+        p.setBrush(memo_role_fill(n.role));
         p.drawRoundedRect(boxes[i], pt(4), pt(4));
         p.setPen(kInk);
-        p.setFont(n.in_stratifier || n.role == "exposure" || n.role == "outcome" ? fb : f);
+        p.setFont(n.in_stratifier || n.role == causal::Role::Exposure || n.role == causal::Role::Outcome ? fb : f);
         p.drawText(boxes[i], Qt::AlignCenter, elided(q(n.name), 28));
         if (std::find(roles_seen.begin(), roles_seen.end(), n.role) == roles_seen.end()) roles_seen.push_back(n.role);
     }
@@ -611,7 +592,7 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         p.drawText(QPointF(x + pt(13), y + pt(6.5)), label);
         x += pt(22) + wtxt;
     };
-    for (const auto& r : roles_seen) key_item(role_words(r), role_fill(r), QPen(kMuted, pt(0.7)));
+    for (const auto r : roles_seen) key_item(QString::fromUtf8(role_style(r).words), memo_role_fill(r), QPen(kMuted, pt(0.7)));
     key_item(QStringLiteral("stratifier of this finding"), Qt::white, QPen(kInk, pt(1.8)));
     key_item(QStringLiteral("not in the data (unobserved)"), Qt::white, QPen(kMuted, pt(0.7), Qt::DashLine));
 }
@@ -713,6 +694,13 @@ void setup(QPdfWriter& pdf, const MemoContent& m) {
 }
 
 }  // namespace
+
+QColor memo_role_fill(causal::Role role) {
+    const QColor c = role_style(role).fill;
+    const double a = fill_alpha(false) / 255.0;
+    auto over_white = [a](int v) { return static_cast<int>(std::lround(v * a + 255 * (1 - a))); };
+    return QColor(over_white(c.red()), over_white(c.green()), over_white(c.blue()));
+}
 
 QString printable(const std::string& text) {
     const QString in = QString::fromUtf8(text.data(), static_cast<qsizetype>(text.size()));

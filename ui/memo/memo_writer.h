@@ -14,6 +14,7 @@
 #include "core/report/memo_content.h"
 
 #include <QByteArray>
+#include <QColor>
 #include <QImage>
 
 namespace foldline::ui {
@@ -33,6 +34,10 @@ QImage memo_page_image(const report::MemoContent& memo, int page, int width_px);
 /// Writes the memo atomically to `path`. Error names the file and the reason (missing or
 /// read-only folder); a previous file at `path` is then left as it was.
 Status write_memo_pdf(const report::MemoContent& memo, const std::string& path);
+
+/// The fill of a `role`'s box in the memo's diagram: ui/role_style's colour at fill_alpha(false)
+/// over white paper, opaque, so print and the canvas in a light theme match.
+QColor memo_role_fill(causal::Role role);
 
 /// Text as it will be printed: control and bidi-control characters replaced by visible
 /// [U+XXXX] marks (tab and line feed kept). Empty → empty.

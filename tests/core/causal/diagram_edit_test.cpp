@@ -87,3 +87,36 @@ TEST(DiagramEdit, RandomEditsAlwaysLeaveAValidDiagram) {
     EXPECT_GT(accepted, 500u);
     EXPECT_GT(refused, 500u);
 }
+
+TEST(DiagramEdit, NodesKeepTheirPlaceAndMove) {
+    Diagram d;
+    ASSERT_TRUE(add_node(d, DiagramNode{"region", false, 12.5, -40.0}).ok());
+    ASSERT_EQ(d.nodes.size(), 1u);
+    EXPECT_FALSE(d.nodes[0].observed);
+    EXPECT_EQ(d.nodes[0].x, 12.5);
+    EXPECT_EQ(d.nodes[0].y, -40.0);
+    ASSERT_TRUE(move_node(d, "region", 300.0, 80.0).ok());
+    EXPECT_EQ(d.nodes[0].x, 300.0);
+    EXPECT_EQ(d.nodes[0].y, 80.0);
+    EXPECT_EQ(move_node(d, "branch", 0.0, 0.0).error().message, "\"branch\" is not a node of the diagram");
+    // A blank name is no name: refused like an empty one, and nothing is added.
+    EXPECT_EQ(add_node(d, DiagramNode{"  \t", true, {}, {}}).error().message, "a node needs a name");
+    EXPECT_EQ(add_node(d, DiagramNode{"region", true, {}, {}}).error().message,
+              "a node named \"region\" already exists");
+    EXPECT_EQ(d.nodes.size(), 1u);
+}
+
+TEST(DiagramEdit, ChecksAnswerWhatTheEditWouldAndChangeNothing) {
+    Diagram d = abc();
+    const std::size_t edges = d.edges.size();
+    EXPECT_TRUE(check_new_edge(d, "a", "c").ok());
+    EXPECT_EQ(check_new_edge(d, "c", "a").error().message, add_edge(d, "c", "a").error().message);
+    EXPECT_EQ(check_new_edge(d, "b", "b").error().message, "a node cannot cause itself (self-loop)");
+    EXPECT_EQ(check_new_edge(d, "a", "b").error().message, "the edge \"a\" -> \"b\" already exists");
+    EXPECT_EQ(d.edges.size(), edges);
+    EXPECT_TRUE(check_new_node(d, "d").ok());
+    EXPECT_EQ(check_new_node(d, "b").error().message, "a node named \"b\" already exists");
+    EXPECT_EQ(check_new_node(d, "").error().message, "a node needs a name");
+    EXPECT_EQ(check_new_node(d, " ").error().message, "a node needs a name");
+    EXPECT_EQ(d.nodes.size(), 3u);
+}

@@ -179,10 +179,10 @@ TEST(MemoContent, DiagramGivesVerdictAndRoles) {
     EXPECT_NE(m.summary.find("\"rabbits\""), std::string::npos) << m.summary;
     ASSERT_TRUE(s.diagram.has_value());
     ASSERT_EQ(s.diagram->nodes.size(), 4u);
-    EXPECT_EQ(s.diagram->nodes[0].role, "confounder");
+    EXPECT_EQ(s.diagram->nodes[0].role, causal::Role::Confounder);
     EXPECT_TRUE(s.diagram->nodes[0].in_stratifier);
-    EXPECT_EQ(s.diagram->nodes[1].role, "exposure");
-    EXPECT_EQ(s.diagram->nodes[2].role, "outcome");
+    EXPECT_EQ(s.diagram->nodes[1].role, causal::Role::Exposure);
+    EXPECT_EQ(s.diagram->nodes[2].role, causal::Role::Outcome);
     EXPECT_FALSE(s.diagram->nodes[3].observed);
     EXPECT_EQ(s.diagram->edges.size(), 4u);
 
@@ -192,7 +192,7 @@ TEST(MemoContent, DiagramGivesVerdictAndRoles) {
     const MemoContent m2 = build_memo(in);
     EXPECT_NE(m2.sections[0].verdict.find("cannot judge"), std::string::npos) << m2.sections[0].verdict;
     EXPECT_NE(m2.sections[0].verdict.find("cage"), std::string::npos) << m2.sections[0].verdict;
-    EXPECT_EQ(m2.sections[0].diagram->nodes[0].role, "confounder");
+    EXPECT_EQ(m2.sections[0].diagram->nodes[0].role, causal::Role::Confounder);
 }
 
 TEST(MemoContent, EmptyScanAndNumberFormats) {
