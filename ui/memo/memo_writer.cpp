@@ -592,7 +592,17 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         p.drawText(QPointF(x + pt(13), y + pt(6.5)), label);
         x += pt(22) + wtxt;
     };
-    for (const auto r : roles_seen) key_item(QString::fromUtf8(role_style(r).words), memo_role_fill(r), QPen(kMuted, pt(0.7)));
+    // Roles that share a fill (the canvas tells them apart by shape and caption, the memo cannot)
+    // share one key entry, so a colour never stands for two entries.
+    std::vector<std::pair<QColor, QString>> keys;
+    for (const auto r : roles_seen) {
+        const QColor fill = memo_role_fill(r);
+        const QString words = QString::fromUtf8(role_style(r).words);
+        auto same = std::find_if(keys.begin(), keys.end(), [&](const auto& k) { return k.first == fill; });
+        if (same == keys.end()) keys.emplace_back(fill, words);
+        else same->second += QStringLiteral(" or ") + words;
+    }
+    for (const auto& [fill, words] : keys) key_item(words, fill, QPen(kMuted, pt(0.7)));
     key_item(QStringLiteral("stratifier of this finding"), Qt::white, QPen(kInk, pt(1.8)));
     key_item(QStringLiteral("not in the data (unobserved)"), Qt::white, QPen(kMuted, pt(0.7), Qt::DashLine));
 }
