@@ -129,14 +129,20 @@ Result<ScanResult> scan_slopes_only(const Table& table, const AuditSpec& spec, c
     rank_findings(r);
     if (spec.scan.find_groups) {
         auto latent = find_groups(table, sq, sq.seed, opt.work);
-        if (!latent) {
-            if (opt.work.cancelled()) {
-                r.cancelled = true;
-                return r;
-            }
-            return latent.error();
+        if (latent) {
+            r.latent = std::move(*latent);
+        } else if (opt.work.cancelled()) {
+            r.cancelled = true;
+        } else {
+            // The hint could not be fitted (too few rows, say): the scan's findings stand, and the
+            // hint says why it is missing.
+            LatentFinding none;
+            none.x = sq.x;
+            none.y = sq.y;
+            none.seed = sq.seed;
+            none.note = "no hidden-group hint: " + latent.error().message + ".";
+            r.latent = std::move(none);
         }
-        r.latent = std::move(*latent);
     }
     return r;
 }

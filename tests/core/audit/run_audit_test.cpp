@@ -8,6 +8,8 @@
 
 #include <gtest/gtest.h>
 
+#include <fstream>
+
 #include "core/audit/class_changes.h"
 #include "core/audit/memo_input.h"
 #include "core/audit/project_file.h"
@@ -157,6 +159,27 @@ TEST(RunAudit, FindGroupsAddsTheHiddenGroupHint) {
     const auto memo = report::build_memo(audit::memo_input(*with, DataInfo{p.data.path, "", 5000}, &p, &*table, "2026-12-04"));
     EXPECT_NE(memo.summary.find("Hidden-group hint (not a finding): " + with->latent->note), std::string::npos)
         << memo.summary;
+    // Too few rows for the mixtures: the findings stand and the hint says why it is missing.
+    std::string head;
+    {
+        std::ifstream in(kSamples + "retail_weeks.csv");
+        std::string line;
+        for (int i = 0; i < 9 && std::getline(in, line); ++i) head += line + "\n";
+    }
+    auto few_rows = read_csv_text(head, "retail_weeks.csv (8 rows)");
+    ASSERT_TRUE(few_rows.ok()) << few_rows.error().to_string();
+    const Table& few = *few_rows;
+    project::AuditSpec tiny;
+    tiny.question.kind = project::QuestionKind::Slope;
+    tiny.question.outcome = "weekly_sales";
+    tiny.question.exposure = "promo_spend";
+    tiny.scan.find_groups = true;
+    tiny.scan.strata = {"footfall"};
+    auto small = audit::scan_table(few, tiny);
+    ASSERT_TRUE(small.ok()) << small.error().to_string();
+    ASSERT_TRUE(small->latent.has_value());
+    EXPECT_EQ(small->latent->k, 0);
+    EXPECT_EQ(small->latent->note.rfind("no hidden-group hint: ", 0), 0u) << small->latent->note;
     const auto plain_memo = report::build_memo(audit::memo_input(*plain, DataInfo{p.data.path, "", 5000}, &p, &*table, "2026-12-04"));
     EXPECT_EQ(plain_memo.summary.find("Hidden-group hint"), std::string::npos);
 }
