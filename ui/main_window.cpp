@@ -177,7 +177,14 @@ void MainWindow::go_to(int s) {
 void MainWindow::seed_diagram_for(int row) {
     const FindingView* f = model_->at(row);
     if (!f || row == seeded_row_) return;
+    const bool first = seeded_row_ < 0;
     seeded_row_ = row;
+    if (!first) {
+        // The audit has one diagram: choosing another finding changes which finding the verdict
+        // is read for, never what the reviewer drew (nor the undo history).
+        diagram_->doc()->set_strata(f->strata);
+        return;
+    }
     QStringList columns;
     if (const Table* t = source_->table().get())
         for (const Column& c : t->columns) columns << QString::fromStdString(c.name);

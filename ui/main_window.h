@@ -140,7 +140,7 @@ private:
     QHash<QString, QAction*> actions_;
     QuestionSpec last_question_;
     project::AuditSpec last_spec_;  ///< the audit the last scan ran (core/audit), for verdicts
-    int seeded_row_ = -1;
+    int seeded_row_ = -1;  ///< the finding the Diagram step judges; -1 until the audit's diagram exists
     struct PendingProject;
     std::shared_ptr<PendingProject> pending_;  ///< a project being opened (load → scan → restore)
     void restore_pending();

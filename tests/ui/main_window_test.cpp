@@ -207,6 +207,50 @@ private slots:
         QVERIFY(!w.source_page()->table());
     }
 
+    // The audit has one diagram: selecting another finding (a click, or the keyboard moving
+    // through the list) changes which finding the verdict is read for, never the diagram the
+    // reviewer drew, nor its undo history.
+    void selecting_another_finding_keeps_the_diagram() {
+        if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
+        if (find_sample("lender_approvals.csv").isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
+        MainWindow w;
+        const QString err = prepare_demo(w, 120000);
+        QVERIFY2(err.isEmpty(), qPrintable(err));
+        w.go_to(MainWindow::Diagram);
+        DiagramPage* d = w.diagram_page();
+        const std::size_t nodes = d->doc()->nodes().size(), edges = d->doc()->edges().size();
+        QVERIFY(nodes > 0);
+        // The reviewer adds an arrow the sample's diagram lacks.
+        QString from, to;
+        for (const DiagramNode& a : d->doc()->nodes())
+            for (const DiagramNode& b : d->doc()->nodes())
+                if (from.isEmpty() && a.name != b.name && !d->doc()->has_edge(a.name, b.name) &&
+                    !d->doc()->has_edge(b.name, a.name) && d->request_edge(a.name, b.name))
+                    from = a.name, to = b.name;
+        QVERIFY(!from.isEmpty());
+        QCOMPARE(d->doc()->edges().size(), edges + 1);
+        const int undo_steps = d->undo_stack()->count();
+        QVERIFY(undo_steps > 0);
+        // Another finding, with other strata.
+        const int first = w.findings_page()->selected();
+        int other = -1;
+        for (int i = 0; i < w.findings_model()->size() && other < 0; ++i)
+            if (w.findings_model()->at(i)->strata != w.findings_model()->at(first)->strata) other = i;
+        QVERIFY(other >= 0);
+        w.go_to(MainWindow::Findings);
+        QVERIFY(w.findings_page()->select(other));
+        w.go_to(MainWindow::Diagram);
+        QCOMPARE(d->doc()->nodes().size(), nodes);
+        QCOMPARE(d->doc()->edges().size(), edges + 1);
+        QVERIFY(d->doc()->has_edge(from, to));
+        QCOMPARE(d->undo_stack()->count(), undo_steps);
+        QVERIFY(d->undo_stack()->canUndo());
+        // The saved audit holds the diagram as drawn.
+        auto p = w.current_project();
+        QVERIFY(p.ok());
+        QCOMPARE(p->diagram()->edges.size(), edges + 1);
+    }
+
     void whole_path_on_the_lender_sample() {
         if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
         if (find_sample("lender_approvals.csv").isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
