@@ -44,6 +44,7 @@ struct MainWindow::PendingProject {
     project::Project project;
     QString path;
     bool scanned = false;
+    bool recovered = false;  ///< a recovery copy: its changes were never saved
 };
 
 namespace {
@@ -85,7 +86,7 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Source, t ? StepBar::State::Done : StepBar::State::Open);
         steps_->set_state(Question, t ? StepBar::State::Open : StepBar::State::Locked);
         statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
-        setWindowTitle(t ? tr("Foldline — %1").arg(QFileInfo(src).fileName()) : tr("Foldline"));
+        setWindowTitle(t ? tr("Foldline — %1[*]").arg(QFileInfo(src).fileName()) : tr("Foldline"));
         if (t) go_to(Question);
         if (t && pending_ && !pending_->scanned) restore_pending();
     });
@@ -136,6 +137,14 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(scan_, &ScanPage::scan_finished, autosave_, &Autosave::mark_changed);
     connect(diagram_->doc(), &DiagramDoc::structure_changed, autosave_, &Autosave::mark_changed);
     connect(diagram_->undo_stack(), &QUndoStack::indexChanged, autosave_, &Autosave::mark_changed);
+    // The same edits make the audit unsaved until a save writes them (the title shows a mark).
+    // Opening a saved audit replays them; restore_pending clears the mark when it is done. A scan
+    // finishing is no edit of its own (its question's changes already count).
+    const auto edited = [this] { set_unsaved(true); };
+    connect(model_, &FindingsModel::dataChanged, this, edited);
+    connect(question_, &QuestionPage::changed, this, edited);
+    connect(diagram_->doc(), &DiagramDoc::structure_changed, this, edited);
+    connect(diagram_->undo_stack(), &QUndoStack::indexChanged, this, edited);
     connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString&) {
         if (t && !pending_) {
             // New data outside a project: a new audit, unsaved.
@@ -244,7 +253,10 @@ void MainWindow::build_menus() {
     connect(add(file, make_action("action_open_project", tr("Open au&dit…"), QKeySequence(tr("Ctrl+Shift+A")),
                                   tr("Open a saved audit (NAME.foldline): data, question, diagram, decisions"))),
             &QAction::triggered, this, &MainWindow::open_project_dialog);
-    connect(add(file, make_action("action_save_project", tr("&Save audit as…"), QKeySequence::Save,
+    connect(add(file, make_action("action_save", tr("&Save audit"), QKeySequence::Save,
+                                  tr("Save the audit to its file (asks for a name the first time)"))),
+            &QAction::triggered, this, &MainWindow::save_project_now);
+    connect(add(file, make_action("action_save_project", tr("Save audit &as…"), QKeySequence(tr("Ctrl+Alt+S")),
                                   tr("Save the audit as NAME.foldline (no data rows are stored)"))),
             &QAction::triggered, this, &MainWindow::save_project_dialog);
     connect(add(file, make_action("action_export_memo", tr("Save memo as &PDF…"), QKeySequence(tr("Ctrl+E")),
@@ -605,6 +617,7 @@ Status MainWindow::save_project_to(const QString& path) {
     project_path_ = path;
     autosave_->set_project_file(path);
     autosave_->discard();  // saved cleanly: nothing left to recover
+    set_unsaved(false);
     return Ok{};
 }
 
@@ -646,6 +659,7 @@ std::optional<RecoveryChoice> MainWindow::check_recovery() {
         if (!autosave_->adopt(offer->path))
             statusBar()->showMessage(autosave_->last_error(), 8000);
         open_project_document(offer->project, offer->project_file);
+        if (pending_) pending_->recovered = true;
         autosave_->mark_changed();
         statusBar()->showMessage(tr("Restoring the unsaved audit…"), 8000);
     }
@@ -690,6 +704,29 @@ void MainWindow::restore_pending() {
     if (!diagram_problem.isEmpty()) done += tr(". The saved diagram was not restored: %1").arg(diagram_problem);
     if (!data_change_.isEmpty()) done += tr(". Warning: %1.").arg(data_change_);
     statusBar()->showMessage(done, data_change_.isEmpty() ? 8000 : 0);
+    // Opening replayed the audit's own settings: nothing is unsaved, unless it came from a
+    // recovery copy.
+    set_unsaved(pending->recovered);
+}
+
+void MainWindow::set_unsaved(bool unsaved) {
+    unsaved_ = unsaved;
+    if (!project_path_.isEmpty()) setWindowTitle(tr("Foldline — %1[*]").arg(QFileInfo(project_path_).fileName()));
+    setWindowModified(unsaved);
+}
+
+bool MainWindow::save_project_now() {
+    if (project_path_.isEmpty()) {
+        save_project_dialog();
+        return !unsaved_;
+    }
+    const Status st = save_project_to(project_path_);
+    if (!st) {
+        QMessageBox::warning(this, tr("Save audit"), QString::fromStdString(st.error().to_string()));
+        return false;
+    }
+    statusBar()->showMessage(tr("Saved %1").arg(project_path_), 8000);
+    return true;
 }
 
 void MainWindow::save_project_dialog() {
@@ -750,9 +787,29 @@ void MainWindow::restore_layout() {
 }
 
 void MainWindow::closeEvent(QCloseEvent* e) {
+    // Nothing a reviewer typed or drew is discarded without asking. Until they choose, the
+    // recovery copy stays on disk; a process that dies here leaves it for the next start.
+    if (unsaved_ && current_project()) {
+        const CloseChoice c = close_prompt_ ? close_prompt_() : [this] {
+            QMessageBox box(QMessageBox::Warning, tr("Close the audit"),
+                            tr("The audit has changes that are not saved."), QMessageBox::NoButton, this);
+            box.setInformativeText(tr("Save them to the audit file, discard them, or go back to the audit?"));
+            box.setStandardButtons(QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel);
+            box.setDefaultButton(QMessageBox::Save);
+            box.setEscapeButton(QMessageBox::Cancel);
+            const int b = box.exec();
+            return b == QMessageBox::Save ? CloseChoice::Save
+                   : b == QMessageBox::Discard ? CloseChoice::Discard
+                                               : CloseChoice::Cancel;
+        }();
+        if (c == CloseChoice::Cancel || (c == CloseChoice::Save && !save_project_now())) {
+            e->ignore();
+            return;
+        }
+    }
     save_layout();
     scan_->cancel();
-    autosave_->discard();  // a clean close: nothing to recover
+    autosave_->discard();  // saved, chosen to discard, or nothing changed: nothing to recover
     QMainWindow::closeEvent(e);
 }
 

@@ -80,6 +80,16 @@ public:
     using RecoveryPrompt = std::function<RecoveryChoice(const RecoveryOffer&)>;
     void set_recovery_prompt(RecoveryPrompt prompt) { prompt_ = std::move(prompt); }
 
+    /// What to do with unsaved changes when the window closes.
+    enum class CloseChoice { Save, Discard, Cancel };
+    /// Asks it; the default is a Save / Discard / Cancel box. Tests inject their own answer.
+    using ClosePrompt = std::function<CloseChoice()>;
+    void set_close_prompt(ClosePrompt prompt) { close_prompt_ = std::move(prompt); }
+    /// True when the audit has changes that no save has written yet.
+    bool unsaved() const { return unsaved_; }
+    /// Saves to the audit's own file, or asks for one (save_project_dialog); true when written.
+    bool save_project_now();
+
 signals:
     /// The data file's digest is known (data_digest) or failed (wait_for_data_digest says why).
     void data_digest_done();
@@ -146,6 +156,10 @@ private:
     void restore_pending();
     Autosave* autosave_ = nullptr;
     RecoveryPrompt prompt_;
+    ClosePrompt close_prompt_;
+    bool unsaved_ = false;
+    /// Marks the audit changed (the title shows it) or saved, and names the window after it.
+    void set_unsaved(bool unsaved);
     QString project_path_;
     QString data_change_;
     std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit

@@ -207,7 +207,15 @@ private slots:
         // The second window holds the adopted copy: a third one does not offer it.
         QVERIFY(!third.check_recovery().has_value());
         QVERIFY(QFile::exists(again.autosave()->path()));
+        // A restored copy holds changes never saved: closing asks, and discarding removes it.
+        QVERIFY(again.unsaved());
+        int close_asked = 0;
+        again.set_close_prompt([&] {
+            ++close_asked;
+            return MainWindow::CloseChoice::Discard;
+        });
         QVERIFY(again.close());
+        QCOMPARE(close_asked, 1);
         QVERIFY(!QFile::exists(again.autosave()->path()));
     }
 
@@ -259,7 +267,55 @@ private slots:
         QVERIFY(!QFile::exists(a.path()));
     }
 
-    void a_clean_close_removes_the_recovery_file() {
+    // Closing never discards unsaved work without asking: Cancel keeps the window and the
+    // recovery copy; Save writes the audit file (Ctrl+S saves to it again without asking);
+    // only then, or on Discard, the copy goes.
+    void closing_with_unsaved_work_asks_first() {
+        QTemporaryDir dir;
+        MainWindow w;
+        w.autosave()->set_folder(dir.filePath("recovery"));
+        w.show();
+        QVERIFY(reviewed_trend_audit(w) >= 0);
+        QVERIFY(w.unsaved());
+        QVERIFY(w.windowTitle().contains(QStringLiteral("[*]")));
+        QVERIFY(w.isWindowModified());
+        QVERIFY(w.autosave()->write_now());
+        QVERIFY(QFile::exists(w.autosave()->path()));
+        MainWindow::CloseChoice answer = MainWindow::CloseChoice::Cancel;
+        int asked = 0;
+        w.set_close_prompt([&] {
+            ++asked;
+            return answer;
+        });
+        QVERIFY(!w.close());  // Cancel: the audit stays open, the copy stays on disk
+        QCOMPARE(asked, 1);
+        QVERIFY(w.isVisible());
+        QVERIFY(QFile::exists(w.autosave()->path()));
+        // Save to a file, then close without being asked again.
+        const QString audit = dir.filePath("reviewed.foldline");
+        QVERIFY(w.save_project_to(audit).ok());
+        QVERIFY(!w.unsaved());
+        QVERIFY(!w.isWindowModified());
+        QVERIFY(w.windowTitle().contains(QStringLiteral("reviewed.foldline")));
+        QVERIFY(!QFile::exists(w.autosave()->path()));
+        // A decision changed after the save makes it unsaved again; Ctrl+S writes the same file.
+        const int row = w.findings_page()->selected();
+        QVERIFY(row >= 0);
+        w.findings_page()->decide(Decision::SetAside);
+        QVERIFY(w.unsaved());
+        QVERIFY(w.save_project_now());
+        QVERIFY(!w.unsaved());
+        auto saved = project::load_project(audit.toStdString());
+        QVERIFY(saved.ok());
+        bool set_aside = false;
+        for (const auto& r : saved->reviews) set_aside = set_aside || r.decision == Decision::SetAside;
+        QVERIFY(set_aside);
+        QVERIFY(w.close());
+        QCOMPARE(asked, 1);
+        QVERIFY(!w.autosave()->pending());
+    }
+
+    void discarding_on_close_removes_the_recovery_file() {
         QTemporaryDir dir;
         MainWindow w;
         w.autosave()->set_folder(dir.filePath("recovery"));
@@ -267,6 +323,7 @@ private slots:
         QVERIFY(reviewed_trend_audit(w) >= 0);
         QVERIFY(w.autosave()->write_now());
         QVERIFY(QFile::exists(w.autosave()->path()));
+        w.set_close_prompt([] { return MainWindow::CloseChoice::Discard; });
         QVERIFY(w.close());
         QVERIFY(!QFile::exists(w.autosave()->path()));
         QVERIFY(!w.autosave()->pending());

@@ -428,6 +428,10 @@ private slots:
         QTRY_VERIFY_WITH_TIMEOUT(restored(), 120000);
         QVERIFY(w.question_page()->spec().slope);
         QCOMPARE(w.project_path(), audit);
+        // Opening is not an edit: nothing is unsaved, and the title names the audit.
+        QTest::qWait(300);
+        QVERIFY(!w.unsaved());
+        QVERIFY(w.windowTitle().contains(QStringLiteral("retail_audit.foldline")));
         // Saved again from the workbench, it is still a version 2 trend audit with the same
         // question, decision and note (memo settings kept from the opened file).
         QTemporaryDir dir;
