@@ -618,6 +618,7 @@ Status MainWindow::save_project_to(const QString& path) {
     autosave_->set_project_file(path);
     autosave_->discard();  // saved cleanly: nothing left to recover
     set_unsaved(false);
+    add_recent_audit(path);
     return Ok{};
 }
 
@@ -625,6 +626,7 @@ Status MainWindow::open_project(const QString& path) {
     auto p = project::load_project(path.toStdString());
     if (!p) return p.error();
     open_project_document(*p, path);
+    add_recent_audit(path);
     return Ok{};
 }
 
@@ -751,9 +753,34 @@ void MainWindow::open_project_dialog() {
     if (!st) QMessageBox::warning(this, tr("Open audit"), QString::fromStdString(st.error().to_string()));
 }
 
+namespace {
+constexpr const char* kRecentAudits = "recent/audits";
+}  // namespace
+
+QStringList MainWindow::recent_audits() const { return QSettings().value(kRecentAudits).toStringList(); }
+
+void MainWindow::add_recent_audit(const QString& path) {
+    const QString abs = QFileInfo(path).absoluteFilePath();
+    QStringList recent = recent_audits();
+    recent.removeAll(abs);
+    recent.prepend(abs);
+    while (recent.size() > 10) recent.removeLast();
+    QSettings().setValue(kRecentAudits, recent);
+    rebuild_recent_menu();
+}
+
 void MainWindow::rebuild_recent_menu() {
     if (!recent_menu_) return;
     recent_menu_->clear();
+    // Audits opened or saved first (what a reviewer comes back to), then data files.
+    const QStringList audits = recent_audits();
+    for (const QString& r : audits)
+        connect(recent_menu_->addAction(tr("Audit: %1  (%2)").arg(QFileInfo(r).fileName(), r)), &QAction::triggered, this,
+                [this, r] {
+                    const Status st = open_project(r);
+                    if (!st) QMessageBox::warning(this, tr("Open audit"), QString::fromStdString(st.error().to_string()));
+                });
+    if (!audits.isEmpty()) recent_menu_->addSeparator();
     const QStringList recent = source_->recent_files();
     for (const QString& r : recent)
         connect(recent_menu_->addAction(QFileInfo(r).fileName() + QStringLiteral("  (") + r + QLatin1Char(')')),
@@ -763,7 +790,10 @@ void MainWindow::rebuild_recent_menu() {
                 });
     if (recent.isEmpty()) recent_menu_->addAction(tr("(none)"))->setEnabled(false);
     recent_menu_->addSeparator();
-    connect(recent_menu_->addAction(tr("Clear list")), &QAction::triggered, source_, &SourcePage::clear_recent_files);
+    connect(recent_menu_->addAction(tr("Clear list")), &QAction::triggered, this, [this] {
+        QSettings().remove(kRecentAudits);
+        source_->clear_recent_files();  // rebuilds the menu
+    });
 }
 
 void MainWindow::save_layout() const {

@@ -89,6 +89,8 @@ public:
     bool unsaved() const { return unsaved_; }
     /// Saves to the audit's own file, or asks for one (save_project_dialog); true when written.
     bool save_project_now();
+    /// Audits opened or saved, most recent first (the Open recent menu lists them first).
+    QStringList recent_audits() const;
 
 signals:
     /// The data file's digest is known (data_digest) or failed (wait_for_data_digest says why).
@@ -160,6 +162,7 @@ private:
     bool unsaved_ = false;
     /// Marks the audit changed (the title shows it) or saved, and names the window after it.
     void set_unsaved(bool unsaved);
+    void add_recent_audit(const QString& path);
     QString project_path_;
     QString data_change_;
     std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit

@@ -297,6 +297,7 @@ private slots:
         QVERIFY(!w.unsaved());
         QVERIFY(!w.isWindowModified());
         QVERIFY(w.windowTitle().contains(QStringLiteral("reviewed.foldline")));
+        QCOMPARE(w.recent_audits().value(0), QFileInfo(audit).absoluteFilePath());  // in Open recent
         QVERIFY(!QFile::exists(w.autosave()->path()));
         // A decision changed after the save makes it unsaved again; Ctrl+S writes the same file.
         const int row = w.findings_page()->selected();
