@@ -24,6 +24,16 @@ CandidateOptions candidate_options(const AuditSpec& spec, unsigned threads) {
     return o;
 }
 
+RateScanOptions rate_options(const AuditSpec& spec, unsigned threads) {
+    RateScanOptions o;
+    o.pairs = spec.scan.pairs;
+    o.alpha = spec.scan.alpha;
+    o.bootstrap = spec.scan.bootstrap;
+    o.seed = spec.scan.seed;
+    o.threads = threads;
+    return o;
+}
+
 QuestionSpec question_spec(const AuditSpec& spec) {
     QuestionSpec q;
     q.outcome = spec.question.outcome;
@@ -173,13 +183,7 @@ Result<ScanResult> scan_rates(const Table& table, const AuditSpec& spec, const R
         }
         trend = std::move(*checks);
     }
-    RateScanOptions so;
-    so.pairs = spec.scan.pairs;
-    so.alpha = spec.scan.alpha;
-    so.bootstrap = spec.scan.bootstrap;
-    so.seed = spec.scan.seed;
-    so.threads = opt.threads;
-    auto r = rate_scan(table, *q, *cands, so, opt.work, opt.on_rate_finding, std::move(trend));
+    auto r = rate_scan(table, *q, *cands, rate_options(spec, opt.threads), opt.work, opt.on_rate_finding, std::move(trend));
     if (!r) return internal_error(r.error());
     if (!sq.x.empty()) r->slope_question = sq;
     return r;
@@ -223,13 +227,7 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
         if (!s) return s.error();
         slopes = std::move(*s);
     }
-    RateScanOptions so;
-    so.pairs = spec.scan.pairs;
-    so.alpha = spec.scan.alpha;
-    so.bootstrap = spec.scan.bootstrap;
-    so.seed = spec.scan.seed;
-    so.threads = options.threads;
-    auto r = rate_scan(in->cubes, in->question, so, options.work, options.on_rate_finding, std::move(slopes));
+    auto r = rate_scan(in->cubes, in->question, rate_options(spec, options.threads), options.work, options.on_rate_finding, std::move(slopes));
     if (!r) return internal_error(r.error());
     if (!sq.x.empty()) r->slope_question = sq;
     return r;
