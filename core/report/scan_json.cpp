@@ -16,8 +16,6 @@ using nlohmann::json;
 
 json num(double x) { return json_number(x); }
 
-json interval(const stats::Interval& i) { return json::array({num(i.lo), num(i.hi)}); }
-
 }  // namespace
 
 json candidates_to_json(const std::vector<std::string>& names, const std::vector<std::string>& origins) {
