@@ -55,7 +55,7 @@ QAction* add(QMenu* menu, QAction* a) {
 }  // namespace
 
 MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
-    setWindowTitle(tr("Foldline — rate and slope reversal audit"));
+    setWindowTitle(tr("Foldline — rate and slope reversal audit[*]"));
     setObjectName(QStringLiteral("foldline_main"));
     setAcceptDrops(true);
     model_ = new FindingsModel(this);
@@ -86,7 +86,7 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Source, t ? StepBar::State::Done : StepBar::State::Open);
         steps_->set_state(Question, t ? StepBar::State::Open : StepBar::State::Locked);
         statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
-        setWindowTitle(t ? tr("Foldline — %1[*]").arg(QFileInfo(src).fileName()) : tr("Foldline"));
+        setWindowTitle(t ? tr("Foldline — %1[*]").arg(QFileInfo(src).fileName()) : tr("Foldline[*]"));
         if (t) go_to(Question);
         if (t && pending_ && !pending_->scanned) restore_pending();
     });
