@@ -1,8 +1,9 @@
 #pragma once
 // The adjusted estimate over any set of columns a causal diagram names: the rate comparison
 // standardised to the pooled mix of the set's joint strata, or the trend's within slope with one
-// intercept per joint stratum. Used by the verdicts of `scan --diagram`, `run` and the memo
-// (core/report/verdict_json) and by the workbench's diagram step, so both quote one number.
+// intercept per joint stratum. Called only through core/audit/verdicts.h, which every verdict
+// (`scan --diagram`, `run`, the memo, the workbench's Diagram step) goes through, so all quote
+// one number.
 #include <cstddef>
 #include <string>
 #include <vector>
