@@ -76,7 +76,8 @@ Result<std::vector<std::uint8_t>> keep_mask(const RowFilter& f, const Table& tab
 
 /// The rows of `table` where the filter is true, as a new table: categorical levels renumbered
 /// in order of first appearance among the kept rows (levels no kept row uses are dropped), so
-/// the result equals reading a file that held only those rows. Weights follow their rows.
+/// the result equals reading a file that held only those rows. Weights follow their rows, and
+/// Table::filter records the filter's canonical text.
 Result<Table> apply(const RowFilter& f, const Table& table);
 
 /// The filter as an SQL condition: identifiers in double quotes and text in single quotes with
