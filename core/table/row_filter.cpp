@@ -411,13 +411,6 @@ Status check_node(const Node& n, const Table& t) {
     return Ok{};
 }
 
-Status check(const RowFilter& f, const Table& t) {
-    for (const auto& n : f.nodes)
-        if (n.kind == Node::Kind::Compare || n.kind == Node::Kind::In || n.kind == Node::Kind::Missing)
-            if (auto st = check_node(n, t); !st) return st;
-    return Ok{};
-}
-
 bool compare(double a, Op op, double b) {
     switch (op) {
         case Op::Eq: return a == b;
@@ -545,6 +538,13 @@ std::vector<std::string> columns(const RowFilter& f) {
     std::vector<std::string> out;
     if (!f.empty()) collect(f, f.root, out);
     return out;
+}
+
+Status check(const RowFilter& f, const Table& t) {
+    for (const auto& n : f.nodes)
+        if (n.kind == Node::Kind::Compare || n.kind == Node::Kind::In || n.kind == Node::Kind::Missing)
+            if (auto st = check_node(n, t); !st) return st;
+    return Ok{};
 }
 
 Result<std::vector<std::uint8_t>> keep_mask(const RowFilter& f, const Table& table) {

@@ -69,6 +69,10 @@ std::string canonical_text(const RowFilter& f);
 /// The columns the filter reads, each once, in order of first use.
 std::vector<std::string> columns(const RowFilter& f);
 
+/// Whether the filter fits the table without evaluating it: every column exists and every
+/// comparison fits its column's type. Usage error as for keep_mask.
+Status check(const RowFilter& f, const Table& table);
+
 /// One byte per row: 1 where the filter is true. Usage error for a column that is not in the
 /// table or a comparison that does not fit the column's type (the message names the column and
 /// the character where the test starts).
