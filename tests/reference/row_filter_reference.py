@@ -7,8 +7,10 @@ logic, SQL:1992: a comparison with NULL is unknown and WHERE keeps only true row
 (2) give the same findings, candidates and exclusions as `foldline scan` of a file holding only
 those rows (written here from SQLite's answer, in the original order).
 A filter that keeps no row must fail with exit code 3, and a malformed one with exit code 2.
+(3) The model-audit recipe on sample_data/screening_alerts.csv: the false- and true-positive
+rates by group, pooled and per ward, equal pandas' group means over the same subsets.
 
-Usage: row_filter_reference.py FOLDLINE
+Usage: row_filter_reference.py FOLDLINE [SOURCE_DIR]
 """
 import csv
 import json
@@ -121,8 +123,33 @@ def comparable(doc):
     return {k: doc[k] for k in ("findings", "candidates", "excluded", "summary")}
 
 
+def check_model_audit(foldline, source_dir):
+    import pandas as pd
+    path = os.path.join(source_dir, "sample_data", "screening_alerts.csv")
+    df = pd.read_csv(path)
+    for truth, name in ((0, "false-positive"), (1, "true-positive")):
+        p = subprocess.run([foldline, "scan", path, "--outcome", "alert=1", "--exposure", "patient_group=B,A",
+                            "--strata", "ward", "--no-pairs", "--bootstrap", "0", "--where", f"deteriorated = {truth}",
+                            "--json", "-"], capture_output=True, text=True)
+        check(p.returncode == 0, f"{name} rate scan: exit {p.returncode}: {p.stderr.strip()}")
+        if p.returncode:
+            continue
+        doc = json.loads(p.stdout)
+        sub = df[df.deteriorated == truth]
+        f = doc["findings"][0]
+        want_b, want_a = sub[sub.patient_group == "B"].alert.mean(), sub[sub.patient_group == "A"].alert.mean()
+        check(abs(f["crude"]["rate_focal"] - want_b) < 1e-12 and abs(f["crude"]["rate_reference"] - want_a) < 1e-12,
+              f"{name} rate pooled: {f['crude']['rate_focal']}, {f['crude']['rate_reference']} vs pandas {want_b}, {want_a}")
+        check(doc["data"]["rows_kept"] == len(sub), f"{name}: rows kept {doc['data']['rows_kept']} vs {len(sub)}")
+        print(f"{name} rate: B {want_b:.4f}, A {want_a:.4f} (pandas), class by ward: {f['class']}")
+        if truth == 0:
+            check(f["class"] == "reversal", f"the planted false-positive reversal by ward is {f['class']}")
+
+
 def main():
     foldline = sys.argv[1]
+    if len(sys.argv) > 2:
+        check_model_audit(foldline, sys.argv[2])
     rng = random.Random(20261205)
     rows = make_rows(rng, 3000)
     db = sqlite3.connect(":memory:")
