@@ -214,6 +214,8 @@ int run(int argc, char** argv) {
     if (!from_cubes)
         spec.question.kind = audit::infer_kind(*table, spec.question, static_cast<std::size_t>(spec.scan.max_levels));
     const bool slope_only = spec.question.kind == project::QuestionKind::Slope;
+    if (!from_cubes)
+        if (auto st = audit::add_combined_groups(*table, spec); !st) return fail(kName, kUsage, st.error().to_string());
     if (!covariates.empty()) {
         if (slope_only) spec.question.covariates = covariates;
         else if (spec.trend) spec.trend->covariates = covariates;
@@ -275,6 +277,8 @@ const CommandRegistration reg{Command{
             "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
             "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
             "  [--delimiter CHAR]   field delimiter of DATA (tab or \\t for a tab; default: detected)\n"
+            "  --exposure A+B=a1+b1,a2+b2   compared groups formed by two or more columns joined by '+'\n"
+            "      (each combination is a group; its parts never stratify)\n"
             "  [--where EXPR]   rows to include, e.g. \"year >= 2024 and region in ('north', 'east')\"\n"
             "      (=, <>, <, <=, >, >=, in (...), is missing, not, and, or; text in single quotes;\n"
             "      docs/filter.md). Pushed down to a database as a WHERE condition.\n"

@@ -11,6 +11,8 @@
 #include "core/scan/grouped_slopes.h"
 #include "core/scan/question.h"
 #include "core/scan/slope_scan.h"
+#include "core/causal/combined_exposure.h"
+#include "core/table/combined_column.h"
 
 namespace foldline::audit {
 namespace {
@@ -167,7 +169,10 @@ Result<ScanResult> scan_rates(const Table& table, const AuditSpec& spec, const R
     const QuestionSpec qs = question_spec(spec);
     auto q = resolve_question(table, qs);
     if (!q) return usage_error(q.error());
-    auto cands = select_candidates(table, {qs.outcome, qs.exposure}, candidate_options(spec, opt.threads), table.column(qs.exposure));
+    const std::vector<std::string> parts = combined_groups(table, spec);
+    std::vector<std::string> skip = {qs.outcome, qs.exposure};
+    skip.insert(skip.end(), parts.begin(), parts.end());
+    auto cands = select_candidates(table, skip, candidate_options(spec, opt.threads), table.column(qs.exposure));
     if (!cands) return usage_error(cands.error());
     if (cands->candidates.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)", table.source);
     const SlopeQuestion sq = slope_question(spec, opt.threads);
@@ -192,6 +197,7 @@ Result<ScanResult> scan_rates(const Table& table, const AuditSpec& spec, const R
     auto r = rate_scan(table, *q, *cands, rate_options(spec, opt.threads), opt.work, opt.on_rate_finding, std::move(trend));
     if (!r) return internal_error(r.error());
     if (!sq.x.empty()) r->slope_question = sq;
+    for (const auto& p : parts) r->excluded.push_back({p, "part of the compared groups " + qs.exposure});
     return r;
 }
 
@@ -210,6 +216,26 @@ EstimateSettings estimate_settings(const AuditSpec& spec) {
 }
 
 Result<filter::RowFilter> rows_filter(const AuditSpec& spec) { return filter::parse(spec.question.rows); }
+
+std::vector<std::string> combined_groups(const Table& table, const AuditSpec& spec) {
+    if (spec.question.kind != project::QuestionKind::Rate) return {};
+    // Once added, the combined column is one of the table's columns: its name still says which
+    // columns it combines.
+    std::vector<std::string> others;
+    for (const auto& c : table.columns)
+        if (c.name != spec.question.exposure) others.push_back(c.name);
+    return combined_parts(others, spec.question.exposure);
+}
+
+Status add_combined_groups(Table& table, const AuditSpec& spec) {
+    if (table.column(spec.question.exposure)) return Ok{};
+    const auto parts = combined_groups(table, spec);
+    if (parts.empty()) return Ok{};
+    auto c = combine_columns(table, parts, spec.question.exposure);
+    if (!c) return c.error();
+    table.columns.push_back(std::move(*c));
+    return Ok{};
+}
 
 Result<Table> filter_rows(const Table& table, const AuditSpec& spec) {
     auto f = rows_filter(spec);
@@ -237,12 +263,20 @@ Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const R
         if (!k) return k.error();
         kept = std::move(*k);
     }
+    if (!table.column(spec.question.exposure) && !combined_groups(table, spec).empty()) {
+        if (!kept) kept = table;
+        if (auto st = add_combined_groups(*kept, spec); !st) return usage_error(st.error());
+    }
     const Table& rows = kept ? *kept : table;
     auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(rows, spec, options)
                                                                 : scan_rates(rows, spec, options);
     if (!r) return r;
     note_filter(*r, rows);
-    if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &rows, *d, estimate_settings(spec));
+    if (const causal::Diagram* d = spec.diagram()) {
+        const auto parts = combined_groups(rows, spec);
+        attach_verdicts(*r, &rows, parts.empty() ? *d : causal::combine_exposure(*d, parts, spec.question.exposure),
+                        estimate_settings(spec));
+    }
     return r;
 }
 
@@ -297,6 +331,7 @@ Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_overri
         if (!kept) return kept.error();
         run.table = std::move(*kept);
     }
+    if (auto st = add_combined_groups(run.table, spec); !st) return usage_error(st.error());
     auto result = scan_table(run.table, spec, options);
     if (!result) return result.error();
     run.result = std::move(*result);

@@ -44,11 +44,22 @@ Result<filter::RowFilter> rows_filter(const AuditSpec& spec);
 /// filter that does not fit the columns; Input error when it keeps no row.
 Result<Table> filter_rows(const Table& table, const AuditSpec& spec);
 
+/// The columns whose combinations form the compared groups when the spec's exposure names them
+/// joined by "+" (core/table/combined_column.h); empty for an ordinary exposure.
+std::vector<std::string> combined_groups(const Table& table, const AuditSpec& spec);
+
+/// Adds the combined exposure column the spec names (combined_groups) to `table`, unless it is
+/// already there. Error when the combinations cannot be formed.
+Status add_combined_groups(Table& table, const AuditSpec& spec);
+
 /// The estimate settings (bins, level limit, alpha) of a spec.
 EstimateSettings estimate_settings(const AuditSpec& spec);
 
 /// Scans `table` as `spec` asks, on the rows its filter keeps (filtered here unless
-/// `table.filter` says the rows already passed that filter). Errors carry their kind: Usage when the question, a trend or a
+/// `table.filter` says the rows already passed that filter) and with the combined exposure
+/// column (added here to a copy unless the caller added it: add_combined_groups). The parts of
+/// combined groups never stratify (listed as excluded), and the diagram's verdicts read the parts
+/// as one node (core/causal/combined_exposure.h). Errors carry their kind: Usage when the question, a trend or a
 /// covariate does not fit the data (a column missing or not numeric, a settings problem); Input
 /// when no column qualifies as a stratifier or the scan fails on the data; Internal otherwise.
 /// A stop request gives a result with cancelled set (findings so far, or none for slopes).
