@@ -2,6 +2,7 @@
 
 #include "core/common/sha256.h"
 #include "core/audit/project_file.h"
+#include "core/table/combined_column.h"
 
 #include <QAction>
 #include <QActionGroup>
@@ -627,6 +628,12 @@ Status MainWindow::save_project_to(const QString& path) {
 Status MainWindow::open_project(const QString& path) {
     auto p = project::load_project(path.toStdString());
     if (!p) return p.error();
+    // Groups formed by several columns have no control on the Question step yet: opening such an
+    // audit would lose its question on the next save, so it is refused with the way to run it.
+    if (!combined_parts(p->data.columns, p->question.exposure).empty())
+        return make_error("this audit compares groups formed by several columns (" + p->question.exposure +
+                              "), which the workbench cannot edit yet; run it with: foldline run " + path.toStdString(),
+                          path.toStdString());
     open_project_document(*p, path);
     add_recent_audit(path);
     return Ok{};

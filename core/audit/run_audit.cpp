@@ -219,8 +219,9 @@ Result<filter::RowFilter> rows_filter(const AuditSpec& spec) { return filter::pa
 
 std::vector<std::string> combined_groups(const Table& table, const AuditSpec& spec) {
     if (spec.question.kind != project::QuestionKind::Rate) return {};
-    // Once added, the combined column is one of the table's columns: its name still says which
-    // columns it combines.
+    // A column of that name read from the data is that column; one added by add_combined_groups
+    // still says by its name which columns it combines.
+    if (table.column(spec.question.exposure) && table.combined != spec.question.exposure) return {};
     std::vector<std::string> others;
     for (const auto& c : table.columns)
         if (c.name != spec.question.exposure) others.push_back(c.name);
@@ -234,6 +235,7 @@ Status add_combined_groups(Table& table, const AuditSpec& spec) {
     auto c = combine_columns(table, parts, spec.question.exposure);
     if (!c) return c.error();
     table.columns.push_back(std::move(*c));
+    table.combined = spec.question.exposure;
     return Ok{};
 }
 

@@ -564,6 +564,7 @@ Result<Table> apply(const RowFilter& f, const Table& table) {
     out.source = table.source;
     out.weight_column = table.weight_column;
     out.filter = canonical_text(f);
+    out.combined = table.combined;
     out.columns.reserve(table.columns.size());
     for (const auto& c : table.columns) {
         if (c.is_numeric()) {

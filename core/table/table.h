@@ -70,6 +70,7 @@ struct Table {
     std::string source;           ///< path or description of where the rows came from
     std::string weight_column;    ///< name of the count column, if any (not in `columns`)
     std::string filter;           ///< the rows filter these rows passed (canonical text), empty = none
+    std::string combined;         ///< the combined-groups column added to the read columns, empty = none
 
     bool weighted() const { return !weights.empty(); }
     double weight(std::size_t i) const { return weights.empty() ? 1.0 : weights[i]; }

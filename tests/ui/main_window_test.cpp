@@ -467,6 +467,33 @@ private slots:
     // does. statsmodels 0.13.5 OLS on sample_data/retail_weeks.csv, 4,972 rows with footfall
     // [calc]: weekly_sales ~ promo_spend + footfall → 1.739468503482215;
     // + C(store_format) → −1.4589542471516073.
+    // An audit whose groups are formed by two columns cannot be edited on the Question step yet:
+    // the workbench refuses it with the command that runs it, instead of losing its question.
+    void combined_groups_audit_is_refused_not_lost() {
+        QTemporaryDir dir;
+        const QString csv = dir.filePath("hiring.csv");
+        {
+            QFile f(csv);
+            QVERIFY(f.open(QIODevice::WriteOnly));
+            f.write("sex,ethnicity,dept,hired\nf,a,x,1\nm,b,y,0\nf,b,x,0\nm,a,y,1\n");
+        }
+        project::Project p;
+        p.data.path = csv.toStdString();
+        p.data.columns = {"sex", "ethnicity", "dept", "hired"};
+        p.question.outcome = "hired";
+        p.question.exposure = "sex+ethnicity";
+        const QString path = dir.filePath("combined.foldline");
+        QVERIFY(project::save_project(p, path.toStdString()).ok());
+        const QByteArray before = [&] { QFile f(path); f.open(QIODevice::ReadOnly); return f.readAll(); }();
+        MainWindow w;
+        const Status st = w.open_project(path);
+        QVERIFY(!st.ok());
+        QVERIFY2(QString::fromStdString(st.error().message).contains("foldline run"), st.error().message.c_str());
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QCOMPARE(f.readAll(), before);  // the file is untouched
+    }
+
     void trend_project_with_a_covariate_runs_adjusted() {
         const QString audit = find_sample("retail_audit.foldline");
         if (audit.isEmpty() || find_sample("retail_weeks.csv").isEmpty()) QSKIP("sample_data/retail_audit.foldline not found");
