@@ -70,7 +70,7 @@ void put(QTableWidget* t, int r, int c, const QString& text, bool greyed = false
 }
 
 const QString kTipRate = QObject::tr("Share of the group with the positive outcome, with its 95% Wilson score interval");
-const QString kTipRd = QObject::tr("Risk difference: focal rate minus reference rate, with its 95% Newcombe interval");
+const QString kTipRd = QObject::tr("Risk difference in percentage points: focal rate minus reference rate, with its 95% Newcombe interval");
 const QString kTipRatio = QObject::tr("Selection-rate ratio: focal rate divided by reference rate; below 0.8 is the common four-fifths flag");
 const QString kTipCounts = QObject::tr("Positives out of the group's total");
 
@@ -326,23 +326,23 @@ void FindingsPage::show_finding(int row) {
 
 void FindingsPage::fill_rate_tables(const FindingView& f) {
     pooled_->clear();
-    set_headers(pooled_, {tr("Group"), tr("Positives / total"), tr("Rate [95% CI]")},
+    set_headers(pooled_, {tr("Row"), tr("Positives / total"), tr("Value [95% CI]")},
                 {QString(), kTipCounts, kTipRate});
     const GroupRow& p = f.pooled;
     pooled_->setRowCount(5 + int(f.more.size()));
     put(pooled_, 0, 0, f.focal + tr(" (focal)"));
     put(pooled_, 0, 1, count_text(p.pos_focal, p.n_focal), false, kTipCounts);
-    put(pooled_, 0, 2, format_estimate(p.rate_focal), false, kTipRate);
+    put(pooled_, 0, 2, format_percent(p.rate_focal), false, kTipRate);
     put(pooled_, 1, 0, f.reference + tr(" (reference)"));
     put(pooled_, 1, 1, count_text(p.pos_reference, p.n_reference), false, kTipCounts);
-    put(pooled_, 1, 2, format_estimate(p.rate_reference), false, kTipRate);
-    put(pooled_, 2, 0, tr("Difference (pooled)"));
-    put(pooled_, 2, 2, format_estimate(f.crude), false, kTipRd);
+    put(pooled_, 1, 2, format_percent(p.rate_reference), false, kTipRate);
+    put(pooled_, 2, 0, tr("Pooled gap"));
+    put(pooled_, 2, 2, format_points(f.crude), false, kTipRd);
     put(pooled_, 3, 0, tr("Selection-rate ratio"));
     put(pooled_, 3, 2, ratio_text(p.selection_ratio), false, kTipRatio);
-    put(pooled_, 4, 0, f.adjusted_name.isEmpty() ? tr("Adjusted difference") : f.adjusted_name);
-    put(pooled_, 4, 2, format_estimate(f.adjusted), false,
-        tr("The gap after comparing like with like within strata (standard = the whole population's stratum mix), with its 95% interval"));
+    put(pooled_, 4, 0, tr("Adjusted gap (Mantel-Haenszel)"));
+    put(pooled_, 4, 2, format_points(f.adjusted), false,
+        tr("The gap after comparing like with like within strata: Mantel-Haenszel weighted difference in percentage points, Greenland-Robins 95% interval"));
     for (int i = 0; i < int(f.more.size()); ++i) {
         put(pooled_, 5 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
         put(pooled_, 5 + i, 2, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
@@ -353,7 +353,7 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
     strata_->clear();
     set_headers(strata_,
                 {tr("Stratum"), f.focal, tr("Rate [95% CI]"), f.reference, tr("Rate [95% CI]"),
-                 tr("Difference [95% CI]"), tr("Ratio"), tr("Note")},
+                 tr("Difference, pp [95% CI]"), tr("Ratio"), tr("Note")},
                 {tr("Level of %1").arg(f.strata_label()), kTipCounts, kTipRate, kTipCounts, kTipRate, kTipRd, kTipRatio,
                  tr("Why a stratum is left out of the adjusted figures")});
     strata_->setRowCount(int(f.rows.size()));
@@ -363,10 +363,10 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
         const QString why = g ? (r.reason.isEmpty() ? tr("left out: a group has no rows here") : r.reason) : QString();
         put(strata_, i, 0, r.level, g, why);
         put(strata_, i, 1, count_text(r.pos_focal, r.n_focal), g, kTipCounts);
-        put(strata_, i, 2, format_estimate(r.rate_focal), g, kTipRate);
+        put(strata_, i, 2, format_percent(r.rate_focal), g, kTipRate);
         put(strata_, i, 3, count_text(r.pos_reference, r.n_reference), g, kTipCounts);
-        put(strata_, i, 4, format_estimate(r.rate_reference), g, kTipRate);
-        put(strata_, i, 5, format_estimate(r.rd), g, kTipRd);
+        put(strata_, i, 4, format_percent(r.rate_reference), g, kTipRate);
+        put(strata_, i, 5, format_points(r.rd), g, kTipRd);
         put(strata_, i, 6, ratio_text(r.selection_ratio), g, kTipRatio);
         put(strata_, i, 7, why, g, why);
         strata_->item(i, 7)->setTextAlignment(Qt::AlignLeft | Qt::AlignVCenter);

@@ -269,7 +269,7 @@ private slots:
         QCOMPARE(s->rowCount(), int(f->rows.size()));
         QCOMPARE(s->item(0, 0)->text(), f->rows[0].level);
         QCOMPARE(s->item(0, 1)->text(), QStringLiteral("%1 / %2").arg(f->rows[0].pos_focal, 0, 'f', 0).arg(f->rows[0].n_focal, 0, 'f', 0));
-        QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_estimate(f->crude));
+        QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_points(f->crude));
         // Record a decision and write the memo; the PDF carries it (checked by size and header
         // here; the memo's wording is tested with the memo writer).
         w.findings_page()->decide(Decision::Upheld);
@@ -345,7 +345,7 @@ private slots:
             for (const FindingView& g : w.findings_model()->findings())
                 if (g.strata == QStringList{"income_band"}) ib = &g;
             QVERIFY(ib);
-            QVERIFY2(d->verdict().adjusted.endsWith(format_estimate(ib->adjusted)), qPrintable(d->verdict().adjusted));
+            QVERIFY2(d->verdict().adjusted.endsWith(format_points(ib->standardised)), qPrintable(d->verdict().adjusted));
             d->undo_stack()->undo();
             QVERIFY(d->verdict().answer == before);
         }
