@@ -79,7 +79,18 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(steps_, &StepBar::step_requested, this, &MainWindow::go_to);
 
     connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString& src) {
-        question_->set_table(t);
+        // Reading the same file again (another column type, count column or missing markers) is
+        // not new data; anything else starts the question afresh.
+        const bool typed = t && source_->kind() == SourceKind::TypedIn;
+        const bool new_data = !t || typed || src != last_source_;
+        last_source_ = t ? src : QString();
+        question_->set_table(t, new_data);
+        if (typed) {
+            // A typed-in table names its own question: the groups and outcome as typed.
+            const CountsGrid* g = source_->counts_grid();
+            question_->propose_groups(g->outcome_name(), g->positive_label(), g->group_column_name(), g->focal_name(),
+                                      g->reference_name());
+        }
         model_->clear();
         seeded_row_ = -1;
         for (int s = Scan; s < StepCount; ++s) steps_->set_state(s, StepBar::State::Locked);
@@ -87,10 +98,14 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Question, t ? StepBar::State::Open : StepBar::State::Locked);
         statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
         setWindowTitle(t ? tr("Foldline — %1[*]").arg(QFileInfo(src).fileName()) : tr("Foldline[*]"));
-        if (t) go_to(Question);
+        // A loaded file stays on the Source step so its columns can be reviewed (Next or Ctrl+2
+        // moves on); typed-in counts were reviewed as they were typed, and an opened audit
+        // goes on to its scan.
+        if (typed || (t && pending_)) go_to(Question);
         if (t && pending_ && !pending_->scanned) restore_pending();
     });
     connect(source_, &SourcePage::recent_files_changed, this, &MainWindow::rebuild_recent_menu);
+    connect(source_, &SourcePage::next_requested, this, [this] { go_to(Question); });
     connect(question_, &QuestionPage::scan_requested, this, [this] { start_scan(); });
     connect(scan_, &ScanPage::scan_finished, this, [this](bool completed, int n) {
         steps_->set_state(Scan, completed ? StepBar::State::Done : StepBar::State::Open);
@@ -852,8 +867,17 @@ void MainWindow::dropEvent(QDropEvent* e) {
     const auto urls = e->mimeData()->urls();
     if (urls.isEmpty() || !urls.first().isLocalFile()) return;
     e->acceptProposedAction();
+    open_file(urls.first().toLocalFile());
+}
+
+void MainWindow::open_file(const QString& path) {
+    if (path.endsWith(QStringLiteral(".foldline"), Qt::CaseInsensitive)) {
+        if (auto st = open_project(path); !st)
+            QMessageBox::warning(this, tr("Open audit"), QString::fromStdString(st.error().to_string()));
+        return;
+    }
     go_to(Source);
-    source_->open_path(urls.first().toLocalFile());
+    source_->open_path(path);
 }
 
 }  // namespace foldline::ui

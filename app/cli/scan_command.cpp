@@ -13,6 +13,7 @@
 
 #include "app/cli/args.h"
 #include "app/cli/command.h"
+#include "app/cli/count_warning.h"
 #include "app/cli/outputs.h"
 #include "core/audit/database_source.h"
 #include "core/audit/run_audit.h"
@@ -193,6 +194,7 @@ int run(int argc, char** argv) {
     hasher.join();
     if (!table) return fail(kName, kInput, table.error().to_string());
     if (!digest) return fail(kName, kInput, digest.error().to_string());
+    if (!from_db) warn_if_count_column_forgotten(std::cerr, "scan", *table, ropt.count_column);
     const auto t1 = clock::now();
 
     // A numeric outcome on a numeric exposure with many values is a slope question; covariates
