@@ -103,6 +103,8 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
 
     list_ = new QTableView;
     list_->setObjectName(QStringLiteral("findings_list"));
+    // Arrows move inside the list; Tab leaves it for the decision buttons and the note.
+    list_->setTabKeyNavigation(false);
     list_->setModel(filter_);
     list_->setSortingEnabled(true);
     list_->sortByColumn(FindingsModel::Class, Qt::AscendingOrder);
@@ -148,10 +150,11 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     const std::pair<Decision, QString> choices[] = {
         {Decision::Upheld, tr("The finding stands and the chosen view is the one to quote")},
         {Decision::SetAside, tr("The finding does not hold up or does not matter for this question")},
-        {Decision::FollowUp, tr("More data or expert advice is needed before deciding")}};
+        {Decision::FollowUp, tr("More data or expert advice is needed before deciding")},
+        {Decision::Undecided, tr("Not decided yet: takes back a decision made earlier (the note stays)")}};
     decide_row->addWidget(new QLabel(tr("Decision:")));
     for (const auto& [d, tip] : choices) {
-        auto* b = new QPushButton(decision_title(d));
+        auto* b = new QPushButton(d == Decision::Undecided ? tr("Undecided") : decision_title(d));
         b->setCheckable(true);
         b->setToolTip(tip);
         b->setObjectName(QStringLiteral("decide_") + QString::number(int(d)));
@@ -163,6 +166,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     note_->setPlaceholderText(tr("Reviewer's note on this finding…"));
     note_->setMaximumHeight(52);
     note_->setObjectName(QStringLiteral("finding_note"));
+    note_->setTabChangesFocus(true);  // Tab moves on; the note is one or two lines of text
     connect(note_, &QPlainTextEdit::textChanged, this, [this] {
         if (showing_) return;
         const int r = selected();
