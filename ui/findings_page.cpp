@@ -86,12 +86,16 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     for (FindingClass c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
                            FindingClass::Heterogeneous, FindingClass::Stable}) {
         auto* b = new QToolButton;
-        b->setText(class_glyph(c) + QLatin1Char(' ') + class_title(c));
         b->setCheckable(true);
         b->setChecked(true);
+        b->setAutoRaise(false);
         b->setToolTip(tr("Show or hide %1 findings: %2").arg(class_title(c).toLower(), class_meaning(c)));
         b->setObjectName(QStringLiteral("show_") + class_title(c).toLower());
-        connect(b, &QToolButton::toggled, this, [this, c](bool on) { filter_->set_class_shown(c, on); });
+        connect(b, &QToolButton::toggled, this, [this, c](bool on) {
+            filter_->set_class_shown(c, on);
+            update_chips();
+        });
+        chips_[int(c)] = b;
         chips->addWidget(b);
     }
     chips->addStretch();
@@ -111,9 +115,17 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     list_->setSelectionBehavior(QAbstractItemView::SelectRows);
     list_->setSelectionMode(QAbstractItemView::SingleSelection);
     list_->verticalHeader()->hide();
-    list_->horizontalHeader()->setStretchLastSection(true);
+    // Every column fits its contents and the strata take what is left, so class, strata, gaps,
+    // q-value and decision are all in view without scrolling sideways.
+    list_->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    list_->horizontalHeader()->setSectionResizeMode(FindingsModel::Strata, QHeaderView::Stretch);
+    list_->horizontalHeader()->setStretchLastSection(false);
+    list_->setTextElideMode(Qt::ElideMiddle);
     list_->setAlternatingRowColors(true);
     list_->setWordWrap(false);
+    connect(model_, &QAbstractItemModel::rowsInserted, this, &FindingsPage::update_chips);
+    connect(model_, &QAbstractItemModel::modelReset, this, &FindingsPage::update_chips);
+    update_chips();
     connect(list_->selectionModel(), &QItemSelectionModel::currentRowChanged, this,
             [this](const QModelIndex& cur) { show_finding(cur.isValid() ? filter_->mapToSource(cur).row() : -1); });
 
@@ -180,7 +192,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     auto* pooled_box = new QWidget;
     auto* pl = new QVBoxLayout(pooled_box);
     pl->setContentsMargins(0, 0, 0, 0);
-    pl->addWidget(new QLabel(tr("<b>Pooled</b> (all strata together)")));
+    pl->addWidget(new QLabel(tr("<b>Pooled and adjusted</b> (rates pooled over all strata, gaps adjusted within them, tests)")));
     pl->addWidget(pooled_);
     auto* strata_box = new QWidget;
     auto* sl = new QVBoxLayout(strata_box);
@@ -258,7 +270,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     split_->setObjectName(QStringLiteral("findings_splitter"));
     split_->addWidget(left);
     split_->addWidget(right);
-    split_->setStretchFactor(0, 1);
+    split_->setStretchFactor(0, 2);  // the list keeps room for every column at 1440 px
     split_->setStretchFactor(1, 3);
     split_->setSizes({380, 1000});
     tables->setSizes({330, 600});
@@ -295,6 +307,22 @@ void FindingsPage::set_search(const QString& text) { search_->setText(text); }
 void FindingsPage::set_hidden_group_hint(const QString& note) {
     hint_->setText(note.isEmpty() ? QString() : tr("Hidden-group hint (not a finding): %1").arg(note));
     hint_->setVisible(!note.isEmpty());
+}
+
+void FindingsPage::update_chips() {
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const FindingView& f : model_->findings()) ++counts[int(f.cls)];
+    for (int i = 0; i < 5; ++i) {
+        QToolButton* b = chips_[i];
+        if (!b) continue;
+        const auto c = FindingClass(i);
+        // On or off is said in words and a box, not by the button's shading alone.
+        b->setText(QStringLiteral("%1 %2 %3 (%4)")
+                       .arg(b->isChecked() ? QStringLiteral("☑") : QStringLiteral("☐"), class_glyph(c), class_title(c))
+                       .arg(counts[i]));
+        b->setAccessibleName(tr("%1 findings: %2, %3").arg(class_title(c)).arg(counts[i])
+                                 .arg(b->isChecked() ? tr("shown") : tr("hidden")));
+    }
 }
 
 QString FindingsPage::hidden_group_hint() const { return hint_->isHidden() ? QString() : hint_->text(); }

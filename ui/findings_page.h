@@ -66,7 +66,9 @@ private:
     void fill_slope_tables(const FindingView& f);
     void draw_charts(const FindingView& f);
     void fit_pooled();
+    void update_chips();
 
+    QToolButton* chips_[5] = {};  ///< class filters, in FindingClass order
     FindingsModel* model_;
     FindingsFilter* filter_;
     QTableView* list_;

@@ -13,7 +13,9 @@
 #include <QPushButton>
 #include <QSettings>
 #include <QSpinBox>
+#include <QScrollBar>
 #include <QTableView>
+#include <QToolButton>
 #include <QTimer>
 #include <QUndoStack>
 #include <QtTest>
@@ -95,6 +97,20 @@ private slots:
             QTest::mouseClick(w.question_page()->findChild<QPushButton*>("start_scan"), Qt::LeftButton);
             QTRY_VERIFY_WITH_TIMEOUT(w.step() == int(MainWindow::Findings), 120000);
             QVERIFY(w.findings_model()->size() >= 2);
+            {
+                // At 1440 x 900 the list shows class, strata, gaps, q-value and decision without
+                // scrolling sideways, and rate gaps in percentage points as the memo writes them.
+                QTableView* list = w.findings_page()->list();
+                QApplication::processEvents();
+                QVERIFY(!list->horizontalScrollBar()->isVisible());
+                for (int c = 0; c < list->model()->columnCount(); ++c)
+                    QVERIFY2(list->columnViewportPosition(c) + list->columnWidth(c) <= list->viewport()->width(),
+                             qPrintable(list->model()->headerData(c, Qt::Horizontal).toString()));
+                QVERIFY(list->model()->index(0, FindingsModel::Crude).data().toString().endsWith(" pp"));
+                // The class filters say whether they are on and how many findings they hold.
+                auto* chip = w.findings_page()->findChild<QToolButton*>("show_stable");
+                QVERIFY(chip && chip->text().startsWith(QStringLiteral("☑")) && chip->text().contains('('));
+            }
 
             // 3. Diagram: the reviewer draws arrows of their own.
             w.go_to(MainWindow::Diagram);
