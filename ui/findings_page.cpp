@@ -140,11 +140,19 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     hint_->setToolTip(tr("From \"Also look for hidden groups\": mixtures fitted to the two columns. "
                          "A hint to look further, not a finding about any real group."));
     hint_->hide();
+    partial_ = new QLabel;
+    partial_->setObjectName(QStringLiteral("partial_note"));
+    partial_->setWordWrap(true);
+    partial_->setTextFormat(Qt::PlainText);
+    partial_->setFrameShape(QFrame::StyledPanel);
+    partial_->setMargin(6);
+    partial_->hide();
 
     auto* left = new QWidget;
     auto* ll = new QVBoxLayout(left);
     ll->setContentsMargins(0, 0, 0, 0);
     ll->addLayout(chips);
+    ll->addWidget(partial_);
     ll->addWidget(hint_);
     ll->addWidget(search_);
     ll->addWidget(list_, 1);
@@ -324,6 +332,13 @@ void FindingsPage::update_chips() {
                                  .arg(b->isChecked() ? tr("shown") : tr("hidden")));
     }
 }
+
+void FindingsPage::set_partial_note(const QString& why) {
+    partial_->setText(why.isEmpty() ? QString() : tr("Partial: %1").arg(why));
+    partial_->setVisible(!why.isEmpty());
+}
+
+QString FindingsPage::partial_note() const { return partial_->isHidden() ? QString() : partial_->text(); }
 
 QString FindingsPage::hidden_group_hint() const { return hint_->isHidden() ? QString() : hint_->text(); }
 

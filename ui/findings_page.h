@@ -47,6 +47,10 @@ public:
     void set_hidden_group_hint(const QString& note);
     /// The hint line as shown; empty when hidden.
     QString hidden_group_hint() const;
+    /// Marks the list as partial (a stopped scan: provisional findings) with `why`; empty
+    /// clears the mark.
+    void set_partial_note(const QString& why);
+    QString partial_note() const;
 
 signals:
     /// The selected finding changed (source row, or -1).
@@ -73,7 +77,7 @@ private:
     FindingsFilter* filter_;
     QTableView* list_;
     QLineEdit* search_;
-    QLabel *heading_, *meaning_, *empty_, *hint_;
+    QLabel *heading_, *meaning_, *empty_, *hint_, *partial_ = nullptr;
     QTableWidget *pooled_, *strata_;
     QTabWidget* charts_;
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;

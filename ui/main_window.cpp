@@ -110,7 +110,15 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(scan_, &ScanPage::scan_finished, this, [this](bool completed, int n) {
         steps_->set_state(Scan, completed ? StepBar::State::Done : StepBar::State::Open);
         steps_->set_state(Findings, n > 0 ? StepBar::State::Open : StepBar::State::Locked);
-        steps_->set_state(Memo, StepBar::State::Open);
+        // A stopped scan's findings are provisional: the list says so, and the Diagram and Memo
+        // steps (which read q-values, stability and the whole ranking) wait for a finished scan.
+        steps_->set_state(Memo, completed ? StepBar::State::Open : StepBar::State::Locked);
+        if (!completed) steps_->set_state(Diagram, StepBar::State::Locked);
+        findings_->set_partial_note(
+            completed ? QString()
+                      : tr("the scan was stopped, so these %n finding(s) are provisional (no q-values over the whole scan, "
+                           "no stability). The Diagram and Memo steps need a finished scan: press Scan (F5) again.",
+                           nullptr, n));
         action("action_stop")->setEnabled(false);
         statusBar()->showMessage(scan_->status(), 8000);
         // A trend audit asked to look for hidden groups: core's note, shown as a hint.
@@ -122,7 +130,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         if (pending_ && pending_->scanned) restore_pending();
     });
     connect(findings_, &FindingsPage::finding_selected, this, [this](int row) {
-        steps_->set_state(Diagram, row >= 0 ? StepBar::State::Open : StepBar::State::Locked);
+        steps_->set_state(Diagram, row >= 0 && findings_->partial_note().isEmpty() ? StepBar::State::Open
+                                                                                     : StepBar::State::Locked);
     });
     connect(memo_, &MemoPage::export_requested, this, &MainWindow::export_memo_dialog);
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
@@ -230,6 +239,7 @@ bool MainWindow::start_scan() {
     seeded_row_ = -1;
     if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
     findings_->set_hidden_group_hint({});
+    findings_->set_partial_note({});
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);
@@ -322,6 +332,9 @@ void MainWindow::build_menus() {
         go->addAction(a);
         connect(a, &QAction::triggered, this, [this, i] {
             if (steps_->state(i) != StepBar::State::Locked || i == step()) go_to(i);
+            else if ((i == Diagram || i == Memo) && !findings_->partial_note().isEmpty())
+                statusBar()->showMessage(tr("The Diagram and Memo steps need a finished scan; the last one was stopped. "
+                                            "Press Scan (F5) to run it again."), 8000);
             else statusBar()->showMessage(tr("That step opens once the earlier steps are done."), 4000);
         });
     }
