@@ -326,10 +326,27 @@ void draw_small_multiples(QCustomPlot* plot, const FindingView& f) {
     apply_theme(plot);
 }
 
-Status save(QCustomPlot* plot, const QString& path) {
+Status save(QCustomPlot* plot, const QString& path, const QString& heading) {
     const QString ext = QFileInfo(path).suffix().toLower();
     if (ext != QLatin1String("png") && ext != QLatin1String("pdf") && ext != QLatin1String("svg"))
         return make_error("expected a file name ending in .png, .svg or .pdf", path.toStdString());
+    // The heading is drawn for the file only: a row above the chart, taken away afterwards.
+    QCPTextElement* head = nullptr;
+    if (!heading.isEmpty()) {
+        plot->plotLayout()->insertRow(0);
+        head = new QCPTextElement(plot, heading, QApplication::font());
+        head->setTextColor(QApplication::palette().color(QPalette::WindowText));
+        plot->plotLayout()->addElement(0, 0, head);
+    }
+    struct Restore {
+        QCustomPlot* plot;
+        QCPTextElement* head;
+        ~Restore() {
+            if (!head) return;
+            plot->plotLayout()->remove(head);
+            plot->plotLayout()->simplify();
+        }
+    } restore{plot, head};
     // QCustomPlot and QSvgGenerator write straight to the file they are given, so a failure
     // half-way (a full disk) would leave a broken chart over the previous one: draw into a
     // scratch file first, then put its bytes in place with the shared atomic writer.

@@ -6,6 +6,8 @@
 #include <QFileDialog>
 #include <QHBoxLayout>
 #include <QHeaderView>
+#include <QRegularExpression>
+#include <QDir>
 #include <QLabel>
 #include <QLineEdit>
 #include <QMessageBox>
@@ -493,16 +495,38 @@ void FindingsPage::copy_table() {
     QApplication::clipboard()->setText(model_to_tsv(t->model()));
 }
 
+void FindingsPage::set_export_context(const QString& stem, const QString& heading) {
+    export_stem_ = stem;
+    export_heading_ = heading;
+}
+
 void FindingsPage::save_chart() {
     QCustomPlot* plot = current_chart();
-    if (!plot || selected() < 0) return;
+    const FindingView* f = model_->at(selected());
+    if (!plot || !f) return;
     QSettings s;
-    const QString path = QFileDialog::getSaveFileName(this, tr("Save chart"), s.value("charts/last_dir").toString(),
-                                                      tr("PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)"));
+    // Proposed: AUDIT-STRATA-CHART.png in the last folder; the chosen filter decides the suffix
+    // when the typed name has none of the three.
+    QString stem = (export_stem_.isEmpty() ? tr("chart") : export_stem_) + QLatin1Char('-') +
+                   f->strata.join(QLatin1Char('-')) + QLatin1Char('-') + plot->objectName().remove(QStringLiteral("chart_"));
+    stem.replace(QRegularExpression(QStringLiteral("[^\\w.-]+")), QStringLiteral("_"));
+    const QStringList filters = {tr("PNG image (*.png)"), tr("SVG drawing (*.svg)"), tr("PDF document (*.pdf)")};
+    QString filter = filters.first();
+    QString path = QFileDialog::getSaveFileName(this, tr("Save chart"),
+                                                QDir(s.value("charts/last_dir").toString()).filePath(stem + QStringLiteral(".png")),
+                                                filters.join(QStringLiteral(";;")), &filter);
     if (path.isEmpty()) return;
+    path = with_chart_suffix(path, filter);
     s.setValue("charts/last_dir", QFileInfo(path).absolutePath());
-    const Status st = charts::save(plot, path);
+    const Status st = charts::save(plot, path, export_heading_);
     if (!st) QMessageBox::warning(this, tr("Save chart"), QString::fromStdString(st.error().to_string()));
+}
+
+QString with_chart_suffix(const QString& path, const QString& filter) {
+    const QString ext = QFileInfo(path).suffix().toLower();
+    if (ext == QLatin1String("png") || ext == QLatin1String("svg") || ext == QLatin1String("pdf")) return path;
+    const QRegularExpressionMatch m = QRegularExpression(QStringLiteral("\\*\\.(\\w+)")).match(filter);
+    return path + QLatin1Char('.') + (m.hasMatch() ? m.captured(1) : QStringLiteral("png"));
 }
 
 void FindingsPage::decide(Decision d) {

@@ -22,6 +22,10 @@ namespace foldline::ui {
 class FindingsFilter;
 class FindingsModel;
 
+/// `path` with the suffix of the save dialog's chosen `filter` ("PNG image (*.png)") added when it
+/// has none of .png, .svg or .pdf.
+QString with_chart_suffix(const QString& path, const QString& filter);
+
 class FindingsPage : public QWidget {
     Q_OBJECT
 public:
@@ -51,6 +55,9 @@ public:
     /// clears the mark.
     void set_partial_note(const QString& why);
     QString partial_note() const;
+    /// What Save chart proposes and writes: the file name's stem (the audit's name) and a heading
+    /// naming the data set, the groups and the question, drawn above an exported chart.
+    void set_export_context(const QString& stem, const QString& heading);
 
 signals:
     /// The selected finding changed (source row, or -1).
@@ -72,7 +79,8 @@ private:
     void fit_pooled();
     void update_chips();
 
-    QToolButton* chips_[5] = {};  ///< class filters, in FindingClass order
+    QToolButton* chips_[5] = {};
+    QString export_stem_, export_heading_;  ///< class filters, in FindingClass order
     FindingsModel* model_;
     FindingsFilter* filter_;
     QTableView* list_;

@@ -240,6 +240,15 @@ bool MainWindow::start_scan() {
     if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
     findings_->set_hidden_group_hint({});
     findings_->set_partial_note({});
+    {
+        // Exported charts carry the data set, the groups and the question in their heading.
+        const QuestionSpec& q = last_question_;
+        const QString data = source_->kind() == SourceKind::File ? QFileInfo(source_->source()).fileName() : source_->source();
+        findings_->set_export_context(
+            audit_name(), q.slope ? tr("%1 — trend of %2 on %3").arg(data, q.outcome, q.exposure)
+                                  : tr("%1 — %2 = %3, %4 against %5 (%6)")
+                                        .arg(data, q.outcome, q.positive, q.focal, q.reference, q.exposure));
+    }
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);
@@ -485,8 +494,9 @@ void MainWindow::export_memo_dialog() {
         return;
     }
     QSettings s;
-    QString path = QFileDialog::getSaveFileName(this, tr("Save memo"), s.value("memo/last_dir").toString(),
-                                                tr("PDF document (*.pdf)"));
+    QString path = QFileDialog::getSaveFileName(
+        this, tr("Save memo"), QDir(s.value("memo/last_dir").toString()).filePath(audit_name() + tr("-memo.pdf")),
+        tr("PDF document (*.pdf)"));
     if (path.isEmpty()) return;
     if (!path.endsWith(QLatin1String(".pdf"), Qt::CaseInsensitive)) path += QStringLiteral(".pdf");
     s.setValue("memo/last_dir", QFileInfo(path).absolutePath());
@@ -759,9 +769,17 @@ bool MainWindow::save_project_now() {
     return true;
 }
 
+QString MainWindow::audit_name() const {
+    // The audit's own file name when it has one, else the data file's, else a plain word.
+    if (!project_path_.isEmpty()) return QFileInfo(project_path_).completeBaseName();
+    if (source_->kind() == SourceKind::File) return QFileInfo(source_->source()).completeBaseName();
+    return tr("audit");
+}
+
 void MainWindow::save_project_dialog() {
     QSettings s;
-    QString path = QFileDialog::getSaveFileName(this, tr("Save audit"), s.value("project/last_dir").toString(),
+    const QString dir = project_path_.isEmpty() ? s.value("project/last_dir").toString() : QFileInfo(project_path_).absolutePath();
+    QString path = QFileDialog::getSaveFileName(this, tr("Save audit"), QDir(dir).filePath(audit_name() + QStringLiteral(".foldline")),
                                                 tr("Foldline audit (*.foldline)"));
     if (path.isEmpty()) return;
     if (!path.endsWith(QLatin1String(".foldline"))) path += QStringLiteral(".foldline");

@@ -125,6 +125,8 @@ public slots:
     /// reported in a message box.
     void open_file(const QString& path);
     void save_project_dialog();
+    /// The name save dialogs propose: the audit file's base name, else the data file's.
+    QString audit_name() const;
     void open_project_dialog();
 
 protected:

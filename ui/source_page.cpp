@@ -133,7 +133,12 @@ SourcePage::SourcePage(QWidget* parent)
     tabs_->addTab(grid_, tr("Type in counts"));
     database_ = new DatabaseForm;
     connect(database_, &DatabaseForm::count_requested, this, &SourcePage::count_in_database);
-    tabs_->addTab(database_, tr("Database"));
+    const int db_tab = tabs_->addTab(database_, tr("Database"));
+    if (!database_available()) {
+        // Plainly off in a build without ODBC, saying why, rather than a form that cannot count.
+        tabs_->setTabEnabled(db_tab, false);
+        tabs_->setTabToolTip(db_tab, tr("This build has no database support (it needs unixODBC)."));
+    }
 
     // A file that looks pre-counted: the notice proposes its count column.
     count_notice_ = new QFrame;

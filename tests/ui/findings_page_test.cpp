@@ -112,6 +112,18 @@ private slots:
             QVERIFY(QFileInfo(path).size() > 500);
         }
         QVERIFY(!charts::save(page.current_chart(), dir.filePath("x.bmp")).ok());
+        // An exported chart carries its heading (data set, groups, question) in the file only.
+        const int rows_before = page.current_chart()->plotLayout()->rowCount();
+        const QString svg = dir.filePath("headed.svg");
+        QVERIFY(charts::save(page.current_chart(), svg, "clinic.csv — recovered = yes, B against A (group)").ok());
+        QFile headed(svg);
+        QVERIFY(headed.open(QIODevice::ReadOnly));
+        QVERIFY(QString::fromUtf8(headed.readAll()).contains("clinic.csv"));
+        QCOMPARE(page.current_chart()->plotLayout()->rowCount(), rows_before);
+        // The save dialog's chosen filter supplies a missing suffix, never a second one.
+        QCOMPARE(with_chart_suffix("/tmp/gaps", "SVG drawing (*.svg)"), QStringLiteral("/tmp/gaps.svg"));
+        QCOMPARE(with_chart_suffix("/tmp/gaps.pdf", "PNG image (*.png)"), QStringLiteral("/tmp/gaps.pdf"));
+        QCOMPARE(with_chart_suffix("/tmp/gaps.v2", "PDF document (*.pdf)"), QStringLiteral("/tmp/gaps.v2.pdf"));
         // Forest chart: one series of informative strata, one marker each for adjusted and pooled.
         QCOMPARE(page.current_chart()->graphCount(), 3);  // strata, adjusted, pooled
         // For looking at the page by eye: FOLDLINE_UI_GRAB_DIR=/some/dir saves the page per chart.

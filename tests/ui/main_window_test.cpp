@@ -14,6 +14,7 @@
 #include <QStandardPaths>
 #include <QSettings>
 #include <QSplitter>
+#include <QTabWidget>
 #include <QTableWidget>
 #include <QUndoStack>
 #include <QtTest>
@@ -64,6 +65,11 @@ private slots:
         QVERIFY(w.findings_page()->findChild<CautionBand*>());
         QVERIFY(w.diagram_page()->findChild<CautionBand*>());
         QVERIFY(w.findings_page()->findChild<CautionBand*>()->text().contains("not a legal or clinical determination"));
+        // Without ODBC the Database tab is plainly off and says why.
+        QTabWidget* tabs = w.source_page()->tabs();
+        const int db = tabs->indexOf(w.source_page()->database_form());
+        QCOMPARE(tabs->isTabEnabled(db), database_available());
+        if (!database_available()) QVERIFY(tabs->tabToolTip(db).contains("unixODBC"));
         // Typed-in counts open the Question step.
         CountsGrid* g = w.source_page()->counts_grid();
         g->set_rows({{"a", "5", "10", "3", "10"}, {"b", "2", "10", "6", "10"}});
