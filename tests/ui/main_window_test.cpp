@@ -21,6 +21,7 @@
 
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
+#include "ui/database_form.h"
 #include "ui/demo.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_page.h"
