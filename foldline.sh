@@ -49,6 +49,23 @@ build() {
     cmake --build "$BUILD_DIR" -j "$JOBS"
 }
 
+# A file manager opens .foldline audits (and data files) in the workbench: the desktop entry and
+# the audit's MIME type, installed for this user only. Skipped silently without the xdg tools.
+install_desktop_entry() {
+    command -v xdg-mime >/dev/null 2>&1 || return 0
+    local apps="${XDG_DATA_HOME:-$HOME/.local/share}/applications"
+    mkdir -p "$apps" || return 0
+    sed -e "s|^Exec=.*|Exec=$HERE/$BUILD_DIR/app/foldline %f|" \
+        -e "s|^Icon=.*|Icon=$HERE/resources/icons/foldline.svg|" \
+        resources/foldline.desktop >"$apps/foldline.desktop" || return 0
+    xdg-mime install --novendor resources/foldline-audit.xml >/dev/null 2>&1 || true
+    xdg-mime default foldline.desktop application/x-foldline-audit >/dev/null 2>&1 || true
+    if command -v update-desktop-database >/dev/null 2>&1; then
+        update-desktop-database -q "$apps" >/dev/null 2>&1 || true
+    fi
+    say "file manager: .foldline audits open in the workbench ($apps/foldline.desktop)"
+}
+
 demo_headless() {
     local out="$HERE/$BUILD_DIR/demo"
     mkdir -p "$out"
@@ -108,6 +125,7 @@ case "$MODE" in
     run)
         install_missing "${PKGS[@]}"
         build -DFOLDLINE_BUILD_TESTS=OFF
+        install_desktop_entry
         if [ -z "${DISPLAY:-}" ] && [ -z "${WAYLAND_DISPLAY:-}" ]; then
             demo_headless
         else

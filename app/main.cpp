@@ -1,9 +1,11 @@
-// foldline: no arguments (or only Qt options) → the workbench; a subcommand → headless.
+// foldline: no arguments (or only Qt options) → the workbench; FILE (a data file or a saved
+// .foldline audit) → the workbench with it open; a subcommand → headless.
 // `--help` / `-h` after a subcommand prints its help from the registration (before the command
 // parses anything); `--version` / `-V` and the no-display check never touch Qt.
 #include <cstdlib>
 #include <cstring>
 #include <exception>
+#include <filesystem>
 #include <iostream>
 #include <string>
 
@@ -54,19 +56,24 @@ int main(int argc, char** argv) {
     using namespace foldline::cli;
     if (argc >= 2 && argv[1][0] != '-') {
         const Command* cmd = find_command(argv[1]);
-        if (!cmd) {
+        // `foldline FILE`: a data file or a saved audit for the workbench (below).
+        std::error_code ec;
+        const bool file = !cmd && std::filesystem::is_regular_file(argv[1], ec);
+        if (!cmd && !file) {
             std::cerr << "foldline: unknown command '" << argv[1] << "'\n";
             print_overview(std::cerr);
             return kUsage;
         }
-        if (wants_help(argc, argv, 2)) {
+        if (cmd && wants_help(argc, argv, 2)) {
             std::cout << cmd->help;
             return kOk;
         }
-        try {
-            return cmd->run(argc - 1, argv + 1);
-        } catch (const std::exception& e) {
-            return fail(cmd->name, kInternal, std::string("internal error: ") + e.what());
+        if (cmd) {
+            try {
+                return cmd->run(argc - 1, argv + 1);
+            } catch (const std::exception& e) {
+                return fail(cmd->name, kInternal, std::string("internal error: ") + e.what());
+            }
         }
     }
     if (argc >= 2 && is(argv[1], "--help", "-h")) {

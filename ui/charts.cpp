@@ -104,6 +104,8 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     QSharedPointer<QCPAxisTickerText> ticker(new QCPAxisTickerText);
     // Rows from top: strata in order, a gap, then adjusted and pooled.
     const int n = int(f.rows.size());
+    // Rate gaps are drawn in percentage points, as every table and the memo write them.
+    const double u = f.slope ? 1.0 : 100.0;
     const QColor stratum_colour = colors::accent(pal);  // the blue that reads on light and dark
     auto strata = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, stratum_colour, 7,
                                 QObject::tr("stratum (95% CI)"));
@@ -118,19 +120,20 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
         }
         ticker->addTick(y, r.level + QStringLiteral("  (n=%1)").arg(r.n_focal + r.n_reference, 0, 'f', 0));
         k << y;
-        v << r.rd.value;
-        e_lo << (r.rd.has_ci() ? r.rd.value - r.rd.lo : 0);
-        e_hi << (r.rd.has_ci() ? r.rd.hi - r.rd.value : 0);
-        lo = std::min({lo, r.rd.has_ci() ? r.rd.lo : r.rd.value});
-        hi = std::max({hi, r.rd.has_ci() ? r.rd.hi : r.rd.value});
+        v << u * r.rd.value;
+        e_lo << (r.rd.has_ci() ? u * (r.rd.value - r.rd.lo) : 0);
+        e_hi << (r.rd.has_ci() ? u * (r.rd.hi - r.rd.value) : 0);
+        lo = std::min({lo, u * (r.rd.has_ci() ? r.rd.lo : r.rd.value)});
+        hi = std::max({hi, u * (r.rd.has_ci() ? r.rd.hi : r.rd.value)});
     }
     strata->setData(k, v);
     error_bars(plot, strata, stratum_colour)->setData(e_lo, e_hi);
 
-    auto add_summary = [&](double y, const Estimate& e, QCPScatterStyle::ScatterShape shape, const QColor& c,
+    auto add_summary = [&](double y, Estimate e, QCPScatterStyle::ScatterShape shape, const QColor& c,
                            const QString& name) {
         ticker->addTick(y, name);
         if (!std::isfinite(e.value)) return;
+        e = {u * e.value, u * e.lo, u * e.hi};
         auto* g = marker_series(plot, plot->xAxis, plot->yAxis, shape, c, 11, name);
         g->setData(QVector<double>{y}, QVector<double>{e.value});
         if (e.has_ci()) {
@@ -141,7 +144,7 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
         lo = std::min(lo, e.value);
         hi = std::max(hi, e.value);
     };
-    add_summary(1, f.adjusted, QCPScatterStyle::ssSquare, colors::okabe_ito(2), f.adjusted_name.isEmpty() ? QObject::tr("adjusted") : f.adjusted_name);
+    add_summary(1, f.adjusted, QCPScatterStyle::ssSquare, colors::okabe_ito(2), f.slope ? f.adjusted_name : QObject::tr("adjusted (Mantel-Haenszel)"));
     add_summary(0, f.crude, QCPScatterStyle::ssDiamond, colors::focal(), QObject::tr("pooled (crude)"));
 
     auto* zero = new QCPItemStraightLine(plot);
@@ -151,9 +154,10 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     plot->yAxis->setTicker(ticker);
     plot->yAxis->setRange(-0.8, n + 2.8);
     plot->yAxis->grid()->setVisible(false);
-    const double pad = std::max(0.02, (hi - lo) * 0.08);
+    const double pad = std::max(0.02 * u, (hi - lo) * 0.08);
     plot->xAxis->setRange(lo - pad, hi + pad);
-    plot->xAxis->setLabel(QObject::tr("%1, %2 minus %3").arg(f.effect_name, f.focal, f.reference));
+    plot->xAxis->setLabel(f.slope ? QObject::tr("%1, %2 minus %3").arg(f.effect_name, f.focal, f.reference)
+                                  : QObject::tr("%1 in percentage points, %2 minus %3").arg(f.effect_name, f.focal, f.reference));
     title(plot, QObject::tr("Gap within each stratum of %1").arg(f.strata_label()),
           QObject::tr("circle = stratum, diamond = pooled, square = adjusted; bars = 95% CI"));
 }
@@ -212,7 +216,8 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
     ticker->addTick(1, QObject::tr("pooled gap"));
     ticker->addTick(2, QObject::tr("within strata"));
     ticker->addTick(3, QObject::tr("composition"));
-    const double vals[3] = {f.crude.value, f.within, f.composition};
+    const double u = f.slope ? 1.0 : 100.0;  // rate gaps in percentage points
+    const double vals[3] = {u * f.crude.value, u * f.within, u * f.composition};
     const QColor cols[3] = {colors::focal(), colors::okabe_ito(2), colors::okabe_ito(0)};
     const Qt::BrushStyle styles[3] = {Qt::SolidPattern, Qt::Dense3Pattern, Qt::BDiagPattern};
     double lo = 0, hi = 0;
@@ -226,7 +231,7 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
         auto* t = new QCPItemText(plot);
         t->position->setCoords(i + 1, vals[i]);
         t->setPositionAlignment(vals[i] >= 0 ? (Qt::AlignHCenter | Qt::AlignBottom) : (Qt::AlignHCenter | Qt::AlignTop));
-        t->setText(QString::number(vals[i], 'f', 3));
+        t->setText(f.slope ? QString::number(vals[i], 'f', 3) : QObject::tr("%1 pp").arg(vals[i], 0, 'f', 1));
         t->setColor(fg);
         lo = std::min(lo, vals[i]);
         hi = std::max(hi, vals[i]);
@@ -237,9 +242,9 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
     zero->setPen(QPen(fg, 1));
     plot->xAxis->setTicker(ticker);
     plot->xAxis->setRange(0.4, 3.6);
-    const double pad = std::max(0.01, (hi - lo) * 0.25);
+    const double pad = std::max(0.01 * u, (hi - lo) * 0.25);
     plot->yAxis->setRange(lo - pad, hi + pad);
-    plot->yAxis->setLabel(f.effect_name);
+    plot->yAxis->setLabel(f.slope ? f.effect_name : QObject::tr("%1 (percentage points)").arg(f.effect_name));
     title(plot, QObject::tr("Where the pooled gap comes from"),
           QObject::tr("pooled gap = gap within strata + difference in stratum mix"));
 }
@@ -321,10 +326,27 @@ void draw_small_multiples(QCustomPlot* plot, const FindingView& f) {
     apply_theme(plot);
 }
 
-Status save(QCustomPlot* plot, const QString& path) {
+Status save(QCustomPlot* plot, const QString& path, const QString& heading) {
     const QString ext = QFileInfo(path).suffix().toLower();
     if (ext != QLatin1String("png") && ext != QLatin1String("pdf") && ext != QLatin1String("svg"))
         return make_error("expected a file name ending in .png, .svg or .pdf", path.toStdString());
+    // The heading is drawn for the file only: a row above the chart, taken away afterwards.
+    QCPTextElement* head = nullptr;
+    if (!heading.isEmpty()) {
+        plot->plotLayout()->insertRow(0);
+        head = new QCPTextElement(plot, heading, QApplication::font());
+        head->setTextColor(QApplication::palette().color(QPalette::WindowText));
+        plot->plotLayout()->addElement(0, 0, head);
+    }
+    struct Restore {
+        QCustomPlot* plot;
+        QCPTextElement* head;
+        ~Restore() {
+            if (!head) return;
+            plot->plotLayout()->remove(head);
+            plot->plotLayout()->simplify();
+        }
+    } restore{plot, head};
     // QCustomPlot and QSvgGenerator write straight to the file they are given, so a failure
     // half-way (a full disk) would leave a broken chart over the previous one: draw into a
     // scratch file first, then put its bytes in place with the shared atomic writer.

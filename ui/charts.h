@@ -24,7 +24,8 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f);
 void draw_scatter(QCustomPlot* plot, const FindingView& f);
 /// Slope findings: one small panel per stratum with its points and line.
 void draw_small_multiples(QCustomPlot* plot, const FindingView& f);
-/// Saves by the suffix of `path`: .png, .svg or .pdf. Error on an unknown suffix or a failed write.
-Status save(QCustomPlot* plot, const QString& path);
+/// Saves by the suffix of `path`: .png, .svg or .pdf, with `heading` (data set, groups, question)
+/// drawn above the chart's own title in the file only. Error on an unknown suffix or a failed write.
+Status save(QCustomPlot* plot, const QString& path, const QString& heading = {});
 
 }  // namespace foldline::ui::charts

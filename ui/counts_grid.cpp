@@ -35,10 +35,14 @@ CountsGrid::CountsGrid(QWidget* parent) : QWidget(parent) {
     focal_ = new QLineEdit(tr("focal"));
     reference_ = new QLineEdit(tr("reference"));
     outcome_ = new QLineEdit(tr("positive"));
+    stratum_->setObjectName(QStringLiteral("typed_stratum"));
+    focal_->setObjectName(QStringLiteral("typed_focal"));
+    reference_->setObjectName(QStringLiteral("typed_reference"));
+    outcome_->setObjectName(QStringLiteral("typed_outcome"));
     stratum_->setToolTip(tr("Name of the column that holds the stratum labels"));
     focal_->setToolTip(tr("Label of the group under review"));
     reference_->setToolTip(tr("Label of the group it is compared with"));
-    outcome_->setToolTip(tr("Name of the yes/no outcome counted as positives"));
+    outcome_->setToolTip(tr("Name of the yes/no outcome counted as positives (e.g. recovered); the rest are \"not recovered\""));
     auto* names_row = new QHBoxLayout;
     names->addRow(tr("Stratum column"), stratum_);
     names->addRow(tr("Outcome"), outcome_);
@@ -94,6 +98,9 @@ QString CountsGrid::stratum_name() const { return stratum_->text().trimmed(); }
 QString CountsGrid::focal_name() const { return focal_->text().trimmed(); }
 QString CountsGrid::reference_name() const { return reference_->text().trimmed(); }
 QString CountsGrid::outcome_name() const { return outcome_->text().trimmed(); }
+QString CountsGrid::group_column_name() const { return tr("group"); }
+QString CountsGrid::positive_label() const { return outcome_name(); }
+QString CountsGrid::negative_label() const { return tr("not %1").arg(outcome_name()); }
 
 void CountsGrid::set_rows(const QList<QStringList>& rows) {
     grid_->clearContents();
@@ -175,8 +182,11 @@ Result<Table> CountsGrid::to_table() const {
         strata.push_back({label.toStdString(), v[kPosF], v[kNF], v[kPosR], v[kNR]});
     }
     if (strata.empty()) return make_error(tr("the table has no strata yet").toStdString(), source.toStdString());
-    auto t = table_from_counts(strata, stratum_name().toStdString(), tr("group").toStdString(),
-                               outcome_name().toStdString(), focal_name().toStdString(), reference_name().toStdString());
+    // The outcome's levels are the label the reviewer typed and its negation, so the question
+    // reads "recovered" rather than "1".
+    auto t = table_from_counts(strata, stratum_name().toStdString(), group_column_name().toStdString(),
+                               outcome_name().toStdString(), focal_name().toStdString(), reference_name().toStdString(),
+                               positive_label().toStdString(), negative_label().toStdString());
     if (!t) {
         Error e = t.error();
         if (e.file.empty()) e.file = source.toStdString();

@@ -32,6 +32,11 @@ public:
     QString focal_name() const;
     QString reference_name() const;
     QString outcome_name() const;
+    /// The built table's group column and the outcome's two levels (the typed outcome label
+    /// counts as positive; "not <label>" the rest).
+    QString group_column_name() const;
+    QString positive_label() const;
+    QString negative_label() const;
 
 signals:
     /// The grid built a table the reviewer asked to use.

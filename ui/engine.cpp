@@ -51,9 +51,12 @@ FindingView to_view(const RateFinding& r) {
     f.focal = qs(r.focal);
     f.reference = qs(r.reference);
     f.effect_name = QObject::tr("risk difference");
-    f.adjusted_name = QObject::tr("standardised difference");
+    // "Adjusted" means Mantel-Haenszel on every screen, in the memo and in the CSV; the directly
+    // standardised difference is the "Standardised gap".
+    f.adjusted_name = QObject::tr("adjusted difference (Mantel-Haenszel)");
     f.crude = est(r.crude.rd, r.crude.rd_ci);
-    f.adjusted = est(r.adjusted.standardized.rd, r.adjusted.standardized.rd_ci);
+    f.adjusted = est(r.adjusted.mh_rd.greenland_robins.estimate, r.adjusted.mh_rd.greenland_robins.ci);
+    f.standardised = est(r.adjusted.standardized.rd, r.adjusted.standardized.rd_ci);
     f.p_value = r.p_reversal;
     f.q_value = r.q_value;
     f.stability = r.stability.share;
@@ -89,8 +92,8 @@ FindingView to_view(const RateFinding& r) {
         return num(e.estimate, d) + (std::isfinite(e.ci.lo) ? QStringLiteral(" [%1, %2]").arg(num(e.ci.lo, d), num(e.ci.hi, d)) : QString());
     };
     f.more = {
-        {QObject::tr("Mantel-Haenszel difference"), ci(a.mh_rd.greenland_robins),
-         QObject::tr("Weighted average of the stratum differences (Mantel-Haenszel weights), Greenland-Robins interval")},
+        {QObject::tr("Standardised gap"), format_gap(f, f.standardised),
+         QObject::tr("The difference directly standardised to the pooled stratum mix (both groups given the whole population's mix), Wald interval")},
         {QObject::tr("Mantel-Haenszel risk ratio"), ci(a.mh_rr),
          QObject::tr("Common ratio of the groups' rates across strata, Greenland-Robins interval")},
         {QObject::tr("Mantel-Haenszel odds ratio"), ci(a.mh_or),
@@ -392,10 +395,11 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
         const bool slope = e->measure == "slope";
         const QString what = e->view == AdjustedEstimate::View::Pooled
                                  ? (slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
-                                 : (slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised difference"));
+                                 : (slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised gap"));
         QStringList over;
         for (const auto& n : e->over) over << qs(n);
-        const QString est = format_estimate(Estimate{e->estimate, e->ci_low, e->ci_high});
+        const Estimate value{e->estimate, e->ci_low, e->ci_high};
+        const QString est = slope ? format_estimate(value) : format_points(value);
         v.adjusted = over.isEmpty() ? QObject::tr("%1: %2").arg(what, est)
                                     : QObject::tr("%1 over %2: %3").arg(what, over.join(QStringLiteral(" × ")), est);
     } else if (!r->estimate_problem.empty()) {

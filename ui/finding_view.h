@@ -51,8 +51,9 @@ struct FindingView {
     QStringList strata;            ///< stratifying column(s)
     QString focal, reference;      ///< group labels (rates) or x / y names (slopes)
     QString effect_name;           ///< e.g. "risk difference" or "slope"
-    QString adjusted_name;         ///< e.g. "standardised RD" or "within-stratum slope"
-    Estimate crude, adjusted;
+    QString adjusted_name;         ///< "adjusted difference (Mantel-Haenszel)" or "within-stratum slope"
+    Estimate crude, adjusted;      ///< rates: pooled and Mantel-Haenszel risk differences
+    Estimate standardised;         ///< rates: the difference directly standardised ("Standardised gap")
     double p_value = kNaN, q_value = kNaN, stability = kNaN;
     double within = kNaN, composition = kNaN;  ///< decomposition of the crude gap
     GroupRow pooled;

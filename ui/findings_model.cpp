@@ -63,6 +63,25 @@ QString format_estimate(const Estimate& e, int digits) {
     return s;
 }
 
+QString format_percent(const Estimate& e) {
+    if (!std::isfinite(e.value)) return QStringLiteral("—");
+    QString s = QStringLiteral("%1%").arg(100 * e.value, 0, 'f', 1);
+    if (e.has_ci()) s += QStringLiteral(" [%1, %2]").arg(100 * e.lo, 0, 'f', 1).arg(100 * e.hi, 0, 'f', 1);
+    return s;
+}
+
+QString format_points(const Estimate& e, bool with_ci) {
+    if (!std::isfinite(e.value)) return QStringLiteral("—");
+    QString s = QStringLiteral("%1 pp").arg(100 * e.value, 0, 'f', 1);
+    if (with_ci && e.has_ci()) s += QStringLiteral(" [%1, %2]").arg(100 * e.lo, 0, 'f', 1).arg(100 * e.hi, 0, 'f', 1);
+    return s;
+}
+
+QString format_gap(const FindingView& f, const Estimate& e, bool with_ci) {
+    if (f.slope) return format_estimate(with_ci ? e : Estimate{e.value, kNaN, kNaN});
+    return format_points(e, with_ci);
+}
+
 FindingsModel::FindingsModel(QObject* parent) : QAbstractTableModel(parent) {}
 
 void FindingsModel::clear() {
@@ -114,8 +133,8 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
         switch (index.column()) {
             case Class: return class_glyph(f->cls) + QStringLiteral("  ") + class_title(f->cls);
             case Strata: return f->strata_label() + (f->slope ? tr("  (slope)") : QString());
-            case Crude: return format_estimate({f->crude.value, kNaN, kNaN});
-            case Adjusted: return format_estimate({f->adjusted.value, kNaN, kNaN});
+            case Crude: return format_gap(*f, f->crude, false);
+            case Adjusted: return format_gap(*f, f->adjusted, false);
             case QValue: return std::isfinite(f->q_value) ? QString::number(f->q_value, 'g', 3) : QStringLiteral("—");
             case Stability:
                 return std::isfinite(f->stability) ? QStringLiteral("%1%").arg(100 * f->stability, 0, 'f', 0) : QStringLiteral("—");
@@ -127,9 +146,9 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
             case Class: return class_meaning(f->cls);
             case Crude:
                 return tr("Pooled %1, %2 minus %3: %4 (95% confidence interval)")
-                    .arg(f->effect_name, f->focal, f->reference, format_estimate(f->crude));
+                    .arg(f->effect_name, f->focal, f->reference, format_gap(*f, f->crude));
             case Adjusted:
-                return tr("%1 after stratifying: %2 (95% confidence interval)").arg(f->adjusted_name, format_estimate(f->adjusted));
+                return tr("%1 after stratifying: %2 (95% confidence interval)").arg(f->adjusted_name, format_gap(*f, f->adjusted));
             case Decided: return f->note;
         }
     }
@@ -152,7 +171,7 @@ QVariant FindingsModel::headerData(int section, Qt::Orientation o, int role) con
             case Class: return tr("Class");
             case Strata: return tr("Stratified by");
             case Crude: return tr("Pooled gap");
-            case Adjusted: return tr("Adjusted gap");
+            case Adjusted: return tr("Adjusted gap");  // Mantel-Haenszel for rates, within-stratum slope for trends
             case QValue: return tr("q-value");
             case Stability: return tr("Stability");
             case Decided: return tr("Decision");
@@ -162,8 +181,8 @@ QVariant FindingsModel::headerData(int section, Qt::Orientation o, int role) con
         switch (section) {
             case Class: return tr("What stratifying did to the pooled comparison");
             case Strata: return tr("The column or pair of columns that defines the strata");
-            case Crude: return tr("The difference between the groups with all strata pooled together, with its 95% interval");
-            case Adjusted: return tr("The difference after comparing like with like within strata, with its 95% interval");
+            case Crude: return tr("The difference between the groups with all strata pooled together (rates: percentage points)");
+            case Adjusted: return tr("The difference after comparing like with like within strata: the Mantel-Haenszel difference for rates (percentage points), the within-stratum slope for trends");
             case QValue: return tr("The smallest false discovery rate at which this finding would be flagged (Benjamini-Hochberg)");
             case Stability: return tr("Share of bootstrap resamples in which the finding keeps its class");
             case Decided: return tr("The reviewer's decision on this finding");

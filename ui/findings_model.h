@@ -63,5 +63,12 @@ QString class_glyph(FindingClass c);
 QString decision_title(Decision d);
 /// "0.123 [0.045, 0.201]" with `digits` decimals; "—" when the value is NaN.
 QString format_estimate(const Estimate& e, int digits = 3);
+/// A rate as a percentage, "41.2% [38.0, 44.5]"; "—" when the value is NaN.
+QString format_percent(const Estimate& e);
+/// A rate gap in percentage points, "-19.9 pp [-24.1, -15.7]" (one decimal, as the memo writes
+/// it); "—" when the value is NaN. `with_ci` false leaves the interval out.
+QString format_points(const Estimate& e, bool with_ci = true);
+/// A finding's gap in its own unit: percentage points for rates, the slope's unit for trends.
+QString format_gap(const FindingView& f, const Estimate& e, bool with_ci = true);
 
 }  // namespace foldline::ui

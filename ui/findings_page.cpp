@@ -6,6 +6,8 @@
 #include <QFileDialog>
 #include <QHBoxLayout>
 #include <QHeaderView>
+#include <QRegularExpression>
+#include <QDir>
 #include <QLabel>
 #include <QLineEdit>
 #include <QMessageBox>
@@ -70,7 +72,7 @@ void put(QTableWidget* t, int r, int c, const QString& text, bool greyed = false
 }
 
 const QString kTipRate = QObject::tr("Share of the group with the positive outcome, with its 95% Wilson score interval");
-const QString kTipRd = QObject::tr("Risk difference: focal rate minus reference rate, with its 95% Newcombe interval");
+const QString kTipRd = QObject::tr("Risk difference in percentage points: focal rate minus reference rate, with its 95% Newcombe interval");
 const QString kTipRatio = QObject::tr("Selection-rate ratio: focal rate divided by reference rate; below 0.8 is the common four-fifths flag");
 const QString kTipCounts = QObject::tr("Positives out of the group's total");
 
@@ -86,12 +88,16 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     for (FindingClass c : {FindingClass::Reversal, FindingClass::Explained, FindingClass::Masked,
                            FindingClass::Heterogeneous, FindingClass::Stable}) {
         auto* b = new QToolButton;
-        b->setText(class_glyph(c) + QLatin1Char(' ') + class_title(c));
         b->setCheckable(true);
         b->setChecked(true);
+        b->setAutoRaise(false);
         b->setToolTip(tr("Show or hide %1 findings: %2").arg(class_title(c).toLower(), class_meaning(c)));
         b->setObjectName(QStringLiteral("show_") + class_title(c).toLower());
-        connect(b, &QToolButton::toggled, this, [this, c](bool on) { filter_->set_class_shown(c, on); });
+        connect(b, &QToolButton::toggled, this, [this, c](bool on) {
+            filter_->set_class_shown(c, on);
+            update_chips();
+        });
+        chips_[int(c)] = b;
         chips->addWidget(b);
     }
     chips->addStretch();
@@ -103,15 +109,25 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
 
     list_ = new QTableView;
     list_->setObjectName(QStringLiteral("findings_list"));
+    // Arrows move inside the list; Tab leaves it for the decision buttons and the note.
+    list_->setTabKeyNavigation(false);
     list_->setModel(filter_);
     list_->setSortingEnabled(true);
     list_->sortByColumn(FindingsModel::Class, Qt::AscendingOrder);
     list_->setSelectionBehavior(QAbstractItemView::SelectRows);
     list_->setSelectionMode(QAbstractItemView::SingleSelection);
     list_->verticalHeader()->hide();
-    list_->horizontalHeader()->setStretchLastSection(true);
+    // Every column fits its contents and the strata take what is left, so class, strata, gaps,
+    // q-value and decision are all in view without scrolling sideways.
+    list_->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    list_->horizontalHeader()->setSectionResizeMode(FindingsModel::Strata, QHeaderView::Stretch);
+    list_->horizontalHeader()->setStretchLastSection(false);
+    list_->setTextElideMode(Qt::ElideMiddle);
     list_->setAlternatingRowColors(true);
     list_->setWordWrap(false);
+    connect(model_, &QAbstractItemModel::rowsInserted, this, &FindingsPage::update_chips);
+    connect(model_, &QAbstractItemModel::modelReset, this, &FindingsPage::update_chips);
+    update_chips();
     connect(list_->selectionModel(), &QItemSelectionModel::currentRowChanged, this,
             [this](const QModelIndex& cur) { show_finding(cur.isValid() ? filter_->mapToSource(cur).row() : -1); });
 
@@ -126,11 +142,19 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     hint_->setToolTip(tr("From \"Also look for hidden groups\": mixtures fitted to the two columns. "
                          "A hint to look further, not a finding about any real group."));
     hint_->hide();
+    partial_ = new QLabel;
+    partial_->setObjectName(QStringLiteral("partial_note"));
+    partial_->setWordWrap(true);
+    partial_->setTextFormat(Qt::PlainText);
+    partial_->setFrameShape(QFrame::StyledPanel);
+    partial_->setMargin(6);
+    partial_->hide();
 
     auto* left = new QWidget;
     auto* ll = new QVBoxLayout(left);
     ll->setContentsMargins(0, 0, 0, 0);
     ll->addLayout(chips);
+    ll->addWidget(partial_);
     ll->addWidget(hint_);
     ll->addWidget(search_);
     ll->addWidget(list_, 1);
@@ -148,10 +172,11 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     const std::pair<Decision, QString> choices[] = {
         {Decision::Upheld, tr("The finding stands and the chosen view is the one to quote")},
         {Decision::SetAside, tr("The finding does not hold up or does not matter for this question")},
-        {Decision::FollowUp, tr("More data or expert advice is needed before deciding")}};
+        {Decision::FollowUp, tr("More data or expert advice is needed before deciding")},
+        {Decision::Undecided, tr("Not decided yet: takes back a decision made earlier (the note stays)")}};
     decide_row->addWidget(new QLabel(tr("Decision:")));
     for (const auto& [d, tip] : choices) {
-        auto* b = new QPushButton(decision_title(d));
+        auto* b = new QPushButton(d == Decision::Undecided ? tr("Undecided") : decision_title(d));
         b->setCheckable(true);
         b->setToolTip(tip);
         b->setObjectName(QStringLiteral("decide_") + QString::number(int(d)));
@@ -163,6 +188,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     note_->setPlaceholderText(tr("Reviewer's note on this finding…"));
     note_->setMaximumHeight(52);
     note_->setObjectName(QStringLiteral("finding_note"));
+    note_->setTabChangesFocus(true);  // Tab moves on; the note is one or two lines of text
     connect(note_, &QPlainTextEdit::textChanged, this, [this] {
         if (showing_) return;
         const int r = selected();
@@ -176,7 +202,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     auto* pooled_box = new QWidget;
     auto* pl = new QVBoxLayout(pooled_box);
     pl->setContentsMargins(0, 0, 0, 0);
-    pl->addWidget(new QLabel(tr("<b>Pooled</b> (all strata together)")));
+    pl->addWidget(new QLabel(tr("<b>Pooled and adjusted</b> (rates pooled over all strata, gaps adjusted within them, tests)")));
     pl->addWidget(pooled_);
     auto* strata_box = new QWidget;
     auto* sl = new QVBoxLayout(strata_box);
@@ -254,7 +280,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     split_->setObjectName(QStringLiteral("findings_splitter"));
     split_->addWidget(left);
     split_->addWidget(right);
-    split_->setStretchFactor(0, 1);
+    split_->setStretchFactor(0, 2);  // the list keeps room for every column at 1440 px
     split_->setStretchFactor(1, 3);
     split_->setSizes({380, 1000});
     tables->setSizes({330, 600});
@@ -293,6 +319,29 @@ void FindingsPage::set_hidden_group_hint(const QString& note) {
     hint_->setVisible(!note.isEmpty());
 }
 
+void FindingsPage::update_chips() {
+    int counts[5] = {0, 0, 0, 0, 0};
+    for (const FindingView& f : model_->findings()) ++counts[int(f.cls)];
+    for (int i = 0; i < 5; ++i) {
+        QToolButton* b = chips_[i];
+        if (!b) continue;
+        const auto c = FindingClass(i);
+        // On or off is said in words and a box, not by the button's shading alone.
+        b->setText(QStringLiteral("%1 %2 %3 (%4)")
+                       .arg(b->isChecked() ? QStringLiteral("☑") : QStringLiteral("☐"), class_glyph(c), class_title(c))
+                       .arg(counts[i]));
+        b->setAccessibleName(tr("%1 findings: %2, %3").arg(class_title(c)).arg(counts[i])
+                                 .arg(b->isChecked() ? tr("shown") : tr("hidden")));
+    }
+}
+
+void FindingsPage::set_partial_note(const QString& why) {
+    partial_->setText(why.isEmpty() ? QString() : tr("Partial: %1").arg(why));
+    partial_->setVisible(!why.isEmpty());
+}
+
+QString FindingsPage::partial_note() const { return partial_->isHidden() ? QString() : partial_->text(); }
+
 QString FindingsPage::hidden_group_hint() const { return hint_->isHidden() ? QString() : hint_->text(); }
 
 void FindingsPage::show_finding(int row) {
@@ -326,23 +375,23 @@ void FindingsPage::show_finding(int row) {
 
 void FindingsPage::fill_rate_tables(const FindingView& f) {
     pooled_->clear();
-    set_headers(pooled_, {tr("Group"), tr("Positives / total"), tr("Rate [95% CI]")},
+    set_headers(pooled_, {tr("Row"), tr("Positives / total"), tr("Value [95% CI]")},
                 {QString(), kTipCounts, kTipRate});
     const GroupRow& p = f.pooled;
     pooled_->setRowCount(5 + int(f.more.size()));
     put(pooled_, 0, 0, f.focal + tr(" (focal)"));
     put(pooled_, 0, 1, count_text(p.pos_focal, p.n_focal), false, kTipCounts);
-    put(pooled_, 0, 2, format_estimate(p.rate_focal), false, kTipRate);
+    put(pooled_, 0, 2, format_percent(p.rate_focal), false, kTipRate);
     put(pooled_, 1, 0, f.reference + tr(" (reference)"));
     put(pooled_, 1, 1, count_text(p.pos_reference, p.n_reference), false, kTipCounts);
-    put(pooled_, 1, 2, format_estimate(p.rate_reference), false, kTipRate);
-    put(pooled_, 2, 0, tr("Difference (pooled)"));
-    put(pooled_, 2, 2, format_estimate(f.crude), false, kTipRd);
+    put(pooled_, 1, 2, format_percent(p.rate_reference), false, kTipRate);
+    put(pooled_, 2, 0, tr("Pooled gap"));
+    put(pooled_, 2, 2, format_points(f.crude), false, kTipRd);
     put(pooled_, 3, 0, tr("Selection-rate ratio"));
     put(pooled_, 3, 2, ratio_text(p.selection_ratio), false, kTipRatio);
-    put(pooled_, 4, 0, f.adjusted_name.isEmpty() ? tr("Adjusted difference") : f.adjusted_name);
-    put(pooled_, 4, 2, format_estimate(f.adjusted), false,
-        tr("The gap after comparing like with like within strata (standard = the whole population's stratum mix), with its 95% interval"));
+    put(pooled_, 4, 0, tr("Adjusted gap (Mantel-Haenszel)"));
+    put(pooled_, 4, 2, format_points(f.adjusted), false,
+        tr("The gap after comparing like with like within strata: Mantel-Haenszel weighted difference in percentage points, Greenland-Robins 95% interval"));
     for (int i = 0; i < int(f.more.size()); ++i) {
         put(pooled_, 5 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
         put(pooled_, 5 + i, 2, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
@@ -353,7 +402,7 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
     strata_->clear();
     set_headers(strata_,
                 {tr("Stratum"), f.focal, tr("Rate [95% CI]"), f.reference, tr("Rate [95% CI]"),
-                 tr("Difference [95% CI]"), tr("Ratio"), tr("Note")},
+                 tr("Difference, pp [95% CI]"), tr("Ratio"), tr("Note")},
                 {tr("Level of %1").arg(f.strata_label()), kTipCounts, kTipRate, kTipCounts, kTipRate, kTipRd, kTipRatio,
                  tr("Why a stratum is left out of the adjusted figures")});
     strata_->setRowCount(int(f.rows.size()));
@@ -363,10 +412,10 @@ void FindingsPage::fill_rate_tables(const FindingView& f) {
         const QString why = g ? (r.reason.isEmpty() ? tr("left out: a group has no rows here") : r.reason) : QString();
         put(strata_, i, 0, r.level, g, why);
         put(strata_, i, 1, count_text(r.pos_focal, r.n_focal), g, kTipCounts);
-        put(strata_, i, 2, format_estimate(r.rate_focal), g, kTipRate);
+        put(strata_, i, 2, format_percent(r.rate_focal), g, kTipRate);
         put(strata_, i, 3, count_text(r.pos_reference, r.n_reference), g, kTipCounts);
-        put(strata_, i, 4, format_estimate(r.rate_reference), g, kTipRate);
-        put(strata_, i, 5, format_estimate(r.rd), g, kTipRd);
+        put(strata_, i, 4, format_percent(r.rate_reference), g, kTipRate);
+        put(strata_, i, 5, format_points(r.rd), g, kTipRd);
         put(strata_, i, 6, ratio_text(r.selection_ratio), g, kTipRatio);
         put(strata_, i, 7, why, g, why);
         strata_->item(i, 7)->setTextAlignment(Qt::AlignLeft | Qt::AlignVCenter);
@@ -446,16 +495,38 @@ void FindingsPage::copy_table() {
     QApplication::clipboard()->setText(model_to_tsv(t->model()));
 }
 
+void FindingsPage::set_export_context(const QString& stem, const QString& heading) {
+    export_stem_ = stem;
+    export_heading_ = heading;
+}
+
 void FindingsPage::save_chart() {
     QCustomPlot* plot = current_chart();
-    if (!plot || selected() < 0) return;
+    const FindingView* f = model_->at(selected());
+    if (!plot || !f) return;
     QSettings s;
-    const QString path = QFileDialog::getSaveFileName(this, tr("Save chart"), s.value("charts/last_dir").toString(),
-                                                      tr("PNG image (*.png);;SVG drawing (*.svg);;PDF document (*.pdf)"));
+    // Proposed: AUDIT-STRATA-CHART.png in the last folder; the chosen filter decides the suffix
+    // when the typed name has none of the three.
+    QString stem = (export_stem_.isEmpty() ? tr("chart") : export_stem_) + QLatin1Char('-') +
+                   f->strata.join(QLatin1Char('-')) + QLatin1Char('-') + plot->objectName().remove(QStringLiteral("chart_"));
+    stem.replace(QRegularExpression(QStringLiteral("[^\\w.-]+")), QStringLiteral("_"));
+    const QStringList filters = {tr("PNG image (*.png)"), tr("SVG drawing (*.svg)"), tr("PDF document (*.pdf)")};
+    QString filter = filters.first();
+    QString path = QFileDialog::getSaveFileName(this, tr("Save chart"),
+                                                QDir(s.value("charts/last_dir").toString()).filePath(stem + QStringLiteral(".png")),
+                                                filters.join(QStringLiteral(";;")), &filter);
     if (path.isEmpty()) return;
+    path = with_chart_suffix(path, filter);
     s.setValue("charts/last_dir", QFileInfo(path).absolutePath());
-    const Status st = charts::save(plot, path);
+    const Status st = charts::save(plot, path, export_heading_);
     if (!st) QMessageBox::warning(this, tr("Save chart"), QString::fromStdString(st.error().to_string()));
+}
+
+QString with_chart_suffix(const QString& path, const QString& filter) {
+    const QString ext = QFileInfo(path).suffix().toLower();
+    if (ext == QLatin1String("png") || ext == QLatin1String("svg") || ext == QLatin1String("pdf")) return path;
+    const QRegularExpressionMatch m = QRegularExpression(QStringLiteral("\\*\\.(\\w+)")).match(filter);
+    return path + QLatin1Char('.') + (m.hasMatch() ? m.captured(1) : QStringLiteral("png"));
 }
 
 void FindingsPage::decide(Decision d) {

@@ -22,6 +22,10 @@ namespace foldline::ui {
 class FindingsFilter;
 class FindingsModel;
 
+/// `path` with the suffix of the save dialog's chosen `filter` ("PNG image (*.png)") added when it
+/// has none of .png, .svg or .pdf.
+QString with_chart_suffix(const QString& path, const QString& filter);
+
 class FindingsPage : public QWidget {
     Q_OBJECT
 public:
@@ -47,6 +51,13 @@ public:
     void set_hidden_group_hint(const QString& note);
     /// The hint line as shown; empty when hidden.
     QString hidden_group_hint() const;
+    /// Marks the list as partial (a stopped scan: provisional findings) with `why`; empty
+    /// clears the mark.
+    void set_partial_note(const QString& why);
+    QString partial_note() const;
+    /// What Save chart proposes and writes: the file name's stem (the audit's name) and a heading
+    /// naming the data set, the groups and the question, drawn above an exported chart.
+    void set_export_context(const QString& stem, const QString& heading);
 
 signals:
     /// The selected finding changed (source row, or -1).
@@ -66,12 +77,15 @@ private:
     void fill_slope_tables(const FindingView& f);
     void draw_charts(const FindingView& f);
     void fit_pooled();
+    void update_chips();
 
+    QToolButton* chips_[5] = {};
+    QString export_stem_, export_heading_;  ///< class filters, in FindingClass order
     FindingsModel* model_;
     FindingsFilter* filter_;
     QTableView* list_;
     QLineEdit* search_;
-    QLabel *heading_, *meaning_, *empty_, *hint_;
+    QLabel *heading_, *meaning_, *empty_, *hint_, *partial_ = nullptr;
     QTableWidget *pooled_, *strata_;
     QTabWidget* charts_;
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;

@@ -80,7 +80,18 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(steps_, &StepBar::step_requested, this, &MainWindow::go_to);
 
     connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString& src) {
-        question_->set_table(t);
+        // Reading the same file again (another column type, count column or missing markers) is
+        // not new data; anything else starts the question afresh.
+        const bool typed = t && source_->kind() == SourceKind::TypedIn;
+        const bool new_data = !t || typed || src != last_source_;
+        last_source_ = t ? src : QString();
+        question_->set_table(t, new_data);
+        if (typed) {
+            // A typed-in table names its own question: the groups and outcome as typed.
+            const CountsGrid* g = source_->counts_grid();
+            question_->propose_groups(g->outcome_name(), g->positive_label(), g->group_column_name(), g->focal_name(),
+                                      g->reference_name());
+        }
         model_->clear();
         seeded_row_ = -1;
         for (int s = Scan; s < StepCount; ++s) steps_->set_state(s, StepBar::State::Locked);
@@ -88,15 +99,27 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         steps_->set_state(Question, t ? StepBar::State::Open : StepBar::State::Locked);
         statusBar()->showMessage(t ? tr("Loaded %1").arg(src) : QString(), 5000);
         setWindowTitle(t ? tr("Foldline — %1[*]").arg(QFileInfo(src).fileName()) : tr("Foldline[*]"));
-        if (t) go_to(Question);
+        // A loaded file stays on the Source step so its columns can be reviewed (Next or Ctrl+2
+        // moves on); typed-in counts were reviewed as they were typed, and an opened audit
+        // goes on to its scan.
+        if (typed || (t && pending_)) go_to(Question);
         if (t && pending_ && !pending_->scanned) restore_pending();
     });
     connect(source_, &SourcePage::recent_files_changed, this, &MainWindow::rebuild_recent_menu);
+    connect(source_, &SourcePage::next_requested, this, [this] { go_to(Question); });
     connect(question_, &QuestionPage::scan_requested, this, [this] { start_scan(); });
     connect(scan_, &ScanPage::scan_finished, this, [this](bool completed, int n) {
         steps_->set_state(Scan, completed ? StepBar::State::Done : StepBar::State::Open);
         steps_->set_state(Findings, n > 0 ? StepBar::State::Open : StepBar::State::Locked);
-        steps_->set_state(Memo, StepBar::State::Open);
+        // A stopped scan's findings are provisional: the list says so, and the Diagram and Memo
+        // steps (which read q-values, stability and the whole ranking) wait for a finished scan.
+        steps_->set_state(Memo, completed ? StepBar::State::Open : StepBar::State::Locked);
+        if (!completed) steps_->set_state(Diagram, StepBar::State::Locked);
+        findings_->set_partial_note(
+            completed ? QString()
+                      : tr("the scan was stopped, so these %n finding(s) are provisional (no q-values over the whole scan, "
+                           "no stability). The Diagram and Memo steps need a finished scan: press Scan (F5) again.",
+                           nullptr, n));
         action("action_stop")->setEnabled(false);
         statusBar()->showMessage(scan_->status(), 8000);
         // A trend audit asked to look for hidden groups: core's note, shown as a hint.
@@ -108,7 +131,8 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
         if (pending_ && pending_->scanned) restore_pending();
     });
     connect(findings_, &FindingsPage::finding_selected, this, [this](int row) {
-        steps_->set_state(Diagram, row >= 0 ? StepBar::State::Open : StepBar::State::Locked);
+        steps_->set_state(Diagram, row >= 0 && findings_->partial_note().isEmpty() ? StepBar::State::Open
+                                                                                     : StepBar::State::Locked);
     });
     connect(memo_, &MemoPage::export_requested, this, &MainWindow::export_memo_dialog);
     connect(model_, &FindingsModel::dataChanged, this, [this] { if (step() == Memo) refresh_memo(); });
@@ -218,6 +242,16 @@ bool MainWindow::start_scan() {
     seeded_row_ = -1;
     if (!scan_->start(source_->table(), last_question_, last_spec_)) return false;
     findings_->set_hidden_group_hint({});
+    findings_->set_partial_note({});
+    {
+        // Exported charts carry the data set, the groups and the question in their heading.
+        const QuestionSpec& q = last_question_;
+        const QString data = source_->kind() == SourceKind::File ? QFileInfo(source_->source()).fileName() : source_->source();
+        findings_->set_export_context(
+            audit_name(), q.slope ? tr("%1 — trend of %2 on %3").arg(data, q.outcome, q.exposure)
+                                  : tr("%1 — %2 = %3, %4 against %5 (%6)")
+                                        .arg(data, q.outcome, q.positive, q.focal, q.reference, q.exposure));
+    }
     action("action_stop")->setEnabled(true);
     steps_->set_state(Question, StepBar::State::Done);
     steps_->set_state(Scan, StepBar::State::Open);
@@ -310,6 +344,9 @@ void MainWindow::build_menus() {
         go->addAction(a);
         connect(a, &QAction::triggered, this, [this, i] {
             if (steps_->state(i) != StepBar::State::Locked || i == step()) go_to(i);
+            else if ((i == Diagram || i == Memo) && !findings_->partial_note().isEmpty())
+                statusBar()->showMessage(tr("The Diagram and Memo steps need a finished scan; the last one was stopped. "
+                                            "Press Scan (F5) to run it again."), 8000);
             else statusBar()->showMessage(tr("That step opens once the earlier steps are done."), 4000);
         });
     }
@@ -460,8 +497,9 @@ void MainWindow::export_memo_dialog() {
         return;
     }
     QSettings s;
-    QString path = QFileDialog::getSaveFileName(this, tr("Save memo"), s.value("memo/last_dir").toString(),
-                                                tr("PDF document (*.pdf)"));
+    QString path = QFileDialog::getSaveFileName(
+        this, tr("Save memo"), QDir(s.value("memo/last_dir").toString()).filePath(audit_name() + tr("-memo.pdf")),
+        tr("PDF document (*.pdf)"));
     if (path.isEmpty()) return;
     if (!path.endsWith(QLatin1String(".pdf"), Qt::CaseInsensitive)) path += QStringLiteral(".pdf");
     s.setValue("memo/last_dir", QFileInfo(path).absolutePath());
@@ -740,9 +778,17 @@ bool MainWindow::save_project_now() {
     return true;
 }
 
+QString MainWindow::audit_name() const {
+    // The audit's own file name when it has one, else the data file's, else a plain word.
+    if (!project_path_.isEmpty()) return QFileInfo(project_path_).completeBaseName();
+    if (source_->kind() == SourceKind::File) return QFileInfo(source_->source()).completeBaseName();
+    return tr("audit");
+}
+
 void MainWindow::save_project_dialog() {
     QSettings s;
-    QString path = QFileDialog::getSaveFileName(this, tr("Save audit"), s.value("project/last_dir").toString(),
+    const QString dir = project_path_.isEmpty() ? s.value("project/last_dir").toString() : QFileInfo(project_path_).absolutePath();
+    QString path = QFileDialog::getSaveFileName(this, tr("Save audit"), QDir(dir).filePath(audit_name() + QStringLiteral(".foldline")),
                                                 tr("Foldline audit (*.foldline)"));
     if (path.isEmpty()) return;
     if (!path.endsWith(QLatin1String(".foldline"))) path += QStringLiteral(".foldline");
@@ -861,8 +907,17 @@ void MainWindow::dropEvent(QDropEvent* e) {
     const auto urls = e->mimeData()->urls();
     if (urls.isEmpty() || !urls.first().isLocalFile()) return;
     e->acceptProposedAction();
+    open_file(urls.first().toLocalFile());
+}
+
+void MainWindow::open_file(const QString& path) {
+    if (path.endsWith(QStringLiteral(".foldline"), Qt::CaseInsensitive)) {
+        if (auto st = open_project(path); !st)
+            QMessageBox::warning(this, tr("Open audit"), QString::fromStdString(st.error().to_string()));
+        return;
+    }
     go_to(Source);
-    source_->open_path(urls.first().toLocalFile());
+    source_->open_path(path);
 }
 
 }  // namespace foldline::ui

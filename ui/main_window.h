@@ -120,7 +120,13 @@ public slots:
     /// project file) and asks the recovery prompt: Restore opens it and removes the file,
     /// Discard removes it, Later keeps it. Returns the answer, or nullopt when there was none.
     std::optional<RecoveryChoice> check_recovery();
+    /// Opens `path` as a saved audit when it ends in .foldline, else loads it as data on the
+    /// Source step (the command line's FILE, a dropped file). A project that cannot be read is
+    /// reported in a message box.
+    void open_file(const QString& path);
     void save_project_dialog();
+    /// The name save dialogs propose: the audit file's base name, else the data file's.
+    QString audit_name() const;
     void open_project_dialog();
 
 protected:
@@ -164,6 +170,7 @@ private:
     void set_unsaved(bool unsaved);
     void add_recent_audit(const QString& path);
     QString project_path_;
+    QString last_source_;  ///< the data last loaded: reading it again is not new data
     QString data_change_;
     std::optional<project::Project> base_;  ///< the opened project: what the workbench does not edit
     struct Digest {

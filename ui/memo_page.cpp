@@ -80,7 +80,7 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     const bool trend = q && q->slope;
     h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>%1</th>"
             "<th>%2</th><th>q-value</th><th>Decision</th><th>Note</th></tr>")
-             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"), trend ? tr("Within slope") : tr("Adjusted gap"));
+             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"), trend ? tr("Within slope") : tr("Adjusted gap (Mantel-Haenszel)"));
     std::vector<const FindingView*> order;
     for (const FindingView& f : model_->findings()) order.push_back(&f);
     std::stable_sort(order.begin(), order.end(), [](const FindingView* a, const FindingView* b) {
@@ -89,8 +89,8 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     });
     for (const FindingView* f : order)
         h += QStringLiteral("<tr><td>%1</td><td>%2</td><td>%3</td><td>%4</td><td>%5</td><td>%6</td><td>%7</td></tr>")
-                 .arg(esc(class_title(f->cls)), esc(f->strata_label()), esc(format_estimate(f->crude)),
-                      esc(format_estimate(f->adjusted)),
+                 .arg(esc(class_title(f->cls)), esc(f->strata_label()), esc(format_gap(*f, f->crude)),
+                      esc(format_gap(*f, f->adjusted)),
                       std::isfinite(f->q_value) ? QString::number(f->q_value, 'g', 3) : QStringLiteral("—"),
                       esc(decision_title(f->decision)), esc(f->note));
     h += QStringLiteral("</table>");

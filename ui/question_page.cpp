@@ -96,6 +96,7 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     bootstrap_->setRange(0, 10000);
     bootstrap_->setSingleStep(100);
     bootstrap_->setValue(200);
+    bootstrap_->setObjectName(QStringLiteral("bootstrap"));
     bootstrap_->setToolTip(tr("Resamples used to measure how often a flagged finding keeps its class (0 = skip)"));
     max_levels_ = new QSpinBox;
     max_levels_->setRange(int(project::limits::kMinMaxLevels), int(project::limits::kMaxMaxLevels));
@@ -228,9 +229,39 @@ void QuestionPage::fill_levels(QComboBox* box, const QString& column) {
     filling_ = was;
 }
 
-void QuestionPage::set_table(std::shared_ptr<const Table> table) {
+void QuestionPage::reset_settings() {
+    const bool was = filling_;
+    filling_ = true;
+    pairs_->setChecked(true);
+    bins_->setValue(4);
+    max_levels_->setValue(50);
+    alpha_->setValue(0.05);
+    bootstrap_->setValue(200);
+    seed_->setText(QStringLiteral("1"));
+    find_groups_->setChecked(false);
+    all_candidates_ = false;
+    filling_ = was;
+}
+
+void QuestionPage::propose_groups(const QString& outcome, const QString& positive, const QString& exposure,
+                                  const QString& focal, const QString& reference) {
+    if (!table_ || slopes_->isChecked()) return;
+    if (outcome_->findText(outcome) >= 0) outcome_->setCurrentText(outcome);
+    if (positive_->findText(positive) >= 0) positive_->setCurrentText(positive);
+    if (exposure_->findText(exposure) >= 0) exposure_->setCurrentText(exposure);
+    if (focal_->findText(focal) >= 0) focal_->setCurrentText(focal);
+    if (reference_->findText(reference) >= 0) reference_->setCurrentText(reference);
+    validate();
+}
+
+void QuestionPage::set_table(std::shared_ptr<const Table> table, bool new_data) {
     table_ = std::move(table);
     covariates_.clear();  // they name columns of the previous data
+    if (new_data) {
+        reset_settings();
+        // A new data set starts from the rates question; the kind follows its columns below.
+        if (slopes_->isChecked()) rates_->setChecked(true);  // set_kind refills from the new table
+    }
     filling_ = true;
     rows_->clear();       // a filter of the previous data set does not carry over
     outcome_->clear();

@@ -26,8 +26,14 @@ class QuestionPage : public QWidget {
 public:
     explicit QuestionPage(QWidget* parent = nullptr);
 
-    /// Fills the choices from `table` with sensible defaults; null clears them.
-    void set_table(std::shared_ptr<const Table> table);
+    /// Fills the choices from `table` with sensible defaults; null clears them. `new_data` (another
+    /// data set, not the same one read again) also puts the scan settings back to their defaults,
+    /// so nothing chosen for the previous data (e.g. 10,000 resamples) carries over.
+    void set_table(std::shared_ptr<const Table> table, bool new_data = true);
+    /// Chooses the outcome, its positive level, the groups column and the two groups when the
+    /// table has them (a typed-in table names them itself); others are left as they are.
+    void propose_groups(const QString& outcome, const QString& positive, const QString& exposure,
+                        const QString& focal, const QString& reference);
     /// The question as currently chosen.
     QuestionSpec spec() const;
     /// Applies a question (unknown columns or levels are left as they are).
@@ -45,6 +51,7 @@ private:
     void validate();
     void fill_columns();
     void set_kind(bool slope);
+    void reset_settings();
 
     std::shared_ptr<const Table> table_;
     QComboBox *outcome_, *positive_, *exposure_, *focal_, *reference_;

@@ -55,8 +55,17 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
     connect(job_, &Job::progress, this, [this](double done, double total, const QString& step) {
         progress_->setRange(0, std::max(1, int(total)));
         progress_->setValue(int(done));
-        progress_->setFormat(tr("candidate %1 of %2").arg(done, 0, 'f', 0).arg(total, 0, 'f', 0) +
-                             (step.isEmpty() ? QString() : QStringLiteral(" — ") + step));
+        // The engine counts stratifications (each candidate, and each pair when pairs are on),
+        // then the flagged findings it resamples: the bar says which it is counting.
+        const bool resampling = step == QLatin1String("bootstrap");
+        progress_->setFormat((resampling ? tr("stability: finding %1 of %2") : tr("stratification %1 of %2"))
+                                 .arg(done, 0, 'f', 0)
+                                 .arg(total, 0, 'f', 0) +
+                             (step.isEmpty() || resampling ? QString() : QStringLiteral(" — ") + step));
+        if (resampling)
+            status_->setText(tr("Every stratification is scanned; resampling the flagged findings to measure their stability…"));
+        else if (total > 0 && done >= total)
+            status_->setText(tr("Every stratification is scanned; ranking the findings…"));
     });
     connect(job_, &Job::finished, this, [this] {
         flush_timer_->stop();
@@ -74,7 +83,11 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
             scanned_table_ = (*result)->table;
         }
         if (stopped) {
-            status_->setText(tr("Stopped after %1 s; %2 finding(s) kept.").arg(seconds_, 0, 'f', 2).arg(model_->size()));
+            status_->setText(tr("Stopped after %1 s; %2 provisional finding(s) kept. They have no q-values over the "
+                                "whole scan and no stability, so the Diagram and Memo steps wait for a finished "
+                                "scan: press Scan (F5) to run it again.")
+                                 .arg(seconds_, 0, 'f', 2)
+                                 .arg(model_->size()));
             progress_->setFormat(tr("stopped"));
             emit scan_finished(false, model_->size());
         } else if (!result || !result->ok()) {
@@ -131,10 +144,12 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q, 
                            .arg(q.outcome.toHtmlEscaped(), q.positive.toHtmlEscaped(), q.focal.toHtmlEscaped(),
                                 q.reference.toHtmlEscaped(), q.exposure.toHtmlEscaped())
                            .arg(q.candidates.size())
-                           .arg(q.pairs ? tr(" and their pairs") : QString()));
+                           .arg(q.pairs ? tr(" and their pairs (up to %1 stratifications)")
+                                              .arg(q.candidates.size() + q.candidates.size() * (q.candidates.size() - 1) / 2)
+                                        : QString()));
     progress_->setRange(0, 0);
     progress_->setFormat(tr("starting…"));
-    status_->setText(tr("Scanning…"));
+    status_->setText(tr("Scanning the stratifications…"));
     cancel_->setEnabled(true);
     clock_.start();
     result_ = std::make_shared<Result<ScanOutcome>>(make_error("not run"));

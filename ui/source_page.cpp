@@ -1,3 +1,4 @@
+#include "core/table/count_column_guess.h"
 #include "ui/source_page.h"
 
 #include <QComboBox>
@@ -5,6 +6,7 @@
 #include <QDropEvent>
 #include <QFileDialog>
 #include <QFileInfo>
+#include <QFrame>
 #include <QHBoxLayout>
 #include <QHeaderView>
 #include <QLabel>
@@ -49,19 +51,25 @@ SourcePage::SourcePage(QWidget* parent)
 
     count_column_ = new QComboBox;
     count_column_->setToolTip(tr("For a pre-counted file: the column that says how many observations each row stands for"));
+    count_column_->setObjectName(QStringLiteral("count_column"));
     connect(count_column_, &QComboBox::activated, this, [this](int) {
         options_.count_column = count_column_->currentData().toString();
+        if (options_.count_column.isEmpty()) count_declined_for_ = path_;  // the reviewer chose "none"
         reload();
     });
     missing_ = new QLineEdit;
+    missing_->setObjectName(QStringLiteral("missing_markers"));
     missing_->setPlaceholderText(tr("reader defaults"));
-    missing_->setToolTip(tr("Cell texts that mean \"missing\", separated by commas (e.g. NA, n/a, -)"));
+    missing_->setToolTip(tr("Cell texts that mean \"missing\", separated by commas (e.g. NA, n/a, -); an empty cell is always missing"));
     reload_ = new QPushButton(tr("Reload"));
     reload_->setToolTip(tr("Read the file again with these settings"));
     connect(reload_, &QPushButton::clicked, this, [this] {
+        // An empty field means the reader's defaults; typed markers come after the empty cell,
+        // which the field never shows (it would read as a leading comma).
         options_.missing_markers.clear();
         for (const QString& m : missing_->text().split(QLatin1Char(','), Qt::SkipEmptyParts))
-            options_.missing_markers << m.trimmed();
+            if (!m.trimmed().isEmpty()) options_.missing_markers << m.trimmed();
+        if (!options_.missing_markers.isEmpty() && empty_is_missing_) options_.missing_markers.prepend(QString());
         reload();
     });
 
@@ -125,12 +133,49 @@ SourcePage::SourcePage(QWidget* parent)
     tabs_->addTab(grid_, tr("Type in counts"));
     database_ = new DatabaseForm;
     connect(database_, &DatabaseForm::count_requested, this, &SourcePage::count_in_database);
-    tabs_->addTab(database_, tr("Database"));
+    const int db_tab = tabs_->addTab(database_, tr("Database"));
+    if (!database_available()) {
+        // Plainly off in a build without ODBC, saying why, rather than a form that cannot count.
+        tabs_->setTabEnabled(db_tab, false);
+        tabs_->setTabToolTip(db_tab, tr("This build has no database support (it needs unixODBC)."));
+    }
+
+    // A file that looks pre-counted: the notice proposes its count column.
+    count_notice_ = new QFrame;
+    count_notice_->setObjectName(QStringLiteral("count_notice"));
+    static_cast<QFrame*>(count_notice_)->setFrameShape(QFrame::StyledPanel);
+    count_notice_text_ = new QLabel;
+    count_notice_text_->setWordWrap(true);
+    auto* use_count = new QPushButton(tr("Use as count column"));
+    use_count->setObjectName(QStringLiteral("use_count_column"));
+    connect(use_count, &QPushButton::clicked, this, &SourcePage::use_proposed_count_column);
+    auto* keep_rows = new QPushButton(tr("No, one row per observation"));
+    keep_rows->setObjectName(QStringLiteral("decline_count_column"));
+    connect(keep_rows, &QPushButton::clicked, this, [this] {
+        count_declined_for_ = path_;
+        proposed_count_.clear();
+        count_notice_->hide();
+    });
+    auto* nl = new QHBoxLayout(count_notice_);
+    nl->addWidget(count_notice_text_, 1);
+    nl->addWidget(use_count);
+    nl->addWidget(keep_rows);
+    count_notice_->hide();
+
+    next_ = new QPushButton(tr("Next: the question  →"));
+    next_->setObjectName(QStringLiteral("source_next"));
+    next_->setToolTip(tr("Done reviewing the columns: choose the outcome and the groups (Ctrl+2)"));
+    next_->setEnabled(false);
+    connect(next_, &QPushButton::clicked, this, &SourcePage::next_requested);
+    auto* summary_row = new QHBoxLayout;
+    summary_row->addWidget(summary_, 1);
+    summary_row->addWidget(next_);
 
     auto* lay = new QVBoxLayout(this);
     lay->addLayout(bar);
     lay->addLayout(prow);
-    lay->addWidget(summary_);
+    lay->addLayout(summary_row);
+    lay->addWidget(count_notice_);
     lay->addWidget(message_);
     lay->addWidget(tabs_, 1);
 
@@ -164,9 +209,17 @@ SourcePage::SourcePage(QWidget* parent)
             return;
         }
         if (!result || !result->ok()) {
-            show_message(result ? QString::fromStdString(result->error().to_string()) : tr("Loading failed."), true);
+            QString why = result ? QString::fromStdString(result->error().to_string()) : tr("Loading failed.");
+            if (fallback_ && table_ && kind_ == SourceKind::File) {
+                // A type the file cannot be read with is not remembered: the table stays as it was.
+                options_ = *fallback_;
+                why += tr(" The column keeps the type it had.");
+            }
+            fallback_.reset();
+            show_message(why, true);
             return;
         }
+        fallback_.reset();
         add_recent(path_);
         set_table(std::make_shared<const Table>(std::move(*result).value()), SourceKind::File, path_);
     });
@@ -189,8 +242,20 @@ void SourcePage::open_dialog() {
     if (path != path_) {
         options_ = LoadOptions{};
         missing_->clear();
+        empty_is_missing_ = true;
     }
     open_path(path);
+}
+
+QString SourcePage::missing_markers_text() const { return missing_->text(); }
+
+void SourcePage::set_missing_field(const QStringList& markers) {
+    // The empty marker has no text of its own: shown, it would be a leading comma.
+    empty_is_missing_ = markers.isEmpty() || markers.contains(QString());
+    QStringList shown;
+    for (const QString& m : markers)
+        if (!m.isEmpty()) shown << m;
+    missing_->setText(shown.join(QStringLiteral(", ")));
 }
 
 void SourcePage::open_path(const QString& path) {
@@ -204,7 +269,7 @@ void SourcePage::open_path(const QString& path, const LoadOptions& options) {
     if (job_->running()) return;
     path_ = path;
     options_ = options;
-    missing_->setText(options.missing_markers.join(QStringLiteral(", ")));
+    set_missing_field(options.missing_markers);
     reload();
 }
 
@@ -278,8 +343,54 @@ void SourcePage::set_table(std::shared_ptr<const Table> table, SourceKind kind, 
         }
         if (kind_ != SourceKind::TypedIn) tabs_->setCurrentIndex(0);  // typed-in counts stay in their grid
         show_message(QString(), false);
+        if (kind_ == SourceKind::File) {
+            std::map<std::string, ColumnType> inferred;
+            for (const Column& c : table_->columns) {
+                const auto it = inferred_.find(c.name);
+                inferred[c.name] = options_.type_overrides.count(c.name) && it != inferred_.end() ? it->second : c.type;
+            }
+            inferred_ = std::move(inferred);
+        } else {
+            inferred_.clear();
+        }
+    } else {
+        inferred_.clear();
     }
+    next_->setEnabled(table_ != nullptr);
+    show_count_proposal();
     emit table_loaded(table_, source_);
+}
+
+void SourcePage::show_count_proposal() {
+    proposed_count_.clear();
+    if (table_ && kind_ == SourceKind::File && !table_->weighted() && count_declined_for_ != path_)
+        if (const auto g = guess_count_column(*table_)) {
+            proposed_count_ = QString::fromStdString(g->column);
+            count_notice_text_->setText(
+                tr("<b>This looks like a pre-counted file.</b> Column <b>%1</b> holds whole numbers and every "
+                   "combination of the other columns appears once, so each row may stand for <b>%1</b> "
+                   "observations (%L2 in all, against %L3 rows). Read it as the count column?")
+                    .arg(proposed_count_.toHtmlEscaped())
+                    .arg(g->total, 0, 'f', 0)
+                    .arg(qulonglong(table_->rows)));
+        }
+    count_notice_->setVisible(!proposed_count_.isEmpty());
+}
+
+void SourcePage::use_proposed_count_column() {
+    if (proposed_count_.isEmpty() || job_->running()) return;
+    options_.count_column = proposed_count_;
+    proposed_count_.clear();
+    count_notice_->hide();
+    reload();
+}
+
+void SourcePage::read_column_as(const QString& column, std::optional<ColumnType> type) {
+    if (kind() != SourceKind::File || path_.isEmpty() || job_->running()) return;
+    fallback_ = options_;
+    if (type) options_.type_overrides[column.toStdString()] = *type;
+    else options_.type_overrides.erase(column.toStdString());
+    reload();
 }
 
 QStringList SourcePage::recent_files() const { return QSettings().value(kRecentKey).toStringList(); }
@@ -315,14 +426,26 @@ void SourcePage::column_menu(const QPoint& pos) {
     const QModelIndex idx = columns_->indexAt(pos);
     if (!idx.isValid() || kind() != SourceKind::File || path_.isEmpty()) return;
     const Column& c = table_->columns[std::size_t(idx.row())];
+    const QString name = QString::fromStdString(c.name);
+    const auto over = options_.type_overrides.find(c.name);
+    const auto inferred = inferred_.find(c.name);
+    auto type_name = [](ColumnType t) { return t == ColumnType::Numeric ? tr("numeric") : tr("categorical"); };
+    // Every type, the one the reader inferred included; the current reading is checked.
     QMenu menu(this);
-    const bool cat = c.is_categorical();
-    QAction* a = menu.addAction(cat ? tr("Read \"%1\" as numeric").arg(QString::fromStdString(c.name))
-                                    : tr("Read \"%1\" as categorical").arg(QString::fromStdString(c.name)));
-    if (menu.exec(columns_->viewport()->mapToGlobal(pos)) == a) {
-        options_.type_overrides[c.name] = cat ? ColumnType::Numeric : ColumnType::Categorical;
-        reload();
-    }
+    menu.addSection(tr("Read \"%1\"").arg(name));
+    QAction* as_read = menu.addAction(inferred != inferred_.end() ? tr("As read (%1)").arg(type_name(inferred->second))
+                                                                   : tr("As read"));
+    QAction* as_cat = menu.addAction(tr("As categorical"));
+    QAction* as_num = menu.addAction(tr("As numeric"));
+    for (QAction* a : {as_read, as_cat, as_num}) a->setCheckable(true);
+    if (over == options_.type_overrides.end()) as_read->setChecked(true);
+    else (over->second == ColumnType::Numeric ? as_num : as_cat)->setChecked(true);
+    QAction* chosen = menu.exec(columns_->viewport()->mapToGlobal(pos));
+    if (chosen == as_read && over != options_.type_overrides.end()) read_column_as(name, std::nullopt);
+    else if (chosen == as_cat && (over == options_.type_overrides.end() || over->second != ColumnType::Categorical))
+        read_column_as(name, ColumnType::Categorical);
+    else if (chosen == as_num && (over == options_.type_overrides.end() || over->second != ColumnType::Numeric))
+        read_column_as(name, ColumnType::Numeric);
 }
 
 void SourcePage::dragEnterEvent(QDragEnterEvent* e) {

@@ -2,6 +2,7 @@
 // Step 1, Source: open a CSV/TSV file (dialog, drag-and-drop, recent files) or type in counts;
 // load off the UI thread with progress and cancel; preview rows and summarise columns.
 #include <QWidget>
+#include <map>
 #include <memory>
 #include <optional>
 
@@ -56,12 +57,24 @@ public:
     /// Last message shown (errors name file, line and column).
     QString message() const;
     DatabaseForm* database_form() const { return database_; }
+    /// The column proposed as the count column of the current file (empty when none is): the
+    /// notice above the table offers it until the reviewer uses or declines it.
+    QString proposed_count_column() const { return proposed_count_; }
+    /// Reads the file again with the proposed count column (what the notice's button does).
+    void use_proposed_count_column();
+    /// Reads column `column` as `type` (nullopt: as the reader infers it) and loads the file
+    /// again; a choice the file cannot be read with is reported and forgotten.
+    void read_column_as(const QString& column, std::optional<foldline::ColumnType> type);
+    /// The text of the missing-markers field.
+    QString missing_markers_text() const;
     /// The database the current table was counted in (masked connection, driver, table or
     /// query, rows, query time); nullopt for a file or typed-in table.
     std::optional<DatabaseRecord> database_record() const { return record_; }
 
 signals:
     void table_loaded(std::shared_ptr<const foldline::Table> table, const QString& source);
+    /// The reviewer is done with the columns and asks for the Question step.
+    void next_requested();
     void recent_files_changed();
 
 public slots:
@@ -81,6 +94,8 @@ private:
     void add_recent(const QString& path);
     void show_message(const QString& text, bool error);
     void column_menu(const QPoint& pos);
+    void show_count_proposal();
+    void set_missing_field(const QStringList& markers);
 
     std::shared_ptr<const Table> table_;
     QString source_, path_;
@@ -94,7 +109,7 @@ private:
     QComboBox *recent_, *count_column_;
     QLineEdit* missing_;
     QProgressBar* progress_;
-    QPushButton *cancel_, *reload_;
+    QPushButton *cancel_, *reload_, *next_ = nullptr;
     QLabel *message_, *summary_;
     QTabWidget* tabs_;
     QSplitter* splitter_;
@@ -104,6 +119,13 @@ private:
     QString database_source_;
     std::shared_ptr<DatabaseRecord> pending_record_;
     std::optional<DatabaseRecord> record_;
+    QWidget* count_notice_ = nullptr;  ///< "this looks like a pre-counted file" with its buttons
+    QLabel* count_notice_text_ = nullptr;
+    QString proposed_count_;
+    QString count_declined_for_;       ///< the file whose proposal the reviewer declined
+    std::optional<LoadOptions> fallback_;  ///< the settings to go back to if a type choice fails
+    bool empty_is_missing_ = true;     ///< an empty cell is missing (not shown in the markers field)
+    std::map<std::string, foldline::ColumnType> inferred_;  ///< types as read, before overrides
 };
 
 }  // namespace foldline::ui

@@ -37,6 +37,9 @@ int run_workbench(int argc, char** argv) {
     parser.addOption(demo);
     parser.addOption(shots);
     parser.addOption(dark);
+    parser.addPositionalArgument(QStringLiteral("file"),
+                                 QStringLiteral("A data file to load, or a saved .foldline audit to open."),
+                                 QStringLiteral("[FILE]"));
     parser.process(app);
 
     if (parser.isSet(dark)) {
@@ -77,8 +80,14 @@ int run_workbench(int argc, char** argv) {
         return n > 0 ? 0 : 1;
     }
     window.show();
-    // An audit left unsaved by a session that ended abruptly: offer it once the window is up.
-    if (!parser.isSet(demo)) QTimer::singleShot(0, &window, [&window] { window.check_recovery(); });
+    // An audit left unsaved by a session that ended abruptly: offer it once the window is up;
+    // then the file named on the command line, if any.
+    const QString file = parser.positionalArguments().value(0);
+    if (!parser.isSet(demo))
+        QTimer::singleShot(0, &window, [&window, file] {
+            if (window.check_recovery() == RecoveryChoice::Restore || file.isEmpty()) return;
+            window.open_file(file);
+        });
     if (parser.isSet(demo))
         QTimer::singleShot(0, &window, [&window] {
             const QString err = prepare_demo(window);

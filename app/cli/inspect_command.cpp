@@ -15,6 +15,7 @@
 
 #include "app/cli/args.h"
 #include "app/cli/command.h"
+#include "app/cli/count_warning.h"
 #include "core/common/atomic_file.h"
 #include "core/io/csv_reader.h"
 
@@ -191,6 +192,7 @@ int run_inspect(int argc, char** argv) {
     auto table = read_csv(args.positional()[0], opts, &report);
     if (!table) return fail(kName, kInput, table.error().to_string());
     for (const auto& w : report.warnings) std::cerr << "foldline inspect: warning: " << w << "\n";
+    warn_if_count_column_forgotten(std::cerr, "inspect", *table, opts.count_column);
     if (!report.skipped_lines.empty()) {
         std::cerr << "foldline inspect: skipped " << report.skipped_lines.size() << " ragged rows at lines";
         for (std::size_t i = 0; i < report.skipped_lines.size() && i < 20; ++i) std::cerr << " " << report.skipped_lines[i];

@@ -13,6 +13,7 @@
 
 #include "app/cli/args.h"
 #include "app/cli/command.h"
+#include "app/cli/count_warning.h"
 #include "app/cli/outputs.h"
 #include "core/audit/database_source.h"
 #include "core/audit/run_audit.h"
@@ -199,6 +200,8 @@ int run(int argc, char** argv) {
     hasher.join();
     if (!table) return fail(kName, table.error());  // input, or usage for a filter the source does not fit
     if (!digest) return fail(kName, kInput, digest.error().to_string());
+    // The file as read, before any rows filter: a forgotten count column is a property of the file.
+    if (!from_db) warn_if_count_column_forgotten(std::cerr, "scan", *table, ropt.count_column);
     const double rows_read = static_cast<double>(table->rows);
     if (!from_db && !spec.question.rows.empty()) {
         // The rows the filter keeps are the audit's rows: its kind, diagram check, outputs.

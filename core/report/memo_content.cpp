@@ -115,9 +115,9 @@ MemoTable figures_table(const RateFinding& f, double alpha) {
         {"Pooled rate, " + f.reference, percent(c.rate_reference),
          interval(c.rate_reference_ci.lo, c.rate_reference_ci.hi, percent)},
         {"Pooled difference", points(c.rd), interval(c.rd_ci.lo, c.rd_ci.hi, points)},
-        {"Mantel-Haenszel difference", points(a.mh_rd.greenland_robins.estimate),
+        {"Adjusted difference (Mantel-Haenszel)", points(a.mh_rd.greenland_robins.estimate),
          interval(a.mh_rd.greenland_robins.ci.lo, a.mh_rd.greenland_robins.ci.hi, points)},
-        {"Standardised difference", points(a.standardized.rd),
+        {"Standardised gap", points(a.standardized.rd),
          interval(a.standardized.rd_ci.lo, a.standardized.rd_ci.hi, points)},
         {"Pooled odds ratio", ratio(c.odds_ratio), ""},
         {"Mantel-Haenszel odds ratio", ratio(a.mh_or.estimate), interval(a.mh_or.ci.lo, a.mh_or.ci.hi, ratio)},
@@ -607,10 +607,10 @@ MemoContent build_memo(const MemoInput& in) {
     std::vector<std::string> rate_notes = {
         "Rates carry Wilson score intervals (Wilson 1927); differences of two rates, Newcombe's hybrid score "
         "interval (Newcombe 1998, method 10).",
-        "Adjusted figures: Mantel-Haenszel odds ratio with the Robins-Breslow-Greenland interval, Mantel-Haenszel "
-        "risk ratio and risk difference with Greenland-Robins intervals (Sato's standard error reported in the "
-        "exports), and the difference directly standardised to the pooled stratum mix (the back-door adjustment "
-        "over the strata).",
+        "Adjusted figures: \"Adjusted\" always means Mantel-Haenszel: the odds ratio with the Robins-Breslow-Greenland "
+        "interval, the risk ratio and risk difference with Greenland-Robins intervals (Sato's standard error reported "
+        "in the exports). The \"Standardised gap\" is the difference directly standardised to the pooled stratum mix "
+        "(the back-door adjustment over the strata); a diagram's verdict quotes it. Rate gaps are in percentage points.",
         "Tests: Cochran-Mantel-Haenszel (uncorrected), Breslow-Day homogeneity with Tarone's correction. A "
         "reversal needs the pooled and the adjusted effect significant on opposite sides (intersection-union "
         "test); its p-values are corrected with Benjamini-Hochberg over all " +

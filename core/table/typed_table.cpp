@@ -16,7 +16,8 @@ bool whole_non_negative(double x) { return std::isfinite(x) && x >= 0 && x == st
 
 Result<Table> table_from_counts(const std::vector<TypedStratum>& strata, const std::string& stratum_name,
                                 const std::string& group_name, const std::string& outcome_name,
-                                const std::string& focal_label, const std::string& reference_label) {
+                                const std::string& focal_label, const std::string& reference_label,
+                                const std::string& positive_label, const std::string& negative_label) {
     auto err = [](std::string message, std::size_t row = 0, std::size_t column = 0) {
         return make_error(std::move(message), kSource, row, column);
     };
@@ -27,6 +28,8 @@ Result<Table> table_from_counts(const std::vector<TypedStratum>& strata, const s
         return err("the stratum, group and outcome columns need three different names");
     if (focal_label.empty() || reference_label.empty() || focal_label == reference_label)
         return err("the focal and reference groups need two different, non-empty labels");
+    if (positive_label.empty() || negative_label.empty() || positive_label == negative_label)
+        return err("the outcome needs two different, non-empty labels (with and without the event)");
 
     std::set<std::string> seen;
     for (std::size_t k = 0; k < strata.size(); ++k) {
@@ -61,7 +64,7 @@ Result<Table> table_from_counts(const std::vector<TypedStratum>& strata, const s
         for (std::uint32_t j = 0; j < 4; ++j) {
             stratum_codes.push_back(static_cast<std::uint32_t>(k));
             group_codes.push_back(j / 2);    // 0 focal, 1 reference
-            outcome_codes.push_back(j % 2);  // 0 = "1" (positive), 1 = "0"
+            outcome_codes.push_back(j % 2);  // 0 = positive_label, 1 = negative_label
             weights.push_back(cells[j]);
         }
     }
@@ -70,7 +73,7 @@ Result<Table> table_from_counts(const std::vector<TypedStratum>& strata, const s
     t.rows = rows;
     t.columns.push_back(Column::categorical(stratum_name, std::move(levels), stratum_codes));
     t.columns.push_back(Column::categorical(group_name, {focal_label, reference_label}, group_codes));
-    t.columns.push_back(Column::categorical(outcome_name, {"1", "0"}, outcome_codes));
+    t.columns.push_back(Column::categorical(outcome_name, {positive_label, negative_label}, outcome_codes));
     t.weights = std::move(weights);
     t.weight_column = "count";
     return t;

@@ -11,7 +11,10 @@ Checks, with the built binary:
   would otherwise refuse the line (`scan -h` without --outcome, `adjust --help`);
 - `foldline help` prints the overview; `foldline help nosuch` is a usage error (exit 2);
 - `foldline` alone without a display exits 2 with one line on stderr naming the headless
-  commands, never a toolkit abort.
+  commands, never a toolkit abort; so does `foldline FILE` for an existing data file (the
+  workbench opens files), while a word that is neither a command nor a file is a usage error;
+- `inspect` of the clinic sample's pre-counted file without --count-column warns that
+  `patients` looks like the count column, and does not warn once it is given.
 """
 import os
 import re
@@ -99,6 +102,18 @@ def main():
     env["DISPLAY"] = ""
     rc, _, err = run(foldline, env=env)
     check(rc == 2 and len(err.splitlines()) == 1, f"an empty DISPLAY is no display: exit {rc}")
+
+    sample = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "sample_data")
+    counts = os.path.join(sample, "clinic_outcomes_counts.csv")
+    rc, _, err = run(foldline, "inspect", counts)
+    check(rc == 0 and "--count-column patients" in err, f"inspect of a pre-counted file warns: exit {rc}, stderr {err!r}")
+    rc, _, err = run(foldline, "inspect", counts, "--count-column", "patients")
+    check(rc == 0 and "count-column" not in err, f"inspect with --count-column: no warning: exit {rc}, stderr {err!r}")
+    rc, _, err = run(foldline, "inspect", os.path.join(sample, "clinic_outcomes.csv"))
+    check(rc == 0 and "count-column" not in err, f"inspect of a row-level file: no warning: exit {rc}, stderr {err!r}")
+    rc, out, err = run(foldline, counts)
+    check(rc == 2 and "unknown command" not in err and "display" in err,
+          f"foldline FILE is for the workbench (no display here): exit {rc}, stderr {err!r}")
 
     print(f"{len(failures)} failure(s)")
     return 1 if failures else 0

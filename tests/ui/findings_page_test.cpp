@@ -25,7 +25,7 @@ FindingView sample(FindingClass c, const QString& strata, double q) {
     f.focal = "B";
     f.reference = "A";
     f.effect_name = "risk difference";
-    f.adjusted_name = "standardised RD";
+    f.adjusted_name = "adjusted difference (Mantel-Haenszel)";
     f.crude = {-0.1, -0.15, -0.05};
     f.adjusted = {0.05, 0.01, 0.09};
     f.q_value = q;
@@ -69,14 +69,19 @@ private slots:
         QCOMPARE(s->rowCount(), 3);
         QCOMPARE(s->item(0, 0)->text(), QStringLiteral("north"));
         QCOMPARE(s->item(0, 1)->text(), QStringLiteral("250 / 500"));
-        QCOMPARE(s->item(0, 5)->text(), QStringLiteral("0.100 [0.030, 0.170]"));
+        QCOMPARE(s->item(0, 5)->text(), QStringLiteral("10.0 pp [3.0, 17.0]"));
+        QCOMPARE(s->item(0, 2)->text(), QStringLiteral("50.0% [46.0, 54.0]"));
         QCOMPARE(s->item(1, 6)->text(), QStringLiteral("0.25"));
         QVERIFY(s->item(2, 7)->text().contains("no focal rows"));
         QVERIFY(s->item(2, 0)->font().italic());
         QTableWidget* p = page.pooled_table();
         QCOMPARE(p->item(0, 1)->text(), QStringLiteral("300 / 1000"));
-        QCOMPARE(p->item(2, 2)->text(), QStringLiteral("-0.100 [-0.150, -0.050]"));
-        QCOMPARE(p->item(4, 2)->text(), QStringLiteral("0.050 [0.010, 0.090]"));
+        QCOMPARE(p->item(2, 2)->text(), QStringLiteral("-10.0 pp [-15.0, -5.0]"));
+        QCOMPARE(p->item(4, 2)->text(), QStringLiteral("5.0 pp [1.0, 9.0]"));
+        QVERIFY(p->item(4, 0)->text().contains("Mantel-Haenszel"));
+        // The list shows rate gaps in the memo's unit (percentage points), not as fractions.
+        QCOMPARE(model.data(model.index(0, FindingsModel::Crude)).toString(), QStringLiteral("-10.0 pp"));
+        QCOMPARE(model.data(model.index(0, FindingsModel::Adjusted)).toString(), QStringLiteral("5.0 pp"));
         // Every statistic explains itself.
         QVERIFY(!s->horizontalHeaderItem(5)->toolTip().isEmpty());
         QVERIFY(!s->horizontalHeaderItem(6)->toolTip().isEmpty());
@@ -107,6 +112,18 @@ private slots:
             QVERIFY(QFileInfo(path).size() > 500);
         }
         QVERIFY(!charts::save(page.current_chart(), dir.filePath("x.bmp")).ok());
+        // An exported chart carries its heading (data set, groups, question) in the file only.
+        const int rows_before = page.current_chart()->plotLayout()->rowCount();
+        const QString svg = dir.filePath("headed.svg");
+        QVERIFY(charts::save(page.current_chart(), svg, "clinic.csv — recovered = yes, B against A (group)").ok());
+        QFile headed(svg);
+        QVERIFY(headed.open(QIODevice::ReadOnly));
+        QVERIFY(QString::fromUtf8(headed.readAll()).contains("clinic.csv"));
+        QCOMPARE(page.current_chart()->plotLayout()->rowCount(), rows_before);
+        // The save dialog's chosen filter supplies a missing suffix, never a second one.
+        QCOMPARE(with_chart_suffix("/tmp/gaps", "SVG drawing (*.svg)"), QStringLiteral("/tmp/gaps.svg"));
+        QCOMPARE(with_chart_suffix("/tmp/gaps.pdf", "PNG image (*.png)"), QStringLiteral("/tmp/gaps.pdf"));
+        QCOMPARE(with_chart_suffix("/tmp/gaps.v2", "PDF document (*.pdf)"), QStringLiteral("/tmp/gaps.v2.pdf"));
         // Forest chart: one series of informative strata, one marker each for adjusted and pooled.
         QCOMPARE(page.current_chart()->graphCount(), 3);  // strata, adjusted, pooled
         // For looking at the page by eye: FOLDLINE_UI_GRAB_DIR=/some/dir saves the page per chart.

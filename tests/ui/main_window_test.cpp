@@ -4,16 +4,24 @@
 
 #include <QAction>
 #include <QLabel>
+#include <QLineEdit>
+#include <QMenu>
+#include <QPushButton>
+#include <QSpinBox>
+#include <QTableView>
+#include <QTimer>
 #include <QProcess>
 #include <QStandardPaths>
 #include <QSettings>
 #include <QSplitter>
+#include <QTabWidget>
 #include <QTableWidget>
 #include <QUndoStack>
 #include <QtTest>
 
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
+#include "ui/database_form.h"
 #include "ui/demo.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_page.h"
@@ -58,6 +66,11 @@ private slots:
         QVERIFY(w.findings_page()->findChild<CautionBand*>());
         QVERIFY(w.diagram_page()->findChild<CautionBand*>());
         QVERIFY(w.findings_page()->findChild<CautionBand*>()->text().contains("not a legal or clinical determination"));
+        // Without ODBC the Database tab is plainly off and says why.
+        QTabWidget* tabs = w.source_page()->tabs();
+        const int db = tabs->indexOf(w.source_page()->database_form());
+        QCOMPARE(tabs->isTabEnabled(db), database_available());
+        if (!database_available()) QVERIFY(tabs->tabToolTip(db).contains("unixODBC"));
         // Typed-in counts open the Question step.
         CountsGrid* g = w.source_page()->counts_grid();
         g->set_rows({{"a", "5", "10", "3", "10"}, {"b", "2", "10", "6", "10"}});
@@ -66,7 +79,7 @@ private slots:
         QCOMPARE(w.step_bar()->state(MainWindow::Source), StepBar::State::Done);
         const QuestionSpec q = w.question_page()->spec();
         QCOMPARE(q.outcome, QStringLiteral("positive"));
-        QCOMPARE(q.positive, QStringLiteral("1"));
+        QCOMPARE(q.positive, QStringLiteral("positive"));  // the label typed, not "1"
         QCOMPARE(q.exposure, QStringLiteral("group"));
         QCOMPARE(q.candidates, QStringList{"stratum"});
         // An invalid choice is explained inline.
@@ -76,6 +89,143 @@ private slots:
         QVERIFY(w.question_page()->problems().join(' ').contains("must differ"));
         auto* label = w.question_page()->findChild<QLabel*>("question_problems");
         QVERIFY(label->text().contains("must differ"));
+    }
+
+    // A typed-in table keeps the reviewer's groups and labels: Focal A / Reference B stays so
+    // even when A is as large as B (the default reference is otherwise the largest group), the
+    // outcome reads as typed, the scan's gaps are A minus B, and settings chosen for the
+    // previous data (10,000 resamples) do not carry over to new data.
+    // Counts: Charig et al., BMJ 1986, kidney stones (as in tests/core/table/typed_table_test.cpp).
+    void typed_in_table_keeps_the_reviewers_groups() {
+        MainWindow w;
+        CountsGrid* g = w.source_page()->counts_grid();
+        g->findChild<QLineEdit*>("typed_stratum")->setText("stone_size");
+        g->findChild<QLineEdit*>("typed_outcome")->setText("success");
+        g->findChild<QLineEdit*>("typed_focal")->setText("A");
+        g->findChild<QLineEdit*>("typed_reference")->setText("B");
+        g->set_rows({{"small", "81", "87", "234", "270"}, {"large", "192", "263", "55", "80"}});
+        auto* boot = w.question_page()->findChild<QSpinBox*>("bootstrap");
+        QVERIFY(boot);
+        boot->setValue(10000);  // chosen before any data: a previous session's habit
+        g->use_table();
+        QCOMPARE(w.step(), int(MainWindow::Question));
+        QuestionSpec q = w.question_page()->spec();
+        QCOMPARE(q.focal, QStringLiteral("A"));
+        QCOMPARE(q.reference, QStringLiteral("B"));
+        QCOMPARE(q.outcome, QStringLiteral("success"));
+        QCOMPARE(q.positive, QStringLiteral("success"));
+        QCOMPARE(q.bootstrap, 200);  // new data: the scan settings are the defaults again
+        QVERIFY(w.question_page()->problems().isEmpty());
+        if (scan_available()) {
+            boot->setValue(0);  // no resampling needed for the groups' order
+            w.question_page()->findChild<QPushButton*>("start_scan")->click();
+            QTRY_VERIFY_WITH_TIMEOUT(w.findings_model()->size() > 0 && w.step() != int(MainWindow::Scan), 60000);
+            const FindingView* f = w.findings_model()->at(0);
+            QCOMPARE(f->focal, QStringLiteral("A"));
+            QCOMPARE(f->reference, QStringLiteral("B"));
+            // Pooled A 273/350 against B 289/350: A minus B is -4.6 points (the source's 78% and 83%).
+            QCOMPARE(format_points(f->crude, false), QStringLiteral("-4.6 pp"));
+        }
+        // A choice made for this data does not leak into the next data set.
+        boot->setValue(10000);
+        g->use_table();
+        QCOMPARE(w.question_page()->spec().bootstrap, 200);
+    }
+
+    // A pre-counted file read as rows is recognised: the Source step keeps the file in view
+    // (no jump to the Question step) with a notice proposing the count column; one click reads
+    // it with that column, and the reviewer moves on when done.
+    void pre_counted_file_is_recognised_on_the_source_step() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        const QString counts = find_sample("clinic_outcomes_counts.csv");
+        if (counts.isEmpty()) QSKIP("sample_data/clinic_outcomes_counts.csv not found");
+        MainWindow w;
+        w.source_page()->open_path(counts);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading() && w.source_page()->table(), 20000);
+        QCOMPARE(w.step(), int(MainWindow::Source));
+        QCOMPARE(w.source_page()->proposed_count_column(), QStringLiteral("patients"));
+        auto* notice = w.source_page()->findChild<QWidget*>("count_notice");
+        QVERIFY(notice && !notice->isHidden());
+        QVERIFY(!w.source_page()->table()->weighted());
+        w.source_page()->findChild<QPushButton*>("use_count_column")->click();
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading() && w.source_page()->table()->weighted(), 20000);
+        QCOMPARE(QString::fromStdString(w.source_page()->table()->weight_column), QStringLiteral("patients"));
+        QVERIFY(notice->isHidden());
+        QCOMPARE(w.step(), int(MainWindow::Source));
+        w.source_page()->findChild<QPushButton*>("source_next")->click();
+        QCOMPARE(w.step(), int(MainWindow::Question));
+
+        // The same clinic read row by row: nothing to propose.
+        const QString rows = find_sample("clinic_outcomes.csv");
+        w.source_page()->open_path(rows);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading() && w.source_page()->source() == rows, 20000);
+        QVERIFY(w.source_page()->proposed_count_column().isEmpty());
+        QVERIFY(notice->isHidden());
+    }
+
+    // The column menu offers every type, the one the reader inferred included ("As read"); a
+    // type the file cannot be read with is reported and not remembered.
+    void column_types_can_be_chosen_and_undone() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        QTemporaryDir dir;
+        const QString path = dir.filePath("types.csv");
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::WriteOnly));
+        f.write("code,label\n1,x\n2,y\n3,x\n");
+        f.close();
+        MainWindow w;
+        SourcePage* s = w.source_page();
+        s->open_path(path);
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading() && s->table(), 10000);
+        QVERIFY(s->table()->columns[0].is_numeric());
+        // The menu lists the three readings with the current one checked.
+        QStringList offered;
+        QTimer::singleShot(0, [&offered] {
+            if (auto* m = qobject_cast<QMenu*>(QApplication::activePopupWidget())) {
+                for (QAction* a : m->actions())
+                    if (!a->isSeparator()) offered << a->text() + (a->isChecked() ? "*" : "");
+                m->close();
+            }
+        });
+        QTableView* v = s->column_view();
+        emit v->customContextMenuRequested(v->visualRect(v->model()->index(0, 0)).center());
+        QCOMPARE(offered, (QStringList{"As read (numeric)*", "As categorical", "As numeric"}));
+
+        s->read_column_as("code", ColumnType::Categorical);
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading() && s->table()->columns[0].is_categorical(), 10000);
+        s->read_column_as("code", std::nullopt);  // back to the reader's own choice
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading() && s->table()->columns[0].is_numeric(), 10000);
+        QVERIFY(s->options().type_overrides.empty());
+
+        s->read_column_as("label", ColumnType::Numeric);  // "x" is no number
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading(), 10000);
+        QVERIFY2(s->message().contains("types.csv:2"), qPrintable(s->message()));
+        QVERIFY(s->options().type_overrides.empty());  // not remembered for the next reload
+        QVERIFY(s->table()->columns[1].is_categorical());
+    }
+
+    // The missing-markers field shows what a saved audit holds without a leading comma (the
+    // empty cell is always missing) and gives the same markers back.
+    void missing_markers_round_trip() {
+        if (!reader_available()) QSKIP("this build has no CSV reader");
+        QTemporaryDir dir;
+        const QString path = dir.filePath("m.csv");
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::WriteOnly));
+        f.write("g,y\na,1\nb,NA\n");
+        f.close();
+        MainWindow w;
+        SourcePage* s = w.source_page();
+        LoadOptions o;
+        o.missing_markers = {QString(), "NA", "-"};
+        s->open_path(path, o);
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading() && s->table(), 10000);
+        QCOMPARE(s->missing_markers_text(), QStringLiteral("NA, -"));
+        for (QPushButton* b : s->findChildren<QPushButton*>())
+            if (b->text() == QStringLiteral("Reload")) b->click();
+        QTRY_VERIFY_WITH_TIMEOUT(!s->loading(), 10000);
+        QCOMPARE(s->options().missing_markers, (QStringList{QString(), "NA", "-"}));
+        QCOMPARE(s->missing_markers_text(), QStringLiteral("NA, -"));
     }
 
     // Where the data came from is a kind, never the display name: a data file literally named
@@ -269,7 +419,7 @@ private slots:
         QCOMPARE(s->rowCount(), int(f->rows.size()));
         QCOMPARE(s->item(0, 0)->text(), f->rows[0].level);
         QCOMPARE(s->item(0, 1)->text(), QStringLiteral("%1 / %2").arg(f->rows[0].pos_focal, 0, 'f', 0).arg(f->rows[0].n_focal, 0, 'f', 0));
-        QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_estimate(f->crude));
+        QCOMPARE(w.findings_page()->pooled_table()->item(2, 2)->text(), format_points(f->crude));
         // Record a decision and write the memo; the PDF carries it (checked by size and header
         // here; the memo's wording is tested with the memo writer).
         w.findings_page()->decide(Decision::Upheld);
@@ -345,7 +495,7 @@ private slots:
             for (const FindingView& g : w.findings_model()->findings())
                 if (g.strata == QStringList{"income_band"}) ib = &g;
             QVERIFY(ib);
-            QVERIFY2(d->verdict().adjusted.endsWith(format_estimate(ib->adjusted)), qPrintable(d->verdict().adjusted));
+            QVERIFY2(d->verdict().adjusted.endsWith(format_points(ib->standardised)), qPrintable(d->verdict().adjusted));
             d->undo_stack()->undo();
             QVERIFY(d->verdict().answer == before);
         }

@@ -37,6 +37,22 @@ private slots:
         QCOMPARE(cm.data(cm.index(0, ui::ColumnModel::Distinct)).toULongLong(), 2ull);
         QVERIFY(cm.data(cm.index(1, ui::ColumnModel::Missing)).toString().startsWith("1 ("));
         QCOMPARE(cm.data(cm.index(0, ui::ColumnModel::Levels)).toString(), QStringLiteral("A, B"));
+        // A numeric column shows its range.
+        QCOMPARE(cm.data(cm.index(1, ui::ColumnModel::Levels)).toString(), QStringLiteral("range 1.5 to 3"));
+    }
+
+    // Levels are listed in one order whatever order the rows came in (a row-level file and the
+    // same data pre-counted), numbers inside labels by value.
+    void levels_are_listed_in_one_order() {
+        Table a, b;
+        a.columns.push_back(Column::categorical("band", {"b", "a10", "a9"}, {0, 1, 2}));
+        b.columns.push_back(Column::categorical("band", {"a9", "b", "a10"}, {0, 1, 2}));
+        a.rows = b.rows = 3;
+        ui::ColumnModel ca, cb;
+        ca.set_table(std::make_shared<const Table>(a));
+        cb.set_table(std::make_shared<const Table>(b));
+        QCOMPARE(ca.data(ca.index(0, ui::ColumnModel::Levels)).toString(), QStringLiteral("a9, a10, b"));
+        QCOMPARE(cb.data(cb.index(0, ui::ColumnModel::Levels)).toString(), QStringLiteral("a9, a10, b"));
     }
 
     void weighted_table_shows_count_column() {

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <functional>
 
 #include <QApplication>
@@ -109,10 +110,11 @@ public:
 
     // Lays out one paragraph (no line breaks inside) at `width`; returns the layout.
     std::unique_ptr<QTextLayout> layout(const QString& text, const QFont& f, double width,
-                                        Qt::Alignment align = Qt::AlignLeft) const {
+                                        Qt::Alignment align = Qt::AlignLeft,
+                                        QTextOption::WrapMode wrap = QTextOption::WrapAtWordBoundaryOrAnywhere) const {
         auto l = std::make_unique<QTextLayout>(text, f, &pdf_);
         QTextOption opt;
-        opt.setWrapMode(QTextOption::WrapAtWordBoundaryOrAnywhere);
+        opt.setWrapMode(wrap);
         opt.setTextDirection(Qt::LeftToRight);
         opt.setAlignment(align);
         l->setTextOption(opt);
@@ -175,16 +177,30 @@ public:
         std::vector<double> w(n);
         for (std::size_t c = 0; c < n; ++c) w[c] = width() * (c < t.widths.size() ? t.widths[c] : 1.0) / total;
         const double pad = pt(3);
-        const QFont body = font(size), head = font(size, true);
+        const QFont body = font(size);
+        // Headers break between words only: when a header's longest word is wider than its
+        // column, the whole header row is set smaller (down to 6 pt) rather than split a word.
+        double head_size = size;
+        auto widest_word_fits = [&](const QFont& f) {
+            const QFontMetricsF m(f, &pdf_);
+            for (std::size_t c = 0; c < n; ++c)
+                for (const QString& word : q(t.header[c]).split(QLatin1Char(' '), Qt::SkipEmptyParts))
+                    if (m.horizontalAdvance(word) > w[c] - 2 * pad) return false;
+            return true;
+        };
+        while (head_size > 6 && !widest_word_fits(font(head_size, true))) head_size -= 0.5;
+        const QFont head = font(head_size, true);
 
         auto row_layouts = [&](const std::vector<std::string>& cells, const QFont& f,
                                std::vector<std::unique_ptr<QTextLayout>>& out) {
             out.clear();
             double h = 0;
+            const bool header = &cells == &t.header;
             for (std::size_t c = 0; c < n; ++c) {
                 const QString text = c < cells.size() ? q(cells[c]) : QString();
                 const bool right = c < t.numeric.size() && t.numeric[c];
-                out.push_back(layout(text, f, w[c] - 2 * pad, right ? Qt::AlignRight : Qt::AlignLeft));
+                out.push_back(layout(text, f, w[c] - 2 * pad, right ? Qt::AlignRight : Qt::AlignLeft,
+                                     header ? QTextOption::WordWrap : QTextOption::WrapAtWordBoundaryOrAnywhere));
                 h = std::max(h, height_of(*out.back()));
             }
             return h + 2 * pad;
@@ -303,10 +319,22 @@ QSharedPointer<QCPAxisTickerText> category_ticker(const MemoChart& c, std::size_
 }
 
 void label_categories(QCPAxis* axis, const MemoChart& c, std::size_t rotate_above) {
-    if (c.points.size() - 1 > kMaxNamedCategories)
+    if (c.points.size() - 1 > kMaxNamedCategories) {
         axis->setLabel(QStringLiteral("strata numbered in the order of the side-by-side table"));
-    else if (c.points.size() > rotate_above)
-        axis->setTickLabelRotation(30);
+    } else if (c.points.size() > rotate_above) {
+        // Negative rotation ends each label under its own point (a positive one starts it there
+        // and reads as the next point's). The first label reaches left of the plot: the left
+        // margin makes room for it, so no label is cut.
+        constexpr double kDegrees = 35;
+        axis->setTickLabelRotation(-kDegrees);
+        const QFontMetricsF m(axis->tickLabelFont());
+        double widest = 0;
+        for (const auto& p : c.points) widest = std::max(widest, m.horizontalAdvance(elided(q(p.label), 22)));
+        const int reach = static_cast<int>(std::ceil(widest * std::cos(kDegrees * std::numbers::pi / 180.0)));
+        QMargins min = axis->axisRect()->minimumMargins();
+        min.setLeft(std::max(min.left(), reach));
+        axis->axisRect()->setMinimumMargins(min);
+    }
 }
 
 QPicture render_plot(QCustomPlot& plot, int w, int h) {

@@ -69,7 +69,7 @@ TEST(MemoContent, FiguresMatchPublishedPenicillinValues) {
     EXPECT_EQ((*orow)[2], "1.03 to 47.73");
     // RR_MH 1.552632, RD_MH 0.228036 [calc: methods.md, R / statsmodels].
     EXPECT_EQ((*row_named(s.figures, "Mantel-Haenszel risk ratio"))[1], "1.55");
-    EXPECT_EQ((*row_named(s.figures, "Mantel-Haenszel difference"))[1], "+22.8 pp");
+    EXPECT_EQ((*row_named(s.figures, "Adjusted difference (Mantel-Haenszel)"))[1], "+22.8 pp");
     // Pooled rates by hand from the published counts: 16/26 = 61.5%, 13/28 = 46.4%.
     EXPECT_EQ((*row_named(s.figures, "Pooled rate, no_delay"))[1], "61.5%");
     EXPECT_EQ((*row_named(s.figures, "Pooled rate, delay_1.5h"))[1], "46.4%");

@@ -75,6 +75,18 @@ TEST(TableFromCounts, DefaultsAndZeroCells) {
     EXPECT_EQ(t->weights, (std::vector<double>{0, 0, 5, 0}));  // zero cells kept so every level exists
 }
 
+TEST(TableFromCounts, KeepsTheTypedOutcomeLabels) {
+    auto t = table_from_counts(kidney_stones(), "stone_size", "treatment", "success", "A", "B", "success",
+                               "no success");
+    ASSERT_TRUE(t.ok()) << t.error().to_string();
+    EXPECT_EQ(t->columns[2].levels, (std::vector<std::string>{"success", "no success"}));
+    EXPECT_EQ(t->columns[1].levels, (std::vector<std::string>{"A", "B"}));
+    // Same counts as with the default labels: the first level holds the positives.
+    EXPECT_EQ(t->weights, table_from_counts(kidney_stones())->weights);
+    EXPECT_FALSE(table_from_counts(kidney_stones(), "s", "g", "y", "A", "B", "same", "same").ok());
+    EXPECT_FALSE(table_from_counts(kidney_stones(), "s", "g", "y", "A", "B", "", "no").ok());
+}
+
 TEST(TableFromCounts, RejectsImpossibleCounts) {
     struct Bad {
         std::vector<TypedStratum> strata;
