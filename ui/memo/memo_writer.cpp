@@ -17,6 +17,7 @@
 #include <qcustomplot.h>
 
 #include "core/common/atomic_file.h"
+#include "ui/edge_route.h"
 #include "ui/role_style.h"
 
 namespace foldline::ui {
@@ -518,7 +519,7 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         miny = std::min(miny, n.y);
         maxy = std::max(maxy, n.y);
         const QString label = elided(q(n.name), 28);
-        const QSizeF s(fm.horizontalAdvance(label) + pt(10), fm.height() + pt(7));
+        const QSizeF s(fm.horizontalAdvance(label) + pt(16), fm.height() + pt(8));
         sizes.push_back(s);
         maxw = std::max(maxw, s.width());
     }
@@ -535,23 +536,14 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
                            sizes[i].height());
     }
     p.setRenderHint(QPainter::Antialiasing, true);
-    // Where the segment from the centre of `b` towards `towards` leaves the box.
-    auto exit_point = [](const QRectF& b, const QPointF& towards) {
-        const QPointF c = b.center();
-        const double dx = towards.x() - c.x(), dy = towards.y() - c.y();
-        if (std::abs(dx) < 1e-9 && std::abs(dy) < 1e-9) return c;
-        const double tx = std::abs(dx) > 1e-9 ? (b.width() / 2) / std::abs(dx) : 1e300;
-        const double ty = std::abs(dy) > 1e-9 ? (b.height() / 2) / std::abs(dy) : 1e300;
-        const double t = std::min(tx, ty);
-        return QPointF(c.x() + dx * t, c.y() + dy * t);
-    };
+    // Arrows go around the boxes (ui/edge_route, as on the canvas), never through one.
     for (const auto& [a, b] : d.edges) {
-        const QRectF& ba = boxes[static_cast<std::size_t>(a)];
-        const QRectF& bb = boxes[static_cast<std::size_t>(b)];
-        const QPointF from = exit_point(ba, bb.center());
-        const QPointF to = exit_point(bb, ba.center());
+        const QPolygonF route = route_edge(boxes, a, b, pt(4));
+        if (route.size() < 2) continue;
         p.setPen(QPen(kMuted, pt(0.8)));
-        p.drawLine(from, to);
+        p.setBrush(Qt::NoBrush);
+        p.drawPath(route_path(route, pt(2)));
+        const QPointF to = route.back(), from = route[route.size() - 2];
         const double ang = std::atan2(to.y() - from.y(), to.x() - from.x());
         const double len = pt(5), wid = pt(2.4);
         QPolygonF head;
@@ -568,7 +560,17 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         if (!n.observed) pen.setStyle(Qt::DashLine);
         p.setPen(pen);
         p.setBrush(memo_role_fill(n.role));
-        p.drawRoundedRect(boxes[i], pt(4), pt(4));
+        // The canvas's shape for the role (ui/role_style), with the exposure's and the
+        // outcome's second outline.
+        const RoleShape shape = role_style(n.role).shape;
+        p.drawPath(role_path(shape, boxes[i]));
+        if (const double inset = inner_frame(shape, boxes[i]) * 0.5; inset > 0) {
+            QPen inner = pen;
+            inner.setWidthF(pt(0.6));
+            p.setPen(inner);
+            p.setBrush(Qt::NoBrush);
+            p.drawPath(role_path(shape, boxes[i].adjusted(inset, inset, -inset, -inset)));
+        }
         p.setPen(kInk);
         p.setFont(n.in_stratifier || n.role == causal::Role::Exposure || n.role == causal::Role::Outcome ? fb : f);
         p.drawText(boxes[i], Qt::AlignCenter, elided(q(n.name), 28));
