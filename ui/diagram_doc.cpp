@@ -2,6 +2,7 @@
 
 #include "core/causal/diagram_edit.h"
 #include "ui/engine.h"
+#include "ui/layered_layout.h"
 
 #include <QSet>
 #include <algorithm>
@@ -196,35 +197,15 @@ void DiagramDoc::move_node(const QString& name, QPointF pos) {
 }
 
 QHash<QString, QPointF> DiagramDoc::layout() const {
-    // Layer = longest path from any source; the exposure is pinned to layer 0 when it is a source.
-    QHash<QString, int> layer;
-    const std::vector<DiagramNode> ns = nodes();
-    const std::vector<DiagramEdge> es = edges();
-    for (const auto& n : ns) layer[n.name] = 0;
-    for (std::size_t pass = 0; pass < ns.size(); ++pass) {
-        bool changed = false;
-        for (const auto& e : es)
-            if (layer[e.to] < layer[e.from] + 1) layer[e.to] = layer[e.from] + 1, changed = true;
-        if (!changed) break;
-    }
-    QHash<int, QStringList> by_layer;
-    for (const auto& n : ns) by_layer[layer[n.name]] << n.name;
-    // Exposure and outcome sit on one line; every other node goes above or below it in turn,
-    // so arrows from a common cause to the outcome pass clear of the exposure.
+    // Layers by longest path from the sources (ui/layered_layout, as the memo lays out).
+    std::vector<QString> names;
+    for (const auto& n : d_.nodes) names.push_back(qs(n.name));
+    std::vector<std::pair<int, int>> es;
+    for (const auto& e : d_.edges) es.emplace_back(d_.find_node(e.from), d_.find_node(e.to));
+    const std::vector<QPointF> at =
+        layered_layout(names, es, d_.find_node(ss(exposure_)), d_.find_node(ss(outcome_)));
     QHash<QString, QPointF> pos;
-    for (auto it = by_layer.begin(); it != by_layer.end(); ++it) {
-        QStringList names = it.value();
-        std::sort(names.begin(), names.end());
-        int k = 0;
-        for (const QString& name : names) {
-            double y = 0;
-            if (name != exposure_ && name != outcome_) {
-                y = (k % 2 == 0 ? -1.0 : 1.0) * (k / 2 + 1) * 120.0;
-                ++k;
-            }
-            pos[name] = QPointF(it.key() * 220.0, y);
-        }
-    }
+    for (std::size_t i = 0; i < names.size(); ++i) pos[names[i]] = at[i];
     return pos;
 }
 
