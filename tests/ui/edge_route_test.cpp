@@ -1,10 +1,11 @@
-// tests/ui/edge_route_test.cpp <-> ui/edge_route.h (and its use by the diagram canvas)
+// tests/ui/edge_route_test.cpp <-> ui/edge_route.h, ui/layered_layout.h (and their use by the diagram canvas)
 #include <QRandomGenerator>
 #include <QtTest>
 
 #include "ui/diagram_page.h"
 #include "ui/diagram_scene.h"
 #include "ui/edge_route.h"
+#include "ui/layered_layout.h"
 
 using namespace foldline;
 using namespace foldline::ui;
@@ -104,6 +105,22 @@ private slots:
             const QString why = check_all_pairs(layouts[l], 14);
             QVERIFY2(why.isEmpty(), qPrintable(QStringLiteral("layout %1: %2").arg(l).arg(why)));
         }
+    }
+
+    void layers_follow_the_arrows() {
+        // u → x → m → y and u → y: layers by longest path from the source (u 0, x 1, m 2, y 3);
+        // x and y on the line y = 0, the others above or below it.
+        const std::vector<QString> names = {"x", "y", "m", "u"};
+        const std::vector<std::pair<int, int>> edges = {{3, 0}, {0, 2}, {2, 1}, {3, 1}};
+        const std::vector<QPointF> at = layered_layout(names, edges, 0, 1);
+        QCOMPARE(at[3], QPointF(0, -120));
+        QCOMPARE(at[0], QPointF(220, 0));
+        QCOMPARE(at[2], QPointF(440, -120));
+        QCOMPARE(at[1], QPointF(660, 0));
+        // Boxes placed there clear every route.
+        std::vector<QRectF> boxes;
+        for (const QPointF& p : at) boxes.push_back(box_at(p.x(), p.y()));
+        QVERIFY2(check_all_pairs(boxes, 14).isEmpty(), qPrintable(check_all_pairs(boxes, 14)));
     }
 
     void canvas_arrows_clear_every_node() {
