@@ -34,6 +34,8 @@ private:
     std::vector<DiagramEdge> edges_;
 };
 
+/// Arrow edits are the reviewer's claims: each confirms the diagram (DiagramDoc::confirmed), and
+/// undoing it restores whether it was confirmed before.
 class AddEdgeCommand : public QUndoCommand {
 public:
     AddEdgeCommand(DiagramDoc* doc, const QString& from, const QString& to);
@@ -43,6 +45,7 @@ public:
 private:
     DiagramDoc* doc_;
     QString from_, to_;
+    bool was_confirmed_ = true;
 };
 
 class RemoveEdgeCommand : public QUndoCommand {
@@ -54,6 +57,68 @@ public:
 private:
     DiagramDoc* doc_;
     QString from_, to_;
+    bool was_confirmed_ = true;
+};
+
+/// Turns an arrow round (from → to becomes to → from).
+class ReverseEdgeCommand : public QUndoCommand {
+public:
+    ReverseEdgeCommand(DiagramDoc* doc, const QString& from, const QString& to);
+    void redo() override;
+    void undo() override;
+
+private:
+    DiagramDoc* doc_;
+    QString from_, to_;
+    bool was_confirmed_ = true;
+};
+
+/// "Use the diagram as drawn": the reviewer confirms the arrows shown, so a verdict is read.
+class ConfirmDiagramCommand : public QUndoCommand {
+public:
+    explicit ConfirmDiagramCommand(DiagramDoc* doc);
+    void redo() override;
+    void undo() override;
+
+private:
+    DiagramDoc* doc_;
+    bool was_confirmed_ = false;
+};
+
+/// Offers or withdraws draft arrows (DiagramDoc::draft).
+class SetDraftCommand : public QUndoCommand {
+public:
+    SetDraftCommand(DiagramDoc* doc, std::vector<DiagramEdge> draft, const QString& text);
+    void redo() override;
+    void undo() override;
+
+private:
+    DiagramDoc* doc_;
+    std::vector<DiagramEdge> before_, after_;
+};
+
+class RenameNodeCommand : public QUndoCommand {
+public:
+    RenameNodeCommand(DiagramDoc* doc, const QString& name, const QString& new_name);
+    void redo() override;
+    void undo() override;
+
+private:
+    DiagramDoc* doc_;
+    QString name_, new_name_;
+};
+
+/// Marks a node measured (a data column) or not.
+class SetObservedCommand : public QUndoCommand {
+public:
+    SetObservedCommand(DiagramDoc* doc, const QString& name, bool observed);
+    void redo() override;
+    void undo() override;
+
+private:
+    DiagramDoc* doc_;
+    QString name_;
+    bool observed_;
 };
 
 /// Moves nodes; consecutive moves of the same node merge into one step.

@@ -2,6 +2,7 @@
 
 #include "core/causal/diagram_edit.h"
 #include "ui/engine.h"
+#include "ui/layered_layout.h"
 
 #include <QSet>
 #include <algorithm>
@@ -33,13 +34,33 @@ void DiagramDoc::seed(const QString& exposure, const QString& outcome, const QSt
     double y = -140;
     for (const QString& s : strata) {
         if (!causal::add_node(d, {ss(s), true, 180.0, y})) continue;
-        (void)causal::add_edge(d, ss(s), ss(exposure));
-        (void)causal::add_edge(d, ss(s), ss(outcome));
         y -= 110;
     }
     (void)causal::set_question(d, ss(exposure), ss(outcome));
     d_ = std::move(d);
+    confirmed_ = false;
+    draft_.clear();
     emit structure_changed();
+}
+
+void DiagramDoc::set_confirmed(bool on) {
+    if (confirmed_ == on) return;
+    confirmed_ = on;
+    emit structure_changed();
+}
+
+void DiagramDoc::set_draft(std::vector<DiagramEdge> draft) {
+    draft_ = std::move(draft);
+    emit structure_changed();
+}
+
+std::vector<DiagramEdge> DiagramDoc::draft_from_strata() const {
+    causal::Diagram d = d_;
+    std::vector<DiagramEdge> out;
+    for (const QString& s : strata_)
+        for (const QString& to : {exposure_, outcome_})
+            if (causal::add_edge(d, ss(s), ss(to))) out.push_back({s, to});
+    return out;
 }
 
 Status DiagramDoc::replace(const causal::Diagram& d) {
@@ -48,6 +69,8 @@ Status DiagramDoc::replace(const causal::Diagram& d) {
         if (!name.isEmpty() && next.find_node(ss(name)) < 0) (void)causal::add_node(next, {ss(name), true, 0.0, 0.0});
     if (auto st = causal::set_question(next, ss(exposure_), ss(outcome_)); !st) return st;
     d_ = std::move(next);
+    confirmed_ = true;
+    draft_.clear();
     emit structure_changed();
     return Ok{};
 }
@@ -128,41 +151,61 @@ bool DiagramDoc::remove_edge(const QString& from, const QString& to) {
     return true;
 }
 
+QString DiagramDoc::check_reverse(const QString& from, const QString& to) const {
+    causal::Diagram d = d_;
+    if (auto st = causal::remove_edge(d, ss(from), ss(to)); !st)
+        return tr("Arrow %1 → %2 cannot be reversed: %3.").arg(from, to, qs(st.error().message));
+    if (auto st = causal::check_new_edge(d, ss(to), ss(from)); !st)
+        return tr("Arrow %1 → %2 cannot be reversed: %3.").arg(from, to, qs(st.error().message));
+    return {};
+}
+
+bool DiagramDoc::reverse_edge(const QString& from, const QString& to) {
+    if (!check_reverse(from, to).isEmpty()) return false;
+    (void)causal::remove_edge(d_, ss(from), ss(to));
+    (void)causal::add_edge(d_, ss(to), ss(from));
+    emit structure_changed();
+    return true;
+}
+
+QString DiagramDoc::check_rename(const QString& name, const QString& new_name) const {
+    const auto n = node(name);
+    if (!n) return tr("Node %1 is not in the diagram.").arg(name);
+    if (name == exposure_ || name == outcome_)
+        return tr("%1 is the question's %2: it keeps its name.").arg(name, name == exposure_ ? tr("exposure") : tr("outcome"));
+    if (n->observed) return tr("%1 is a column of the data: it keeps its name.").arg(name);
+    if (new_name == name) return {};
+    return check_node(new_name);
+}
+
+bool DiagramDoc::rename_node(const QString& name, const QString& new_name) {
+    if (!check_rename(name, new_name).isEmpty()) return false;
+    if (!causal::rename_node(d_, ss(name), ss(new_name))) return false;
+    emit structure_changed();
+    return true;
+}
+
+bool DiagramDoc::set_observed(const QString& name, bool observed) {
+    if (!causal::set_observed(d_, ss(name), observed)) return false;
+    emit structure_changed();
+    return true;
+}
+
 void DiagramDoc::move_node(const QString& name, QPointF pos) {
     if (!causal::move_node(d_, ss(name), pos.x(), pos.y())) return;
     emit node_moved(name, pos);
 }
 
 QHash<QString, QPointF> DiagramDoc::layout() const {
-    // Layer = longest path from any source; the exposure is pinned to layer 0 when it is a source.
-    QHash<QString, int> layer;
-    const std::vector<DiagramNode> ns = nodes();
-    const std::vector<DiagramEdge> es = edges();
-    for (const auto& n : ns) layer[n.name] = 0;
-    for (std::size_t pass = 0; pass < ns.size(); ++pass) {
-        bool changed = false;
-        for (const auto& e : es)
-            if (layer[e.to] < layer[e.from] + 1) layer[e.to] = layer[e.from] + 1, changed = true;
-        if (!changed) break;
-    }
-    QHash<int, QStringList> by_layer;
-    for (const auto& n : ns) by_layer[layer[n.name]] << n.name;
-    // Exposure and outcome sit on one line; every other node goes above or below it in turn,
-    // so arrows from a common cause to the outcome pass clear of the exposure.
+    // Layers by longest path from the sources (ui/layered_layout, as the memo lays out).
+    std::vector<QString> names;
+    for (const auto& n : d_.nodes) names.push_back(qs(n.name));
+    std::vector<std::pair<int, int>> es;
+    for (const auto& e : d_.edges) es.emplace_back(d_.find_node(e.from), d_.find_node(e.to));
+    const std::vector<QPointF> at =
+        layered_layout(names, es, d_.find_node(ss(exposure_)), d_.find_node(ss(outcome_)));
     QHash<QString, QPointF> pos;
-    for (auto it = by_layer.begin(); it != by_layer.end(); ++it) {
-        QStringList names = it.value();
-        std::sort(names.begin(), names.end());
-        int k = 0;
-        for (const QString& name : names) {
-            double y = 0;
-            if (name != exposure_ && name != outcome_) {
-                y = (k % 2 == 0 ? -1.0 : 1.0) * (k / 2 + 1) * 120.0;
-                ++k;
-            }
-            pos[name] = QPointF(it.key() * 220.0, y);
-        }
-    }
+    for (std::size_t i = 0; i < names.size(); ++i) pos[names[i]] = at[i];
     return pos;
 }
 
@@ -172,6 +215,14 @@ void DiagramDoc::set_judge(Judge judge) {
 }
 
 DiagramVerdict DiagramDoc::verdict() const {
+    if (!confirmed_) {
+        DiagramVerdict v;
+        v.unconfirmed = true;
+        v.problem = tr("Nobody has drawn the arrows yet: apart from %1 → %2 the diagram claims nothing about what "
+                       "causes what, so it cannot say which view answers the question. Draw the arrows you know, "
+                       "or confirm the diagram as drawn.").arg(exposure_, outcome_);
+        return v;
+    }
     if (judge_) return judge_(d_, exposure_, outcome_, strata_);
     return judge(d_, exposure_, outcome_, strata_, nullptr, nullptr, project::AuditSpec{});
 }

@@ -40,6 +40,7 @@ struct DiagramVerdict {
     QString adjusted;             ///< the estimate the verdict points to, in words, when there is one
     QString direct_effect;        ///< what the direct effect "not through the mediators" needs
     QString problem;              ///< why no verdict (invalid diagram), empty otherwise
+    bool unconfirmed = false;     ///< no verdict because nobody has drawn or confirmed the arrows
 };
 
 class DiagramDoc : public QObject {
@@ -47,12 +48,27 @@ class DiagramDoc : public QObject {
 public:
     explicit DiagramDoc(QObject* parent = nullptr);
 
-    /// Starts a new diagram: exposure → outcome, each stratifier pointing at both.
+    /// Starts a new diagram from the exposure, the outcome and the stratifiers with one arrow,
+    /// exposure → outcome: no causal claim nobody made. The diagram is unconfirmed (no verdict)
+    /// until the reviewer draws or removes an arrow, accepts a draft or confirms it as drawn.
     void seed(const QString& exposure, const QString& outcome, const QStringList& strata);
     /// Replaces the graph with `d` (a diagram read from a file). The current exposure and
     /// outcome stay the question's: they are added as observed nodes if `d` lacks them. A
-    /// diagram that marks either unobserved is refused (Error, nothing changed).
+    /// diagram that marks either unobserved is refused (Error, nothing changed). A diagram
+    /// someone saved is confirmed; any draft is dropped.
     Status replace(const causal::Diagram& d);
+
+    /// Whether the arrows are the reviewer's (drawn, accepted or confirmed as drawn): only then
+    /// does verdict() give one. The undo commands set and restore it.
+    bool confirmed() const { return confirmed_; }
+    void set_confirmed(bool on);
+    /// Arrows offered as a draft, shown dashed and never judged, saved or exported until the
+    /// reviewer accepts them (then they are ordinary arrows).
+    std::vector<DiagramEdge> draft() const { return draft_; }
+    void set_draft(std::vector<DiagramEdge> draft);
+    /// The draft "every stratifier causes both the exposure and the outcome" for the current
+    /// strata: only arrows the diagram lacks and can take (no cycle), in order.
+    std::vector<DiagramEdge> draft_from_strata() const;
     /// True when two nodes sit closer than a node's size (positions from elsewhere).
     bool crowded() const;
     /// The finding's stratifiers the verdict is about.
@@ -79,6 +95,17 @@ public:
     bool remove_node(const QString& name);
     bool add_edge(const QString& from, const QString& to);
     bool remove_edge(const QString& from, const QString& to);
+    /// Why from → to cannot be turned round (empty when it can): absent, or the reversed arrow
+    /// would close a cycle through other arrows.
+    QString check_reverse(const QString& from, const QString& to) const;
+    /// Turns from → to round into to → from (one change, one signal).
+    bool reverse_edge(const QString& from, const QString& to);
+    /// Why `name` cannot become `new_name` (empty when it can): the question's exposure and
+    /// outcome and the data's columns keep their names; blank or used names are refused.
+    QString check_rename(const QString& name, const QString& new_name) const;
+    bool rename_node(const QString& name, const QString& new_name);
+    /// Marks a node measured (a data column) or not; the exposure and outcome stay measured.
+    bool set_observed(const QString& name, bool observed);
     void move_node(const QString& name, QPointF pos);
     /// Positions in layers by longest path from the sources (exposure far left).
     QHash<QString, QPointF> layout() const;
@@ -100,6 +127,8 @@ private:
     causal::Diagram d_;
     QString exposure_, outcome_;
     QStringList strata_;
+    bool confirmed_ = true;
+    std::vector<DiagramEdge> draft_;
 };
 
 }  // namespace foldline::ui

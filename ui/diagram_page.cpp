@@ -7,7 +7,11 @@
 #include <QSettings>
 #include <QComboBox>
 #include <QGraphicsView>
+#include <QAction>
+#include <QFrame>
 #include <QHBoxLayout>
+#include <QInputDialog>
+#include <QMenu>
 #include <QKeyEvent>
 #include <QLabel>
 #include <QLineEdit>
@@ -30,35 +34,70 @@ namespace foldline::ui {
 
 namespace {
 
-/// The legend: each role's shape with its name, so nothing depends on colour.
+/// The legend: every role a node can take, with its shape and fill, then the outline of an
+/// unobserved variable and the line of a draft arrow; words beside each, so nothing depends on
+/// colour alone.
 class RoleLegend : public QWidget {
 public:
     explicit RoleLegend(QWidget* parent = nullptr) : QWidget(parent) {
-        setMinimumHeight(int(roles().size()) * 30 + 8);
-        setToolTip(tr("Shapes of the roles; dashed outlines are unobserved variables"));
+        setObjectName(QStringLiteral("role_legend"));
+        setMinimumHeight(int(all_roles().size() + 3) * kRow + 8);
+        setToolTip(tr("Shapes and fills of the roles a node can take once the arrows are drawn"));
     }
-    static std::vector<causal::Role> roles() {
-        using causal::Role;
-        return {Role::Exposure, Role::Outcome, Role::Confounder, Role::Mediator, Role::Collider, Role::OutcomeDescendant,
-                Role::ExposureCause};
+    /// The legend's entries, in order (role words, then the three outline entries).
+    static QStringList entries() {
+        QStringList out;
+        for (const causal::Role r : all_roles()) out << role_words(r);
+        out << tr("no role yet (no verdict)") << tr("dashed outline: not measured") << tr("dashed arrow: draft, not yet accepted");
+        return out;
     }
 
 protected:
+    static constexpr int kRow = 26;
     void paintEvent(QPaintEvent*) override {
         QPainter p(this);
         p.setRenderHint(QPainter::Antialiasing);
         const QPalette pal = palette();
+        const QColor fg = pal.color(QPalette::WindowText);
+        const QStringList words = entries();
         int y = 4;
-        for (const causal::Role r : roles()) {
-            const QRectF box(4, y, 46, 22);
-            p.setPen(QPen(pal.color(QPalette::WindowText), 1.4));
+        auto box = [&](std::optional<causal::Role> r, Qt::PenStyle style) {
+            const QRectF b(4, y + 1, 46, 20);
+            const RoleStyle& st = role_style(r);
+            QColor fill = st.fill;
+            fill.setAlpha(fill_alpha(colors::dark_theme(pal)));
+            p.setPen(QPen(fg, 1.4, style));
             p.setBrush(pal.color(QPalette::Base));
-            p.drawPath(role_path(role_style(r).shape, box));
-            if (r == causal::Role::Exposure) p.fillRect(QRectF(box.left() + 3, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
-            if (r == causal::Role::Outcome) p.fillRect(QRectF(box.right() - 7, box.top() + 4, 4, box.height() - 8), pal.color(QPalette::WindowText));
-            p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, role_words(r));
-            y += 30;
+            p.drawPath(role_path(st.shape, b));
+            p.setBrush(fill);
+            p.drawPath(role_path(st.shape, b));
+            if (const double inset = inner_frame(st.shape, b); inset > 0) {
+                p.setPen(QPen(fg, 1.0, style));
+                p.setBrush(Qt::NoBrush);
+                p.drawPath(role_path(st.shape, b.adjusted(inset, inset, -inset, -inset)));
+            }
+        };
+        int i = 0;
+        for (const causal::Role r : all_roles()) {
+            box(r, Qt::SolidLine);
+            p.setPen(fg);
+            p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, words[i++]);
+            y += kRow;
         }
+        box(std::nullopt, Qt::SolidLine);
+        p.setPen(fg);
+        p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, words[i++]);
+        y += kRow;
+        box(std::nullopt, Qt::DashLine);
+        p.setPen(fg);
+        p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, words[i++]);
+        y += kRow;
+        p.setPen(QPen(fg, 1.8, Qt::DashLine));
+        p.drawLine(QPointF(6, y + 11), QPointF(44, y + 11));
+        p.setPen(QPen(fg, 1.2));
+        p.setBrush(pal.color(QPalette::Base));
+        p.drawPolygon(QPolygonF({QPointF(50, y + 11), QPointF(42, y + 7), QPointF(42, y + 15)}));
+        p.drawText(QRectF(58, y, width() - 60, 22), Qt::AlignVCenter, words[i++]);
     }
 };
 
@@ -75,7 +114,7 @@ DiagramPage::DiagramPage(QWidget* parent)
     connect_ = new QToolButton;
     connect_->setText(tr("Draw arrows"));
     connect_->setCheckable(true);
-    connect_->setToolTip(tr("While on, dragging from any node draws an arrow (A)"));
+    connect_->setToolTip(tr("While on, dragging from any node draws an arrow (Ctrl+D)"));
     connect(connect_, &QToolButton::toggled, this, &DiagramPage::set_connect_mode);
     columns_ = new QComboBox;
     columns_->setToolTip(tr("Columns of the data not yet in the diagram"));
@@ -109,6 +148,34 @@ DiagramPage::DiagramPage(QWidget* parent)
     bar->addWidget(del);
     bar->addWidget(layout_btn);
 
+    // No verdict until the arrows are the reviewer's: the banner says so and offers a draft
+    // (shown dashed, assumed, accepted with one click) or confirming the diagram as drawn.
+    banner_ = new QFrame;
+    banner_->setObjectName(QStringLiteral("diagram_banner"));
+    static_cast<QFrame*>(banner_)->setFrameShape(QFrame::StyledPanel);
+    banner_label_ = new QLabel;
+    banner_label_->setObjectName(QStringLiteral("diagram_banner_text"));
+    banner_label_->setWordWrap(true);
+    draft_btn_ = new QPushButton(tr("Draft arrows from the finding"));
+    draft_btn_->setObjectName(QStringLiteral("diagram_draft"));
+    draft_btn_->setToolTip(tr("Show dashed arrows from each stratifier to the exposure and the outcome, to accept or discard"));
+    confirm_btn_ = new QPushButton(tr("Use the diagram as drawn"));
+    confirm_btn_->setObjectName(QStringLiteral("diagram_confirm"));
+    confirm_btn_->setToolTip(tr("The arrows shown are all you claim: read the verdict for them"));
+    accept_btn_ = new QPushButton(tr("Accept draft"));
+    accept_btn_->setObjectName(QStringLiteral("diagram_accept_draft"));
+    accept_btn_->setToolTip(tr("Make every dashed arrow an arrow of your diagram (undoable)"));
+    discard_btn_ = new QPushButton(tr("Discard draft"));
+    discard_btn_->setObjectName(QStringLiteral("diagram_discard_draft"));
+    connect(draft_btn_, &QPushButton::clicked, this, &DiagramPage::offer_draft);
+    connect(confirm_btn_, &QPushButton::clicked, this, &DiagramPage::confirm_as_drawn);
+    connect(accept_btn_, &QPushButton::clicked, this, &DiagramPage::accept_draft);
+    connect(discard_btn_, &QPushButton::clicked, this, &DiagramPage::discard_draft);
+    auto* bl = new QHBoxLayout(banner_);
+    bl->addWidget(banner_label_, 1);
+    for (QPushButton* b : {draft_btn_, confirm_btn_, accept_btn_, discard_btn_}) bl->addWidget(b);
+    banner_->hide();
+
     message_ = new QLabel;
     message_->setObjectName(QStringLiteral("diagram_message"));
     message_->setWordWrap(true);
@@ -122,6 +189,12 @@ DiagramPage::DiagramPage(QWidget* parent)
     verdict_label_->setTextInteractionFlags(Qt::TextSelectableByMouse);
     auto* side = new QWidget;
     auto* sl = new QVBoxLayout(side);
+    finding_label_ = new QLabel;
+    finding_label_->setObjectName(QStringLiteral("diagram_finding"));
+    finding_label_->setWordWrap(true);
+    finding_label_->setTextFormat(Qt::RichText);
+    finding_label_->setToolTip(tr("The verdict below is read for this finding; choose another on the Findings step"));
+    sl->addWidget(finding_label_);
     sl->addWidget(verdict_label_);
     sl->addSpacing(10);
     sl->addWidget(new QLabel(tr("<b>Shapes</b>")));
@@ -136,6 +209,7 @@ DiagramPage::DiagramPage(QWidget* parent)
     auto* cl = new QVBoxLayout(canvas);
     cl->setContentsMargins(0, 0, 0, 0);
     cl->addLayout(bar);
+    cl->addWidget(banner_);
     cl->addWidget(message_);
     cl->addWidget(view_, 1);
 
@@ -157,7 +231,281 @@ DiagramPage::DiagramPage(QWidget* parent)
             });
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_verdict);
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refill_columns);
+    connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_banner);
+    connect(scene_, &DiagramScene::node_menu_requested, this, &DiagramPage::show_node_menu);
+    connect(scene_, &DiagramScene::edge_menu_requested, this, &DiagramPage::show_edge_menu);
+
+    // Keyboard access to the canvas (while it has the focus): move through the nodes and arrows,
+    // move nodes, reverse an arrow, rename, and the selection's menu (which also draws arrows).
+    auto key = [this](const char* name, const QString& text, const QList<QKeySequence>& keys, auto slot) {
+        auto* a = new QAction(text, view_);
+        a->setObjectName(QLatin1String(name));
+        a->setShortcuts(keys);
+        a->setShortcutContext(Qt::WidgetWithChildrenShortcut);
+        view_->addAction(a);
+        connect(a, &QAction::triggered, this, slot);
+    };
+    key("canvas_next", tr("Select the next node or arrow"), {QKeySequence(Qt::Key_N)}, [this] { select_next(1); });
+    key("canvas_previous", tr("Select the previous node or arrow"), {QKeySequence(Qt::SHIFT | Qt::Key_N)},
+        [this] { select_next(-1); });
+    const double step = 10, big = 40;
+    key("canvas_left", tr("Move left"), {QKeySequence(Qt::Key_Left)}, [=, this] { nudge(-step, 0); });
+    key("canvas_right", tr("Move right"), {QKeySequence(Qt::Key_Right)}, [=, this] { nudge(step, 0); });
+    key("canvas_up", tr("Move up"), {QKeySequence(Qt::Key_Up)}, [=, this] { nudge(0, -step); });
+    key("canvas_down", tr("Move down"), {QKeySequence(Qt::Key_Down)}, [=, this] { nudge(0, step); });
+    key("canvas_left_far", tr("Move far left"), {QKeySequence(Qt::SHIFT | Qt::Key_Left)}, [=, this] { nudge(-big, 0); });
+    key("canvas_right_far", tr("Move far right"), {QKeySequence(Qt::SHIFT | Qt::Key_Right)}, [=, this] { nudge(big, 0); });
+    key("canvas_up_far", tr("Move far up"), {QKeySequence(Qt::SHIFT | Qt::Key_Up)}, [=, this] { nudge(0, -big); });
+    key("canvas_down_far", tr("Move far down"), {QKeySequence(Qt::SHIFT | Qt::Key_Down)}, [=, this] { nudge(0, big); });
+    key("canvas_reverse", tr("Reverse the selected arrows"), {QKeySequence(Qt::Key_R)}, [this] {
+        for (QGraphicsItem* i : scene_->selectedItems())
+            if (i->type() == EdgeItem::Type) reverse_edge(static_cast<EdgeItem*>(i)->from(), static_cast<EdgeItem*>(i)->to());
+    });
+    key("canvas_rename", tr("Rename the selected node"), {QKeySequence(Qt::Key_F2)}, [this] {
+        for (QGraphicsItem* i : scene_->selectedItems())
+            if (i->type() == NodeItem::Type) {
+                const QString name = static_cast<NodeItem*>(i)->name();
+                bool ok = false;
+                const QString to = QInputDialog::getText(this, tr("Rename node"), tr("New name for %1:").arg(name),
+                                                         QLineEdit::Normal, name, &ok);
+                if (ok) rename_node(name, to.trimmed());
+                return;
+            }
+    });
+    key("canvas_menu", tr("Menu of the selection"), {QKeySequence(Qt::SHIFT | Qt::Key_F10)}, [this] { show_selection_menu(); });
+    view_->setFocusPolicy(Qt::StrongFocus);
+    view_->setToolTip(view_->toolTip() +
+                      tr("; keys: N / Shift+N select the next / previous node or arrow, arrow keys move nodes, "
+                         "R reverses an arrow, F2 renames, Shift+F10 opens the menu (arrows, role, delete)"));
     refresh_verdict();
+    refresh_banner();
+}
+
+void DiagramPage::set_finding(const QString& words) {
+    finding_label_->setText(words.isEmpty() ? QString()
+                                            : tr("<p><b>Verdict for the finding:</b> %1</p>").arg(words.toHtmlEscaped()));
+    finding_label_->setProperty("finding", words);
+}
+
+QString DiagramPage::finding() const { return finding_label_->property("finding").toString(); }
+
+QString DiagramPage::banner() const { return banner_->isHidden() ? QString() : banner_label_->text(); }
+
+QString DiagramPage::verdict_text() const { return verdict_label_->text(); }
+
+void DiagramPage::refresh_banner() {
+    const std::vector<DiagramEdge> draft = doc_->draft();
+    QString text;
+    if (!draft.empty()) {
+        QStringList arrows;
+        for (const DiagramEdge& e : draft) arrows << QStringLiteral("%1 → %2").arg(e.from, e.to);
+        text = tr("Draft, not your diagram yet: the dashed arrows (%1) assume that each one is a real cause. Foldline "
+                  "did not learn them from the data. Accept the draft only if you hold every arrow it shows true; "
+                  "until then there is no verdict.").arg(arrows.join(QStringLiteral(", ")));
+    } else if (!doc_->confirmed()) {
+        text = tr("No verdict yet: apart from %1 → %2 nobody has drawn an arrow. Draw the arrows you know (drag from a "
+                  "node's ▸ handle), draft them from the finding, or use the diagram as drawn.")
+                   .arg(doc_->exposure(), doc_->outcome());
+    }
+    banner_label_->setText(text);
+    banner_->setVisible(!text.isEmpty());
+    draft_btn_->setVisible(draft.empty() && !doc_->confirmed());
+    confirm_btn_->setVisible(draft.empty() && !doc_->confirmed());
+    accept_btn_->setVisible(!draft.empty());
+    discard_btn_->setVisible(!draft.empty());
+}
+
+void DiagramPage::confirm_as_drawn() {
+    if (doc_->confirmed()) return;
+    show_message({});
+    undo_->push(new ConfirmDiagramCommand(doc_));
+}
+
+bool DiagramPage::offer_draft() {
+    std::vector<DiagramEdge> draft = doc_->draft_from_strata();
+    if (draft.empty()) {
+        show_message(tr("The finding's stratifiers have no arrow to draft: each already has its arrows, or would close a cycle."));
+        return false;
+    }
+    show_message({});
+    undo_->push(new SetDraftCommand(doc_, std::move(draft), tr("draft arrows")));
+    return true;
+}
+
+void DiagramPage::accept_draft() {
+    const std::vector<DiagramEdge> draft = doc_->draft();
+    if (draft.empty()) return;
+    undo_->beginMacro(tr("accept the draft"));
+    undo_->push(new SetDraftCommand(doc_, {}, tr("accept the draft")));
+    for (const DiagramEdge& e : draft)
+        if (doc_->check_edge(e.from, e.to).isEmpty()) undo_->push(new AddEdgeCommand(doc_, e.from, e.to));
+    if (!doc_->confirmed()) undo_->push(new ConfirmDiagramCommand(doc_));
+    undo_->endMacro();
+    show_message({});
+}
+
+void DiagramPage::discard_draft() {
+    if (doc_->draft().empty()) return;
+    undo_->push(new SetDraftCommand(doc_, {}, tr("discard the draft")));
+}
+
+bool DiagramPage::reverse_edge(const QString& from, const QString& to) {
+    const QString why = doc_->check_reverse(from, to);
+    if (!why.isEmpty()) {
+        show_message(why);
+        return false;
+    }
+    show_message({});
+    undo_->push(new ReverseEdgeCommand(doc_, from, to));
+    return true;
+}
+
+bool DiagramPage::rename_node(const QString& name, const QString& new_name) {
+    if (new_name == name) return true;
+    const QString why = doc_->check_rename(name, new_name);
+    if (!why.isEmpty()) {
+        show_message(why);
+        return false;
+    }
+    show_message({});
+    undo_->push(new RenameNodeCommand(doc_, name, new_name));
+    return true;
+}
+
+bool DiagramPage::set_node_observed(const QString& name, bool observed) {
+    const auto n = doc_->node(name);
+    if (!n || n->observed == observed) return false;
+    if (observed && !data_columns_.contains(name)) {
+        show_message(tr("%1 is not a column of the data, so it cannot be marked measured.").arg(name));
+        return false;
+    }
+    if (!observed && (name == doc_->exposure() || name == doc_->outcome())) {
+        show_message(tr("The exposure and the outcome are columns of the data: they stay measured."));
+        return false;
+    }
+    show_message({});
+    undo_->push(new SetObservedCommand(doc_, name, observed));
+    return true;
+}
+
+void DiagramPage::select_next(int step) {
+    QList<QGraphicsItem*> order;
+    for (NodeItem* n : scene_->node_items()) order << n;
+    for (EdgeItem* e : scene_->edge_items())
+        if (!e->draft()) order << e;
+    if (order.isEmpty()) return;
+    int at = -1;
+    for (int i = 0; i < order.size(); ++i)
+        if (order[i]->isSelected()) at = i;
+    const int next = at < 0 ? (step > 0 ? 0 : int(order.size()) - 1) : int((at + step + order.size()) % order.size());
+    scene_->clearSelection();
+    order[next]->setSelected(true);
+    view_->ensureVisible(order[next]);
+}
+
+void DiagramPage::nudge(double dx, double dy) {
+    QHash<QString, QPointF> before, after;
+    for (QGraphicsItem* i : scene_->selectedItems())
+        if (i->type() == NodeItem::Type) {
+            const QString name = static_cast<NodeItem*>(i)->name();
+            before.insert(name, i->pos());
+            after.insert(name, i->pos() + QPointF(dx, dy));
+        }
+    if (after.isEmpty()) return;
+    undo_->push(new MoveNodesCommand(doc_, before, after, tr("move")));
+}
+
+QMenu* DiagramPage::node_menu(const QString& name) {
+    auto* menu = new QMenu(this);
+    menu->setObjectName(QStringLiteral("node_menu"));
+    const auto node = doc_->node(name);
+    if (!node) return menu;
+    const bool question = name == doc_->exposure() || name == doc_->outcome();
+    // Role: what the arrows make of the node (read-only), and whether it is measured.
+    QString role = role_words(verdict_.roles.contains(name) ? std::optional(verdict_.roles.value(name)) : std::nullopt);
+    if (name == doc_->exposure()) role = role_words(causal::Role::Exposure);
+    if (name == doc_->outcome()) role = role_words(causal::Role::Outcome);
+    QAction* role_info = menu->addAction(role.isEmpty() ? tr("Role: none until the verdict") : tr("Role: %1 (from the arrows)").arg(role));
+    role_info->setEnabled(false);
+    QAction* measured = menu->addAction(tr("Measured (a column of the data)"));
+    measured->setObjectName(QStringLiteral("node_measured"));
+    measured->setCheckable(true);
+    measured->setChecked(node->observed);
+    measured->setEnabled(!question && (node->observed || data_columns_.contains(name)));
+    connect(measured, &QAction::toggled, this, [this, name](bool on) { set_node_observed(name, on); });
+    menu->addSeparator();
+    QMenu* to = menu->addMenu(tr("Arrow to"));
+    to->setObjectName(QStringLiteral("node_arrow_to"));
+    QMenu* from = menu->addMenu(tr("Arrow from"));
+    from->setObjectName(QStringLiteral("node_arrow_from"));
+    for (const DiagramNode& other : doc_->nodes()) {
+        if (other.name == name) continue;
+        QAction* a = to->addAction(other.name);
+        a->setEnabled(doc_->check_edge(name, other.name).isEmpty());
+        connect(a, &QAction::triggered, this, [this, name, o = other.name] { request_edge(name, o); });
+        QAction* b = from->addAction(other.name);
+        b->setEnabled(doc_->check_edge(other.name, name).isEmpty());
+        connect(b, &QAction::triggered, this, [this, name, o = other.name] { request_edge(o, name); });
+    }
+    menu->addSeparator();
+    QAction* rename = menu->addAction(tr("Rename…"));
+    rename->setObjectName(QStringLiteral("node_rename"));
+    const QString why = doc_->check_rename(name, name);
+    rename->setEnabled(why.isEmpty());
+    rename->setToolTip(why);
+    connect(rename, &QAction::triggered, this, [this, name] {
+        bool ok = false;
+        const QString to = QInputDialog::getText(this, tr("Rename node"), tr("New name for %1:").arg(name), QLineEdit::Normal,
+                                                 name, &ok);
+        if (ok) rename_node(name, to.trimmed());
+    });
+    QAction* del = menu->addAction(tr("Delete"));
+    del->setObjectName(QStringLiteral("node_delete"));
+    del->setEnabled(!question);
+    connect(del, &QAction::triggered, this, [this, name] {
+        undo_->push(new RemoveNodeCommand(doc_, name));
+        show_message({});
+    });
+    return menu;
+}
+
+QMenu* DiagramPage::edge_menu(const QString& from, const QString& to) {
+    auto* menu = new QMenu(this);
+    menu->setObjectName(QStringLiteral("edge_menu"));
+    QAction* rev = menu->addAction(tr("Reverse (%1 → %2)").arg(to, from));
+    rev->setObjectName(QStringLiteral("edge_reverse"));
+    const QString why = doc_->check_reverse(from, to);
+    rev->setEnabled(why.isEmpty());
+    rev->setToolTip(why);
+    connect(rev, &QAction::triggered, this, [this, from, to] { reverse_edge(from, to); });
+    QAction* del = menu->addAction(tr("Delete"));
+    del->setObjectName(QStringLiteral("edge_delete"));
+    connect(del, &QAction::triggered, this, [this, from, to] {
+        undo_->push(new RemoveEdgeCommand(doc_, from, to));
+        show_message({});
+    });
+    return menu;
+}
+
+void DiagramPage::show_node_menu(const QString& name, const QPoint& screen_pos) {
+    QMenu* m = node_menu(name);
+    m->setAttribute(Qt::WA_DeleteOnClose);
+    m->popup(screen_pos);
+}
+
+void DiagramPage::show_edge_menu(const QString& from, const QString& to, const QPoint& screen_pos) {
+    QMenu* m = edge_menu(from, to);
+    m->setAttribute(Qt::WA_DeleteOnClose);
+    m->popup(screen_pos);
+}
+
+void DiagramPage::show_selection_menu() {
+    const QList<QGraphicsItem*> sel = scene_->selectedItems();
+    if (sel.isEmpty()) return;
+    QGraphicsItem* i = sel.first();
+    const QPoint at = view_->viewport()->mapToGlobal(view_->mapFromScene(i->sceneBoundingRect().center()));
+    if (i->type() == NodeItem::Type) show_node_menu(static_cast<NodeItem*>(i)->name(), at);
+    else if (i->type() == EdgeItem::Type) show_edge_menu(static_cast<EdgeItem*>(i)->from(), static_cast<EdgeItem*>(i)->to(), at);
 }
 
 QString DiagramPage::message() const { return message_->isHidden() ? QString() : message_->text(); }
@@ -329,7 +677,11 @@ void DiagramPage::refresh_verdict() {
     verdict_ = doc_->verdict();
     QString html;
     if (!verdict_.computed) {
-        html = tr("<p><b>No verdict yet.</b></p><p>%1</p>").arg(verdict_.problem.toHtmlEscaped());
+        // Core's sentence (e.g. which of the finding's columns the diagram lacks), as a sentence.
+        QString why = verdict_.problem;
+        if (!why.isEmpty()) why[0] = why[0].toUpper();
+        if (!why.isEmpty() && !why.endsWith(QLatin1Char('.'))) why += QLatin1Char('.');
+        html = tr("<p><b>No verdict yet.</b></p><p>%1</p>").arg(why.toHtmlEscaped());
     } else {
         html = tr("<p style='font-size:large'><b>Quote: %1</b></p>").arg(verdict_.recommended.toHtmlEscaped());
         html += QStringLiteral("<p>%1</p>").arg(verdict_.reason.toHtmlEscaped());

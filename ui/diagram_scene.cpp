@@ -1,28 +1,70 @@
 #include "ui/diagram_scene.h"
 
 #include <QApplication>
+#include <QFontMetricsF>
+#include <QGraphicsSceneContextMenuEvent>
 #include <QGraphicsSceneMouseEvent>
+#include <QGraphicsView>
 #include <QPainter>
 #include <QPalette>
 #include <QStyleOptionGraphicsItem>
 #include <QtMath>
+#include <algorithm>
 
+#include "ui/edge_route.h"
 #include "ui/palette.h"
 
 namespace foldline::ui {
 
 namespace {
-constexpr double kW = 150, kH = 62;
+constexpr double kMinW = 150, kH = 62;
+// Room beside the text: the arrow handle on the right, the frame of exposure and outcome.
+constexpr double kPadX = 16;
+
+QFont name_font(bool observed) {
+    QFont f = QApplication::font();
+    f.setBold(true);
+    f.setItalic(!observed);
+    return f;
+}
+
+QFont caption_font() {
+    QFont f = QApplication::font();
+    f.setPointSizeF(f.pointSizeF() * 0.85);
+    return f;
+}
 
 }  // namespace
 
 NodeItem::NodeItem(const DiagramNode& node, std::optional<causal::Role> role)
-    : name_(node.name), role_(role), observed_(node.observed), rect_(-kW / 2, -kH / 2, kW, kH) {
+    : name_(node.name), role_(role), observed_(node.observed) {
     setFlags(ItemIsMovable | ItemIsSelectable | ItemSendsGeometryChanges);
     setPos(node.pos);
     setZValue(1);
+    // Grow the box to hold the name and the caption, up to kMaxWidth.
+    const double text_w = std::max(QFontMetricsF(name_font(observed_)).horizontalAdvance(name_),
+                                   QFontMetricsF(caption_font()).horizontalAdvance(caption()));
+    const double w = std::clamp(std::ceil(text_w) + 2 * kPadX + 8, kMinW, kMaxWidth);
+    rect_ = QRectF(-w / 2, -kH / 2, w, kH);
     setToolTip(observed_ ? QObject::tr("%1 — a column of the data").arg(name_)
                          : QObject::tr("%1 — not measured (declared by the reviewer)").arg(name_));
+}
+
+QString NodeItem::caption() const {
+    QString c = role_words(role_);
+    if (!observed_) c += c.isEmpty() ? QObject::tr("unobserved") : QObject::tr(" · unobserved");
+    return c;
+}
+
+QRectF NodeItem::name_rect() const { return rect_.adjusted(kPadX, 4, -kPadX, -rect_.height() / 2 + 2); }
+QRectF NodeItem::caption_rect() const { return rect_.adjusted(kPadX - 6, rect_.height() / 2 - 2, -kPadX + 6, -4); }
+
+QString NodeItem::shown_name() const {
+    return QFontMetricsF(name_font(observed_)).elidedText(name_, Qt::ElideMiddle, name_rect().width());
+}
+
+QString NodeItem::shown_caption() const {
+    return QFontMetricsF(caption_font()).elidedText(caption(), Qt::ElideRight, caption_rect().width());
 }
 
 QRectF NodeItem::boundingRect() const { return rect_.adjusted(-4, -4, 14, 4); }
@@ -46,34 +88,26 @@ void NodeItem::paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget*)
     const bool selected = opt->state & QStyle::State_Selected;
     const QColor fg = pal.color(QPalette::WindowText);
     const QColor fill = this->fill(pal);
+    const RoleShape shape = role_style(role_).shape;
     p->setRenderHint(QPainter::Antialiasing);
     QPen pen(selected ? colors::accent(pal) : fg, selected ? 3 : 1.6, observed_ ? Qt::SolidLine : Qt::DashLine);
     p->setPen(pen);
     p->setBrush(pal.color(QPalette::Base));
-    const QPainterPath path = role_path(role_style(role_).shape, rect_);
+    const QPainterPath path = role_path(shape, rect_);
     p->drawPath(path);
     p->setBrush(fill);
     p->drawPath(path);
-    // Exposure and outcome carry a heavy bar on the side the effect leaves or arrives.
-    if (role_ == causal::Role::Exposure || role_ == causal::Role::Outcome) {
-        const double x = role_ == causal::Role::Exposure ? rect_.left() + 4 : rect_.right() - 10;
-        p->setPen(Qt::NoPen);
-        p->setBrush(fg);
-        p->drawRect(QRectF(x, rect_.top() + 8, 6, rect_.height() - 16));
+    // Exposure and outcome: a second outline inside the first.
+    if (const double inset = inner_frame(shape, rect_); inset > 0) {
+        p->setPen(QPen(fg, 1.2, observed_ ? Qt::SolidLine : Qt::DashLine));
+        p->setBrush(Qt::NoBrush);
+        p->drawPath(role_path(shape, rect_.adjusted(inset, inset, -inset, -inset)));
     }
-    QFont f = QApplication::font();
-    f.setBold(true);
-    f.setItalic(!observed_);
-    p->setFont(f);
+    p->setFont(name_font(observed_));
     p->setPen(fg);
-    const QRectF name_r = rect_.adjusted(12, 4, -12, -rect_.height() / 2 + 2);
-    p->drawText(name_r, Qt::AlignCenter, p->fontMetrics().elidedText(name_, Qt::ElideMiddle, int(name_r.width())));
-    QFont small = QApplication::font();
-    small.setPointSizeF(small.pointSizeF() * 0.85);
-    p->setFont(small);
-    QString caption = role_words(role_);
-    if (!observed_) caption += caption.isEmpty() ? QObject::tr("unobserved") : QObject::tr(" · unobserved");
-    p->drawText(rect_.adjusted(6, rect_.height() / 2 - 2, -6, -4), Qt::AlignCenter, caption);
+    p->drawText(name_rect(), Qt::AlignCenter, shown_name());
+    p->setFont(caption_font());
+    p->drawText(caption_rect(), Qt::AlignCenter, shown_caption());
     // Arrow handle.
     p->setPen(QPen(fg, 1.2));
     p->setBrush(pal.color(QPalette::Base));
@@ -83,33 +117,25 @@ void NodeItem::paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget*)
     p->drawLine(QPointF(port_rect().center().x() + 1, 2.5), QPointF(port_rect().center().x() + 3, 0));
 }
 
-QPointF NodeItem::exit_point(QPointF towards) const {
-    const QPointF c = pos();
-    const QPointF d = towards - c;
-    if (qFuzzyIsNull(d.x()) && qFuzzyIsNull(d.y())) return c;
-    const double sx = d.x() != 0 ? (kW / 2) / std::abs(d.x()) : 1e9;
-    const double sy = d.y() != 0 ? (kH / 2) / std::abs(d.y()) : 1e9;
-    return c + d * std::min(sx, sy);
+EdgeItem::EdgeItem(const QString& from, const QString& to, bool draft) : from_(from), to_(to), draft_(draft) {
+    setFlag(ItemIsSelectable, !draft);
+    setZValue(draft ? -1 : 0);
+    setToolTip(draft ? QObject::tr("Draft: %1 causes %2 — assumed, not drawn by you (accept or discard the draft)")
+                           .arg(from, to)
+                     : QObject::tr("%1 causes %2 (right-click to reverse or delete)").arg(from, to));
 }
 
-EdgeItem::EdgeItem(NodeItem* from, NodeItem* to) : from_(from), to_(to) {
-    setFlags(ItemIsSelectable);
-    setZValue(0);
-    adjust();
-    setToolTip(QObject::tr("%1 causes %2 (select and press Delete to remove)").arg(from->name(), to->name()));
-}
-
-void EdgeItem::adjust() {
-    const QPointF a = from_->exit_point(to_->pos());
-    const QPointF b = to_->exit_point(from_->pos());
-    QPainterPath path(a);
-    path.lineTo(b);
-    setPath(path);
-    const QLineF line(b, a);
+void EdgeItem::set_route(const QPolygonF& route) {
+    route_ = route;
+    setPath(route_path(route, DiagramScene::kMargin / 2));
+    head_.clear();
+    if (route.size() < 2) return;
+    const QPointF b = route.back();
+    const QLineF line(b, route[route.size() - 2]);
     const double angle = std::atan2(-line.dy(), line.dx());
     const double size = 12;
-    head_ = QPolygonF() << b << b + QPointF(std::sin(angle + M_PI / 3) * size, std::cos(angle + M_PI / 3) * size)
-                        << b + QPointF(std::sin(angle + M_PI - M_PI / 3) * size, std::cos(angle + M_PI - M_PI / 3) * size);
+    head_ << b << b + QPointF(std::sin(angle + M_PI / 3) * size, std::cos(angle + M_PI / 3) * size)
+          << b + QPointF(std::sin(angle + M_PI - M_PI / 3) * size, std::cos(angle + M_PI - M_PI / 3) * size);
 }
 
 QPainterPath EdgeItem::shape() const {
@@ -123,12 +149,14 @@ QPainterPath EdgeItem::shape() const {
 void EdgeItem::paint(QPainter* p, const QStyleOptionGraphicsItem* opt, QWidget*) {
     const QPalette pal = QApplication::palette();
     const bool selected = opt->state & QStyle::State_Selected;
-    const QColor c = selected ? colors::accent(pal) : pal.color(QPalette::WindowText);
+    QColor c = selected ? colors::accent(pal) : pal.color(QPalette::WindowText);
     p->setRenderHint(QPainter::Antialiasing);
-    p->setPen(QPen(c, selected ? 3 : 1.8));
+    QPen pen(c, selected ? 3 : 1.8, draft_ ? Qt::DashLine : Qt::SolidLine);
+    p->setPen(pen);
     p->setBrush(Qt::NoBrush);
     p->drawPath(path());
-    p->setBrush(c);
+    p->setPen(QPen(c, 1.2));
+    p->setBrush(draft_ ? pal.color(QPalette::Base) : c);
     p->drawPolygon(head_);
 }
 
@@ -147,8 +175,15 @@ void DiagramScene::set_roles(const QHash<QString, causal::Role>& roles) {
 
 QList<EdgeItem*> DiagramScene::edge_items() const {
     QList<EdgeItem*> out;
-    for (QGraphicsItem* i : items())
+    for (QGraphicsItem* i : items(Qt::AscendingOrder))
         if (i->type() == EdgeItem::Type) out << static_cast<EdgeItem*>(i);
+    return out;
+}
+
+QList<NodeItem*> DiagramScene::node_items() const {
+    QList<NodeItem*> out;
+    for (const DiagramNode& n : doc_->nodes())
+        if (NodeItem* item = nodes_.value(n.name)) out << item;
     return out;
 }
 
@@ -174,20 +209,32 @@ void DiagramScene::rebuild() {
         nodes_.insert(n.name, item);
     }
     for (const DiagramEdge& e : doc_->edges()) {
-        NodeItem* a = nodes_.value(e.from);
-        NodeItem* b = nodes_.value(e.to);
-        if (!a || !b) continue;
-        auto* item = new EdgeItem(a, b);
+        if (!nodes_.contains(e.from) || !nodes_.contains(e.to)) continue;
+        auto* item = new EdgeItem(e.from, e.to, false);
         addItem(item);
         item->setSelected(selected_edges.contains(qMakePair(e.from, e.to)));
     }
+    for (const DiagramEdge& e : doc_->draft())
+        if (nodes_.contains(e.from) && nodes_.contains(e.to)) addItem(new EdgeItem(e.from, e.to, true));
+    reroute();
+}
+
+void DiagramScene::reroute() {
+    const QList<NodeItem*> ns = node_items();
+    std::vector<QRectF> boxes;
+    QHash<QString, int> index;
+    for (NodeItem* n : ns) {
+        index.insert(n->name(), int(boxes.size()));
+        boxes.push_back(n->scene_box());
+    }
+    for (EdgeItem* e : edge_items())
+        e->set_route(route_edge(boxes, index.value(e->from(), -1), index.value(e->to(), -1), kMargin));
 }
 
 void DiagramScene::on_node_moved(const QString& name, QPointF pos) {
     if (NodeItem* n = nodes_.value(name)) {
         n->setPos(pos);
-        for (EdgeItem* e : edge_items())
-            if (e->from() == name || e->to() == name) e->adjust();
+        reroute();
     }
 }
 
@@ -195,6 +242,31 @@ NodeItem* DiagramScene::node_at(QPointF p) const {
     for (QGraphicsItem* i : items(p))
         if (i->type() == NodeItem::Type) return static_cast<NodeItem*>(i);
     return nullptr;
+}
+
+void DiagramScene::contextMenuEvent(QGraphicsSceneContextMenuEvent* e) {
+    for (QGraphicsItem* i : items(e->scenePos())) {
+        if (i->type() == NodeItem::Type) {
+            if (!i->isSelected()) {
+                clearSelection();
+                i->setSelected(true);
+            }
+            emit node_menu_requested(static_cast<NodeItem*>(i)->name(), e->screenPos());
+            e->accept();
+            return;
+        }
+        if (i->type() == EdgeItem::Type && !static_cast<EdgeItem*>(i)->draft()) {
+            auto* edge = static_cast<EdgeItem*>(i);
+            if (!edge->isSelected()) {
+                clearSelection();
+                edge->setSelected(true);
+            }
+            emit edge_menu_requested(edge->from(), edge->to(), e->screenPos());
+            e->accept();
+            return;
+        }
+    }
+    QGraphicsScene::contextMenuEvent(e);
 }
 
 void DiagramScene::mousePressEvent(QGraphicsSceneMouseEvent* e) {
@@ -222,8 +294,7 @@ void DiagramScene::mouseMoveEvent(QGraphicsSceneMouseEvent* e) {
         return;
     }
     QGraphicsScene::mouseMoveEvent(e);
-    if (!press_pos_.isEmpty())
-        for (EdgeItem* edge : edge_items()) edge->adjust();
+    if (!press_pos_.isEmpty()) reroute();
 }
 
 void DiagramScene::mouseReleaseEvent(QGraphicsSceneMouseEvent* e) {

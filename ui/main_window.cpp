@@ -210,11 +210,21 @@ void MainWindow::go_to(int s) {
         if (QAction* a = action(QStringLiteral("action_step_%1").arg(i))) a->setChecked(i == s);
 }
 
+/// The finding as the Diagram step names it: "Reversal: product (B vs A)".
+static QString finding_words(const FindingView& f) {
+    QString cls = QString::fromUtf8(to_string(f.cls).data());
+    if (!cls.isEmpty()) cls[0] = cls[0].toUpper();
+    const QString strata = f.strata.join(QStringLiteral(" × "));
+    return f.slope ? QObject::tr("%1: %2 (%3 on %4)").arg(cls, strata, f.reference, f.focal)
+                   : QObject::tr("%1: %2 (%3 vs %4)").arg(cls, strata, f.focal, f.reference);
+}
+
 void MainWindow::seed_diagram_for(int row) {
     const FindingView* f = model_->at(row);
     if (!f || row == seeded_row_) return;
     const bool first = seeded_row_ < 0;
     seeded_row_ = row;
+    diagram_->set_finding(finding_words(*f));
     if (!first) {
         // The audit has one diagram: choosing another finding changes which finding the verdict
         // is read for, never what the reviewer drew (nor the undo history).
@@ -386,7 +396,7 @@ void MainWindow::build_menus() {
                 go_to(Diagram);
                 diagram_->open_dialog();
             });
-    connect(add(diagram, make_action("action_save_diagram", tr("&Save diagram as…"), QKeySequence(tr("Ctrl+Alt+S")),
+    connect(add(diagram, make_action("action_save_diagram", tr("&Save diagram as…"), QKeySequence(tr("Ctrl+Shift+D")),
                                      tr("Write the diagram as NAME.diagram.json"))),
             &QAction::triggered, diagram_, &DiagramPage::save_dialog);
     connect(add(diagram, make_action("action_export_dot", tr("Export as &DOT…"), QKeySequence(tr("Ctrl+Alt+D")),
@@ -456,9 +466,16 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     // The audit as it would be saved, so the memo carries the same title, analyst, decisions,
     // notes, memo choices and diagram as `foldline memo` on the saved file.
     auto project = current_project();
+    // A diagram whose arrows nobody has drawn or confirmed claims nothing: the memo gives no
+    // verdict from it.
+    const bool diagram_claims = seeded_row_ >= 0 && diagram_->doc()->confirmed();
+    if (project && !diagram_claims && seeded_row_ >= 0) {
+        project->diagrams.clear();
+        project->active_diagram.clear();
+    }
     if (project) r.project = &*project;
     r.reviewed = model_->findings();
-    if (seeded_row_ >= 0) r.diagram = &diagram_->doc()->diagram();
+    if (diagram_claims) r.diagram = &diagram_->doc()->diagram();
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
     r.data_change = data_change_;
     if ((r.database = source_->database_record()))
@@ -538,7 +555,9 @@ Result<project::Project> MainWindow::current_project() const {
     p.data.type_overrides = o.type_overrides;
     const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
     static_cast<project::AuditSpec&>(p) = audit_spec(q, p);
-    if (seeded_row_ >= 0) {
+    // The diagram is the audit's once the reviewer confirmed it or changed anything in it (an
+    // untouched starting diagram is not saved: it holds nothing the reviewer drew).
+    if (seeded_row_ >= 0 && (diagram_->doc()->confirmed() || diagram_->undo_stack()->count() > 0)) {
         const std::string name = !p.active_diagram.empty() ? p.active_diagram
                                  : p.diagrams.empty()      ? std::string("as drawn")
                                                            : p.diagrams.front().name;

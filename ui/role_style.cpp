@@ -11,7 +11,7 @@ namespace {
 
 using causal::Role;
 
-// Okabe–Ito indices: 0 orange, 1 sky blue, 2 bluish green, 4 blue, 5 vermillion,
+// Okabe–Ito indices: 0 orange, 1 sky blue, 2 bluish green, 3 yellow, 5 vermillion,
 // 6 reddish purple, 7 grey.
 RoleStyle make(int okabe_ito, RoleShape shape, const char* words) {
     return RoleStyle{colors::okabe_ito(okabe_ito), shape, words};
@@ -30,8 +30,9 @@ const std::vector<causal::Role>& all_roles() {
 
 const RoleStyle& role_style(std::optional<causal::Role> role) {
     static const RoleStyle none = make(7, RoleShape::Box, "");
-    static const RoleStyle exposure = make(5, RoleShape::Rounded, QT_TRANSLATE_NOOP("RoleStyle", "exposure"));
-    static const RoleStyle outcome = make(4, RoleShape::Rounded, QT_TRANSLATE_NOOP("RoleStyle", "outcome"));
+    // Exposure and outcome: two outlines (a framed box; an octagon), vermillion and yellow.
+    static const RoleStyle exposure = make(5, RoleShape::Framed, QT_TRANSLATE_NOOP("RoleStyle", "exposure"));
+    static const RoleStyle outcome = make(3, RoleShape::Octagon, QT_TRANSLATE_NOOP("RoleStyle", "outcome"));
     static const RoleStyle confounder = make(0, RoleShape::Hexagon, QT_TRANSLATE_NOOP("RoleStyle", "confounder"));
     static const RoleStyle mediator = make(2, RoleShape::Capsule, QT_TRANSLATE_NOOP("RoleStyle", "mediator"));
     static const RoleStyle after_mediator =
@@ -102,7 +103,20 @@ QPainterPath role_path(RoleShape shape, const QRectF& r) {
             p.lineTo(r.bottomLeft());
             p.closeSubpath();
             break;
-        case RoleShape::Rounded: p.addRoundedRect(r, 4, 4); break;
+        case RoleShape::Framed: p.addRect(r); break;
+        case RoleShape::Octagon: {
+            const double k = std::min(r.height(), r.width()) * 0.22;
+            p.moveTo(r.left() + k, r.top());
+            p.lineTo(r.right() - k, r.top());
+            p.lineTo(r.right(), r.top() + k);
+            p.lineTo(r.right(), r.bottom() - k);
+            p.lineTo(r.right() - k, r.bottom());
+            p.lineTo(r.left() + k, r.bottom());
+            p.lineTo(r.left(), r.bottom() - k);
+            p.lineTo(r.left(), r.top() + k);
+            p.closeSubpath();
+            break;
+        }
         case RoleShape::Notched:
             p.moveTo(r.topLeft());
             p.lineTo(r.topRight());
@@ -114,6 +128,11 @@ QPainterPath role_path(RoleShape shape, const QRectF& r) {
         case RoleShape::Box: p.addRect(r); break;
     }
     return p;
+}
+
+double inner_frame(RoleShape shape, const QRectF& r) {
+    if (shape != RoleShape::Framed && shape != RoleShape::Octagon) return 0;
+    return std::clamp(std::min(r.width(), r.height()) * 0.1, 2.0, 4.0);
 }
 
 }  // namespace foldline::ui

@@ -17,7 +17,8 @@ namespace foldline::ui {
 /// Outline drawn for a role on the canvas and in its legend.
 enum class RoleShape {
     Box,       ///< plain rectangle (no role yet, and roles with no shape of their own)
-    Rounded,   ///< slightly rounded rectangle: exposure and outcome (with a heavy bar)
+    Framed,    ///< exposure: a box with a second frame inside it
+    Octagon,   ///< outcome: a box with its corners cut, framed twice
     Hexagon,   ///< confounder: a common cause reaching both sides
     Capsule,   ///< mediator: something passed along
     Funnel,    ///< collider: arrows collide into it
@@ -42,5 +43,8 @@ QString role_words(std::optional<causal::Role> role);
 int fill_alpha(bool dark);
 /// The outline of `shape` inside `r`.
 QPainterPath role_path(RoleShape shape, const QRectF& r);
+/// The exposure's and the outcome's shapes carry a second outline, this far inside the first
+/// (canvas, legend and memo draw it); 0 for every other shape.
+double inner_frame(RoleShape shape, const QRectF& r);
 
 }  // namespace foldline::ui

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 
+#include "core/causal/missing_columns.h"
 #include "core/causal/verdict.h"
 
 namespace foldline::audit {
@@ -17,6 +18,17 @@ std::optional<AdjustedEstimate::View> view_of(const causal::Verdict& v, const st
     std::sort(a.begin(), a.end());
     std::sort(b.begin(), b.end());
     return a == b ? AdjustedEstimate::View::Stratified : AdjustedEstimate::View::Standardised;
+}
+
+/// Error "the diagram lacks the finding's columns ..." when `d` lacks any of the finding's
+/// columns (exposure, outcome, stratifiers); Ok otherwise.
+Status all_columns_in(const causal::Diagram& d, const std::string& exposure, const std::string& outcome,
+                      const std::vector<std::string>& strata) {
+    std::vector<std::string> columns = {exposure, outcome};
+    columns.insert(columns.end(), strata.begin(), strata.end());
+    const auto missing = causal::missing_columns(d, columns);
+    if (missing.empty()) return Ok{};
+    return make_error(causal::missing_columns_sentence(missing));
 }
 
 std::optional<AdjustedEstimate> estimate(AdjustedEstimate::View view, std::vector<std::string> over,
@@ -102,6 +114,7 @@ Result<FindingVerdict> judge(const causal::Diagram& diagram, const std::string& 
                              const EstimateSettings& settings) {
     auto graph = causal::CausalGraph::build(diagram);
     if (!graph) return graph.error();
+    if (auto st = all_columns_in(diagram, exposure, outcome, strata); !st) return st.error();
     if (result) {
         if (result->question.exposure == exposure && result->question.outcome == outcome)
             for (const auto& f : result->rate_findings)
@@ -141,8 +154,17 @@ std::string attach_verdicts(ScanResult& result, const Table* table, const causal
             if (problem.empty()) problem = v.error().message;
         }
     };
-    for (auto& f : result.rate_findings) keep(f, rate_verdict(*graph, result, f, table, settings));
-    for (auto& f : result.slope_findings) keep(f, slope_verdict(*graph, result, f, table, settings));
+    // A finding whose columns the diagram lacks says which ones (core/causal/missing_columns).
+    for (auto& f : result.rate_findings) {
+        if (auto st = all_columns_in(diagram, result.question.exposure, result.question.outcome, f.strata); !st)
+            keep(f, st.error());
+        else
+            keep(f, rate_verdict(*graph, result, f, table, settings));
+    }
+    for (auto& f : result.slope_findings) {
+        if (auto st = all_columns_in(diagram, f.x, f.y, f.strata); !st) keep(f, st.error());
+        else keep(f, slope_verdict(*graph, result, f, table, settings));
+    }
     return problem;
 }
 

@@ -27,6 +27,8 @@ struct EstimateSettings {
 /// verdict pointing to another set, the difference standardised over that set computed on
 /// `table` (null table: no estimate, estimate_problem says the rows are needed). Errors: the
 /// diagram cannot judge the finding (a stratifier, the exposure or the outcome not in it).
+/// A diagram lacking any of the finding's columns is an Error in core/causal/missing_columns's
+/// words (judge and attach_verdicts), naming every missing column.
 Result<FindingVerdict> rate_verdict(const causal::CausalGraph& graph, const ScanResult& result,
                                     const RateFinding& finding, const Table* table, const EstimateSettings& settings);
 

@@ -436,6 +436,10 @@ MemoContent build_memo(const MemoInput& in) {
             if (p && !p->active_diagram.empty()) diag_name = &p->active_diagram;
             s += " Under the causal diagram" + (diag_name && !diag_name->empty() ? " \"" + *diag_name + "\"" : "") +
                  ", the view that answers the question is " + answer_words(top.verdict->verdict, top) + ".";
+        } else if (const causal::Diagram* d = p ? p->diagram() : nullptr; d && !d->nodes.empty()) {
+            // The verdict code's own sentence (core/causal/missing_columns for absent columns).
+            s += " The causal diagram cannot judge the strongest finding: " +
+                 (top.verdict_problem.empty() ? std::string("no verdict was computed") : top.verdict_problem) + ".";
         } else {
             s += " No causal diagram was given, so the memo does not say which view answers the question.";
         }
@@ -550,8 +554,7 @@ MemoContent build_memo(const MemoInput& in) {
                 sec.verdict += estimate_sentence(*f.verdict, "difference standardised", points, r.alpha);
         } else if (diagram) {
             const std::string why = f.verdict_problem.empty() ? "no verdict was computed" : f.verdict_problem;
-            sec.verdict = "The diagram cannot judge this finding: " + why +
-                          ". Add the column to the diagram to learn which view answers the question.";
+            sec.verdict = "The diagram cannot judge this finding: " + why + ".";
         } else {
             sec.verdict = "No causal diagram was given: whether the pooled or the stratified view answers the "
                           "question depends on how the columns cause each other, which the data alone cannot say.";

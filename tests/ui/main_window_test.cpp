@@ -59,6 +59,91 @@ private slots:
         }
     }
 
+    // Every key reaches one action: no two actions of the window (menus, and the canvas's own
+    // keys) share a shortcut.
+    void no_two_actions_share_a_key() {
+        MainWindow w;
+        QHash<QString, QString> owner;
+        int keys = 0;
+        for (QAction* a : w.findChildren<QAction*>()) {
+            for (const QKeySequence& k : a->shortcuts()) {
+                if (k.isEmpty()) continue;
+                const QString key = k.toString(QKeySequence::PortableText);
+                const QString name = a->objectName().isEmpty() ? a->text() : a->objectName();
+                QVERIFY2(!owner.contains(key), qPrintable(QStringLiteral("%1 is both %2 and %3").arg(key, owner.value(key), name)));
+                owner.insert(key, name);
+                ++keys;
+            }
+        }
+        QVERIFY(keys > 20);
+        QVERIFY(owner.contains(QStringLiteral("N")) && owner.contains(QStringLiteral("Shift+F10")));  // the canvas's keys
+    }
+
+    // A fresh audit claims no causes: the Diagram step starts from exposure, outcome and the
+    // finding's columns with the one arrow exposure → outcome, gives no verdict, names the
+    // finding, and the audit saves no diagram the reviewer never touched.
+    void fresh_diagram_claims_nothing_and_names_the_finding() {
+        if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
+        const QString csv = find_sample("lender_approvals.csv");
+        if (csv.isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
+        MainWindow w;
+        w.source_page()->open_path(csv);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading(), 60000);
+        QVERIFY(w.source_page()->table());
+        QuestionSpec q = w.question_page()->spec();
+        q.outcome = QStringLiteral("approved");
+        q.positive = QStringLiteral("1");
+        q.exposure = QStringLiteral("applicant_group");
+        q.focal = QStringLiteral("B");
+        q.reference = QStringLiteral("A");
+        w.question_page()->set_spec(q);
+        QVERIFY(w.start_scan());
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QTRY_VERIFY_WITH_TIMEOUT(w.findings_model()->size() > 0, 10000);
+        w.go_to(MainWindow::Findings);
+        const int top = w.findings_page()->select_top();
+        QVERIFY(top >= 0);
+        const FindingView* f = w.findings_model()->at(top);
+        w.go_to(MainWindow::Diagram);
+        DiagramPage* d = w.diagram_page();
+        QCOMPARE(int(d->doc()->edges().size()), 1);
+        QVERIFY(d->doc()->has_edge("applicant_group", "approved"));
+        for (const QString& s : f->strata) QVERIFY(d->doc()->node(s));
+        QCOMPARE(int(d->doc()->nodes().size()), 2 + int(f->strata.size()));
+        QVERIFY(!d->verdict().computed);
+        QVERIFY(!d->verdict_text().contains("Quote"));
+        QVERIFY(!d->banner().isEmpty());
+        // The step names the finding its verdict is read for, and follows the selection.
+        QVERIFY2(d->finding().contains(f->strata.join(QStringLiteral(" × "))) && d->finding().contains("B vs A"),
+                 qPrintable(d->finding()));
+        auto p = w.current_project();
+        QVERIFY(p.ok());
+        QVERIFY(p->diagrams.empty());
+        int other = -1;
+        for (int i = 0; i < w.findings_model()->size() && other < 0; ++i)
+            if (w.findings_model()->at(i)->strata != f->strata) other = i;
+        QVERIFY(other >= 0);
+        const QStringList other_strata = w.findings_model()->at(other)->strata;
+        w.go_to(MainWindow::Findings);
+        QVERIFY(w.findings_page()->select(other));
+        w.go_to(MainWindow::Diagram);
+        QVERIFY2(d->finding().contains(other_strata.join(QStringLiteral(" × "))), qPrintable(d->finding()));
+        // Confirmed as drawn, a column of the other finding that the diagram lacks is named.
+        d->confirm_as_drawn();
+        QStringList absent;
+        for (const QString& s : other_strata)
+            if (!d->doc()->node(s)) absent << s;
+        if (!absent.isEmpty()) {
+            QVERIFY(!d->verdict().computed);
+            QVERIFY2(d->verdict().problem.contains(QStringLiteral("\"%1\"").arg(absent.first())), qPrintable(d->verdict().problem));
+        } else {
+            QVERIFY(d->verdict().computed);
+        }
+        p = w.current_project();
+        QVERIFY(p.ok());
+        QCOMPARE(int(p->diagrams.size()), 1);
+    }
+
     void steps_open_in_order_and_caution_is_shown_with_findings() {
         MainWindow w;
         QCOMPARE(w.step(), int(MainWindow::Source));
@@ -390,6 +475,9 @@ private slots:
         w.go_to(MainWindow::Findings);
         QVERIFY(w.findings_page()->select(other));
         w.go_to(MainWindow::Diagram);
+        // The step names the finding its verdict is now read for.
+        QVERIFY2(d->finding().contains(w.findings_model()->at(other)->strata.join(QStringLiteral(" × "))),
+                 qPrintable(d->finding()));
         QCOMPARE(d->doc()->nodes().size(), nodes);
         QCOMPARE(d->doc()->edges().size(), edges + 1);
         QVERIFY(d->doc()->has_edge(from, to));

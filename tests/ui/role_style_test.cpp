@@ -117,11 +117,11 @@ private slots:
 
     void the_canvas_keeps_its_colours_and_shapes() {
         // Okabe & Ito (2008) hex values, as ui/palette.cpp lists them.
-        const QColor vermillion(0xD5, 0x5E, 0x00), blue(0x00, 0x72, 0xB2), orange(0xE6, 0x9F, 0x00),
+        const QColor vermillion(0xD5, 0x5E, 0x00), yellow(0xF0, 0xE4, 0x42), orange(0xE6, 0x9F, 0x00),
             green(0x00, 0x9E, 0x73), purple(0xCC, 0x79, 0xA7), sky(0x56, 0xB4, 0xE9), grey(0x99, 0x99, 0x99);
         const std::vector<std::tuple<Role, QColor, RoleShape, QString>> expected = {
-            {Role::Exposure, vermillion, RoleShape::Rounded, "exposure"},
-            {Role::Outcome, blue, RoleShape::Rounded, "outcome"},
+            {Role::Exposure, vermillion, RoleShape::Framed, "exposure"},
+            {Role::Outcome, yellow, RoleShape::Octagon, "outcome"},
             {Role::Confounder, orange, RoleShape::Hexagon, "confounder"},
             {Role::Mediator, green, RoleShape::Capsule, "mediator"},
             {Role::MediatorDescendant, green, RoleShape::Capsule, "after a mediator"},

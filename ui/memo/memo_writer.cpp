@@ -18,6 +18,8 @@
 #include <qcustomplot.h>
 
 #include "core/common/atomic_file.h"
+#include "ui/edge_route.h"
+#include "ui/layered_layout.h"
 #include "ui/role_style.h"
 
 namespace foldline::ui {
@@ -538,48 +540,67 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
     const double key_h = pt(26);
     const QRectF canvas = area.adjusted(pt(4), pt(4), -pt(4), -key_h);
     if (d.nodes.empty()) return;
-    double minx = 1e300, maxx = -1e300, miny = 1e300, maxy = -1e300, maxw = 0;
     std::vector<QSizeF> sizes;
+    double maxw = 0;
     for (const auto& n : d.nodes) {
-        minx = std::min(minx, n.x);
-        maxx = std::max(maxx, n.x);
-        miny = std::min(miny, n.y);
-        maxy = std::max(maxy, n.y);
         const QString label = elided(q(n.name), 28);
-        const QSizeF s(fm.horizontalAdvance(label) + pt(10), fm.height() + pt(7));
+        const QSizeF s(fm.horizontalAdvance(label) + pt(16), fm.height() + pt(8));
         sizes.push_back(s);
         maxw = std::max(maxw, s.width());
     }
-    const QRectF inner = canvas.adjusted(maxw / 2, pt(12), -maxw / 2, -pt(12));
-    const double sx = maxx > minx ? inner.width() / (maxx - minx) : 0;
-    const double sy = maxy > miny ? inner.height() / (maxy - miny) : 0;
-    const double s = (sx > 0 && sy > 0) ? std::min(sx, sy) : std::max(sx, sy);
-    const double ox = inner.left() + (inner.width() - (maxx - minx) * s) / 2;
-    const double oy = inner.top() + (inner.height() - (maxy - miny) * s) / 2;
-    std::vector<QRectF> boxes;
+    // The editor's positions scaled into the canvas; when that makes two boxes overlap (positions
+    // saved crowded), the nodes are laid out in layers along the arrows instead (ui/layered_layout).
+    auto place = [&](const std::vector<QPointF>& at) {
+        double minx = 1e300, maxx = -1e300, miny = 1e300, maxy = -1e300;
+        for (const QPointF& c : at) {
+            minx = std::min(minx, c.x());
+            maxx = std::max(maxx, c.x());
+            miny = std::min(miny, c.y());
+            maxy = std::max(maxy, c.y());
+        }
+        const QRectF inner = canvas.adjusted(maxw / 2, pt(12), -maxw / 2, -pt(12));
+        const double sx = maxx > minx ? inner.width() / (maxx - minx) : 0;
+        const double sy = maxy > miny ? inner.height() / (maxy - miny) : 0;
+        const double s = (sx > 0 && sy > 0) ? std::min(sx, sy) : std::max(sx, sy);
+        const double ox = inner.left() + (inner.width() - (maxx - minx) * s) / 2;
+        const double oy = inner.top() + (inner.height() - (maxy - miny) * s) / 2;
+        std::vector<QRectF> out;
+        for (std::size_t i = 0; i < at.size(); ++i) {
+            const QPointF c(ox + (at[i].x() - minx) * s, oy + (at[i].y() - miny) * s);
+            out.emplace_back(c.x() - sizes[i].width() / 2, c.y() - sizes[i].height() / 2, sizes[i].width(),
+                             sizes[i].height());
+        }
+        return out;
+    };
+    auto overlap = [&](const std::vector<QRectF>& bs) {
+        for (std::size_t i = 0; i < bs.size(); ++i)
+            for (std::size_t j = i + 1; j < bs.size(); ++j)
+                if (bs[i].adjusted(-pt(3), -pt(3), pt(3), pt(3)).intersects(bs[j])) return true;
+        return false;
+    };
+    std::vector<QPointF> saved;
+    std::vector<QString> names;
+    int exposure = -1, outcome = -1;
     for (std::size_t i = 0; i < d.nodes.size(); ++i) {
-        const QPointF c(ox + (d.nodes[i].x - minx) * s, oy + (d.nodes[i].y - miny) * s);
-        boxes.emplace_back(c.x() - sizes[i].width() / 2, c.y() - sizes[i].height() / 2, sizes[i].width(),
-                           sizes[i].height());
+        saved.emplace_back(d.nodes[i].x, d.nodes[i].y);
+        names.push_back(q(d.nodes[i].name));
+        if (d.nodes[i].role == causal::Role::Exposure) exposure = int(i);
+        if (d.nodes[i].role == causal::Role::Outcome) outcome = int(i);
+    }
+    std::vector<QRectF> boxes = place(saved);
+    if (overlap(boxes)) {
+        std::vector<QRectF> layered = place(layered_layout(names, d.edges, exposure, outcome));
+        if (!overlap(layered)) boxes = std::move(layered);
     }
     p.setRenderHint(QPainter::Antialiasing, true);
-    // Where the segment from the centre of `b` towards `towards` leaves the box.
-    auto exit_point = [](const QRectF& b, const QPointF& towards) {
-        const QPointF c = b.center();
-        const double dx = towards.x() - c.x(), dy = towards.y() - c.y();
-        if (std::abs(dx) < 1e-9 && std::abs(dy) < 1e-9) return c;
-        const double tx = std::abs(dx) > 1e-9 ? (b.width() / 2) / std::abs(dx) : 1e300;
-        const double ty = std::abs(dy) > 1e-9 ? (b.height() / 2) / std::abs(dy) : 1e300;
-        const double t = std::min(tx, ty);
-        return QPointF(c.x() + dx * t, c.y() + dy * t);
-    };
+    // Arrows go around the boxes (ui/edge_route, as on the canvas), never through one.
     for (const auto& [a, b] : d.edges) {
-        const QRectF& ba = boxes[static_cast<std::size_t>(a)];
-        const QRectF& bb = boxes[static_cast<std::size_t>(b)];
-        const QPointF from = exit_point(ba, bb.center());
-        const QPointF to = exit_point(bb, ba.center());
+        const QPolygonF route = route_edge(boxes, a, b, pt(4));
+        if (route.size() < 2) continue;
         p.setPen(QPen(kMuted, pt(0.8)));
-        p.drawLine(from, to);
+        p.setBrush(Qt::NoBrush);
+        p.drawPath(route_path(route, pt(2)));
+        const QPointF to = route.back(), from = route[route.size() - 2];
         const double ang = std::atan2(to.y() - from.y(), to.x() - from.x());
         const double len = pt(5), wid = pt(2.4);
         QPolygonF head;
@@ -596,7 +617,17 @@ void draw_diagram(QPainter& p, const QRectF& area, const MemoDiagram& d, const F
         if (!n.observed) pen.setStyle(Qt::DashLine);
         p.setPen(pen);
         p.setBrush(memo_role_fill(n.role));
-        p.drawRoundedRect(boxes[i], pt(4), pt(4));
+        // The canvas's shape for the role (ui/role_style), with the exposure's and the
+        // outcome's second outline.
+        const RoleShape shape = role_style(n.role).shape;
+        p.drawPath(role_path(shape, boxes[i]));
+        if (const double inset = inner_frame(shape, boxes[i]) * 0.5; inset > 0) {
+            QPen inner = pen;
+            inner.setWidthF(pt(0.6));
+            p.setPen(inner);
+            p.setBrush(Qt::NoBrush);
+            p.drawPath(role_path(shape, boxes[i].adjusted(inset, inset, -inset, -inset)));
+        }
         p.setPen(kInk);
         p.setFont(n.in_stratifier || n.role == causal::Role::Exposure || n.role == causal::Role::Outcome ? fb : f);
         p.drawText(boxes[i], Qt::AlignCenter, elided(q(n.name), 28));

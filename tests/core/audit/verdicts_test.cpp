@@ -113,3 +113,28 @@ TEST(Judge, DiagramAloneGivesAVerdictWithoutEstimate) {
     ASSERT_FALSE(bad.ok());
     EXPECT_NE(bad.error().message.find("cycle"), std::string::npos) << bad.error().message;
 }
+
+// A diagram that lacks a finding's columns names them (core/causal/missing_columns), in judge and
+// in every finding's verdict problem, instead of reading a verdict off a partial diagram.
+TEST(Judge, MissingColumnsAreNamed) {
+    causal::Diagram d;
+    d.nodes = {{"x", true, {}, {}}, {"y", true, {}, {}}};
+    d.edges = {{"x", "y"}};
+    auto v = audit::judge(d, "x", "y", {"z", "w"}, nullptr, nullptr, audit::EstimateSettings{});
+    ASSERT_FALSE(v.ok());
+    EXPECT_EQ(v.error().message, "the diagram lacks the finding's columns \"z\" and \"w\"; add them to the "
+                                 "diagram to learn which view answers the question");
+    ScanResult r;
+    r.question.exposure = "x";
+    r.question.outcome = "y";
+    RateFinding f;
+    f.strata = {"z"};
+    r.rate_findings = {f};
+    f.strata = {};
+    r.rate_findings.push_back(f);
+    const std::string problem = audit::attach_verdicts(r, nullptr, d, audit::EstimateSettings{});
+    EXPECT_NE(problem.find("lacks the finding's column \"z\""), std::string::npos) << problem;
+    EXPECT_EQ(r.rate_findings[0].verdict_problem, problem);
+    EXPECT_FALSE(r.rate_findings[0].verdict.has_value());
+    EXPECT_TRUE(r.rate_findings[1].verdict_problem.empty());  // no stratifier: the diagram holds x and y
+}

@@ -193,6 +193,12 @@ TEST(MemoContent, DiagramGivesVerdictAndRoles) {
     EXPECT_NE(m2.sections[0].verdict.find("cannot judge"), std::string::npos) << m2.sections[0].verdict;
     EXPECT_NE(m2.sections[0].verdict.find("cage"), std::string::npos) << m2.sections[0].verdict;
     EXPECT_EQ(m2.sections[0].diagram->nodes[0].role, causal::Role::Confounder);
+    // The same sentence in the section and on page 1, never "No causal diagram was given" while
+    // the audit has one (core/causal/missing_columns words it).
+    const std::string lacks = "the diagram lacks the finding's column \"cage\"";
+    EXPECT_NE(m2.sections[0].verdict.find(lacks), std::string::npos) << m2.sections[0].verdict;
+    EXPECT_NE(m2.summary.find(lacks), std::string::npos) << m2.summary;
+    EXPECT_EQ(m2.summary.find("No causal diagram"), std::string::npos) << m2.summary;
 }
 
 TEST(MemoContent, EmptyScanAndNumberFormats) {
