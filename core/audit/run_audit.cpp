@@ -104,6 +104,12 @@ Status check_spec(const AuditSpec& spec) {
     return Ok{};
 }
 
+/// The result's record of the filter its rows passed.
+void note_filter(ScanResult& r, const Table& scanned) {
+    r.rows_filter = scanned.filter;
+    if (!scanned.filter.empty()) r.rows_kept = static_cast<double>(scanned.rows);
+}
+
 void fill_candidates(ScanResult& r, const CandidateSet& cands) {
     r.excluded = cands.excluded;
     r.candidates.clear();
@@ -203,12 +209,40 @@ EstimateSettings estimate_settings(const AuditSpec& spec) {
     return {spec.scan.bins, static_cast<std::size_t>(spec.scan.max_levels), spec.scan.alpha};
 }
 
+Result<filter::RowFilter> rows_filter(const AuditSpec& spec) { return filter::parse(spec.question.rows); }
+
+Result<Table> filter_rows(const Table& table, const AuditSpec& spec) {
+    auto f = rows_filter(spec);
+    if (!f) return f.error();
+    auto kept = filter::apply(*f, table);
+    if (!kept) return kept.error();
+    if (!f->empty() && kept->rows == 0)
+        return make_error("the rows filter " + filter::canonical_text(*f) + " keeps none of the " +
+                              std::to_string(table.rows) + " rows",
+                          table.source);
+    return kept;
+}
+
 Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const RunOptions& options) {
     if (auto st = check_spec(spec); !st) return st.error();
-    auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(table, spec, options)
-                                                                : scan_rates(table, spec, options);
+    auto f = rows_filter(spec);
+    if (!f) return f.error();
+    const std::string wanted = filter::canonical_text(*f);
+    std::optional<Table> kept;
+    if (table.filter != wanted) {
+        if (!table.filter.empty())
+            return internal_error(make_error("rows filtered by '" + table.filter + "' cannot be scanned with the filter '" +
+                                             wanted + "'"));
+        auto k = filter_rows(table, spec);
+        if (!k) return k.error();
+        kept = std::move(*k);
+    }
+    const Table& rows = kept ? *kept : table;
+    auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(rows, spec, options)
+                                                                : scan_rates(rows, spec, options);
     if (!r) return r;
-    if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &table, *d, estimate_settings(spec));
+    note_filter(*r, rows);
+    if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &rows, *d, estimate_settings(spec));
     return r;
 }
 
@@ -217,6 +251,10 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
     if (auto st = check_spec(spec); !st) return st.error();
     if (spec.question.kind == project::QuestionKind::Slope)
         return usage_error(make_error("a trend question needs the rows, not counts"));
+    // The counts come from an engine that applied the filter as a WHERE condition
+    // (core/audit/database_source.h); only its text is recorded here.
+    auto f = rows_filter(spec);
+    if (!f) return f.error();
     auto in = cubes_from_groups(counts, question_spec(spec), candidate_options(spec, options.threads), spec.scan.pairs);
     if (!in) return usage_error(in.error());
     if (in->cubes.stratifiers.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)");
@@ -230,6 +268,7 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
     auto r = rate_scan(in->cubes, in->question, rate_options(spec, options.threads), options.work, options.on_rate_finding, std::move(slopes));
     if (!r) return internal_error(r.error());
     if (!sq.x.empty()) r->slope_question = sq;
+    r->rows_filter = filter::canonical_text(*f);
     return r;
 }
 
@@ -250,11 +289,18 @@ Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_overri
     hasher.join();
     if (!table) return table.error();
     if (!digest) return digest.error();
-    run.table = std::move(*table);
+    const double rows_read = static_cast<double>(table->rows);
+    if (spec.question.rows.empty()) {
+        run.table = std::move(*table);
+    } else {
+        auto kept = filter_rows(*table, spec);
+        if (!kept) return kept.error();
+        run.table = std::move(*kept);
+    }
     auto result = scan_table(run.table, spec, options);
     if (!result) return result.error();
     run.result = std::move(*result);
-    run.info = DataInfo{path, *digest, static_cast<double>(run.table.rows)};
+    run.info = DataInfo{path, *digest, rows_read};
     for (const auto& f : run.result.rate_findings)
         if (run.diagram_problem.empty()) run.diagram_problem = f.verdict_problem;
     for (const auto& f : run.result.slope_findings)
