@@ -16,10 +16,12 @@ say() { printf '\033[1mfoldline.sh:\033[0m %s\n' "$*"; }
 # Packages to build and run; test-only packages are added for `test`.
 PKGS=(cmake g++ ninja-build pkg-config
       qt6-base-dev qt6-svg-dev libqcustomplot-dev libgl-dev
-      libeigen3-dev nlohmann-json3-dev libboost-math-dev libgtest-dev libssl-dev)
+      libeigen3-dev nlohmann-json3-dev libboost-math-dev libgtest-dev libssl-dev
+      libreadstat-dev libzip-dev libexpat1-dev libfreexl-dev)
 TEST_PKGS=(python3 python3-pandas python3-statsmodels python3-scipy python3-networkx
            r-cran-palmerpenguins python3-sklearn poppler-utils graphviz xvfb xauth
-           unixodbc-dev odbc-postgresql postgresql)
+           unixodbc-dev odbc-postgresql postgresql
+           r-cran-haven python3-openpyxl python3-xlwt)
 # The fuzz smoke of `test` (bench/fuzz.sh --smoke) needs clang with libFuzzer.
 TEST_PKGS+=(clang-14 libclang-rt-14-dev libfuzzer-14-dev)
 

@@ -43,6 +43,8 @@ void ColumnModel::set_table(std::shared_ptr<const Table> table) {
         for (const Column& c : table->columns) {
             Summary s;
             s.name = QString::fromStdString(c.name);
+            s.label = QString::fromStdString(c.label);
+            s.description = QString::fromStdString(c.description);
             s.type = c.is_categorical() ? tr("categorical") : tr("numeric");
             s.missing = c.missing_count;
             s.missing_share = table->rows ? double(c.missing_count) / double(table->rows) : 0.0;
@@ -79,7 +81,8 @@ QVariant ColumnModel::data(const QModelIndex& index, int role) const {
     const Summary& s = rows_[std::size_t(index.row())];
     if (role == Qt::DisplayRole) {
         switch (index.column()) {
-            case Name: return s.name;
+            // A variable label is shown beside the name (statistical files carry one).
+            case Name: return s.label.isEmpty() ? s.name : s.name + QStringLiteral("  \u2014 ") + s.label;
             case Type: return s.type;
             case Missing:
                 return s.missing ? QStringLiteral("%1 (%2%)").arg(s.missing).arg(100 * s.missing_share, 0, 'f', 1)
@@ -90,7 +93,9 @@ QVariant ColumnModel::data(const QModelIndex& index, int role) const {
     }
     if (role == Qt::TextAlignmentRole && (index.column() == Missing || index.column() == Distinct))
         return int(Qt::AlignRight | Qt::AlignVCenter);
-    if (role == Qt::ToolTipRole && index.column() == Levels) return s.levels;
+    if (role == Qt::ToolTipRole && index.column() == Levels)
+        return s.description.isEmpty() ? s.levels : s.levels + QLatin1Char('\n') + s.description;
+    if (role == Qt::ToolTipRole && index.column() == Name && !s.label.isEmpty()) return s.label;
     return {};
 }
 

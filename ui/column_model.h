@@ -23,6 +23,7 @@ public:
 private:
     struct Summary {
         QString name, type, levels;
+        QString label, description;  ///< a statistical file's variable label and value-label codes
         qulonglong missing = 0, distinct = 0;
         double missing_share = 0;
     };

@@ -1,5 +1,6 @@
 // Core headers first: they use `slots` as a name, which Qt defines as a keyword macro.
 #include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 #include "core/io/odbc_connection.h"
 #include "core/io/sql_pushdown.h"
 #ifdef FOLDLINE_HAS_ODBC
@@ -182,15 +183,25 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, int bins, std::size_
 
 bool reader_available() { return true; }
 
-Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work) {
-    CsvOptions o;
+Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work, QStringList* notices) {
+    ReadOptions o;
+    o.sheet = opts.sheet.toStdString();
+    o.decimal = opts.decimal;
     o.count_column = opts.count_column.toStdString();
     if (!opts.missing_markers.isEmpty()) {
         o.missing_markers.clear();
         for (const QString& m : opts.missing_markers) o.missing_markers.push_back(m.toStdString());
     }
     for (const auto& [name, type] : opts.type_overrides) o.type_overrides[name] = type;
-    return read_csv(path.toStdString(), o, nullptr, work);
+    ReadReport report;
+    auto table = read_table(path.toStdString(), o, &report, work);
+    if (table && notices) {
+        for (const auto& w : report.warnings) *notices << QString::fromStdString(w);
+        for (const auto& n : report.numbers)
+            *notices << QStringLiteral("Column \u201C%1\u201D %2")
+                            .arg(QString::fromStdString(n.column), QString::fromStdString(n.describe()));
+    }
+    return table;
 }
 
 std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q) {

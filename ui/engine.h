@@ -13,6 +13,7 @@
 
 #include "core/common/error.h"
 #include "core/common/progress.h"
+#include "core/io/decimal_mark.h"
 #include "core/io/source_record.h"
 #include "core/table/table.h"
 #include "core/audit/audit_spec.h"
@@ -37,12 +38,17 @@ struct LoadOptions {
     QString count_column;              ///< empty: row-level data
     QStringList missing_markers;       ///< empty: the reader's defaults
     std::map<std::string, ColumnType> type_overrides;
+    QString sheet;                     ///< workbooks: the sheet to read; empty = the first
+    DecimalMark decimal = DecimalMark::Auto;  ///< decimal mark of numbers written as text
 };
 
 /// True when this build has the CSV reader.
 bool reader_available();
-/// Reads a CSV/TSV file; an Error names file, line and column. Honours work.stop.
-Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work);
+/// Reads a data file of any format core/io/table_reader.h knows; an Error names file, line and
+/// column. Honours work.stop. `notices` (when given) receives the reader's warnings and how
+/// each column's numbers were read (decimal commas, ambiguous columns).
+Result<Table> load_table(const QString& path, const LoadOptions& opts, const Work& work,
+                         QStringList* notices = nullptr);
 
 /// A database table or query as the workbench asks for it. The password lives here only for
 /// the call: it is never saved, shown or written into a report.

@@ -553,6 +553,8 @@ Result<project::Project> MainWindow::current_project() const {
         for (const QString& m : o.missing_markers) p.data.missing_markers.push_back(m.toStdString());
     }
     p.data.type_overrides = o.type_overrides;
+    p.data.sheet = o.sheet.toStdString();
+    p.data.decimal = o.decimal;
     const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
     static_cast<project::AuditSpec&>(p) = audit_spec(q, p);
     // The diagram is the audit's once the reviewer confirmed it or changed anything in it (an
@@ -710,6 +712,8 @@ void MainWindow::open_project_document(const project::Project& project, const QS
     o.count_column = QString::fromStdString(d.count_column);
     for (const auto& m : d.missing_markers) o.missing_markers << QString::fromStdString(m);
     o.type_overrides = d.type_overrides;
+    o.sheet = QString::fromStdString(d.sheet);
+    o.decimal = d.decimal;
     go_to(Source);
     source_->open_path(QString::fromStdString(d.path), o);
 }

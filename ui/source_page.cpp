@@ -1,6 +1,8 @@
 #include "core/table/count_column_guess.h"
 #include "ui/source_page.h"
 
+#include <algorithm>
+
 #include <QComboBox>
 #include <QDragEnterEvent>
 #include <QDropEvent>
@@ -40,7 +42,8 @@ SourcePage::SourcePage(QWidget* parent)
 
     auto* open = new QPushButton(tr("Open data file…"));
     open->setObjectName(QStringLiteral("open_file"));
-    open->setToolTip(tr("Open a CSV or TSV file (Ctrl+O); you can also drop a file on this window"));
+    open->setToolTip(tr("Open a data file: CSV/TSV, SAS (.xpt, .sas7bdat), SPSS (.sav, .zsav), Stata (.dta) "
+                        "or a workbook (.xlsx, .xls) (Ctrl+O); you can also drop a file on this window"));
     connect(open, &QPushButton::clicked, this, &SourcePage::open_dialog);
     recent_ = new QComboBox;
     recent_->setMinimumContentsLength(30);
@@ -61,6 +64,25 @@ SourcePage::SourcePage(QWidget* parent)
     missing_->setObjectName(QStringLiteral("missing_markers"));
     missing_->setPlaceholderText(tr("reader defaults"));
     missing_->setToolTip(tr("Cell texts that mean \"missing\", separated by commas (e.g. NA, n/a, -); an empty cell is always missing"));
+    sheet_ = new QLineEdit;
+    sheet_->setObjectName(QStringLiteral("sheet"));
+    sheet_->setPlaceholderText(tr("first sheet"));
+    sheet_->setToolTip(tr("Workbooks (.xlsx, .xls): the name of the sheet to read; empty reads the first sheet"));
+    connect(sheet_, &QLineEdit::returnPressed, this, [this] {
+        options_.sheet = sheet_->text().trimmed();
+        reload();
+    });
+    decimal_ = new QComboBox;
+    decimal_->setObjectName(QStringLiteral("decimal_mark"));
+    decimal_->addItem(tr("automatic"), int(DecimalMark::Auto));
+    decimal_->addItem(tr("point (1,234.5)"), int(DecimalMark::Point));
+    decimal_->addItem(tr("comma (1.234,5)"), int(DecimalMark::Comma));
+    decimal_->setToolTip(tr("Decimal mark of numbers written as text. Automatic reads a column written consistently "
+                            "with decimal commas as numbers and lists the columns it could not decide"));
+    connect(decimal_, &QComboBox::activated, this, [this](int) {
+        options_.decimal = static_cast<DecimalMark>(decimal_->currentData().toInt());
+        reload();
+    });
     reload_ = new QPushButton(tr("Reload"));
     reload_->setToolTip(tr("Read the file again with these settings"));
     connect(reload_, &QPushButton::clicked, this, [this] {
@@ -70,6 +92,7 @@ SourcePage::SourcePage(QWidget* parent)
         for (const QString& m : missing_->text().split(QLatin1Char(','), Qt::SkipEmptyParts))
             if (!m.trimmed().isEmpty()) options_.missing_markers << m.trimmed();
         if (!options_.missing_markers.isEmpty() && empty_is_missing_) options_.missing_markers.prepend(QString());
+        options_.sheet = sheet_->text().trimmed();
         reload();
     });
 
@@ -81,6 +104,10 @@ SourcePage::SourcePage(QWidget* parent)
     bar->addWidget(count_column_);
     bar->addWidget(new QLabel(tr("Missing markers")));
     bar->addWidget(missing_);
+    bar->addWidget(new QLabel(tr("Sheet")));
+    bar->addWidget(sheet_);
+    bar->addWidget(new QLabel(tr("Decimal mark")));
+    bar->addWidget(decimal_);
     bar->addWidget(reload_);
 
     progress_ = new QProgressBar;
@@ -188,6 +215,7 @@ SourcePage::SourcePage(QWidget* parent)
         progress_->hide();
         cancel_->hide();
         auto result = std::move(pending_);
+        if (auto notices = std::move(pending_notices_)) notices_ = *notices;
         if (database_job_) {
             database_job_ = false;
             database_->set_busy(false);
@@ -222,6 +250,9 @@ SourcePage::SourcePage(QWidget* parent)
         fallback_.reset();
         add_recent(path_);
         set_table(std::make_shared<const Table>(std::move(*result).value()), SourceKind::File, path_);
+        // Say how the file was read (columns read with a decimal comma, ambiguous columns left as
+        // text, reader warnings), so nothing is guessed silently.
+        if (!notices_.isEmpty()) show_message(notices_.join(QLatin1Char('\n')), false);
     });
 
     QStringList recent = recent_files();
@@ -236,13 +267,18 @@ QString SourcePage::message() const { return message_->text(); }
 void SourcePage::open_dialog() {
     const QString dir = QSettings().value("source/last_dir").toString();
     const QString path = QFileDialog::getOpenFileName(this, tr("Open data file"), dir,
-                                                      tr("Delimited text (*.csv *.tsv *.txt);;All files (*)"));
+                                                      tr("Data files (*.csv *.tsv *.txt *.xpt *.sas7bdat *.sav *.zsav *.dta *.xlsx *.xls);;"
+                                                         "Delimited text (*.csv *.tsv *.txt);;"
+                                                         "SAS, SPSS and Stata files (*.xpt *.sas7bdat *.sav *.zsav *.dta);;"
+                                                         "Workbooks (*.xlsx *.xls);;All files (*)"));
     if (path.isEmpty()) return;
     QSettings().setValue("source/last_dir", QFileInfo(path).absolutePath());
     if (path != path_) {
         options_ = LoadOptions{};
         missing_->clear();
         empty_is_missing_ = true;
+        sheet_->clear();
+        decimal_->setCurrentIndex(0);
     }
     open_path(path);
 }
@@ -270,6 +306,8 @@ void SourcePage::open_path(const QString& path, const LoadOptions& options) {
     path_ = path;
     options_ = options;
     set_missing_field(options.missing_markers);
+    sheet_->setText(options.sheet);
+    decimal_->setCurrentIndex(std::max(0, decimal_->findData(int(options.decimal))));
     reload();
 }
 
@@ -287,7 +325,10 @@ void SourcePage::reload() {
     pending_ = result;
     const QString path = path_;
     const LoadOptions opts = options_;
-    job_->start([result, path, opts](const Work& work) { *result = load_table(path, opts, work); });
+    notices_.clear();
+    auto notices = std::make_shared<QStringList>();
+    pending_notices_ = notices;
+    job_->start([result, notices, path, opts](const Work& work) { *result = load_table(path, opts, work, notices.get()); });
 }
 
 void SourcePage::cancel_load() { job_->cancel(); }

@@ -102,12 +102,14 @@ private:
     SourceKind kind_ = SourceKind::None;
     LoadOptions options_;
     std::shared_ptr<Result<Table>> pending_;
+    std::shared_ptr<QStringList> pending_notices_;
     Job* job_;
     TableModel* model_;
     ColumnModel* column_model_;
     QTableView *preview_, *columns_;
-    QComboBox *recent_, *count_column_;
-    QLineEdit* missing_;
+    QComboBox *recent_, *count_column_, *decimal_;
+    QLineEdit *missing_, *sheet_;
+    QStringList notices_;  ///< what the last load said about the file (warnings, number readings)
     QProgressBar* progress_;
     QPushButton *cancel_, *reload_, *next_ = nullptr;
     QLabel *message_, *summary_;

@@ -1,4 +1,4 @@
-// foldline inspect DATA: reads a CSV/TSV file and describes every column (type, missing cells,
+// foldline inspect DATA: reads a data file (CSV/TSV, SAS, SPSS, Stata, xlsx, xls) and describes every column (type, missing cells,
 // distinct values, first levels), as text or JSON. The first look at a new source.
 #include <algorithm>
 #include <cmath>
@@ -17,7 +17,7 @@
 #include "app/cli/command.h"
 #include "app/cli/count_warning.h"
 #include "core/common/atomic_file.h"
-#include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 
 namespace foldline::cli {
 
@@ -92,24 +92,40 @@ Range numeric_range(const Column& c) {
     return r;
 }
 
-nlohmann::json describe_json(const Table& t, const CsvReport& rep) {
+nlohmann::json describe_json(const Table& t, const ReadReport& read) {
+    const CsvReport& rep = read.csv;
     nlohmann::json j;
     j["source"] = t.source;
+    j["format"] = std::string(format_key(read.format));
+    if (!read.sheet.empty()) j["sheet"] = read.sheet;
     j["rows"] = t.rows;
-    j["delimiter"] = std::string(1, rep.delimiter);
-    j["byte_order_mark"] = rep.had_bom;
-    j["physical_lines"] = rep.physical_lines;
+    if (read.format == FileFormat::Csv) {
+        j["delimiter"] = std::string(1, rep.delimiter);
+        j["byte_order_mark"] = rep.had_bom;
+        j["physical_lines"] = rep.physical_lines;
+    }
     j["weighted"] = t.weighted();
     if (t.weighted()) {
         j["count_column"] = t.weight_column;
         j["total_weight"] = t.total_weight();
     }
     j["skipped_lines"] = rep.skipped_lines;
-    j["warnings"] = rep.warnings;
+    j["warnings"] = read.warnings;
+    auto numbers = nlohmann::json::array();
+    for (const auto& n : read.numbers)
+        numbers.push_back({{"column", n.column},
+                           {"reading", n.kind == NumberReading::DecimalComma     ? "decimal_comma"
+                                       : n.kind == NumberReading::ThousandsComma ? "thousands_comma"
+                                       : n.kind == NumberReading::PointKept      ? "decimal_point_kept"
+                                                                                 : "ambiguous"},
+                           {"example", n.example}});
+    j["number_readings"] = std::move(numbers);
     auto cols = nlohmann::json::array();
     for (const auto& c : t.columns) {
         nlohmann::json jc;
         jc["name"] = c.name;
+        if (!c.label.empty()) jc["label"] = c.label;
+        if (!c.description.empty()) jc["description"] = c.description;
         jc["type"] = c.is_numeric() ? "numeric" : "categorical";
         jc["missing"] = c.missing_count;
         const std::size_t distinct = distinct_values(c);
@@ -128,10 +144,15 @@ nlohmann::json describe_json(const Table& t, const CsvReport& rep) {
     return j;
 }
 
-void describe_text(std::ostream& os, const Table& t, const CsvReport& rep) {
-    os << t.source << ": " << t.rows << " rows, " << t.columns.size() << " columns, "
-       << delimiter_label(rep.delimiter) << "-separated" << (rep.had_bom ? ", UTF-8 with byte-order mark" : "")
-       << "\n";
+void describe_text(std::ostream& os, const Table& t, const ReadReport& read) {
+    const CsvReport& rep = read.csv;
+    os << t.source << ": " << t.rows << " rows, " << t.columns.size() << " columns, ";
+    if (read.format == FileFormat::Csv)
+        os << delimiter_label(rep.delimiter) << "-separated" << (rep.had_bom ? ", UTF-8 with byte-order mark" : "");
+    else
+        os << format_name(read.format) << " file" << (read.sheet.empty() ? "" : ", sheet '" + read.sheet + "'");
+    os << "\n";
+    for (const auto& n : read.numbers) os << "numbers: column '" << n.column << "' " << n.describe() << "\n";
     if (t.weighted())
         os << "pre-counted: each row counts as '" << t.weight_column << "' rows (total " << number_text(t.total_weight())
            << ")\n";
@@ -152,6 +173,7 @@ void describe_text(std::ostream& os, const Table& t, const CsvReport& rep) {
             values = std::isnan(r.lo) ? "(all missing)" : number_text(r.lo) + " to " + number_text(r.hi);
         }
         if (distinct == 2) values += "  [binary]";
+        if (!c.label.empty()) values += "  \u2014 " + c.label;
         os << "  " << std::left << std::setw(static_cast<int>(width)) << c.name << "  " << std::setw(11)
            << (c.is_numeric() ? "numeric" : "categorical") << std::right << std::setw(9) << c.missing_count
            << std::setw(10) << distinct << "  " << values << "\n";
@@ -166,13 +188,21 @@ int run_inspect(int argc, char** argv) {
         {"skip-ragged", false, "skip rows with the wrong number of fields and list their lines"},
         {"missing", true, "comma-separated missing-value markers (default: empty,NA,N/A,NULL,.)"},
         {"threads", true, "parser threads (default: all cores)"},
+        {"sheet", true, "workbooks (.xlsx, .xls): the sheet to read (default: the first)"},
+        {"decimal", true, "decimal mark of text numbers: auto, . or , (default: auto)"},
     };
     Args args;
     if (auto e = Args::parse(argc, argv, 1, specs, args)) return fail(kName, kUsage, *e);
     if (args.positional().size() != 1)
         return fail(kName, kUsage, "expected one DATA file (usage: foldline inspect DATA [--count-column C] "
                                    "[--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST])");
-    CsvOptions opts;
+    ReadOptions opts;
+    opts.sheet = args.get_or("sheet", "");
+    if (auto d = args.get("decimal")) {
+        auto m = parse_decimal_mark(*d);
+        if (!m) return fail(kName, kUsage, "--decimal expects auto, . or , (got '" + *d + "')");
+        opts.decimal = *m;
+    }
     if (auto d = args.get("delimiter")) {
         auto c = parse_delimiter(*d);
         if (!c) return fail(kName, kUsage, "--delimiter expects one character or tab, got '" + *d + "'");
@@ -188,10 +218,11 @@ int run_inspect(int argc, char** argv) {
         opts.threads = static_cast<unsigned>(n);
     }
 
-    CsvReport report;
-    auto table = read_csv(args.positional()[0], opts, &report);
-    if (!table) return fail(kName, kInput, table.error().to_string());
-    for (const auto& w : report.warnings) std::cerr << "foldline inspect: warning: " << w << "\n";
+    ReadReport read;
+    auto table = read_table(args.positional()[0], opts, &read);
+    if (!table) return fail(kName, table.error().kind == ErrorKind::Usage ? kUsage : kInput, table.error().to_string());
+    const CsvReport& report = read.csv;
+    for (const auto& w : read.warnings) std::cerr << "foldline inspect: warning: " << w << "\n";
     warn_if_count_column_forgotten(std::cerr, "inspect", *table, opts.count_column);
     if (!report.skipped_lines.empty()) {
         std::cerr << "foldline inspect: skipped " << report.skipped_lines.size() << " ragged rows at lines";
@@ -202,10 +233,10 @@ int run_inspect(int argc, char** argv) {
 
     const auto json_target = args.get("json");
     if (!json_target) {
-        describe_text(std::cout, *table, report);
+        describe_text(std::cout, *table, read);
         return kOk;
     }
-    const std::string text = describe_json(*table, report).dump(2) + "\n";
+    const std::string text = describe_json(*table, read).dump(2) + "\n";
     if (*json_target == "-") {
         std::cout << text;
         return kOk;
@@ -213,18 +244,24 @@ int run_inspect(int argc, char** argv) {
     // The shared atomic writer (fsync, rename; devices and pipes written in place, never renamed
     // over), so a full disk or a read-only folder leaves the previous file as it was.
     if (auto st = write_file_atomically(*json_target, text); !st) return fail(kName, kInput, st.error().to_string());
-    describe_text(std::cout, *table, report);
+    describe_text(std::cout, *table, read);
     return kOk;
 }
 
 const CommandRegistration registration{Command{
     .name = kName,
-    .synopsis = "inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST]",
-    .summary = "Reads a CSV/TSV file and lists each column's type, missing cells, distinct values and first levels.",
+    .synopsis = "inspect DATA [--count-column C] [--sheet NAME] [--decimal M] [--delimiter D] [--json FILE|-] [--skip-ragged] [--missing LIST]",
+    .summary = "Reads a data file (CSV/TSV, SAS, SPSS, Stata, xlsx, xls) and lists each column's type, missing cells, distinct values and first levels.",
     .help = "Usage: foldline inspect DATA [--count-column C] [--delimiter D] [--json FILE|-] [--skip-ragged]\n"
-            "  [--missing LIST] [--threads N]\n"
-            "Lists each column of a CSV/TSV file: type, missing cells, distinct values and first levels.\n"
+            "  [--missing LIST] [--threads N] [--sheet NAME] [--decimal auto|.|,]\n"
+            "Lists each column of a data file: type, missing cells, distinct values and first levels.\n"
+            "DATA is CSV/TSV text, a SAS (.xpt, .sas7bdat), SPSS (.sav, .zsav) or Stata (.dta) file, or an\n"
+            ".xlsx or .xls workbook; variable labels are shown beside column names.\n"
             "  --count-column C  name of the column holding pre-counted cell sizes\n"
+            "  --sheet NAME      workbooks: the sheet to read (default: the first)\n"
+            "  --decimal M       decimal mark of numbers written as text: auto (a column written\n"
+            "                    consistently with decimal commas is read so; ambiguous columns are\n"
+            "                    listed, not guessed), . or , (default: auto)\n"
             "  --delimiter D     field delimiter: , ; | tab (default: detected)\n"
             "  --json FILE|-     write the description as JSON to FILE, or - for standard output\n"
             "  --skip-ragged     skip rows with the wrong number of fields and list their lines\n"

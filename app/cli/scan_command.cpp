@@ -22,6 +22,7 @@
 #include "core/common/sha256.h"
 #include "core/common/stop_on_signal.h"
 #include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 #include "core/report/scan_json.h"
 #include "core/report/scan_summary.h"
 
@@ -66,14 +67,18 @@ int run(int argc, char** argv) {
         {"query", true, "SQL"},
         {"covariates", true, "C1,C2"},      {"find-groups", false, ""},
         {"where", true, "EXPR"},
+        {"sheet", true, "NAME"},             {"decimal", true, "auto|.|,"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
     const bool from_db = a.has("source");
     if (from_db ? !a.positional().empty() : a.positional().size() != 1)
-        return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both" : "expected one DATA file (CSV or TSV)");
+        return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both"
+                                           : "expected one DATA file (CSV/TSV, SAS, SPSS, Stata, xlsx or xls)");
     std::string path = from_db ? std::string() : a.positional()[0];
     if (from_db && a.has("delimiter")) return fail(kName, kUsage, "--delimiter applies to files, not to --source");
+    if (from_db && (a.has("sheet") || a.has("decimal")))
+        return fail(kName, kUsage, "--sheet and --decimal apply to files, not to --source");
     if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
     if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
 
@@ -167,7 +172,13 @@ int run(int argc, char** argv) {
     std::thread hasher([&] {
         if (!from_db) digest = sha256_file(path);
     });
-    CsvOptions ropt;
+    ReadOptions ropt;
+    ropt.sheet = a.get_or("sheet", "");
+    if (auto d = a.get("decimal")) {
+        auto m = parse_decimal_mark(*d);
+        if (!m) return fail(kName, kUsage, "--decimal expects auto, . or , (got '" + *d + "')");
+        ropt.decimal = *m;
+    }
     ropt.count_column = a.get_or("count-column", "");
     ropt.threads = options.threads;
     if (a.has("delimiter")) {
@@ -176,7 +187,10 @@ int run(int argc, char** argv) {
     }
     audit::DatabaseInfo db;
     std::optional<audit::DatabaseCounts> counted;
-    auto table = from_db ? Result<Table>(make_error("")) : read_csv(path, ropt);
+    ReadReport read;
+    auto table = from_db ? Result<Table>(make_error("")) : read_table(path, ropt, &read);
+    for (const auto& w : read.warnings) std::cerr << "foldline scan: warning: " << w << "\n";
+    for (const auto& n : read.numbers) std::cerr << "foldline scan: column '" << n.column << "' " << n.describe() << "\n";
     if (from_db) {
         audit::DatabaseRequest req;
         req.source = *a.get("source");
@@ -244,6 +258,8 @@ int run(int argc, char** argv) {
     const auto t2 = clock::now();
 
     DataInfo info{path, *digest, from_db ? db.source_rows : rows_read, std::nullopt};
+    if (!from_db && read.format != FileFormat::Csv) info.format = std::string(format_key(read.format));
+    if (!from_db) info.sheet = ropt.sheet;
     if (from_db) info.database = db.record;
     const std::string json_dest = a.get_or("json", "");
     std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
@@ -274,7 +290,7 @@ const CommandRegistration reg{Command{
     .name = "scan",
     .synopsis = "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
                 "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] "
-                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2] [--where EXPR]",
+                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2] [--where EXPR] [--sheet NAME] [--decimal M]",
     .summary = "search every stratifier and pair for reversals of the outcome rate between groups",
     .help = "Usage: foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
             "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
@@ -282,6 +298,11 @@ const CommandRegistration reg{Command{
             "  [--delimiter CHAR]   field delimiter of DATA (tab or \\t for a tab; default: detected)\n"
             "  --exposure A+B=a1+b1,a2+b2   compared groups formed by two or more columns joined by '+'\n"
             "      (each combination is a group; its parts never stratify)\n"
+            "  [--sheet NAME]   workbooks (.xlsx, .xls): the sheet to read (default: the first)\n"
+            "  [--decimal auto|.|,]   decimal mark of numbers written as text (default auto: a column\n"
+            "      written consistently with decimal commas is read so, ambiguous columns are listed)\n"
+            "DATA is CSV/TSV text, a SAS (.xpt, .sas7bdat), SPSS (.sav, .zsav) or Stata (.dta) file, or an\n"
+            ".xlsx or .xls workbook.\n"
             "  [--where EXPR]   rows to include, e.g. \"year >= 2024 and region in ('north', 'east')\"\n"
             "      (=, <>, <, <=, >, >=, in (...), is missing, not, and, or; text in single quotes;\n"
             "      docs/filter.md). Pushed down to a database as a WHERE condition.\n"

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "core/causal/diagram.h"
+#include "core/io/decimal_mark.h"
 #include "core/io/source_record.h"
 #include "core/table/table.h"
 
@@ -27,6 +28,8 @@ struct DataSource {
     char delimiter = 0;          ///< 0 = detect
     std::vector<std::string> missing_markers = {"", "NA", "N/A", "NULL", "."};
     std::map<std::string, ColumnType> type_overrides;
+    std::string sheet;           ///< workbooks: the sheet read; empty = the first (version 3 key)
+    DecimalMark decimal = DecimalMark::Auto;  ///< decimal mark of text numbers (version 3 key when not auto)
     std::optional<DatabaseRecord> database;  ///< a database source (no size or digest then); never a credential
 };
 

@@ -197,8 +197,9 @@ std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
                         p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
-    // A rows filter: an older reader would scan every row.
-    if (!p.question.rows.empty()) return 3;
+    // A rows filter: an older reader would scan every row. A sheet or a decimal mark: an older
+    // reader would read another sheet, or the numbers as text.
+    if (!p.question.rows.empty() || !p.data.sheet.empty() || p.data.decimal != DecimalMark::Auto) return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -235,6 +236,9 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     for (const auto& [name, type] : p.data.type_overrides)
         types[name] = type == ColumnType::Numeric ? "numeric" : "categorical";
     data["type_overrides"] = types;
+    // Version 3 keys, written only when set, so other files keep their bytes and version.
+    if (!p.data.sheet.empty()) data["sheet"] = p.data.sheet;
+    if (p.data.decimal != DecimalMark::Auto) data["decimal"] = std::string(to_string(p.data.decimal));
     if (const auto& d = p.data.database) {
         // Only the masked connection string is ever written (save paths cannot add a password).
         data["database"] = {{"connection", d->connection}, {"driver", d->driver}, {"database", d->database},
@@ -352,6 +356,11 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         else if (delim.size() == 1) p.data.delimiter = delim[0];
         else r.fail("data.delimiter: expected \"auto\", \"tab\" or one character");
         r.strings(*d, "data", "missing_markers", p.data.missing_markers);
+        r.str(*d, "data", "sheet", p.data.sheet);
+        std::string decimal = "auto";
+        r.str(*d, "data", "decimal", decimal);
+        if (auto m = parse_decimal_mark(decimal)) p.data.decimal = *m;
+        else r.fail("data.decimal: expected \"auto\", \".\" or \",\"");
         if (const json* t = r.object(*d, "data", "type_overrides", false)) {
             for (auto it = t->begin(); it != t->end(); ++it) {
                 const std::string v = it->is_string() ? it->get<std::string>() : "";
@@ -559,8 +568,10 @@ DataChange compare_data(const DataSource& saved, const std::string& sha256_now, 
     return c;
 }
 
-CsvOptions reading_options(const DataSource& d) {
-    CsvOptions o;
+ReadOptions reading_options(const DataSource& d) {
+    ReadOptions o;
+    o.sheet = d.sheet;
+    o.decimal = d.decimal;
     o.delimiter = d.delimiter;
     o.missing_markers = d.missing_markers;
     o.count_column = d.count_column;
@@ -583,7 +594,7 @@ DataChange check_data_file(const DataSource& saved) {
     }
     DataChange c = compare_data(saved, *digest, size, nullptr);
     if (!c.changed) return c;
-    auto table = read_csv(saved.path, reading_options(saved));
+    auto table = read_table(saved.path, reading_options(saved));
     if (!table) {
         c.message += "; it no longer reads as before: " + table.error().to_string();
         return c;

@@ -21,6 +21,7 @@
 #include "core/common/error.h"
 #include "core/io/source_record.h"
 #include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 #include "core/scan/finding_class.h"
 #include "core/table/table.h"
 
@@ -128,8 +129,8 @@ DataChange compare_data(const DataSource& saved, const std::string& sha256_now, 
 DataChange check_data_file(const DataSource& saved);
 
 /// The reader options the project records (delimiter, missing markers, count column, type
-/// overrides); defaults for a default DataSource.
-CsvOptions reading_options(const DataSource& data);
+/// overrides, sheet, decimal mark); defaults for a default DataSource.
+ReadOptions reading_options(const DataSource& data);
 
 /// Records what the data look like now (size, digest, rows, column names) into `data`.
 /// Error when the file cannot be read.

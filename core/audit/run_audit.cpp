@@ -6,6 +6,7 @@
 #include "core/audit/project_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 #include "core/scan/candidates.h"
 #include "core/scan/grouped_cubes.h"
 #include "core/scan/grouped_slopes.h"
@@ -319,9 +320,10 @@ Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_overri
     }
     Result<std::string> digest = std::string();
     std::thread hasher([&] { digest = sha256_file(path); });
-    CsvOptions ropt = project::reading_options(spec.data);
+    ReadOptions ropt = project::reading_options(spec.data);
     ropt.threads = options.threads;
-    auto table = read_csv(path, ropt, nullptr, options.work);
+    ReadReport read;
+    auto table = read_table(path, ropt, &read, options.work);
     hasher.join();
     if (!table) return table.error();
     if (!digest) return digest.error();
@@ -338,6 +340,8 @@ Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_overri
     if (!result) return result.error();
     run.result = std::move(*result);
     run.info = DataInfo{path, *digest, rows_read};
+    if (read.format != FileFormat::Csv) run.info.format = std::string(format_key(read.format));
+    run.info.sheet = ropt.sheet;
     for (const auto& f : run.result.rate_findings)
         if (run.diagram_problem.empty()) run.diagram_problem = f.verdict_problem;
     for (const auto& f : run.result.slope_findings)

@@ -247,7 +247,7 @@ Result<Table> read_impl(std::string_view text, const std::string& name, const Cs
     ChunkPlan plan;
     plan.data = text.data();
     plan.delimiter = delim;
-    plan.kinds.assign(ncols, ColumnKind::Inferred);
+    plan.kinds.assign(ncols, opts.all_text ? ColumnKind::Categorical : ColumnKind::Inferred);
     plan.missing = MissingMarkers(opts.missing_markers);
     plan.skip_ragged = opts.skip_ragged;
     plan.max_field_bytes = opts.max_field_bytes;

@@ -49,6 +49,7 @@ struct CsvOptions {
     bool skip_ragged = false;  ///< false: a ragged row is an error; true: skip it and report its line
     unsigned threads = 0;      ///< 0 = hardware concurrency
     std::map<std::string, ColumnType> type_overrides;  ///< force a column's type
+    bool all_text = false;  ///< every column without an override (and not the count column) reads as categorical
     std::size_t max_field_bytes = 16u << 20;  ///< hostile-input caps, named in the error message
     std::size_t max_fields_per_row = 1u << 16;
     std::size_t chunk_bytes = 0;  ///< parallel chunk size; 0 = automatic (1–8 MiB)

@@ -63,6 +63,8 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     json j;
     j["version"] = kScanJsonVersion;
     j["data"] = {{"path", data.path}, {"sha256", data.sha256}, {"rows", num(data.rows)}};
+    if (!data.format.empty()) j["data"]["format"] = data.format;
+    if (!data.sheet.empty()) j["data"]["sheet"] = data.sheet;
     if (data.database) {
         const auto& d = *data.database;
         j["data"]["database"] = {{"connection", d.connection}, {"driver", d.driver}, {"database", d.database},

@@ -19,6 +19,8 @@ struct DataInfo {
     std::string sha256;  ///< hex digest of the file's bytes; empty when not computed
     double rows = 0;     ///< rows read (weighted rows for a pre-counted file are in findings)
     std::optional<DatabaseRecord> database = std::nullopt;  ///< set for a database source (then sha256 is empty)
+    std::string format = {};  ///< "xpt", "sav", "xlsx" …; empty for CSV text (not written then)
+    std::string sheet = {};   ///< workbooks: the sheet read; empty = the first (not written then)
 };
 
 inline constexpr int kScanJsonVersion = 1;

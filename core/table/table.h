@@ -26,6 +26,8 @@ using CodeVector = std::variant<std::vector<std::uint8_t>, std::vector<std::uint
 struct Column {
     std::string name;
     ColumnType type = ColumnType::Categorical;
+    std::string label;        ///< a statistical file's variable label; empty when there is none
+    std::string description;  ///< e.g. the codes behind value-labelled levels ("1 = yes; 2 = no")
 
     // Categorical payload.
     std::vector<std::string> levels;  ///< level labels in order of first appearance

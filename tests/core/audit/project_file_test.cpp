@@ -498,6 +498,31 @@ TEST(ProjectFile, DatabaseSourceRoundTrips) {
     EXPECT_EQ(slurp(file).find("\"database\""), std::string::npos);
 }
 
+TEST(ProjectFile, SheetAndDecimalMarkAreVersionThreeAndRoundTrip) {
+    // Another sheet or another decimal mark changes what is read, so both are version 3 keys.
+    TempDir t("sheet");
+    const auto file = (t.path / "sheet.foldline").string();
+    Project p = full_project(t.path / "d.xlsx");
+    EXPECT_LT(required_version(p), 3);
+    p.data.sheet = "visits";
+    p.data.decimal = DecimalMark::Comma;
+    EXPECT_EQ(required_version(p), 3);
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string text = slurp(file);
+    EXPECT_NE(text.find("\"sheet\": \"visits\""), std::string::npos);
+    EXPECT_NE(text.find("\"decimal\": \",\""), std::string::npos);
+    auto back = load_project(file);
+    ASSERT_TRUE(back.ok()) << back.error().to_string();
+    EXPECT_EQ(back->data.sheet, "visits");
+    EXPECT_EQ(back->data.decimal, DecimalMark::Comma);
+    EXPECT_EQ(reading_options(back->data).sheet, "visits");
+    auto bad = parse_project(R"({"format": "foldline-project", "version": 3, "data": {"path": "d.csv", "decimal": ";"},
+                                 "question": {"outcome": "ok", "exposure": "group"}})",
+                             (t.path / "bad.foldline").string());
+    ASSERT_FALSE(bad.ok());
+    EXPECT_NE(bad.error().message.find("data.decimal"), std::string::npos) << bad.error().message;
+}
+
 TEST(ProjectFile, RowsFilterIsVersionThreeAndRoundTrips) {
     // A rows filter changes which rows are scanned, so it is a version 3 key: an older build
     // refuses the file instead of scanning every row.
