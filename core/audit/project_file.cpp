@@ -190,11 +190,20 @@ FindingKey slope_key(const std::vector<std::string>& strata, const std::string& 
 
 std::string_view to_string(PageSize p) { return p == PageSize::Letter ? "Letter" : "A4"; }
 
-std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "slope" : "rate"; }
+std::string_view to_string(QuestionKind k) {
+    return k == QuestionKind::Slope ? "slope" : k == QuestionKind::Mean ? "mean" : "rate";
+}
+
+FindingKey mean_key(const std::vector<std::string>& strata, const std::string& y, const std::string& focal,
+                    const std::string& reference) {
+    return FindingKey{"mean", strata, y + ": " + focal + " vs " + reference};
+}
 
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
                         p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
+    // A mean question is a version 3 key: older builds refuse the file rather than read it as a rate.
+    if (p.question.kind == QuestionKind::Mean) return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -250,6 +259,10 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     if (version >= 2) {
         q["kind"] = to_string(p.question.kind);
         q["covariates"] = p.question.covariates;
+    }
+    if (p.question.kind == QuestionKind::Mean) {
+        q["log_outcome"] = p.question.log_outcome;
+        q["pay_gap"] = p.question.pay_gap;
     }
     doc["question"] = q;
     if (version >= 2) {
@@ -375,7 +388,13 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         std::string kind = "rate";
         r.str(*q, "question", "kind", kind);
         if (kind == "slope") p.question.kind = QuestionKind::Slope;
-        else if (kind != "rate") r.fail("question.kind: expected \"rate\" or \"slope\"");
+        else if (kind == "mean" && version >= 3) p.question.kind = QuestionKind::Mean;
+        else if (kind != "rate") r.fail("question.kind: expected \"rate\", \"slope\" or (version 3) \"mean\"");
+        if (p.question.kind == QuestionKind::Mean) {
+            r.boolean(*q, "question", "log_outcome", p.question.log_outcome);
+            r.boolean(*q, "question", "pay_gap", p.question.pay_gap);
+            if (p.question.positive) r.fail("question: a mean question has no positive level (numeric outcome)");
+        }
         r.strings(*q, "question", "covariates", p.question.covariates);
         if (p.question.kind == QuestionKind::Slope &&
             (p.question.positive || !p.question.focal.empty() || p.question.reference))

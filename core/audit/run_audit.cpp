@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <thread>
 
+#include "core/audit/mean_audit.h"
 #include "core/audit/project_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -205,8 +206,9 @@ EstimateSettings estimate_settings(const AuditSpec& spec) {
 
 Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const RunOptions& options) {
     if (auto st = check_spec(spec); !st) return st.error();
-    auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(table, spec, options)
-                                                                : scan_rates(table, spec, options);
+    auto r = spec.question.kind == project::QuestionKind::Slope  ? scan_slopes_only(table, spec, options)
+             : spec.question.kind == project::QuestionKind::Mean ? scan_mean_question(table, spec, options.threads, options.work)
+                                                                 : scan_rates(table, spec, options);
     if (!r) return r;
     if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &table, *d, estimate_settings(spec));
     return r;
@@ -217,6 +219,7 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
     if (auto st = check_spec(spec); !st) return st.error();
     if (spec.question.kind == project::QuestionKind::Slope)
         return usage_error(make_error("a trend question needs the rows, not counts"));
+    if (spec.question.kind == project::QuestionKind::Mean) return usage_error(make_error(kMeanNeedsRows));
     auto in = cubes_from_groups(counts, question_spec(spec), candidate_options(spec, options.threads), spec.scan.pairs);
     if (!in) return usage_error(in.error());
     if (in->cubes.stratifiers.empty()) return make_error("no column qualifies as a stratifier (see the strata setting)");

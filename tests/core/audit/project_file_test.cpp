@@ -457,9 +457,9 @@ TEST(ProjectFile, TrendFieldsGiveClearErrors) {
         EXPECT_NE(r.error().message.find(c.expect), std::string::npos) << r.error().message;
     }
     // A version this build does not know is refused whatever it holds.
-    auto newer = parse_project(R"({"format": "foldline-project", "version": 3})", "x.foldline");
+    auto newer = parse_project(R"({"format": "foldline-project", "version": 4})", "x.foldline");
     ASSERT_FALSE(newer.ok());
-    EXPECT_NE(newer.error().message.find("reads up to version 2"), std::string::npos) << newer.error().message;
+    EXPECT_NE(newer.error().message.find("reads up to version 3"), std::string::npos) << newer.error().message;
 }
 
 // A project over a database source keeps its record (masked connection, driver, database,
