@@ -2,9 +2,11 @@
 // The mean-gap scan: is the pooled difference in a numeric outcome between two groups reversed,
 // explained, masked or split within the strata of a stratifier (or a pair of them)?
 //
-// One pass over the rows per check builds its per-cell sufficient statistics (stratum × group:
-// Σw, mean, centred sum of squares, with the stable centred update of core/stats/mean_gap.h);
-// every figure and the class of a finding come from those cells (core/scan/mean_analysis.h).
+// One pass over the rows builds each check's per-cell sufficient statistics (stratum × group:
+// Σw and the sums of y about the cell's first value, the shifted-data form of the centred sums,
+// turned into core/stats/mean_gap.h's MeanMoments); a candidate's pairs are summed in batches
+// of one pass each. Every figure and the class of a finding come from those cells
+// (core/scan/mean_analysis.h).
 // Rows are used when the outcome is present (and, with log_outcome, positive), the row is in
 // one of the compared groups and its weight is positive; a missing stratifier value leaves the
 // row out of that check, as in the rate scan. Strata where one group is absent are listed and
