@@ -47,6 +47,7 @@ struct QuestionSettings {
     std::vector<std::string> covariates;   ///< slope: numeric columns adjusted for (may be empty)
     bool log_outcome = false;              ///< mean: analyse log(outcome) (every value must be > 0)
     bool pay_gap = false;                  ///< mean: pay-gap conventions (% of reference mean, medians, 5% flags)
+    std::string rows;                      ///< rows to include (core/table/row_filter.h); empty = every row
 };
 
 /// Slope checks added to a rate audit (`scan --trend X:Y`): the slope of y on x within each

@@ -9,6 +9,8 @@
 
 #include <nlohmann/json.hpp>
 
+#include "core/table/row_filter.h"
+
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
@@ -204,6 +206,8 @@ int required_version(const Project& p) {
                         p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
     // A mean question is a version 3 key: older builds refuse the file rather than read it as a rate.
     if (p.question.kind == QuestionKind::Mean) return 3;
+    // A rows filter: an older reader would scan every row.
+    if (!p.question.rows.empty()) return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -263,6 +267,9 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     if (p.question.kind == QuestionKind::Mean) {
         q["log_outcome"] = p.question.log_outcome;
         q["pay_gap"] = p.question.pay_gap;
+    }
+    if (version >= 3 && !p.question.rows.empty()) {
+        q["rows"] = p.question.rows;
     }
     doc["question"] = q;
     if (version >= 2) {
@@ -396,6 +403,11 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
             if (p.question.positive) r.fail("question: a mean question has no positive level (numeric outcome)");
         }
         r.strings(*q, "question", "covariates", p.question.covariates);
+        r.str(*q, "question", "rows", p.question.rows);
+        if (!r.error && !p.question.rows.empty()) {
+            if (auto f = filter::parse(p.question.rows); !f) r.fail("question.rows: " + f.error().message);
+            else p.question.rows = filter::canonical_text(*f);
+        }
         if (p.question.kind == QuestionKind::Slope &&
             (p.question.positive || !p.question.focal.empty() || p.question.reference))
             r.fail("question: a slope question has no positive, focal or reference level (numeric outcome and "
