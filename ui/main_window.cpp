@@ -693,6 +693,13 @@ Status MainWindow::open_project(const QString& path) {
         return make_error("this audit compares groups formed by several columns (" + p->question.exposure +
                               "), which the workbench cannot edit yet; run it with: foldline run " + path.toStdString(),
                           path.toStdString());
+    // The workbench shows rate and trend audits only: opening a mean-gap audit here would show
+    // it as a rate audit and lose its question on save, so it is refused, with where to run it.
+    if (p->question.kind == project::QuestionKind::Mean)
+        return make_error("this audit asks a mean-gap question (the mean of " + p->question.outcome +
+                              " between groups), which the workbench cannot show yet; run it with `foldline run " +
+                              path.toStdString() + "` (the file was not changed)",
+                          path.toStdString());
     open_project_document(*p, path);
     add_recent_audit(path);
     return Ok{};

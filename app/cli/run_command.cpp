@@ -74,6 +74,14 @@ int run(int argc, char** argv) {
             << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha
             << ", seed " << r.seed << ")\n";
     }
+    if (p.question.kind == project::QuestionKind::Mean) {
+        int counts[5] = {0, 0, 0, 0, 0};
+        for (const auto& f : r.mean_findings) ++counts[rank(f.cls)];
+        out << "Mean of " << p.question.outcome << (r.log_outcome ? " (log scale)" : "") << ": "
+            << r.mean_findings.size() << " comparisons: " << counts[0] << " reversal, " << counts[1] << " explained, "
+            << counts[2] << " masked, " << counts[3] << " heterogeneous, " << counts[4] << " stable (FDR " << r.alpha
+            << ")\n";
+    }
     if (!r.slope_question.x.empty()) {
         int counts[5] = {0, 0, 0, 0, 0};
         for (const auto& f : r.slope_findings) ++counts[rank(f.cls)];

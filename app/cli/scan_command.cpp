@@ -16,6 +16,7 @@
 #include "app/cli/count_warning.h"
 #include "app/cli/outputs.h"
 #include "core/audit/database_source.h"
+#include "core/audit/mean_audit.h"
 #include "core/audit/run_audit.h"
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
@@ -66,6 +67,8 @@ int run(int argc, char** argv) {
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
         {"covariates", true, "C1,C2"},      {"find-groups", false, ""},
+        {"mean", true, "Y"},                 {"log-outcome", false, ""},
+        {"pay-gap", false, ""},
         {"where", true, "EXPR"},
         {"sheet", true, "NAME"},             {"decimal", true, "auto|.|,"},
     };
@@ -79,7 +82,17 @@ int run(int argc, char** argv) {
     if (from_db && a.has("delimiter")) return fail(kName, kUsage, "--delimiter applies to files, not to --source");
     if (from_db && (a.has("sheet") || a.has("decimal")))
         return fail(kName, kUsage, "--sheet and --decimal apply to files, not to --source");
-    if (!a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE]");
+    // A mean-gap question: --mean Y (a numeric outcome) between the --exposure groups.
+    const bool mean = a.has("mean");
+    if (mean && a.has("outcome"))
+        return fail(kName, kUsage, "give --outcome (a rate between groups) or --mean (a mean gap), not both");
+    if (!mean && (a.has("log-outcome") || a.has("pay-gap")))
+        return fail(kName, kUsage, "--log-outcome and --pay-gap apply to a mean gap: give --mean COLUMN");
+    if (mean && from_db) return fail(kName, kUsage, audit::kMeanNeedsRows);
+    if (mean && (a.has("trend") || a.has("covariates")))
+        return fail(kName, kUsage, "--trend and --covariates do not apply to a mean gap in this version (covariate "
+                                   "adjustment and the Oaxaca-Blinder decomposition are not available yet)");
+    if (!mean && !a.has("outcome")) return fail(kName, kUsage, "missing --outcome COLUMN[=POSITIVE] (or --mean COLUMN)");
     if (!a.has("exposure")) return fail(kName, kUsage, "missing --exposure COLUMN[=FOCAL[,REFERENCE]]");
 
     // Everything asked becomes one audit specification (core/audit), the same `foldline run`
@@ -87,13 +100,19 @@ int run(int argc, char** argv) {
     project::AuditSpec spec;
     {
         QuestionSpec q;
-        parse_outcome_arg(*a.get("outcome"), q);
+        if (mean) q.outcome = *a.get("mean");
+        else parse_outcome_arg(*a.get("outcome"), q);
         parse_exposure_arg(*a.get("exposure"), q);
         spec.question.outcome = q.outcome;
         spec.question.positive = q.positive;
         spec.question.exposure = q.exposure;
         spec.question.focal = q.focal;
         spec.question.reference = q.reference;
+        if (mean) {
+            spec.question.kind = project::QuestionKind::Mean;
+            spec.question.log_outcome = a.flag("log-outcome", false);
+            spec.question.pay_gap = a.flag("pay-gap", false);
+        }
     }
     if (a.has("where")) {
         auto f = filter::parse(*a.get("where"));
@@ -228,7 +247,7 @@ int run(int argc, char** argv) {
     // A numeric outcome on a numeric exposure with many values is a slope question; covariates
     // adjust that trend, or the --trend checks of a rate question.
     const bool from_cubes = counted.has_value();
-    if (!from_cubes)
+    if (!from_cubes && !mean)
         spec.question.kind = audit::infer_kind(*table, spec.question, static_cast<std::size_t>(spec.scan.max_levels));
     const bool slope_only = spec.question.kind == project::QuestionKind::Slope;
     if (!from_cubes)
@@ -317,6 +336,11 @@ const CommandRegistration reg{Command{
             "Usage: foldline scan --source odbc:DSN=NAME; --table T | --query \"SELECT ...\" ...   (counts pushed down to "
             "the database)\n"
             "With a numeric outcome and a numeric exposure the scan checks slopes instead of rates.\n"
+            "Usage: foldline scan DATA --mean Y --exposure C[=FOCAL[,REF]] [--log-outcome] [--pay-gap] ...\n"
+            "  the mean of numeric Y between groups, pooled and within strata (JSON kind \"mean\");\n"
+            "  --log-outcome analyses log(Y) (every Y must be above 0) and adds exp(d) - 1 percentages;\n"
+            "  --pay-gap adds pay-reporting figures: gap as % of the reference mean, median gap, strata\n"
+            "      whose gap reaches 5% flagged (a statistical screen, not a legal determination)\n"
             "Exit codes: 0 done, 2 usage error, 3 input error, 1 internal error.\n",
     .run = run,
 }};

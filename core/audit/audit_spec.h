@@ -33,10 +33,11 @@ struct DataSource {
     std::optional<DatabaseRecord> database;  ///< a database source (no size or digest then); never a credential
 };
 
-/// What the audit compares: a rate between groups, or the slope of a numeric outcome on a
-/// numeric exposure (a trend audit).
-enum class QuestionKind { Rate, Slope };
-/// "rate" or "slope".
+/// What the audit compares: a rate between groups, the slope of a numeric outcome on a
+/// numeric exposure (a trend audit), or the mean of a numeric outcome between groups (a mean
+/// gap: pay reviews, continuous clinical endpoints).
+enum class QuestionKind { Rate, Slope, Mean };
+/// "rate", "slope" or "mean".
 std::string_view to_string(QuestionKind k);
 
 struct QuestionSettings {
@@ -47,6 +48,8 @@ struct QuestionSettings {
     std::vector<std::string> focal;        ///< empty: every level except the reference
     std::optional<std::string> reference;  ///< absent: the most frequent level
     std::vector<std::string> covariates;   ///< slope: numeric columns adjusted for (may be empty)
+    bool log_outcome = false;              ///< mean: analyse log(outcome) (every value must be > 0)
+    bool pay_gap = false;                  ///< mean: pay-gap conventions (% of reference mean, medians, 5% flags)
     std::string rows;                      ///< rows to include (core/table/row_filter.h); empty = every row
 };
 

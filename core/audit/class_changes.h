@@ -18,6 +18,7 @@ struct ClassChange {
 /// The project key of a finding (kind, strata, comparison).
 project::FindingKey key_of(const RateFinding& f);
 project::FindingKey key_of(const SlopeFinding& f);
+project::FindingKey key_of(const MeanFinding& f);
 
 /// Findings whose class differs from the saved one: a saved class that changed or vanished, and
 /// (when the project saved any class) a flagged finding that had none. No saved class → empty.

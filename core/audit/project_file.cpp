@@ -192,11 +192,20 @@ FindingKey slope_key(const std::vector<std::string>& strata, const std::string& 
 
 std::string_view to_string(PageSize p) { return p == PageSize::Letter ? "Letter" : "A4"; }
 
-std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "slope" : "rate"; }
+std::string_view to_string(QuestionKind k) {
+    return k == QuestionKind::Slope ? "slope" : k == QuestionKind::Mean ? "mean" : "rate";
+}
+
+FindingKey mean_key(const std::vector<std::string>& strata, const std::string& y, const std::string& focal,
+                    const std::string& reference) {
+    return FindingKey{"mean", strata, y + ": " + focal + " vs " + reference};
+}
 
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
                         p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
+    // A mean question is a version 3 key: older builds refuse the file rather than read it as a rate.
+    if (p.question.kind == QuestionKind::Mean) return 3;
     // A rows filter: an older reader would scan every row. A sheet or a decimal mark: an older
     // reader would read another sheet, or the numbers as text.
     if (!p.question.rows.empty() || !p.data.sheet.empty() || p.data.decimal != DecimalMark::Auto) return 3;
@@ -258,6 +267,10 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     if (version >= 2) {
         q["kind"] = to_string(p.question.kind);
         q["covariates"] = p.question.covariates;
+    }
+    if (p.question.kind == QuestionKind::Mean) {
+        q["log_outcome"] = p.question.log_outcome;
+        q["pay_gap"] = p.question.pay_gap;
     }
     if (version >= 3 && !p.question.rows.empty()) {
         q["rows"] = p.question.rows;
@@ -391,7 +404,13 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         std::string kind = "rate";
         r.str(*q, "question", "kind", kind);
         if (kind == "slope") p.question.kind = QuestionKind::Slope;
-        else if (kind != "rate") r.fail("question.kind: expected \"rate\" or \"slope\"");
+        else if (kind == "mean" && version >= 3) p.question.kind = QuestionKind::Mean;
+        else if (kind != "rate") r.fail("question.kind: expected \"rate\", \"slope\" or (version 3) \"mean\"");
+        if (p.question.kind == QuestionKind::Mean) {
+            r.boolean(*q, "question", "log_outcome", p.question.log_outcome);
+            r.boolean(*q, "question", "pay_gap", p.question.pay_gap);
+            if (p.question.positive) r.fail("question: a mean question has no positive level (numeric outcome)");
+        }
         r.strings(*q, "question", "covariates", p.question.covariates);
         r.str(*q, "question", "rows", p.question.rows);
         if (!r.error && !p.question.rows.empty()) {

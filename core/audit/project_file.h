@@ -29,8 +29,9 @@ namespace foldline::project {
 
 /// The newest project version this build reads. A project is written with the lowest version
 /// that holds it: 1 for a rate audit, 2 when it holds a slope question, trend checks or slope
-/// settings (see required_version), 3 when it holds a rows filter, so builds that read an older
-/// version refuse what they would misread instead of dropping the trend or scanning every row.
+/// settings (see required_version), 3 when it holds a rows filter or a mean-gap question, so
+/// builds that read an older version refuse what they would misread instead of dropping the
+/// trend, scanning every row or reading a mean gap as a rate.
 inline constexpr int kProjectVersion = 3;
 inline constexpr std::string_view kProjectFormat = "foldline-project";
 
@@ -50,6 +51,9 @@ std::string describe(const FindingKey& key);
 FindingKey rate_key(const std::vector<std::string>& strata, const std::string& focal, const std::string& reference);
 /// The key of a slope finding: kind "slope", its strata, comparison "Y on X".
 FindingKey slope_key(const std::vector<std::string>& strata, const std::string& x, const std::string& y);
+/// Key of a mean-gap finding: kind "mean", comparison "y: FOCAL vs REFERENCE".
+FindingKey mean_key(const std::vector<std::string>& strata, const std::string& y, const std::string& focal,
+                    const std::string& reference);
 
 struct FindingReview {
     FindingKey key;
@@ -84,7 +88,8 @@ struct Project : AuditSpec {
 };
 
 /// 1 when the project is a plain rate audit of a file; 2 when it holds a slope question, trend
-/// checks, covariates, a slope bootstrap or a database source. A default project → 1.
+/// checks, covariates, a slope bootstrap or a database source; 3 when it holds a mean-gap
+/// question. A default project → 1.
 int required_version(const Project& p);
 
 /// The JSON text of a project saved at `project_path` (data path made relative to its folder).

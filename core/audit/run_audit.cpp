@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <thread>
 
+#include "core/audit/mean_audit.h"
 #include "core/audit/project_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -271,8 +272,9 @@ Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const R
         if (auto st = add_combined_groups(*kept, spec); !st) return usage_error(st.error());
     }
     const Table& rows = kept ? *kept : table;
-    auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(rows, spec, options)
-                                                                : scan_rates(rows, spec, options);
+    auto r = spec.question.kind == project::QuestionKind::Slope  ? scan_slopes_only(rows, spec, options)
+             : spec.question.kind == project::QuestionKind::Mean ? scan_mean_question(rows, spec, options.threads, options.work)
+                                                                 : scan_rates(rows, spec, options);
     if (!r) return r;
     note_filter(*r, rows);
     if (const causal::Diagram* d = spec.diagram()) {
@@ -288,6 +290,7 @@ Result<ScanResult> scan_groups(const GroupedCounts& counts, const std::optional<
     if (auto st = check_spec(spec); !st) return st.error();
     if (spec.question.kind == project::QuestionKind::Slope)
         return usage_error(make_error("a trend question needs the rows, not counts"));
+    if (spec.question.kind == project::QuestionKind::Mean) return usage_error(make_error(kMeanNeedsRows));
     // The counts come from an engine that applied the filter as a WHERE condition
     // (core/audit/database_source.h); only its text is recorded here.
     auto f = rows_filter(spec);

@@ -1,5 +1,7 @@
 #include "core/report/csv_export.h"
 
+#include "core/report/mean_csv.h"
+
 #include <cmath>
 #include <cstdio>
 #include <vector>
@@ -166,6 +168,7 @@ std::string slope_strata_csv(const ScanResult& r) {
 }
 
 std::vector<std::string> csv_export_paths(const ScanResult& result, const std::string& prefix) {
+    if (result.mean_scan) return {prefix + "-mean-findings.csv", prefix + "-mean-strata.csv"};
     const bool slopes = !result.slope_question.x.empty() || !result.slope_findings.empty();
     const bool rates = !slopes || !result.question.outcome.empty() || !result.rate_findings.empty();
     std::vector<std::string> paths;
@@ -180,7 +183,9 @@ std::vector<std::string> csv_export_paths(const ScanResult& result, const std::s
 Status write_csv_exports(const ScanResult& result, const project::Project* project, const std::string& prefix) {
     for (const auto& path : csv_export_paths(result, prefix)) {
         const std::string name = path.substr(prefix.size());
-        const std::string text = name == "-findings.csv"         ? findings_csv(result, project)
+        const std::string text = name == "-mean-findings.csv"    ? mean_findings_csv(result, project)
+                                 : name == "-mean-strata.csv"    ? mean_strata_csv(result)
+                                 : name == "-findings.csv"       ? findings_csv(result, project)
                                  : name == "-strata.csv"         ? strata_csv(result)
                                  : name == "-slope-findings.csv" ? slope_findings_csv(result, project)
                                                                  : slope_strata_csv(result);

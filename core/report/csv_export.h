@@ -38,7 +38,8 @@ std::string slope_findings_csv(const ScanResult& result, const project::Project*
 /// slope_findings_csv). No slope findings → the header alone.
 std::string slope_strata_csv(const ScanResult& result);
 
-/// The files write_csv_exports writes for `result`: PREFIX-findings.csv and PREFIX-strata.csv
+/// The files write_csv_exports writes for `result`: for a mean-gap question PREFIX-mean-findings.csv
+/// and PREFIX-mean-strata.csv (core/report/mean_csv.h); otherwise PREFIX-findings.csv and PREFIX-strata.csv
 /// unless the scan asked only a slope question, then PREFIX-slope-findings.csv and
 /// PREFIX-slope-strata.csv when it checked slopes. An empty result → the rate pair.
 std::vector<std::string> csv_export_paths(const ScanResult& result, const std::string& prefix);

@@ -1,4 +1,6 @@
 #include "core/report/memo_content.h"
+
+#include "core/report/mean_memo.h"
 #include "core/report/slope_chart.h"
 
 #include <cmath>
@@ -389,6 +391,10 @@ MemoContent build_memo(const MemoInput& in) {
     if (!m.analyst.empty()) m.facts.push_back({"Analyst", m.analyst});
     if (!m.date.empty()) m.facts.push_back({"Date", m.date});
     m.data_warning = in.data_change;
+    if (r.mean_scan) {
+        fill_mean_memo(m, in);  // core/report/mean_memo.h
+        return m;
+    }
 
     m.question = "Is the rate of " + outcome_words(q) + " different for " + joined(q.focal, ", ") + " than for " +
                  q.reference + " (column " + q.exposure + "), and does the answer change when the comparison is " +

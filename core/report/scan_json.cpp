@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "core/report/json_number.h"
+#include "core/report/mean_json.h"
 #include "core/report/slope_json.h"
 #include "core/report/verdict_json.h"
 
@@ -50,13 +51,25 @@ json scan_to_json_summary(const ScanResult& r) {
         counts[std::string(to_string(f.cls))] = counts[std::string(to_string(f.cls))].get<int>() + 1;
         if (f.cls == FindingClass::Reversal) slope_reversals.push_back(f.strata);
     }
-    return {{"checks", r.rate_findings.size() + r.slope_findings.size()},
-            {"rate_checks", r.rate_findings.size()},
-            {"slope_checks", r.slope_findings.size()},
-            {"classes", counts},
-            {"reversals", reversals},
-            {"slope_reversals", slope_reversals},
-            {"cancelled", r.cancelled}};
+    json s = {{"checks", r.rate_findings.size() + r.slope_findings.size() + r.mean_findings.size()},
+              {"rate_checks", r.rate_findings.size()},
+              {"slope_checks", r.slope_findings.size()},
+              {"classes", counts},
+              {"reversals", reversals},
+              {"slope_reversals", slope_reversals},
+              {"cancelled", r.cancelled}};
+    // Mean-gap keys only in a mean scan, so rate and slope documents keep their bytes.
+    if (!r.mean_findings.empty()) {
+        json mean_reversals = json::array();
+        for (const auto& f : r.mean_findings) {
+            counts[std::string(to_string(f.cls))] = counts[std::string(to_string(f.cls))].get<int>() + 1;
+            if (f.reversal()) mean_reversals.push_back(f.strata);
+        }
+        s["classes"] = counts;
+        s["mean_checks"] = r.mean_findings.size();
+        s["mean_reversals"] = mean_reversals;
+    }
+    return s;
 }
 
 json scan_to_json(const ScanResult& r, const DataInfo& data) {
@@ -95,6 +108,8 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     for (const auto& f : r.rate_findings) findings.push_back(rate_finding_to_json(f));
     for (const auto& f : r.slope_findings) findings.push_back(to_json(f));
     if (r.latent) findings.push_back(to_json(*r.latent));
+    for (const auto& f : r.mean_findings) findings.push_back(to_json(f));
+    if (!r.mean_findings.empty()) j["mean_question"] = mean_question_json(r);
     if (!r.slope_question.x.empty()) {
         j["slope_question"] = {{"x", r.slope_question.x}, {"y", r.slope_question.y}};
         // Only when given, so documents of unadjusted trends keep their bytes.
@@ -330,6 +345,8 @@ std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     json slopes = json::array();
     for (const auto& f : r.slope_findings) slopes.push_back(to_json(f));
     if (r.latent) slopes.push_back(to_json(*r.latent));
+    for (const auto& f : r.mean_findings) slopes.push_back(to_json(f));
+    if (!r.mean_findings.empty()) doc["mean_question"] = mean_question_json(r);
     doc.erase("findings");
     std::string out = doc.dump();
     out.pop_back();  // the closing brace

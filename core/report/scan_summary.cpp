@@ -4,6 +4,8 @@
 #include <cstdio>
 #include <sstream>
 
+#include "core/report/mean_summary.h"
+
 namespace foldline {
 namespace {
 
@@ -125,7 +127,11 @@ std::string scan_summary_text(const ScanResult& r, const std::string& path, std:
     os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows";
     if (!r.rows_filter.empty()) os << " where " << r.rows_filter;
     os << "\n";
-    if (!q.outcome.empty()) {
+    if (r.mean_scan) {
+        os << "Mean of " << q.outcome << (r.log_outcome ? " (log scale)" : "") << "; groups " << q.exposure << ": ";
+        for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
+        os << " against " << q.reference << "\n";
+    } else if (!q.outcome.empty()) {
         os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
         for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];
         os << " against " << q.reference << "\n";
@@ -139,12 +145,15 @@ std::string scan_summary_text(const ScanResult& r, const std::string& path, std:
             os << (i ? ";" : "") << " " << r.excluded[i].column << " (" << r.excluded[i].reason << ")";
         os << "\n";
     }
-    if (!q.outcome.empty()) rate_part(os, r, top);
+    if (r.mean_scan) mean_summary(os, r, top);
+    else if (!q.outcome.empty()) rate_part(os, r, top);
     if (!r.slope_findings.empty()) slope_part(os, r, top);
     if (r.latent) os << "\nHidden-group hint (not a finding): " << r.latent->note << "\n";
     if (r.cancelled) os << "Stopped early: the findings above are incomplete.\n";
     os << "\nA statistical screen, not a legal, lending or clinical determination: defer to local law, "
           "counsel and licensed practice.\n";
+    if (r.mean_scan && !r.mean_findings.empty() && r.mean_findings.front().pay_gap.computed)
+        os << kPayReviewCaution << "\n";
     return os.str();
 }
 

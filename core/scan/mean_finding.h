@@ -12,6 +12,8 @@
 
 #include "core/scan/classify.h"
 #include "core/scan/finding.h"
+#include "core/scan/pay_gap.h"
+#include "core/stats/evalue.h"
 #include "core/stats/decomposition.h"
 #include "core/stats/mean_gap.h"
 
@@ -29,12 +31,26 @@ struct MeanStratumRow {
     std::string reason;                    ///< why not informative ("no focal rows"), else empty
 };
 
+/// A difference on the log scale read as a percentage: exp(d) − 1 (interval likewise).
+struct PercentGap {
+    double estimate = 0, ci_low = 0, ci_high = 0;  ///< NaN when undefined
+};
+
+/// The E-value of the fixed-effects difference as a standardised mean difference.
+struct MeanSensitivity {
+    double smd = 0;     ///< fixed-effects difference / residual SD of the additive model
+    double smd_se = 0;  ///< classical SE of the difference / the same SD
+    stats::SmdEValue e; ///< VanderWeele & Ding's conversion (core/stats/evalue.h)
+};
+
 /// A mean-gap comparison stratified by one column or a pair (the shared part in FindingHeader:
 /// strata, class, p_reversal, q_value, stability, verdict).
 struct MeanFinding : FindingHeader {
     MeanFinding() { kind = FindingKind::Mean; }
     std::string outcome;                   ///< the numeric outcome column
     std::string focal, reference;          ///< the two groups compared (focal − reference)
+    std::size_t comparison = 0;            ///< index of the focal group among the question's
+    bool log_outcome = false;              ///< figures are of log(y): differences are log ratios
     double rows_used = 0;                  ///< observations (Σw) in the comparison with known strata
 
     stats::CrudeMeans crude;               ///< pooled means, Welch difference, ratio of means
@@ -43,6 +59,10 @@ struct MeanFinding : FindingHeader {
     stats::InteractionTest interaction;    ///< group × stratum F test: the homogeneity test of the class
     stats::CochranQ cochran_q;             ///< of the per-stratum Welch differences
     stats::Decomposition decomposition;    ///< within / composition split of the crude difference
+
+    MeanSensitivity sensitivity;           ///< E-value of the fixed-effects difference
+    PercentGap crude_percent, fixed_effects_percent, standardised_percent;  ///< log outcome only: exp(d) − 1
+    PayGap pay_gap;                        ///< pay-gap conventions, when asked for (computed flag)
 
     std::vector<MeanStratumRow> strata_table;
     std::vector<std::string> uninformative;  ///< labels of strata left out of the adjusted figures

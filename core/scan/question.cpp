@@ -57,7 +57,94 @@ std::string join(const std::vector<std::string>& v) {
     return s;
 }
 
+// The exposure's reference and focal groups and the slot of each exposure code (shared by the
+// rate question and the mean-gap groups).
+Status resolve_groups_into(const Table& t, const Column& ec, const QuestionSpec& spec, Question& q) {
+    auto el = levels_of(t, ec);
+    if (!el)
+        return make_error("exposure '" + ec.name + "' is numeric with many values; a rate scan compares "
+                          "groups: pass a categorical exposure");
+    std::vector<std::size_t> present;
+    for (std::size_t i = 0; i < el->labels.size(); ++i)
+        if (el->counts[i] > 0) present.push_back(i);
+    std::vector<std::string> present_labels;
+    for (auto i : present) present_labels.push_back(el->labels[i]);
+    if (present.size() < 2)
+        return make_error("exposure '" + ec.name + "' has fewer than two groups among the rows");
+    auto index_of = [&](const std::string& l) -> std::optional<std::size_t> {
+        for (auto i : present)
+            if (el->labels[i] == l) return i;
+        return std::nullopt;
+    };
+    std::size_t ref;
+    if (spec.reference) {
+        auto r = index_of(*spec.reference);
+        if (!r)
+            return make_error("reference group '" + *spec.reference + "' not found in '" + ec.name +
+                              "' (groups: " + join(present_labels) + ")");
+        ref = *r;
+    } else {
+        // Most frequent level not named as focal; a tie is ambiguous.
+        double best = -1;
+        int ties = 0;
+        ref = present[0];
+        for (auto i : present) {
+            if (std::find(spec.focal.begin(), spec.focal.end(), el->labels[i]) != spec.focal.end()) continue;
+            if (el->counts[i] > best) {
+                best = el->counts[i];
+                ref = i;
+                ties = 1;
+            } else if (el->counts[i] == best) {
+                ++ties;
+            }
+        }
+        if (ties > 1)
+            return make_error("exposure '" + ec.name + "': two groups are equally frequent, so the "
+                              "reference is ambiguous: pass --exposure " + ec.name + "=FOCAL,REFERENCE");
+    }
+    q.reference = el->labels[ref];
+    std::vector<std::size_t> focal_idx;
+    if (!spec.focal.empty()) {
+        for (const auto& f : spec.focal) {
+            auto fi = index_of(f);
+            if (!fi)
+                return make_error("focal group '" + f + "' not found in '" + ec.name + "' (groups: " +
+                                  join(present_labels) + ")");
+            if (*fi == ref)
+                return make_error("focal and reference group are both '" + f + "'");
+            focal_idx.push_back(*fi);
+        }
+    } else {
+        for (auto i : present)
+            if (i != ref) focal_idx.push_back(i);
+    }
+    if (focal_idx.size() > 100)
+        return make_error("exposure '" + ec.name + "' has " + std::to_string(focal_idx.size() + 1) +
+                          " groups; name the focal group with --exposure " + ec.name + "=FOCAL");
+    for (auto i : focal_idx) q.focal.push_back(el->labels[i]);
+    q.slot_of_exposure_code.assign(el->labels.size() + 1, -1);
+    q.slot_of_exposure_code[ref] = 0;
+    for (std::size_t s = 0; s < focal_idx.size(); ++s)
+        q.slot_of_exposure_code[focal_idx[s]] = static_cast<int>(s + 1);
+    return Ok{};
+}
+
 }  // namespace
+
+Result<Question> resolve_groups(const Table& t, const QuestionSpec& spec) {
+    Question q;
+    q.exposure = spec.exposure;
+    if (spec.exposure.empty()) return make_error("no groups given: pass --exposure COLUMN[=FOCAL[,REFERENCE]]");
+    const auto ei = t.find(spec.exposure);
+    if (!ei) return make_error("exposure column '" + spec.exposure + "' not found", t.source);
+    if (!spec.outcome.empty() && spec.outcome == spec.exposure)
+        return make_error("outcome and exposure are the same column '" + spec.outcome + "'");
+    q.exposure_column = *ei;
+    q.outcome = spec.outcome;
+    if (const auto oi = t.find(spec.outcome)) q.outcome_column = *oi;
+    if (auto st = resolve_groups_into(t, t.columns[*ei], spec, q); !st) return st.error();
+    return q;
+}
 
 void parse_outcome_arg(const std::string& arg, QuestionSpec& spec) {
     const auto eq = arg.find('=');
@@ -146,73 +233,7 @@ Result<Question> resolve_question(const Table& t, const QuestionSpec& spec) {
         if (oc.is_numeric()) q.positive_value = std::strtod(q.positive.c_str(), nullptr);
     }
 
-    // Exposure levels.
-    auto el = levels_of(t, ec);
-    if (!el)
-        return make_error("exposure '" + ec.name + "' is numeric with many values; a rate scan compares "
-                          "groups: pass a categorical exposure");
-    std::vector<std::size_t> present;
-    for (std::size_t i = 0; i < el->labels.size(); ++i)
-        if (el->counts[i] > 0) present.push_back(i);
-    std::vector<std::string> present_labels;
-    for (auto i : present) present_labels.push_back(el->labels[i]);
-    if (present.size() < 2)
-        return make_error("exposure '" + ec.name + "' has fewer than two groups among the rows");
-    auto index_of = [&](const std::string& l) -> std::optional<std::size_t> {
-        for (auto i : present)
-            if (el->labels[i] == l) return i;
-        return std::nullopt;
-    };
-    std::size_t ref;
-    if (spec.reference) {
-        auto r = index_of(*spec.reference);
-        if (!r)
-            return make_error("reference group '" + *spec.reference + "' not found in '" + ec.name +
-                              "' (groups: " + join(present_labels) + ")");
-        ref = *r;
-    } else {
-        // Most frequent level not named as focal; a tie is ambiguous.
-        double best = -1;
-        int ties = 0;
-        ref = present[0];
-        for (auto i : present) {
-            if (std::find(spec.focal.begin(), spec.focal.end(), el->labels[i]) != spec.focal.end()) continue;
-            if (el->counts[i] > best) {
-                best = el->counts[i];
-                ref = i;
-                ties = 1;
-            } else if (el->counts[i] == best) {
-                ++ties;
-            }
-        }
-        if (ties > 1)
-            return make_error("exposure '" + ec.name + "': two groups are equally frequent, so the "
-                              "reference is ambiguous: pass --exposure " + ec.name + "=FOCAL,REFERENCE");
-    }
-    q.reference = el->labels[ref];
-    std::vector<std::size_t> focal_idx;
-    if (!spec.focal.empty()) {
-        for (const auto& f : spec.focal) {
-            auto fi = index_of(f);
-            if (!fi)
-                return make_error("focal group '" + f + "' not found in '" + ec.name + "' (groups: " +
-                                  join(present_labels) + ")");
-            if (*fi == ref)
-                return make_error("focal and reference group are both '" + f + "'");
-            focal_idx.push_back(*fi);
-        }
-    } else {
-        for (auto i : present)
-            if (i != ref) focal_idx.push_back(i);
-    }
-    if (focal_idx.size() > 100)
-        return make_error("exposure '" + ec.name + "' has " + std::to_string(focal_idx.size() + 1) +
-                          " groups; name the focal group with --exposure " + ec.name + "=FOCAL");
-    for (auto i : focal_idx) q.focal.push_back(el->labels[i]);
-    q.slot_of_exposure_code.assign(el->labels.size() + 1, -1);
-    q.slot_of_exposure_code[ref] = 0;
-    for (std::size_t s = 0; s < focal_idx.size(); ++s)
-        q.slot_of_exposure_code[focal_idx[s]] = static_cast<int>(s + 1);
+    if (auto st = resolve_groups_into(t, ec, spec, q); !st) return st.error();
     return q;
 }
 

@@ -48,6 +48,12 @@ struct Question {
 /// positive level, positive level absent, exposure with one level, focal == reference, ...).
 Result<Question> resolve_question(const Table& table, const QuestionSpec& spec);
 
+/// The groups alone (reference, focal, slot of each exposure code) by the rules of
+/// resolve_question, for questions whose outcome is not a yes/no column (a mean gap): outcome
+/// fields are copied from the spec (outcome_column set when the column exists) and not checked.
+/// Errors as resolve_question's for the exposure.
+Result<Question> resolve_groups(const Table& table, const QuestionSpec& spec);
+
 /// Parses "C" or "C=LEVEL" (outcome) into spec.outcome / spec.positive; "" leaves an empty
 /// outcome (resolve_question then reports it).
 void parse_outcome_arg(const std::string& arg, QuestionSpec& spec);

@@ -12,6 +12,7 @@ void apply_fdr(ScanResult& r) {
     p.reserve(r.rate_findings.size() + r.slope_findings.size());
     for (const auto& f : r.rate_findings) p.push_back(f.p_reversal);
     for (const auto& f : r.slope_findings) p.push_back(f.p_reversal);
+    for (const auto& f : r.mean_findings) p.push_back(f.p_reversal);
     const auto q = stats::benjamini_hochberg(p);
     const std::size_t nr = r.rate_findings.size();
     for (std::size_t i = 0; i < nr; ++i) {
@@ -27,6 +28,12 @@ void apply_fdr(ScanResult& r) {
         if (f.stability.draws > 0)
             f.stability.share =
                 static_cast<double>(f.draws_by_class[static_cast<std::size_t>(rank(f.cls))]) / f.stability.draws;
+    }
+    const std::size_t nm = nr + r.slope_findings.size();
+    for (std::size_t i = 0; i < r.mean_findings.size(); ++i) {
+        auto& f = r.mean_findings[i];
+        f.q_value = std::isnan(q[nm + i]) ? 1.0 : q[nm + i];
+        f.cls = classify(f.class_inputs, f.q_value, r.alpha);
     }
 }
 
@@ -51,6 +58,14 @@ void rank_findings(ScanResult& r) {
         if (change(a) != change(b)) return change(a) > change(b);
         if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
         return a.strata < b.strata;
+    });
+    std::stable_sort(r.mean_findings.begin(), r.mean_findings.end(), [](const MeanFinding& a, const MeanFinding& b) {
+        if (rank(a.cls) != rank(b.cls)) return rank(a.cls) < rank(b.cls);
+        if (a.q_value != b.q_value) return a.q_value < b.q_value;
+        if (a.change != b.change) return a.change > b.change;
+        if (a.strata.size() != b.strata.size()) return a.strata.size() < b.strata.size();
+        if (a.label() != b.label()) return a.label() < b.label();
+        return a.comparison < b.comparison;
     });
 }
 

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "core/scan/candidates.h"
+#include "core/scan/mean_finding.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_finding.h"
 #include "core/scan/slope_scan.h"
@@ -24,6 +25,9 @@ struct ScanResult {
     std::vector<RateFinding> rate_findings;  ///< ranked (see rank_findings)
     std::vector<SlopeFinding> slope_findings;  ///< trend checks of the same scan, ranked
     SlopeQuestion slope_question;            ///< what the slope findings answer (x, y empty if none)
+    std::vector<MeanFinding> mean_findings;  ///< mean-gap checks of a mean question, ranked
+    bool mean_scan = false;                  ///< a mean-gap question: mean_findings answer it
+    bool log_outcome = false;                ///< mean question: figures are of log(outcome)
     std::optional<LatentFinding> latent;     ///< the hidden-group hint of a trend audit, when asked
     double alpha = 0.05;
     int bootstrap = 0;
@@ -31,15 +35,15 @@ struct ScanResult {
     bool cancelled = false;                  ///< stopped early: findings are incomplete
 };
 
-/// The one FDR step of every scan: BH q-values over every finding's p_reversal (rate and slope
-/// findings together; a NaN p gets no q-value and does not count), then each class recomputed
+/// The one FDR step of every scan: BH q-values over every finding's p_reversal (rate, slope and
+/// mean-gap findings together; a NaN p gets no q-value and does not count), then each class recomputed
 /// with its q-value and a slope finding's stability re-read for its new class. No-op on an empty
 /// result.
 void apply_fdr(ScanResult& result);
 
 /// The one ranking of every scan: orders each list (empty lists stay empty) by class (reversal
 /// first), then q-value, then size of the change (largest first: |crude RD - MH RD| for rates,
-/// |pooled - within slope| for slopes, adjusted slopes when there are covariates), then fewer
+/// |pooled - within slope| for slopes, |crude − fixed-effects difference| for mean gaps, adjusted slopes when there are covariates), then fewer
 /// stratifiers, then label.
 void rank_findings(ScanResult& result);
 

@@ -3,6 +3,8 @@
 #include <cmath>
 #include <limits>
 
+#include "core/stats/distributions.h"
+
 namespace foldline::stats {
 
 double e_value(double rr) {
@@ -17,6 +19,19 @@ EValue e_value(double rr, Interval ci) {
     if (ci.lo <= 1.0 && ci.hi >= 1.0) e.ci_limit = 1.0;
     else e.ci_limit = e_value(rr >= 1 ? ci.lo : ci.hi);
     return e;
+}
+
+SmdEValue e_value_smd(double d, double se, double alpha) {
+    constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+    SmdEValue r{kNaN, {kNaN, kNaN}, {kNaN, kNaN}};
+    if (!std::isfinite(d)) return r;
+    constexpr double kFactor = 0.91;  // VanderWeele & Ding 2017: ln RR ≈ 0.91 × d
+    r.rr = std::exp(kFactor * d);
+    const double z = z_for_alpha(alpha);
+    if (std::isfinite(se) && se > 0 && std::isfinite(z))
+        r.rr_ci = {std::exp(kFactor * (d - z * se)), std::exp(kFactor * (d + z * se))};
+    r.e = e_value(r.rr, r.rr_ci);
+    return r;
 }
 
 }  // namespace foldline::stats

@@ -442,6 +442,30 @@ private slots:
         QVERIFY(!w.source_page()->table());
     }
 
+    // A mean-gap audit is refused with a message that points at `foldline run`, and the file
+    // is left as it was: the workbench never shows it as a rate audit (nor saves it as one).
+    void mean_project_is_refused_not_opened_as_rates() {
+        QTemporaryDir dir;
+        const QString path = dir.filePath("pay.foldline");
+        project::Project p;
+        p.data.path = dir.filePath("pay.csv").toStdString();
+        p.question.kind = project::QuestionKind::Mean;
+        p.question.outcome = "salary";
+        p.question.exposure = "group";
+        QVERIFY(project::save_project(p, path.toStdString()).ok());
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        const QByteArray before = f.readAll();
+        f.close();
+        MainWindow w;
+        const Status st = w.open_project(path);
+        QVERIFY(!st.ok());
+        const QString msg = QString::fromStdString(st.error().to_string());
+        QVERIFY2(msg.contains("foldline run") && msg.contains("mean-gap"), qPrintable(msg));
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QCOMPARE(f.readAll(), before);
+    }
+
     // The audit has one diagram: selecting another finding (a click, or the keyboard moving
     // through the list) changes which finding the verdict is read for, never the diagram the
     // reviewer drew, nor its undo history.
