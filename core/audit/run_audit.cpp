@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <thread>
 
+#include "core/audit/diagram_checks.h"
 #include "core/audit/project_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -208,7 +209,12 @@ Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const R
     auto r = spec.question.kind == project::QuestionKind::Slope ? scan_slopes_only(table, spec, options)
                                                                 : scan_rates(table, spec, options);
     if (!r) return r;
-    if (const causal::Diagram* d = spec.diagram()) attach_verdicts(*r, &table, *d, estimate_settings(spec));
+    if (const causal::Diagram* d = spec.diagram()) {
+        attach_verdicts(*r, &table, *d, estimate_settings(spec));
+        // The claims the diagram makes, tested on the same rows (an invalid diagram has none;
+        // attach_verdicts already says why).
+        if (auto checks = check_diagram(*d, table, estimate_settings(spec), options.work)) r->diagram_checks = std::move(*checks);
+    }
     return r;
 }
 
