@@ -19,6 +19,7 @@ class QUndoStack;
 namespace foldline::ui {
 
 class DiagramScene;
+class DiagramChecksPanel;
 
 class DiagramPage : public QWidget {
     Q_OBJECT
@@ -38,6 +39,8 @@ public:
     QUndoStack* undo_stack() const { return undo_; }
     QSplitter* splitter() const { return split_; }
     const DiagramVerdict& verdict() const { return verdict_; }
+    /// The diagram's claims tested on the rows (ui/diagram_checks_panel.h), kept up to date after each edit.
+    DiagramChecksPanel* checks_panel() const { return checks_; }
     /// Last message shown about a refused edit (empty when the last edit was accepted).
     QString message() const;
 
@@ -83,6 +86,7 @@ private:
     QLineEdit* unobserved_;
     QToolButton* connect_;
     QLabel *verdict_label_, *message_;
+    DiagramChecksPanel* checks_;
     QSplitter* split_;
     DiagramVerdict verdict_;
     QStringList data_columns_;
