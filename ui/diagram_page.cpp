@@ -1,5 +1,7 @@
 #include "ui/diagram_page.h"
 
+#include "ui/diagram_checks_panel.h"
+
 #include <QApplication>
 #include <QFileDialog>
 #include <QFileInfo>
@@ -197,6 +199,9 @@ DiagramPage::DiagramPage(QWidget* parent)
     sl->addWidget(finding_label_);
     sl->addWidget(verdict_label_);
     sl->addSpacing(10);
+    checks_ = new DiagramChecksPanel;
+    sl->addWidget(checks_);
+    sl->addSpacing(10);
     sl->addWidget(new QLabel(tr("<b>Shapes</b>")));
     sl->addWidget(new RoleLegend);
     sl->addStretch();
@@ -230,6 +235,7 @@ DiagramPage::DiagramPage(QWidget* parent)
                 undo_->push(new MoveNodesCommand(doc_, before, after, tr("move")));
             });
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_verdict);
+    connect(doc_, &DiagramDoc::structure_changed, this, [this] { checks_->set_diagram(doc_->diagram()); });
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refill_columns);
     connect(doc_, &DiagramDoc::structure_changed, this, &DiagramPage::refresh_banner);
     connect(scene_, &DiagramScene::node_menu_requested, this, &DiagramPage::show_node_menu);

@@ -21,6 +21,7 @@ class QUndoStack;
 namespace foldline::ui {
 
 class DiagramScene;
+class DiagramChecksPanel;
 
 class DiagramPage : public QWidget {
     Q_OBJECT
@@ -41,6 +42,8 @@ public:
     QUndoStack* undo_stack() const { return undo_; }
     QSplitter* splitter() const { return split_; }
     const DiagramVerdict& verdict() const { return verdict_; }
+    /// The diagram's claims tested on the rows (ui/diagram_checks_panel.h), kept up to date after each edit.
+    DiagramChecksPanel* checks_panel() const { return checks_; }
     /// Last message shown about a refused edit (empty when the last edit was accepted).
     QString message() const;
     /// Names the finding the verdict is read for ("Reversal: product (B vs A)"), shown above it.
@@ -121,6 +124,7 @@ private:
     QLabel *verdict_label_, *message_, *finding_label_, *banner_label_;
     QWidget* banner_;
     QPushButton *draft_btn_, *confirm_btn_, *accept_btn_, *discard_btn_;
+    DiagramChecksPanel* checks_;
     QSplitter* split_;
     DiagramVerdict verdict_;
     QStringList data_columns_;

@@ -456,6 +456,7 @@ report::MemoContent memo_content(const MemoRequest& request) {
     ScanResult judged = scan;
     if (const causal::Diagram* d = proj.diagram())
         audit::attach_verdicts(judged, request.table, *d, audit::estimate_settings(proj));
+    if (request.diagram_checks) judged.diagram_checks = request.diagram_checks;
     const std::string date =
         (request.date.isEmpty() ? QString::fromStdString(audit::today()) : request.date).toStdString();
     return report::build_memo(audit::memo_input(judged, data, &proj, request.table, date,

@@ -17,6 +17,7 @@
 #include "core/io/source_record.h"
 #include "core/table/table.h"
 #include "core/audit/audit_spec.h"
+#include "core/causal/diagram_check.h"
 #include "ui/diagram_doc.h"
 #include "ui/finding_view.h"
 
@@ -144,6 +145,9 @@ struct MemoRequest {
     const Table* table = nullptr;            ///< the rows, for the trend charts; null → no trend charts
     std::vector<FindingView> reviewed;       ///< findings with the reviewer's decisions and notes
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
+    /// The diagram's checks as the Diagram step computed them on a worker; when set they replace
+    /// the scan's (the memo never tests claims itself).
+    std::optional<causal::DiagramChecks> diagram_checks;
     QString title;
     QString date;                            ///< YYYY-MM-DD; empty → today
     QString data_change;                     ///< how the data changed since the project was saved

@@ -29,6 +29,7 @@
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
 #include "ui/diagram_doc.h"
+#include "ui/diagram_checks_panel.h"
 #include "ui/diagram_page.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
@@ -235,6 +236,11 @@ void MainWindow::seed_diagram_for(int row) {
     if (const Table* t = source_->table().get())
         for (const Column& c : t->columns) columns << QString::fromStdString(c.name);
     diagram_->seed(last_question_.exposure, last_question_.outcome, f->strata, columns);
+    // The diagram's claims are tested on the rows the scan read, as the verdicts are.
+    // Cut and judged with the audit's scan settings, as audit::estimate_settings gives them.
+    diagram_->checks_panel()->set_rows(scan_->scanned_table() ? scan_->scanned_table() : source_->table(),
+                                       last_spec_.scan.bins, static_cast<std::size_t>(last_spec_.scan.max_levels),
+                                       last_spec_.scan.alpha);
 }
 
 void MainWindow::refresh_memo() {
@@ -476,6 +482,8 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     if (project) r.project = &*project;
     r.reviewed = model_->findings();
     if (diagram_claims) r.diagram = &diagram_->doc()->diagram();
+    // The drawn diagram's checks come from the Diagram step's worker (empty while it runs).
+    if (diagram_claims) r.diagram_checks = diagram_->checks_panel()->checks().value_or(causal::DiagramChecks{});
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());
     r.data_change = data_change_;
     if ((r.database = source_->database_record()))

@@ -4,6 +4,7 @@
 #include <thread>
 
 #include "core/audit/mean_audit.h"
+#include "core/audit/diagram_checks.h"
 #include "core/audit/project_file.h"
 #include "core/common/sha256.h"
 #include "core/io/csv_reader.h"
@@ -279,8 +280,12 @@ Result<ScanResult> scan_table(const Table& table, const AuditSpec& spec, const R
     note_filter(*r, rows);
     if (const causal::Diagram* d = spec.diagram()) {
         const auto parts = combined_groups(rows, spec);
-        attach_verdicts(*r, &rows, parts.empty() ? *d : causal::combine_exposure(*d, parts, spec.question.exposure),
-                        estimate_settings(spec));
+        const causal::Diagram judged = parts.empty() ? *d : causal::combine_exposure(*d, parts, spec.question.exposure);
+        attach_verdicts(*r, &rows, judged, estimate_settings(spec));
+        // The claims the diagram makes, tested on the same rows (an invalid diagram has none;
+        // attach_verdicts already says why).
+        if (auto checks = check_diagram(judged, rows, estimate_settings(spec), options.work))
+            r->diagram_checks = std::move(*checks);
     }
     return r;
 }

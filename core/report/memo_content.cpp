@@ -3,6 +3,7 @@
 #include "core/report/mean_memo.h"
 #include "core/report/slope_chart.h"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -358,6 +359,32 @@ bool included_in_memo(const SlopeFinding& f, const project::Project* project) {
     return included(r, f.cls, project);
 }
 
+std::string diagram_checks_paragraph(const causal::DiagramChecks& c) {
+    if (c.checks.empty()) return {};
+    const auto untestable = std::count_if(c.checks.begin(), c.checks.end(),
+                                          [](const auto& k) { return k.form == causal::ClaimForm::Untestable; });
+    char level[32];
+    std::snprintf(level, sizeof level, "%g", c.alpha);
+    std::string s = "The diagram against the data: ";
+    if (c.contradicted == 0) {
+        s += c.tested == 0 ? std::string("none of its claims could be tested.")
+                           : "none of its " + std::to_string(c.tested) + " tested claims is contradicted (q < " +
+                                 level + ").";
+    } else {
+        s += std::to_string(c.contradicted) + " of its " + std::to_string(c.tested) +
+             " tested claims are contradicted (q < " + level + "), so the verdict may rest on a diagram that "
+             "misses an arrow or a common cause.";
+        int shown = 0;
+        for (const auto& k : c.checks)
+            if (k.contradicted && shown++ < 3) s += " " + k.sentence;
+        if (c.contradicted > 3) s += " (" + std::to_string(c.contradicted - 3) + " more in the JSON.)";
+    }
+    if (untestable > 0)
+        s += " " + std::to_string(untestable) + (untestable == 1 ? " claim rests" : " claims rest") +
+             " on unobserved variables and cannot be checked.";
+    return s;
+}
+
 MemoContent build_memo(const MemoInput& in) {
     MemoContent m;
     if (!in.scan) return m;
@@ -565,6 +592,7 @@ MemoContent build_memo(const MemoInput& in) {
             sec.verdict = "No causal diagram was given: whether the pooled or the stratified view answers the "
                           "question depends on how the columns cause each other, which the data alone cannot say.";
         }
+        if (r.diagram_checks) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
         sec.decomposition = decomposition_sentence(f);
         sec.e_value = e_value_sentence(f);
         const auto* rv = review_of(f, p);
@@ -606,6 +634,7 @@ MemoContent build_memo(const MemoInput& in) {
             sec.verdict = "No causal diagram was given: whether the pooled or the within-strata trend answers the "
                           "question depends on how the columns cause each other, which the data alone cannot say.";
         }
+        if (r.diagram_checks) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
         sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
         if (rv) sec.note = rv->note;

@@ -81,6 +81,7 @@ struct MemoSection {
     std::optional<MemoScatter> scatter;  ///< trend sections, when the rows were given
     std::optional<MemoDiagram> diagram;
     std::string verdict;       ///< which view answers, and why; a plain note when no diagram
+    std::string diagram_checks;  ///< the diagram's claims against the data (diagram_checks_paragraph); empty without
     std::string decomposition; ///< one sentence
     std::string e_value;       ///< one sentence
     std::string decision;      ///< "Reviewer's decision: upheld."
@@ -120,6 +121,10 @@ struct MemoInput {
 inline constexpr const char* kMemoCaution =
     "This memo is a statistical screen, not a legal or clinical determination. Read it with local law, "
     "counsel and licensed practice.";
+
+/// One paragraph beside each verdict: how many of the diagram's claims the data contradict, with
+/// the sentences of up to three of them, and how many cannot be checked. No claims → empty.
+std::string diagram_checks_paragraph(const causal::DiagramChecks& checks);
 
 /// Builds the memo: rate findings first, then slope findings (ScanResult::slope_findings, a
 /// trend of a numeric outcome on a numeric exposure; sections with a scatter chart when

@@ -7,6 +7,7 @@
 #include "core/report/json_number.h"
 #include "core/report/mean_json.h"
 #include "core/report/slope_json.h"
+#include "core/report/diagram_checks_json.h"
 #include "core/report/verdict_json.h"
 
 namespace foldline {
@@ -116,6 +117,7 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
         if (!r.slope_question.covariates.empty()) j["slope_question"]["covariates"] = r.slope_question.covariates;
     }
     j["summary"] = scan_to_json_summary(r);
+    if (r.diagram_checks) j["diagram_checks"] = report::to_json(*r.diagram_checks);
     j["findings"] = std::move(findings);
     return j;
 }
@@ -339,6 +341,7 @@ std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     head.seed = r.seed;
     head.cancelled = r.cancelled;
     head.slope_question = r.slope_question;
+    head.diagram_checks = r.diagram_checks;
     json doc = scan_to_json(head, data);
     // The summary must describe the full result.
     doc["summary"] = scan_to_json_summary(r);

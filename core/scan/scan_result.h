@@ -6,6 +6,7 @@
 #include <string>
 #include <vector>
 
+#include "core/causal/diagram_check.h"
 #include "core/scan/candidates.h"
 #include "core/scan/mean_finding.h"
 #include "core/scan/question.h"
@@ -33,6 +34,7 @@ struct ScanResult {
     int bootstrap = 0;
     unsigned long long seed = 0;
     bool cancelled = false;                  ///< stopped early: findings are incomplete
+    std::optional<causal::DiagramChecks> diagram_checks;  ///< the diagram's claims tested on the rows (with a diagram)
 };
 
 /// The one FDR step of every scan: BH q-values over every finding's p_reversal (rate, slope and

@@ -5,6 +5,8 @@
 //   D xs ; ys ; zs   d-separation query (comma-separated node lists, "-" for empty)  → "1"/"0"
 //   A xs ; ys ; us   minimal adjustment sets using only nodes us → "sets k s1|s2|..." where each
 //                    set is comma-separated ("-" for the empty set), then "smallest s" or "smallest none"
+//   I us             implied independences with observed nodes us → "claims k", then k lines
+//                    "a b form given" (form parents|separator|untestable, given as above)
 #include <iostream>
 #include <sstream>
 #include <string>
@@ -12,6 +14,7 @@
 
 #include "core/causal/adjustment.h"
 #include "core/causal/dseparation.h"
+#include "core/causal/implications.h"
 
 using namespace foldline::causal;
 
@@ -57,6 +60,11 @@ int main() {
             int a, b;
             ss >> a >> b;
             g.add_edge(a, b);
+        } else if (kind == 'I') {
+            const auto claims = implied_independences(g, to_mask(g.size(), parse_list(rest)));
+            std::cout << "claims " << claims.size() << "\n";
+            for (const auto& c : claims)
+                std::cout << c.a << " " << c.b << " " << to_string(c.form) << " " << show(c.given) << "\n";
         } else if (kind == 'D' || kind == 'A') {
             auto p1 = rest.find(';'), p2 = rest.find(';', p1 + 1);
             auto x = parse_list(rest.substr(0, p1));

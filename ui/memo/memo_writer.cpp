@@ -698,6 +698,7 @@ void render(Flow& flow, const MemoContent& m) {
         flow.paragraph(QStringLiteral("Pooled and adjusted figures"), flow.font(10, true), kInk, 0, 3);
         flow.table(s.figures, 8);
         flow.labelled(QStringLiteral("Verdict"), q(s.verdict));
+        if (!s.diagram_checks.empty()) flow.labelled(QStringLiteral("Diagram against the data"), q(s.diagram_checks));
         if (!s.decomposition.empty()) flow.labelled(QStringLiteral("Decomposition"), q(s.decomposition));
         if (!s.e_value.empty()) flow.labelled(QStringLiteral("Sensitivity to unmeasured confounding"), q(s.e_value));
         flow.labelled(QStringLiteral("Review"), q(s.decision));
