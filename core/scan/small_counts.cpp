@@ -116,7 +116,7 @@ SmallCounts assess_small_counts(const stats::Strata& strata, double psi, double 
         return sc;
     }
     sc.zelen_run = true;
-    sc.zelen = stats::zelen_exact(strata, opt.max_tables);
+    sc.zelen = stats::zelen_exact(strata, opt.max_tables, opt.max_count_work);
     if (sc.zelen.status == stats::HomogeneityStatus::Computed) {
         sc.homogeneity_used = HomogeneityUsed::Zelen;
         sc.homogeneity_reason = bd_text + ": the Breslow-Day test is not reliable; Zelen's exact test decides (p " +
@@ -129,6 +129,10 @@ SmallCounts assess_small_counts(const stats::Strata& strata, double psi, double 
                 why = num(sc.zelen.tables) + " tables share the observed total, above the limit of " + num(opt.max_tables);
                 break;
             case stats::HomogeneityStatus::NotWholeCounts: why = "the counts are weighted (not whole numbers)"; break;
+            case stats::HomogeneityStatus::TooLarge:
+                why = "counting the tables that share the observed total would take over " + num(opt.max_count_work) +
+                      " steps";
+                break;
             default: why = "fewer than two strata in which the focal events can vary"; break;
         }
         sc.homogeneity_reason = bd_text + ": the Breslow-Day test is not reliable and Zelen's exact test was not run (" +

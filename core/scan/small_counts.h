@@ -29,6 +29,7 @@ struct SmallCountOptions {
     double min_fitted = 5;         ///< a Breslow-Day fitted cell below this is small
     double max_small_share = 0.2;  ///< Breslow-Day trusted up to this share of small cells
     double max_tables = 1e5;       ///< Zelen enumeration limit
+    double max_count_work = 5e7;   ///< Zelen: steps allowed to count the tables
     stats::ExactLimits limits;     ///< exact conditional test limits
 };
 

@@ -28,11 +28,12 @@ std::string_view to_string(HomogeneityStatus s) {
         case HomogeneityStatus::TooFewStrata: return "fewer than two varying strata";
         case HomogeneityStatus::NotWholeCounts: return "counts not whole";
         case HomogeneityStatus::TooManyTables: return "too many tables";
+        case HomogeneityStatus::TooLarge: return "too large to count";
     }
     return "computed";
 }
 
-ZelenTest zelen_exact(const Strata& strata, double max_tables) {
+ZelenTest zelen_exact(const Strata& strata, double max_tables, double max_count_work) {
     ZelenTest z;
     z.p = std::numeric_limits<double>::quiet_NaN();
     if (!whole_counts(strata)) {
@@ -59,15 +60,27 @@ ZelenTest zelen_exact(const Strata& strata, double max_tables) {
     const std::size_t K = v.size();
     long t = s;
     for (const auto& x : v) t -= x.lo;
-    // ways[k][r]: number of (y_k, ..., y_{K-1}) summing to r (doubles: counts can be huge).
+    // ways[k][r]: number of (y_k, ..., y_{K-1}) summing to r <= t (doubles: counts can be huge).
+    // Its cost is bounded before it starts.
+    double work = 0, len = 1;
+    for (std::size_t k = K; k-- > 0;) {
+        const double w = double(v[k].hi - v[k].lo);
+        work += len * (w + 1);
+        len = std::min(len + w, double(t) + 1);
+    }
+    if (work > max_count_work) {
+        z.status = HomogeneityStatus::TooLarge;
+        return z;
+    }
+    const std::size_t cap = static_cast<std::size_t>(t) + 1;
     std::vector<std::vector<double>> ways(K + 1);
     ways[K] = {1.0};
     for (std::size_t k = K; k-- > 0;) {
-        const long w = v[k].hi - v[k].lo;
+        const std::size_t w = static_cast<std::size_t>(v[k].hi - v[k].lo);
         const auto& after = ways[k + 1];
-        std::vector<double> cur(after.size() + static_cast<std::size_t>(w), 0.0);
-        for (long y = 0; y <= w; ++y)
-            for (std::size_t r = 0; r < after.size(); ++r) cur[r + static_cast<std::size_t>(y)] += after[r];
+        std::vector<double> cur(std::min(after.size() + w, cap), 0.0);
+        for (std::size_t y = 0; y <= w; ++y)
+            for (std::size_t r = 0; r < after.size() && r + y < cur.size(); ++r) cur[r + y] += after[r];
         ways[k] = std::move(cur);
     }
     z.tables = ways[0][static_cast<std::size_t>(t)];

@@ -8,7 +8,8 @@
 // Biometrika 58:129; the same fuzz 1 + 1e-7 as R's exact tests).
 //
 // Bounded enumeration: the number of tables with the observed S is counted first (a dynamic
-// programme over the strata); above `max_tables` the test is not run and `status` says so, and
+// programme over the strata, itself bounded); above `max_tables` the test is not run and
+// `status` says so, and
 // callers report homogeneity as not assessable with these counts.
 #include <cstddef>
 #include <string_view>
@@ -22,9 +23,10 @@ enum class HomogeneityStatus {
     TooFewStrata,    ///< fewer than two strata in which a_k can vary
     NotWholeCounts,  ///< weighted counts
     TooManyTables,   ///< more than max_tables tables share the observed S
+    TooLarge,        ///< counting the tables would take over max_count_work steps
 };
 
-/// "computed", "fewer than two varying strata", "counts not whole", "too many tables".
+/// "computed", "fewer than two varying strata", "counts not whole", "too many tables", "too large to count".
 std::string_view to_string(HomogeneityStatus s);
 
 struct ZelenTest {
@@ -34,7 +36,9 @@ struct ZelenTest {
     std::size_t strata_varying = 0;
 };
 
-/// Zelen's exact test of homogeneity; at most `max_tables` tables are enumerated.
-ZelenTest zelen_exact(const Strata& strata, double max_tables = 1e5);
+/// Zelen's exact test of homogeneity; at most `max_tables` tables are enumerated, and counting
+/// them (sum over strata of min(width so far, S range) x stratum width) takes at most
+/// `max_count_work` steps, else TooLarge (tables left 0).
+ZelenTest zelen_exact(const Strata& strata, double max_tables = 1e5, double max_count_work = 5e7);
 
 }  // namespace foldline::stats

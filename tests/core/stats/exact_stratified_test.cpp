@@ -162,4 +162,10 @@ TEST(ExactStratified, LimitsAndWeightsFallBackWithAStatus) {
     EXPECT_EQ(z.status, HomogeneityStatus::TooManyTables);
     EXPECT_GT(z.tables, 1000);
     EXPECT_TRUE(std::isnan(z.p));
+    // Large strata: even counting the tables is bounded (400 strata of 2,000 rows each).
+    Strata wide(400, StratumCounts{600, 400, 500, 500});
+    const auto zw = zelen_exact(wide);
+    EXPECT_EQ(zw.status, HomogeneityStatus::TooLarge);
+    EXPECT_EQ(zw.tables, 0);
+    EXPECT_EQ(exact_common_odds_ratio(wide).status, ExactStatus::TooLarge);
 }
