@@ -45,6 +45,29 @@ QString num(double v, int digits = 3) {
 }
 QString pval(double p) { return std::isfinite(p) ? QString::number(p, 'g', 3) : QStringLiteral("—"); }
 
+/// The small-count assessment: the exact figures under the pooled table, and the reasons on the
+/// class when an exact test decided or an asymptotic one could not be trusted.
+void add_small_counts(const SmallCounts& sc, FindingView& f) {
+    const auto& mf = sc.mantel_fleiss;
+    f.more.push_back({QObject::tr("Mantel-Fleiss distance"), num(mf.distance, 3) + (mf.satisfied ? QString() : QObject::tr("  (below 5)")),
+                      QString::fromStdString(sc.adjusted_reason)});
+    if (sc.exact_run && sc.exact.status == stats::ExactStatus::Computed) {
+        const auto& e = sc.exact;
+        f.more.push_back({QObject::tr("Exact test p, conditional odds ratio"),
+                          pval(e.p_two_sided) + QStringLiteral(", ") + num(e.estimate) +
+                              QStringLiteral(" [%1, %2]").arg(num(e.ci.lo), num(e.ci.hi)),
+                          QObject::tr("Exact conditional test of a common odds ratio of 1, its conditional maximum-likelihood "
+                                      "estimate and exact 95% interval")});
+    }
+    if (sc.homogeneity_used != HomogeneityUsed::BreslowDay)
+        f.more.push_back({QObject::tr("Homogeneity (small counts)"),
+                          sc.homogeneity_used == HomogeneityUsed::Zelen ? QObject::tr("Zelen exact p %1").arg(pval(sc.zelen.p))
+                                                                        : QObject::tr("not assessable"),
+                          QString::fromStdString(sc.homogeneity_reason)});
+    if (sc.flagged())
+        f.small_counts = QString::fromStdString(sc.adjusted_reason + "\n" + sc.homogeneity_reason);
+}
+
 FindingView to_view(const RateFinding& r) {
     FindingView f;
     f.cls = r.cls;
@@ -110,6 +133,7 @@ FindingView to_view(const RateFinding& r) {
         {QObject::tr("E-value (estimate / CI)"), num(r.e_value.estimate, 2) + QStringLiteral(" / ") + num(r.e_value.ci_limit, 2),
          QObject::tr("How strong an unmeasured confounder would have to be, on the risk-ratio scale, to explain the adjusted ratio away")},
     };
+    add_small_counts(r.small_counts, f);
     if (r.crude.below_four_fifths)
         f.more.push_back({QObject::tr("Four-fifths flag"), QObject::tr("pooled ratio below 0.8"),
                           QObject::tr("The lower selection rate is under four fifths of the higher (common practice in employment screening)")});

@@ -58,6 +58,8 @@ struct FindingView {
     double within = kNaN, composition = kNaN;  ///< decomposition of the crude gap
     GroupRow pooled;
     std::vector<StatLine> more;    ///< MH figures, tests, E-value: shown under the pooled table
+    QString small_counts;          ///< which tests decided the class and why, when counts are small
+                                   ///< (core/scan/small_counts.h); empty when the asymptotic tests hold
     std::vector<GroupRow> rows;    ///< per stratum (rates)
     // Slopes.
     std::vector<SlopeRow> slope_rows;

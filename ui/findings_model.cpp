@@ -131,7 +131,9 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
     }
     if (role == Qt::DisplayRole) {
         switch (index.column()) {
-            case Class: return class_glyph(f->cls) + QStringLiteral("  ") + class_title(f->cls);
+            case Class:
+                return class_glyph(f->cls) + QStringLiteral("  ") + class_title(f->cls) +
+                       (f->small_counts.isEmpty() ? QString() : tr("  (small counts)"));
             case Strata: return f->strata_label() + (f->slope ? tr("  (slope)") : QString());
             case Crude: return format_gap(*f, f->crude, false);
             case Adjusted: return format_gap(*f, f->adjusted, false);
@@ -143,7 +145,9 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
     }
     if (role == Qt::ToolTipRole) {
         switch (index.column()) {
-            case Class: return class_meaning(f->cls);
+            case Class:
+                return f->small_counts.isEmpty() ? class_meaning(f->cls)
+                                                 : class_meaning(f->cls) + QStringLiteral("\n\n") + f->small_counts;
             case Crude:
                 return tr("Pooled %1, %2 minus %3: %4 (95% confidence interval)")
                     .arg(f->effect_name, f->focal, f->reference, format_gap(*f, f->crude));

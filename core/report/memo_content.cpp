@@ -342,6 +342,26 @@ std::string p_text(double p) {
     return fmt("%.2f", p);
 }
 
+/// Rows of the exact tests a finding's small counts called for (core/scan/small_counts.h).
+void add_small_count_rows(const RateFinding& f, MemoTable& t) {
+    const auto& sc = f.small_counts;
+    auto bound = [](double x) { return std::isfinite(x) ? ratio(x) : std::string("unbounded"); };
+    if (sc.adjusted_used == AdjustedTestUsed::Exact)  // the exact MLE and interval may be 0 or unbounded
+        t.rows.push_back({"Exact conditional test p (odds ratio)",
+                          p_text(sc.exact.p_two_sided) + " (" + bound(sc.exact.estimate) + ")",
+                          bound(sc.exact.ci.lo) + " to " + bound(sc.exact.ci.hi)});
+    if (sc.homogeneity_used == HomogeneityUsed::Zelen)
+        t.rows.push_back({"Homogeneity, Zelen exact p", p_text(sc.zelen.p), ""});
+    else if (sc.homogeneity_used == HomogeneityUsed::NotAssessable)
+        t.rows.push_back({"Homogeneity", "not assessable", ""});
+}
+
+/// Which tests decided the class and why, when counts are small; empty otherwise.
+std::string small_counts_sentence(const RateFinding& f) {
+    const auto& sc = f.small_counts;
+    return sc.flagged() ? " Small counts: " + sc.adjusted_reason + " " + sc.homogeneity_reason : std::string();
+}
+
 namespace {
 bool included(const project::FindingReview* r, FindingClass cls, const project::Project* project) {
     if (project && project->memo.findings == "chosen") return r && r->in_memo && *r->in_memo;
@@ -575,8 +595,9 @@ MemoContent build_memo(const MemoInput& in) {
         sec.finding_class = std::string(to_string(f.cls));
         sec.heading = std::to_string(k + 1) + ". " + capitalised(to_string(f.cls)) + ": " + strata_words(f) + " (" +
                       comparison_words(f) + ")";
-        sec.lead = lead_sentence(f, q);
+        sec.lead = lead_sentence(f, q) + small_counts_sentence(f);
         sec.figures = figures_table(f, r.alpha);
+        add_small_count_rows(f, sec.figures);
         sec.strata = strata_table(f);
         sec.chart = chart_of(f, q);
         const causal::Verdict* v = f.verdict ? &f.verdict->verdict : nullptr;
@@ -654,6 +675,10 @@ MemoContent build_memo(const MemoInput& in) {
         "test); its p-values are corrected with Benjamini-Hochberg over all " +
             std::to_string(r.rate_findings.size()) + " comparisons at a false discovery rate of " +
             fixed(r.alpha, 2) + "; intervals are " + fmt("%.0f%%", 100 * (1 - r.alpha)) + ".",
+        "Small counts: where the Mantel-Fleiss criterion fails (distance of the expected focal events from their "
+        "bounds below 5) the class uses the exact conditional test of a common odds ratio of 1; where more than "
+        "20% of the Breslow-Day fitted cells are below 5 (common practice) Zelen's exact test of homogeneity "
+        "decides, or homogeneity is not assessable with these counts.",
         r.bootstrap > 0 ? "Stability: share of " + std::to_string(r.bootstrap) +
                               " multinomial bootstrap resamples of each flagged finding's count table that keep its "
                               "class; seed " + std::to_string(r.seed) + "."

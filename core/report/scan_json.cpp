@@ -8,6 +8,7 @@
 #include "core/report/mean_json.h"
 #include "core/report/slope_json.h"
 #include "core/report/diagram_checks_json.h"
+#include "core/report/small_counts_json.h"
 #include "core/report/verdict_json.h"
 
 namespace foldline {
@@ -271,6 +272,7 @@ void write_rate_finding(Writer& w, const RateFinding& f) {
     w.field("df", f.breslow_day.df);
     w.field("strata_used", static_cast<double>(f.breslow_day.strata_used));
     w.close_object();
+    w.raw(",\"small_counts\":" + report::small_counts_to_json(f.small_counts).dump());
     w.raw(",\"decomposition\":{");
     w.field("crude_gap", f.decomposition.crude_gap);
     w.field("within", f.decomposition.within);

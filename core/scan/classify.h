@@ -13,6 +13,8 @@
 //   masked         crude consistent with none, adjusted clearly present.
 //   stable         none of these.
 // They are tried in this order; the first that holds is the class.
+#include <limits>
+
 #include "core/scan/finding_class.h"
 
 namespace foldline {
@@ -24,11 +26,17 @@ struct ClassInputs {
     double adjusted_z;       ///< signed z of the adjusted test
     bool strata_disagree;    ///< some informative strata point each way
     double p_homogeneity;    ///< homogeneity test p (NaN when it could not be run)
+    /// Exact conditional p-values of the adjusted test (core/scan/small_counts.h), used instead
+    /// of adjusted_z when not NaN: two-sided, and one-sided towards a larger / smaller odds ratio.
+    double adjusted_p_exact = std::numeric_limits<double>::quiet_NaN();
+    double adjusted_p_exact_greater = std::numeric_limits<double>::quiet_NaN();
+    double adjusted_p_exact_less = std::numeric_limits<double>::quiet_NaN();
 };
 
 /// One-sided intersection-union p-value for "crude and adjusted significant in opposite
-/// directions": max(P(Z > |z_crude|), P(Z > -sign(crude) z_adjusted)). 1 when the crude effect
-/// is 0 or any input is NaN.
+/// directions": max(P(Z > |z_crude|), P(Z > -sign(crude) z_adjusted)), the second term being
+/// the exact one-sided p against the crude direction when the exact test is in use. 1 when the
+/// crude effect is 0 or any input is NaN.
 double reversal_p(const ClassInputs& in);
 
 /// True when the adjusted point estimate lies on the other side of the null from the crude one.

@@ -8,6 +8,7 @@
 #include "core/scan/classify.h"
 #include "core/scan/finding.h"
 #include "core/scan/finding_class.h"
+#include "core/scan/small_counts.h"
 #include "core/stats/decomposition.h"
 #include "core/stats/evalue.h"
 #include "core/stats/proportions.h"
@@ -63,6 +64,7 @@ struct RateFinding : FindingHeader {
     AdjustedFigures adjusted;
     stats::CmhTest cmh;
     stats::BreslowDayTest breslow_day;  ///< psi = MH OR
+    SmallCounts small_counts;           ///< validity of CMH / Breslow-Day and the exact tests used
     stats::Decomposition decomposition;
     stats::EValue e_value;              ///< of the MH RR and its CI limit nearer 1
 

@@ -45,7 +45,12 @@ ClassInputs quick_inputs(const stats::Strata& strata, bool need_homogeneity) {
     in.adjusted_effect = log_or(orr.estimate);
     in.adjusted_z = stats::cmh_test(strata).z;
     in.strata_disagree = disagree(strata);
-    in.p_homogeneity = need_homogeneity && in.strata_disagree ? stats::breslow_day(strata, orr.estimate).p_tarone : kNaN;
+    const bool homogeneity = need_homogeneity && in.strata_disagree;
+    in.p_homogeneity = homogeneity ? stats::breslow_day(strata, orr.estimate).p_tarone : kNaN;
+    // The same small-count rules as the finding itself (p-values only).
+    const auto sc = assess_small_counts(strata, orr.estimate, 0.05, false, homogeneity);
+    use_small_counts(sc, in.p_homogeneity, in);
+    if (!homogeneity) in.p_homogeneity = kNaN;
     return in;
 }
 
@@ -104,6 +109,7 @@ RateFinding analyse_strata(const stats::Strata& strata, const std::vector<std::v
     f.adjusted.standardized = stats::standardized_rd(strata, alpha);
     f.cmh = stats::cmh_test(strata);
     f.breslow_day = stats::breslow_day(strata, f.adjusted.mh_or.estimate);
+    f.small_counts = assess_small_counts(strata, f.adjusted.mh_or.estimate, alpha);
     f.decomposition = stats::decompose_crude_rd(strata);
     f.e_value = stats::e_value(f.adjusted.mh_rr.estimate, f.adjusted.mh_rr.ci);
 
@@ -147,7 +153,7 @@ RateFinding analyse_strata(const stats::Strata& strata, const std::vector<std::v
     in.adjusted_effect = log_or(f.adjusted.mh_or.estimate);
     in.adjusted_z = f.cmh.z;
     in.strata_disagree = f.strata_disagree;
-    in.p_homogeneity = f.breslow_day.p_tarone;
+    use_small_counts(f.small_counts, f.breslow_day.p_tarone, in);
     f.p_reversal = reversal_p(in);
     f.q_value = f.p_reversal;
     f.direction_flip = direction_flips(in);

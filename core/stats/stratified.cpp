@@ -114,6 +114,22 @@ CmhTest cmh_test(const Strata& strata) {
     return t;
 }
 
+double common_or_fitted_a(const StratumCounts& s, double psi) {
+    const double n1 = s.n_focal(), n0 = s.n_reference(), m1 = s.a + s.c, m0 = s.b + s.d;
+    if (n1 <= 0 || n0 <= 0 || m1 <= 0 || m0 <= 0 || !(psi > 0) || !std::isfinite(psi))
+        return std::numeric_limits<double>::quiet_NaN();
+    const double N = n1 + n0;
+    if (std::fabs(psi - 1.0) < 1e-12) return n1 * m1 / N;
+    const double lo = std::max(0.0, m1 - n0), hi = std::min(n1, m1);
+    // (1 - psi) E^2 + [psi (n1 + m1) + (N - n1 - m1)] E - psi n1 m1 = 0, root in (lo, hi).
+    const double qa = 1.0 - psi, qb = psi * (n1 + m1) + (N - n1 - m1), qc = -psi * n1 * m1;
+    const double disc = std::sqrt(std::max(0.0, qb * qb - 4 * qa * qc));
+    // Numerically stable pair of roots.
+    const double q = -0.5 * (qb + std::copysign(disc, qb));
+    const double r1 = q / qa, r2 = qc / q;
+    return (r1 >= lo - 1e-9 && r1 <= hi + 1e-9) ? r1 : r2;
+}
+
 BreslowDayTest breslow_day(const Strata& strata, double psi) {
     BreslowDayTest t{kNaN, kNaN, kNaN, kNaN, kNaN, 0};
     double bd = 0, sum_a = 0, sum_e = 0, sum_v = 0;
@@ -125,19 +141,7 @@ BreslowDayTest breslow_day(const Strata& strata, double psi) {
         ++used;
         if (!ok) continue;
         const double N = n1 + n0;
-        const double lo = std::max(0.0, m1 - n0), hi = std::min(n1, m1);
-        double e;
-        if (std::fabs(psi - 1.0) < 1e-12) {
-            e = n1 * m1 / N;
-        } else {
-            // (1 - psi) E^2 + [psi (n1 + m1) + (N - n1 - m1)] E - psi n1 m1 = 0, root in (lo, hi).
-            const double qa = 1.0 - psi, qb = psi * (n1 + m1) + (N - n1 - m1), qc = -psi * n1 * m1;
-            const double disc = std::sqrt(std::max(0.0, qb * qb - 4 * qa * qc));
-            // Numerically stable pair of roots.
-            const double q = -0.5 * (qb + std::copysign(disc, qb));
-            const double r1 = q / qa, r2 = qc / q;
-            e = (r1 >= lo - 1e-9 && r1 <= hi + 1e-9) ? r1 : r2;
-        }
+        const double e = common_or_fitted_a(s, psi);
         const double inv_v = 1.0 / e + 1.0 / (n1 - e) + 1.0 / (m1 - e) + 1.0 / (N - n1 - m1 + e);
         const double v = 1.0 / inv_v;
         bd += (s.a - e) * (s.a - e) / v;

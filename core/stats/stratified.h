@@ -85,6 +85,12 @@ struct BreslowDayTest {
     std::size_t strata_used;   ///< strata with both groups and both outcomes
 };
 
+/// Fitted focal-group events of one stratum under a common odds ratio psi (the Breslow-Day E: the
+/// root in the stratum's range of the quadratic in the header comment of breslow_day); its
+/// fitted cells are E, n1 - E, m1 - E, N - n1 - m1 + E. NaN when a margin is zero or psi is not
+/// finite and positive.
+double common_or_fitted_a(const StratumCounts& s, double psi);
+
 /// Breslow-Day test of a common odds ratio psi (usually the MH OR) with Tarone's correction,
 /// over the strata whose margins are all positive. NaN statistic and p when fewer than 2 strata
 /// are usable or psi is not finite and positive.

@@ -59,6 +59,21 @@ private slots:
         QCOMPARE(page.list()->model()->rowCount(), 3);
     }
 
+    // A finding whose class rests on an exact test (core/scan/small_counts.h) says so in the class
+    // column, and its tooltip gives the engine's reasons; other findings carry no mark.
+    void small_counts_are_marked_on_the_class() {
+        FindingsModel model;
+        model.add(sample(FindingClass::Stable, "branch", 0.9));
+        FindingView f = sample(FindingClass::Masked, "penicillin", 0.04);
+        f.small_counts = "Mantel-Fleiss distance 4 < 5: the exact conditional test decides (p 0.03994).";
+        model.add(f);
+        const QModelIndex plain = model.index(0, FindingsModel::Class), small = model.index(1, FindingsModel::Class);
+        QVERIFY(!model.data(plain, Qt::DisplayRole).toString().contains(QStringLiteral("small counts")));
+        QVERIFY(model.data(small, Qt::DisplayRole).toString().endsWith(QStringLiteral("(small counts)")));
+        QVERIFY(model.data(small, Qt::ToolTipRole).toString().contains(QStringLiteral("exact conditional test decides")));
+        QVERIFY(!model.data(plain, Qt::ToolTipRole).toString().contains(QStringLiteral("Mantel-Fleiss")));
+    }
+
     void tables_show_the_engine_numbers_and_grey_uninformative_strata() {
         FindingsModel model;
         FindingsPage page(&model);

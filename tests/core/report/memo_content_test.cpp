@@ -85,6 +85,16 @@ TEST(MemoContent, FiguresMatchPublishedPenicillinValues) {
     EXPECT_TRUE(s.chart.points[0].pooled);
     EXPECT_EQ(s.chart.points[5].label, "4");
     EXPECT_EQ(s.heading, "1. Explained: penicillin (no_delay vs delay_1.5h)");
+    // Small counts (docs/methods.md#small-counts): the exact conditional test and Zelen's test
+    // decided; R's mantelhaen.test(exact = TRUE) prints p 0.03994, common OR 10.36102, 95% CI
+    // 1.077401 to 529.837399; Zelen p 300/4050 = 0.0741 (by hand).
+    const auto* exact = row_named(s.figures, "Exact conditional test p (odds ratio)");
+    ASSERT_NE(exact, nullptr);
+    EXPECT_EQ((*exact)[1], "0.040 (10.36)") << (*exact)[1];
+    EXPECT_EQ((*exact)[2].substr(0, 8), "1.08 to ") << (*exact)[2];
+    ASSERT_NE(row_named(s.figures, "Homogeneity, Zelen exact p"), nullptr);
+    EXPECT_NE(s.lead.find("Small counts: Mantel-Fleiss distance 4 < 5"), std::string::npos) << s.lead;
+    EXPECT_NE(s.lead.find("Zelen's exact test decides (p 0.07407)"), std::string::npos) << s.lead;
 }
 
 TEST(MemoContent, FrontMatterMethodNotesAndCaution) {

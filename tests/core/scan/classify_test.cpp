@@ -35,3 +35,24 @@ TEST(Classify, MaskedHeterogeneousAndUndefined) {
     EXPECT_DOUBLE_EQ(reversal_p(none), 1.0);
     EXPECT_EQ(classify(none, 1.0, 0.05), FindingClass::Stable);
 }
+
+// Where the exact conditional test is in use (core/scan/small_counts.h) its p-values replace the
+// CMH z: two-sided for explained / masked, one-sided against the crude direction for a reversal.
+TEST(Classify, ExactPValuesReplaceTheCmhZ) {
+    ClassInputs in{0.01, 0.5, 0.4, 4.0, false, NAN};  // CMH alone: masked (p 6e-5)
+    in.adjusted_p_exact = 0.2;
+    in.adjusted_p_exact_greater = 0.1;
+    in.adjusted_p_exact_less = 0.95;
+    EXPECT_EQ(classify(in, reversal_p(in), 0.05), FindingClass::Stable);
+    in.adjusted_p_exact = 0.03;
+    EXPECT_EQ(classify(in, reversal_p(in), 0.05), FindingClass::Masked);
+
+    ClassInputs rev{-0.2, -5.0, std::log(1.3), 3.0, false, NAN};  // crude below: adjusted "greater" counts
+    rev.adjusted_p_exact = 0.08;
+    rev.adjusted_p_exact_greater = 0.04;
+    rev.adjusted_p_exact_less = 0.99;
+    EXPECT_NEAR(reversal_p(rev), 0.04, 1e-12);
+    rev.crude_effect = 0.2;  // crude above: adjusted "less" counts
+    rev.crude_z = 5.0;
+    EXPECT_NEAR(reversal_p(rev), 0.99, 1e-12);
+}
