@@ -238,6 +238,12 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
         for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
         return problems;
     }
+    if (!problems.isEmpty()) return problems;
+    if (!q.rows.trimmed().isEmpty()) {
+        auto f = filter::parse(q.rows.toStdString());
+        Status fits = f ? filter::check(*f, t) : Status(f.error());
+        if (!fits) problems << QObject::tr("Rows to include: %1").arg(qs(fits.error().message));
+    }
     if (q.outcome.isEmpty()) problems << QObject::tr("Choose the outcome column.");
     if (q.exposure.isEmpty()) problems << QObject::tr("Choose the column that holds the compared groups.");
     if (!problems.isEmpty()) return problems;
@@ -259,6 +265,9 @@ project::AuditSpec audit_spec(const QuestionSpec& q, const project::AuditSpec& b
     qs.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
     qs.outcome = q.outcome.toStdString();
     qs.exposure = q.exposure.toStdString();
+    // The filter in its normal form (the text as typed when it does not read: check_question says why).
+    if (auto f = filter::parse(q.rows.toStdString())) qs.rows = filter::canonical_text(*f);
+    else qs.rows = q.rows.trimmed().toStdString();
     if (!q.slope) {
         if (!q.positive.isEmpty()) qs.positive = q.positive.toStdString();
         if (!q.focal.isEmpty()) qs.focal = {q.focal.toStdString()};
@@ -303,11 +312,21 @@ QuestionSpec question_spec(const project::AuditSpec& spec) {
     q.bootstrap = q.slope ? spec.scan.slope_bootstrap : spec.scan.bootstrap;
     q.seed = spec.scan.seed;
     q.find_groups = spec.scan.find_groups;
+    q.rows = qs(p.rows);
     return q;
 }
 
-Result<ScanOutcome> run_scan(const Table& t, const project::AuditSpec& spec, const Work& work,
+Result<ScanOutcome> run_scan(std::shared_ptr<const Table> source, const project::AuditSpec& spec, const Work& work,
                              const std::function<void(FindingView)>& on_provisional) {
+    // The rows filter first: every view of the scan (trend charts, verdicts, memo) reads the
+    // rows the scan read.
+    std::shared_ptr<const Table> scanned = source;
+    if (!spec.question.rows.empty()) {
+        auto kept = audit::filter_rows(*source, spec);
+        if (!kept) return kept.error();
+        scanned = std::make_shared<const Table>(std::move(*kept));
+    }
+    const Table& t = *scanned;
     audit::RunOptions options;
     options.threads = 0;
     options.work = work;
@@ -317,6 +336,7 @@ Result<ScanOutcome> run_scan(const Table& t, const project::AuditSpec& spec, con
     auto result = audit::scan_table(t, spec, options);
     if (!result) return result.error();
     ScanOutcome out;
+    out.table = scanned;
     out.cancelled = result->cancelled;
     const int bins = spec.scan.bins;
     const auto max_levels = static_cast<std::size_t>(spec.scan.max_levels);

@@ -87,6 +87,7 @@ struct QuestionSpec {
     int bootstrap = 200;            ///< resamples: the rate bootstrap, or a trend's slope bootstrap
     std::uint64_t seed = 1;
     bool find_groups = false;       ///< trend only: the hidden-group hint
+    QString rows;                   ///< rows to include (docs/filter.md); empty = every row
 };
 
 /// The audit the workbench runs: `base` (the opened project's specification: data, trend checks,
@@ -114,6 +115,7 @@ bool scan_available();
 
 /// A finished scan as the workbench shows it.
 struct ScanOutcome {
+    std::shared_ptr<const Table> table;  ///< the rows scanned: the source's, or those the rows filter kept
     std::vector<FindingView> findings;  ///< ranked: class, q-value, size of the change
     QStringList excluded;               ///< "column: reason"
     bool cancelled = false;
@@ -154,7 +156,8 @@ QImage memo_preview(const MemoRequest& request, int width_px);
 /// to `on_provisional` as soon as it is computed (from the calling thread; class still decided on
 /// the raw p, before the FDR step and the bootstrap); the result holds the final, ranked findings
 /// (trend checks and the hidden-group hint included). Honours work.stop (cancelled set).
-Result<ScanOutcome> run_scan(const Table& t, const project::AuditSpec& spec, const Work& work,
+/// With a rows filter in `spec` the scan runs on the rows it keeps, which ScanOutcome::table holds.
+Result<ScanOutcome> run_scan(std::shared_ptr<const Table> source, const project::AuditSpec& spec, const Work& work,
                              const std::function<void(FindingView)>& on_provisional);
 
 /// The diagram's verdict for the finding compared by `exposure` and `outcome` and stratified by

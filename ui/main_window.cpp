@@ -116,7 +116,9 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     // on the scan's findings with the audit's settings, as `foldline run` computes them.
     diagram_->doc()->set_judge([this](const causal::Diagram& d, const QString& exposure, const QString& outcome,
                                       const QStringList& strata) {
-        return judge(d, exposure, outcome, strata, scan_->scan_result().get(), source_->table().get(), last_spec_);
+        // The rows the scan read (a rows filter applied), else the source's before any scan.
+        const Table* rows = scan_->scanned_table() ? scan_->scanned_table().get() : source_->table().get();
+        return judge(d, exposure, outcome, strata, scan_->scan_result().get(), rows, last_spec_);
     });
     build_menus();
     restore_layout();
@@ -411,8 +413,8 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     if (!r.scan) return make_error("the memo needs a finished scan: run one first");
     r.data_path = source_->source();
     const std::shared_ptr<const Table> table = source_->table();
-    r.rows = table ? double(table->rows) : 0;
-    r.table = table.get();
+    r.rows = table ? double(table->rows) : 0;  // rows read; the scan records the rows its filter kept
+    r.table = scan_->scanned_table() ? scan_->scanned_table().get() : table.get();
     // The audit as it would be saved, so the memo carries the same title, analyst, decisions,
     // notes, memo choices and diagram as `foldline memo` on the saved file.
     auto project = current_project();

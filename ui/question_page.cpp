@@ -67,6 +67,16 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     f->addRow(tr("Groups column"), exposure_);
     f->addRow(tr("Focal group"), focal_);
     f->addRow(tr("Reference group"), reference_);
+    rows_ = new QLineEdit;
+    rows_->setObjectName(QStringLiteral("rows_filter"));
+    rows_->setClearButtonEnabled(true);
+    rows_->setPlaceholderText(tr("every row (e.g. year >= 2024 and region in ('north', 'east'))"));
+    rows_->setToolTip(tr("Only the rows this filter keeps are scanned. Comparisons =, <>, <, <=, >, >= with "
+                         "'text in single quotes' or numbers; in ('a', 'b'); is missing; not, and, or, "
+                         "parentheses; \"column names\" in double quotes when they hold spaces. A missing "
+                         "cell makes a comparison unknown, so the row is left out unless you ask for it with "
+                         "is missing."));
+    f->addRow(tr("&Rows to include"), rows_);
 
     pairs_ = new QCheckBox(tr("Also stratify by every pair of candidates"));
     pairs_->setChecked(true);
@@ -187,6 +197,7 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
         validate();
     });
     connect(seed_, &QLineEdit::textChanged, this, [this] { validate(); });
+    connect(rows_, &QLineEdit::textChanged, this, [this] { if (!filling_) validate(); });
     connect(alpha_, &QDoubleSpinBox::valueChanged, this, [this] { validate(); });
     // The level limit and the bins decide which columns qualify: offer the list again.
     for (QSpinBox* b : {bins_, max_levels_})
@@ -221,6 +232,7 @@ void QuestionPage::set_table(std::shared_ptr<const Table> table) {
     table_ = std::move(table);
     covariates_.clear();  // they name columns of the previous data
     filling_ = true;
+    rows_->clear();       // a filter of the previous data set does not carry over
     outcome_->clear();
     exposure_->clear();
     positive_->clear();
@@ -359,6 +371,7 @@ QuestionSpec QuestionPage::spec() const {
     q.seed = seed_->text().toULongLong(&ok);
     if (!ok) q.seed = 0;
     q.find_groups = q.slope && find_groups_->isChecked();
+    q.rows = rows_->text().trimmed();
     bool every = true;
     for (int i = 0; i < candidates_->count(); ++i)
         if ((candidates_->item(i)->flags() & Qt::ItemIsEnabled) && candidates_->item(i)->checkState() != Qt::Checked)
@@ -392,6 +405,7 @@ void QuestionPage::set_spec(const QuestionSpec& q) {
     bootstrap_->setValue(q.bootstrap);
     seed_->setText(QString::number(qulonglong(q.seed)));
     find_groups_->setChecked(q.find_groups);
+    rows_->setText(q.rows);
     all_candidates_ = q.all_candidates || q.candidates.isEmpty();
     validate();
 }

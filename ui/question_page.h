@@ -54,6 +54,7 @@ private:
     QCheckBox* pairs_;
     QSpinBox *bins_, *bootstrap_, *max_levels_;
     QLineEdit* seed_;            ///< any 64-bit seed (a saved audit may hold one above 2^32)
+    QLineEdit* rows_;            ///< rows to include (docs/filter.md)
     QCheckBox* find_groups_ = nullptr;  ///< trends: the hidden-group hint
     bool all_candidates_ = false;///< the saved audit's "auto" list, kept until the reviewer edits the ticks
     QDoubleSpinBox* alpha_;

@@ -1,3 +1,4 @@
+#include "core/scan/scan_result.h"  // core before Qt (DEVELOPERS.md)
 #include "ui/scan_page.h"
 
 #include <QHBoxLayout>
@@ -70,6 +71,7 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
             model_->clear();
             for (FindingView& f : (*result)->findings) model_->add(std::move(f));
             scan_result_ = (*result)->result;
+            scanned_table_ = (*result)->table;
         }
         if (stopped) {
             status_->setText(tr("Stopped after %1 s; %2 finding(s) kept.").arg(seconds_, 0, 'f', 2).arg(model_->size()));
@@ -85,6 +87,11 @@ ScanPage::ScanPage(FindingsModel* model, QWidget* parent)
             progress_->setValue(1);
             progress_->setFormat(tr("done"));
             QString text = tr("Done in %1 s: %2 finding(s).").arg(seconds_, 0, 'f', 2).arg(model_->size());
+            if (scan_result_ && !scan_result_->rows_filter.empty())
+                text += tr(" Rows to include: %1 (%2 of %3 rows kept).")
+                            .arg(QString::fromStdString(scan_result_->rows_filter))
+                            .arg(qlonglong(scanned_table_ ? scanned_table_->rows : 0))
+                            .arg(qlonglong(table_ ? table_->rows : 0));
             if (!(*result)->excluded.isEmpty())
                 text += tr(" Left out: %1.").arg((*result)->excluded.join(QStringLiteral("; ")));
             status_->setText(text);
@@ -108,6 +115,7 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q, 
     if (job_->running() || !table) return false;
     model_->clear();
     scan_result_.reset();
+    scanned_table_.reset();
     {
         std::lock_guard<std::mutex> lock(mutex_);
         inbox_.clear();
@@ -134,7 +142,7 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q, 
     auto table_ref = table_;
     flush_timer_->start();
     job_->start([this, result, table_ref, spec](const Work& work) {
-        *result = run_scan(*table_ref, spec, work, [this](FindingView f) {
+        *result = run_scan(table_ref, spec, work, [this](FindingView f) {
             std::lock_guard<std::mutex> lock(mutex_);
             inbox_.push_back(std::move(f));
         });

@@ -39,6 +39,8 @@ public:
     double elapsed_seconds() const;
     /// The engine's result of the last completed rate scan (null otherwise).
     std::shared_ptr<const ScanResult> scan_result() const { return scan_result_; }
+    /// The rows the last completed scan read (the rows filter applied); null before one.
+    std::shared_ptr<const Table> scanned_table() const { return scanned_table_; }
 
 signals:
     void scan_finished(bool completed, int findings);
@@ -57,6 +59,7 @@ private:
     std::shared_ptr<Result<ScanOutcome>> result_;
     std::shared_ptr<const Table> table_;
     std::shared_ptr<const ScanResult> scan_result_;
+    std::shared_ptr<const Table> scanned_table_;
     QElapsedTimer clock_;
     double seconds_ = 0;
     QLabel *question_, *status_;

@@ -24,7 +24,7 @@ std::string class_or(const std::optional<FindingClass>& c, const char* none) {
 int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"data", true, "FILE"}, {"json", true, "FILE|-"}, {"memo", true, "FILE.pdf"}, {"csv", true, "PREFIX"},
-        {"threads", true, "N"}, {"update", false, ""},
+        {"threads", true, "N"}, {"update", false, ""}, {"where", true, "EXPR"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -33,6 +33,12 @@ int run(int argc, char** argv) {
     auto loaded = project::load_project(project_path);
     if (!loaded) return fail(kName, kInput, loaded.error().to_string());
     project::Project p = std::move(*loaded);
+    if (a.has("where")) {
+        // Replaces the saved rows filter for this run (an empty EXPR removes it); --update saves it.
+        auto f = filter::parse(*a.get("where"));
+        if (!f) return fail(kName, kUsage, "--where: " + f.error().message);
+        p.question.rows = filter::canonical_text(*f);
+    }
     const std::string override_data = a.get_or("data", "");
     const std::string memo_path = a.get_or("memo", "");
     if (!memo_path.empty() && !memo_available())
@@ -57,6 +63,8 @@ int run(int argc, char** argv) {
 
     out << "Re-ran " << project_path << " on " << run->info.path << " (" << static_cast<long long>(run->info.rows)
         << " rows, SHA-256 " << run->info.sha256.substr(0, 16) << "…)\n";
+    if (!r.rows_filter.empty())
+        out << "Rows to include: " << r.rows_filter << " (" << static_cast<long long>(run->table.rows) << " rows kept)\n";
     if (!run->data_change.empty()) out << "Warning: " << run->data_change << "\n";
     if (!run->diagram_problem.empty()) out << "Diagram not used for some findings: " << run->diagram_problem << "\n";
     if (p.question.kind == project::QuestionKind::Rate) {
@@ -109,6 +117,7 @@ int run(int argc, char** argv) {
     if (a.flag("update", false)) {
         if (!override_data.empty()) p.data.path = override_data;
         if (auto st = project::record_data(p.data, run->table); !st) return fail(kName, kInput, st.error().to_string());
+        p.data.rows = static_cast<std::uint64_t>(run->info.rows);  // rows read, not the rows the filter kept
         audit::record_classes(p, r);
         if (auto st = project::save_project(p, project_path); !st) return fail(kName, kInput, st.error().to_string());
         out << "Project updated: " << project_path << "\n";
@@ -120,12 +129,13 @@ int run(int argc, char** argv) {
 
 const CommandRegistration reg{Command{
     .name = "run",
-    .synopsis = "run PROJECT [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
+    .synopsis = "run PROJECT [--data NEWFILE] [--where EXPR] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
     .summary = "re-run a saved audit (same question, settings, seed, diagram); exit 4 when a finding's class changed",
-    .help = "Usage: foldline run PROJECT.foldline [--data NEWFILE] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX]\n"
-            "  [--threads N] [--update]\n"
+    .help = "Usage: foldline run PROJECT.foldline [--data NEWFILE] [--where EXPR] [--json FILE|-] [--memo FILE.pdf]\n"
+            "  [--csv PREFIX] [--threads N] [--update]\n"
             "Re-runs the saved audit with its question, settings, seed and diagram (rate or trend audits).\n"
             "  --data    a new extract with the same columns (the quarterly re-audit)\n"
+            "  --where   rows to include for this run, replacing the saved filter ('' removes it; docs/filter.md)\n"
             "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
             "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"
             "            2 usage error, 3 input error, 1 internal error.\n",

@@ -64,6 +64,7 @@ int run(int argc, char** argv) {
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
         {"covariates", true, "C1,C2"},      {"find-groups", false, ""},
+        {"where", true, "EXPR"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -87,6 +88,11 @@ int run(int argc, char** argv) {
         spec.question.exposure = q.exposure;
         spec.question.focal = q.focal;
         spec.question.reference = q.reference;
+    }
+    if (a.has("where")) {
+        auto f = filter::parse(*a.get("where"));
+        if (!f) return fail(kName, kUsage, "--where: " + f.error().message);
+        spec.question.rows = filter::canonical_text(*f);
     }
     const std::string strata = a.get_or("strata", "auto");
     if (strata != "auto") spec.scan.strata = split_list(strata);
@@ -191,8 +197,15 @@ int run(int argc, char** argv) {
         }
     }
     hasher.join();
-    if (!table) return fail(kName, kInput, table.error().to_string());
+    if (!table) return fail(kName, table.error());  // input, or usage for a filter the source does not fit
     if (!digest) return fail(kName, kInput, digest.error().to_string());
+    const double rows_read = static_cast<double>(table->rows);
+    if (!from_db && !spec.question.rows.empty()) {
+        // The rows the filter keeps are the audit's rows: its kind, diagram check, outputs.
+        auto kept = audit::filter_rows(*table, spec);
+        if (!kept) return fail(kName, kept.error());
+        table = std::move(*kept);
+    }
     const auto t1 = clock::now();
 
     // A numeric outcome on a numeric exposure with many values is a slope question; covariates
@@ -201,6 +214,8 @@ int run(int argc, char** argv) {
     if (!from_cubes)
         spec.question.kind = audit::infer_kind(*table, spec.question, static_cast<std::size_t>(spec.scan.max_levels));
     const bool slope_only = spec.question.kind == project::QuestionKind::Slope;
+    if (!from_cubes)
+        if (auto st = audit::add_combined_groups(*table, spec); !st) return fail(kName, kUsage, st.error().to_string());
     if (!covariates.empty()) {
         if (slope_only) spec.question.covariates = covariates;
         else if (spec.trend) spec.trend->covariates = covariates;
@@ -225,7 +240,7 @@ int run(int argc, char** argv) {
     if (from_db) audit::merge_left_out(result->excluded, db.left_out, db.columns);
     const auto t2 = clock::now();
 
-    DataInfo info{path, *digest, from_db ? db.source_rows : static_cast<double>(table->rows), std::nullopt};
+    DataInfo info{path, *digest, from_db ? db.source_rows : rows_read, std::nullopt};
     if (from_db) info.database = db.record;
     const std::string json_dest = a.get_or("json", "");
     std::ostream& human = json_dest == "-" ? std::cerr : std::cout;
@@ -256,12 +271,17 @@ const CommandRegistration reg{Command{
     .name = "scan",
     .synopsis = "scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2] [--no-pairs] [--bins N] "
                 "[--count-column C] [--alpha A] [--bootstrap B] [--seed S] [--json FILE|-] [--diagram DIAGRAM.json] "
-                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2]",
+                "[--memo FILE.pdf] [--trend X:Y] [--covariates C1,C2] [--where EXPR]",
     .summary = "search every stratifier and pair for reversals of the outcome rate between groups",
     .help = "Usage: foldline scan DATA --outcome C[=LEVEL] --exposure C[=FOCAL[,REF]] [--strata auto|C1,C2]\n"
             "  [--pairs|--no-pairs] [--bins N] [--max-levels N] [--count-column C] [--alpha 0.05]\n"
             "  [--bootstrap B] [--seed S] [--json FILE|-] [--threads N] [--top N] [--timings]\n"
             "  [--delimiter CHAR]   field delimiter of DATA (tab or \\t for a tab; default: detected)\n"
+            "  --exposure A+B=a1+b1,a2+b2   compared groups formed by two or more columns joined by '+'\n"
+            "      (each combination is a group; its parts never stratify)\n"
+            "  [--where EXPR]   rows to include, e.g. \"year >= 2024 and region in ('north', 'east')\"\n"
+            "      (=, <>, <, <=, >, >=, in (...), is missing, not, and, or; text in single quotes;\n"
+            "      docs/filter.md). Pushed down to a database as a WHERE condition.\n"
             "  [--trend X:Y]   also check the slope of numeric Y on numeric X within each single stratifier\n"
             "  [--covariates C1,C2]   numeric columns the trend's pooled and within slopes are adjusted for\n"
             "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"

@@ -44,6 +44,7 @@ struct QuestionSettings {
     std::vector<std::string> focal;        ///< empty: every level except the reference
     std::optional<std::string> reference;  ///< absent: the most frequent level
     std::vector<std::string> covariates;   ///< slope: numeric columns adjusted for (may be empty)
+    std::string rows;                      ///< rows to include (core/table/row_filter.h); empty = every row
 };
 
 /// Slope checks added to a rate audit (`scan --trend X:Y`): the slope of y on x within each

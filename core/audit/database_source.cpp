@@ -3,6 +3,7 @@
 #include <algorithm>
 
 #include "core/scan/question.h"
+#include "core/table/row_filter.h"
 
 #ifdef FOLDLINE_HAS_ODBC
 #include "core/io/odbc_source.h"
@@ -27,6 +28,12 @@ Result<OdbcOptions> odbc_options(const DatabaseRequest& r, const CandidateOption
     o.max_levels = copt.max_levels;
     o.max_missing_share = copt.max_missing_share;
     o.count_column = r.count_column;
+    // The filter reaches the engine as a condition written from its parsed form (quoted names,
+    // escaped literals), never as the text the user typed.
+    auto f = filter::parse(r.where);
+    if (!f) return f.error();
+    o.source.where = filter::to_sql(*f);
+    o.where_columns = filter::columns(*f);
     return o;
 }
 
@@ -112,6 +119,7 @@ Result<DatabaseLoad> load_for_audit(DatabaseRequest request, const project::Audi
     for (const auto& c : spec.scan.strata) need(c);
     for (const auto& c : extra) need(c);
     request.all_columns = spec.scan.strata.empty();
+    request.where = spec.question.rows;
     CandidateOptions copt;
     copt.columns = spec.scan.strata;
     copt.bins = spec.scan.bins;

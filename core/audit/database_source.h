@@ -48,6 +48,7 @@ struct DatabaseRequest {
     std::vector<std::string> required;
     bool all_columns = true;
     std::string count_column;
+    std::string where;                  ///< rows filter (core/table/row_filter.h), pushed down as a WHERE condition
 };
 
 /// Loads the source's joint cells. Error when the build has no ODBC support, when both or

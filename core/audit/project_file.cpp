@@ -9,6 +9,8 @@
 
 #include <nlohmann/json.hpp>
 
+#include "core/table/row_filter.h"
+
 #include "core/causal/diagram_file.h"
 #include "core/common/atomic_file.h"
 #include "core/common/sha256.h"
@@ -195,6 +197,8 @@ std::string_view to_string(QuestionKind k) { return k == QuestionKind::Slope ? "
 int required_version(const Project& p) {
     const bool slopes = p.question.kind == QuestionKind::Slope || !p.question.covariates.empty() ||
                         p.trend.has_value() || p.scan.slope_bootstrap != 0 || p.scan.find_groups;
+    // A rows filter: an older reader would scan every row.
+    if (!p.question.rows.empty()) return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -250,6 +254,9 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     if (version >= 2) {
         q["kind"] = to_string(p.question.kind);
         q["covariates"] = p.question.covariates;
+    }
+    if (version >= 3 && !p.question.rows.empty()) {
+        q["rows"] = p.question.rows;
     }
     doc["question"] = q;
     if (version >= 2) {
@@ -377,6 +384,11 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         if (kind == "slope") p.question.kind = QuestionKind::Slope;
         else if (kind != "rate") r.fail("question.kind: expected \"rate\" or \"slope\"");
         r.strings(*q, "question", "covariates", p.question.covariates);
+        r.str(*q, "question", "rows", p.question.rows);
+        if (!r.error && !p.question.rows.empty()) {
+            if (auto f = filter::parse(p.question.rows); !f) r.fail("question.rows: " + f.error().message);
+            else p.question.rows = filter::canonical_text(*f);
+        }
         if (p.question.kind == QuestionKind::Slope &&
             (p.question.positive || !p.question.focal.empty() || p.question.reference))
             r.fail("question: a slope question has no positive, focal or reference level (numeric outcome and "

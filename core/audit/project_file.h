@@ -28,9 +28,9 @@ namespace foldline::project {
 
 /// The newest project version this build reads. A project is written with the lowest version
 /// that holds it: 1 for a rate audit, 2 when it holds a slope question, trend checks or slope
-/// settings (see required_version), so builds that read only version 1 refuse what they would
-/// misread instead of dropping the trend.
-inline constexpr int kProjectVersion = 2;
+/// settings (see required_version), 3 when it holds a rows filter, so builds that read an older
+/// version refuse what they would misread instead of dropping the trend or scanning every row.
+inline constexpr int kProjectVersion = 3;
 inline constexpr std::string_view kProjectFormat = "foldline-project";
 
 /// Identifies a finding across re-runs: kind ("rate" or "slope"), stratifier column names in

@@ -18,6 +18,7 @@
 #include "core/scan/rate_scan.h"
 #include "core/scan/scan_result.h"
 #include "core/table/grouped_counts.h"
+#include "core/table/row_filter.h"
 #include "core/table/table.h"
 
 namespace foldline::audit {
@@ -34,10 +35,31 @@ struct RunOptions {
 project::QuestionKind infer_kind(const Table& table, const project::QuestionSettings& question,
                                  std::size_t max_levels);
 
+/// The spec's rows filter, read (the empty filter when the spec has none). Usage error pointing
+/// at the character that does not fit (core/table/row_filter.h).
+Result<filter::RowFilter> rows_filter(const AuditSpec& spec);
+
+/// The rows of `table` the spec's filter keeps (core/table/row_filter.h: levels renumbered as a
+/// file of those rows would give them): what the workbench shows and scans. Usage error for a
+/// filter that does not fit the columns; Input error when it keeps no row.
+Result<Table> filter_rows(const Table& table, const AuditSpec& spec);
+
+/// The columns whose combinations form the compared groups when the spec's exposure names them
+/// joined by "+" (core/table/combined_column.h); empty for an ordinary exposure.
+std::vector<std::string> combined_groups(const Table& table, const AuditSpec& spec);
+
+/// Adds the combined exposure column the spec names (combined_groups) to `table`, unless it is
+/// already there. Error when the combinations cannot be formed.
+Status add_combined_groups(Table& table, const AuditSpec& spec);
+
 /// The estimate settings (bins, level limit, alpha) of a spec.
 EstimateSettings estimate_settings(const AuditSpec& spec);
 
-/// Scans `table` as `spec` asks. Errors carry their kind: Usage when the question, a trend or a
+/// Scans `table` as `spec` asks, on the rows its filter keeps (filtered here unless
+/// `table.filter` says the rows already passed that filter) and with the combined exposure
+/// column (added here to a copy unless the caller added it: add_combined_groups). The parts of
+/// combined groups never stratify (listed as excluded), and the diagram's verdicts read the parts
+/// as one node (core/causal/combined_exposure.h). Errors carry their kind: Usage when the question, a trend or a
 /// covariate does not fit the data (a column missing or not numeric, a settings problem); Input
 /// when no column qualifies as a stratifier or the scan fails on the data; Internal otherwise.
 /// A stop request gives a result with cancelled set (findings so far, or none for slopes).
@@ -60,7 +82,8 @@ struct AuditRun {
 
 /// Reads the spec's data file (or `data_override`, a new extract with the same columns) with the
 /// recorded reading options, its SHA-256 computed beside the parse, says how it changed since it
-/// was recorded, and scans it (scan_table). Errors as for scan_table, and Input for a file that
+/// was recorded, keeps the rows the spec's filter keeps (AuditRun::table holds those; info.rows
+/// counts the rows read) and scans them (scan_table). Errors as for scan_table, and Input for a file that
 /// is missing or cannot be read.
 Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_override = {},
                            const RunOptions& options = {});

@@ -279,15 +279,23 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
     auto from = sql::from_clause(o.source);
     if (!from) return from.error();
     plan.from = *from;
+    sql::SqlSource every_row = o.source;
+    every_row.where.clear();
+    auto unfiltered = sql::from_clause(every_row);
+    if (!unfiltered) return unfiltered.error();
     out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
     if (auto st = s.connect(); !st) return st.error();
 
-    // 1. The source's columns.
+    // 1. The source's columns (described without the rows filter, so a filter naming a column
+    // the source lacks gets Foldline's message rather than the engine's).
     std::vector<SourceColumn> cols;
     auto none = [](SQLHSTMT, SQLSMALLINT) -> Status { return Ok{}; };
-    if (auto st = s.run(sql::describe_sql(plan.from), "describing the source's columns", none, &cols); !st)
+    if (auto st = s.run(sql::describe_sql(*unfiltered), "describing the source's columns", none, &cols); !st)
         return st.error();
     for (const auto& c : cols) out.source_columns.push_back(c.name);
+    for (const auto& w : o.where_columns)
+        if (std::none_of(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == w; }))
+            return usage_error(make_error("rows filter: no column named '" + w + "' in the source " + out.source_text));
     for (const auto& r : o.required)
         if (std::none_of(cols.begin(), cols.end(), [&](const SourceColumn& c) { return c.name == r; }))
             return make_error("column '" + r + "' not found in the source " + out.source_text);

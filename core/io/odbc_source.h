@@ -41,6 +41,7 @@ struct OdbcOptions {
     bool first_appearance = true;   ///< number levels in order of first appearance (ROW_NUMBER() OVER ())
     long timeout_seconds = 0;       ///< per-statement timeout; 0 = none
     std::string count_column;       ///< pre-counted source: rows per source row (summed, never fetched as a column)
+    std::vector<std::string> where_columns;  ///< columns source.where reads (checked to exist in the source)
 };
 
 /// A column that was not fetched, and why (same wording as the candidate selection).

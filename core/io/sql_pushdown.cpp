@@ -140,14 +140,18 @@ Result<std::string> checked_query(std::string_view raw) {
 Result<std::string> from_clause(const SqlSource& s) {
     if (s.table.empty() == s.query.empty())
         return make_error(s.table.empty() ? "no source: give a table or a query" : "give a table or a query, not both");
+    std::string item;
     if (!s.table.empty()) {
         auto t = quote_table_name(s.table);
         if (!t) return t.error();
-        return *t + " AS src";
+        item = *t;
+    } else {
+        auto q = checked_query(s.query);
+        if (!q) return q.error();
+        item = "(" + *q + ")";
     }
-    auto q = checked_query(s.query);
-    if (!q) return q.error();
-    return "(" + *q + ") AS src";
+    if (s.where.empty()) return item + " AS src";
+    return "(SELECT * FROM " + item + " AS src0 WHERE " + s.where + ") AS src";
 }
 
 std::string describe_sql(const std::string& from) { return "SELECT * FROM " + from + " WHERE 1 = 0"; }

@@ -42,9 +42,13 @@ Result<std::string> checked_query(std::string_view query);
 struct SqlSource {
     std::string table;  ///< table name, optionally schema-qualified with `.`
     std::string query;  ///< one read-only SELECT / WITH statement
+    /// Rows to include: an SQL condition written by core/table/row_filter.h's to_sql (quoted
+    /// identifiers, escaped literals), never text a user typed. Empty = every row.
+    std::string where = {};
 };
 
-/// The FROM item for the source: `"schema"."table" AS src` or `(<checked query>) AS src`.
+/// The FROM item for the source: `"schema"."table" AS src` or `(<checked query>) AS src`; with
+/// a `where` condition, `(SELECT * FROM <that item, as src0> WHERE <where>) AS src`.
 /// Error when both or neither are set, or when the name or the query is refused (see above).
 Result<std::string> from_clause(const SqlSource& source);
 

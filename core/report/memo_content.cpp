@@ -375,6 +375,10 @@ MemoContent build_memo(const MemoInput& in) {
     m.page_size = p ? p->memo.page_size : project::PageSize::A4;
     m.facts.push_back({"Data source", source});
     m.facts.push_back({"Rows", count(in.data.rows)});
+    if (!r.rows_filter.empty()) {
+        m.facts.push_back({"Rows to include", r.rows_filter});
+        if (r.rows_kept >= 0) m.facts.push_back({"Rows kept", count(r.rows_kept)});
+    }
     if (db) {
         if (!db->query.empty()) m.facts.push_back({"Query", db->query});
         m.facts.push_back({"Driver", db->driver.empty() ? "not reported" : db->driver});

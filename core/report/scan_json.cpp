@@ -103,6 +103,9 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
                          {"focal_levels", q.focal},
                          {"reference", q.reference}};
     }
+    // Only when a filter was given, so documents of unfiltered scans keep their bytes.
+    if (!r.rows_filter.empty()) j["question"]["rows"] = r.rows_filter;
+    if (r.rows_kept >= 0) j["data"]["rows_kept"] = num(r.rows_kept);
     j["settings"] = {{"alpha", r.alpha}, {"bootstrap", r.bootstrap}, {"seed", r.seed}};
     j["candidates"] = candidates_to_json(r.candidates, r.candidate_origin);
     j["excluded"] = excluded_to_json(r.excluded);
@@ -336,6 +339,8 @@ std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     head.candidate_origin = r.candidate_origin;
     head.excluded = r.excluded;
     head.rows = r.rows;
+    head.rows_filter = r.rows_filter;
+    head.rows_kept = r.rows_kept;
     head.alpha = r.alpha;
     head.bootstrap = r.bootstrap;
     head.seed = r.seed;

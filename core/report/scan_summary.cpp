@@ -122,7 +122,9 @@ void slope_part(std::ostream& os, const ScanResult& r, std::size_t top) {
 std::string scan_summary_text(const ScanResult& r, const std::string& path, std::size_t top) {
     std::ostringstream os;
     const auto& q = r.question;
-    os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows\n";
+    os << "Scan of " << path << ": " << fmt(r.rows, "%.0f") << " rows";
+    if (!r.rows_filter.empty()) os << " where " << r.rows_filter;
+    os << "\n";
     if (!q.outcome.empty()) {
         os << "Outcome " << q.outcome << " = " << q.positive << "; exposure " << q.exposure << ": ";
         for (std::size_t i = 0; i < q.focal.size(); ++i) os << (i ? ", " : "") << q.focal[i];

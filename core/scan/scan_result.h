@@ -20,6 +20,8 @@ struct ScanResult {
     std::vector<std::string> candidate_origin;
     std::vector<Exclusion> excluded;
     double rows = 0;                         ///< weighted rows in the table
+    std::string rows_filter;                 ///< the rows filter applied (canonical text), empty = every row
+    double rows_kept = -1;                   ///< records the filter kept; -1 when not known (no filter, cubes)
     std::vector<RateFinding> rate_findings;  ///< ranked (see rank_findings)
     std::vector<SlopeFinding> slope_findings;  ///< trend checks of the same scan, ranked
     SlopeQuestion slope_question;            ///< what the slope findings answer (x, y empty if none)

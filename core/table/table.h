@@ -69,6 +69,7 @@ struct Table {
     std::vector<double> weights;  ///< empty == every row counts once
     std::string source;           ///< path or description of where the rows came from
     std::string weight_column;    ///< name of the count column, if any (not in `columns`)
+    std::string filter;           ///< the rows filter these rows passed (canonical text), empty = none
 
     bool weighted() const { return !weights.empty(); }
     double weight(std::size_t i) const { return weights.empty() ? 1.0 : weights[i]; }

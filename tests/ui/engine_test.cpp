@@ -64,7 +64,9 @@ private slots:
         q.bootstrap = 30;
         q.seed = kSeed;
         q.find_groups = true;
+        q.rows = "  year>=2024 AND \"job grade\" is missing ";
         const project::AuditSpec s = audit_spec(q, base);
+        QCOMPARE(s.question.rows, std::string("year >= 2024 and \"job grade\" is missing"));  // its normal form
         QCOMPARE(s.scan.seed, kSeed);
         QCOMPARE(s.scan.max_levels, std::uint64_t(7));
         QCOMPARE(s.scan.slope_bootstrap, 30);
@@ -79,6 +81,7 @@ private slots:
         QCOMPARE(back.alpha, 0.5);
         QCOMPARE(back.bootstrap, 30);
         QVERIFY(back.find_groups);
+        QCOMPARE(back.rows, QStringLiteral("year >= 2024 and \"job grade\" is missing"));
         QVERIFY(!back.all_candidates);
         // "auto" stays auto.
         q.all_candidates = true;
@@ -99,6 +102,7 @@ private slots:
         p.scan.bins = 6;
         p.scan.alpha = 0.5;
         p.scan.bootstrap = 40;  // enough resamples to make the seed matter, few enough to be quick
+        p.question.rows = "site <> 'Weyford' or age_band is missing";  // a rows filter (version 3)
         auto table = read_csv(p.data.path, project::reading_options(p.data));
         QVERIFY(table.ok());
         QVERIFY(project::record_data(p.data, *table).ok());
@@ -129,7 +133,12 @@ private slots:
         QCOMPARE(q.max_levels, std::uint64_t(7));
         QCOMPARE(q.bins, 6);
         QCOMPARE(q.alpha, 0.5);
+        QCOMPARE(q.rows, QStringLiteral("site <> 'Weyford' or age_band is missing"));
         const auto result = w.scan_page()->scan_result();
+        QCOMPARE(result->rows_filter, std::string("site <> 'Weyford' or age_band is missing"));
+        QCOMPARE(from_run["question"]["rows"].get<std::string>(), result->rows_filter);
+        QVERIFY(w.scan_page()->scanned_table()->rows < std::size_t(8000));
+        QCOMPARE(double(w.scan_page()->scanned_table()->rows), from_run["data"]["rows_kept"].get<double>());
         const DataInfo info{p.data.path, from_run["data"]["sha256"].get<std::string>(),
                             from_run["data"]["rows"].get<double>()};
         const auto from_workbench = nlohmann::json::parse(scan_json_text(*result, info));

@@ -457,9 +457,9 @@ TEST(ProjectFile, TrendFieldsGiveClearErrors) {
         EXPECT_NE(r.error().message.find(c.expect), std::string::npos) << r.error().message;
     }
     // A version this build does not know is refused whatever it holds.
-    auto newer = parse_project(R"({"format": "foldline-project", "version": 3})", "x.foldline");
+    auto newer = parse_project(R"({"format": "foldline-project", "version": 4})", "x.foldline");
     ASSERT_FALSE(newer.ok());
-    EXPECT_NE(newer.error().message.find("reads up to version 2"), std::string::npos) << newer.error().message;
+    EXPECT_NE(newer.error().message.find("reads up to version 3"), std::string::npos) << newer.error().message;
 }
 
 // A project over a database source keeps its record (masked connection, driver, database,
@@ -496,4 +496,34 @@ TEST(ProjectFile, DatabaseSourceRoundTrips) {
     ASSERT_TRUE(plain.ok());
     EXPECT_FALSE(plain->data.database.has_value());
     EXPECT_EQ(slurp(file).find("\"database\""), std::string::npos);
+}
+
+TEST(ProjectFile, RowsFilterIsVersionThreeAndRoundTrips) {
+    // A rows filter changes which rows are scanned, so it is a version 3 key: an older build
+    // refuses the file instead of scanning every row.
+    TempDir t("rows");
+    const auto file = (t.path / "filtered.foldline").string();
+    Project p = full_project(t.path / "d.csv");
+    p.question.rows = "year >= 2024 and region in ('north', 'it''s')";
+    EXPECT_EQ(required_version(p), 3);
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string text = slurp(file);
+    EXPECT_NE(text.find("\"version\": 3"), std::string::npos);
+    auto back = load_project(file);
+    ASSERT_TRUE(back.ok()) << back.error().to_string();
+    EXPECT_EQ(back->question.rows, p.question.rows);
+    ASSERT_TRUE(save_project(*back, file).ok());
+    EXPECT_EQ(slurp(file), text);
+    // Read in its normal form; a malformed filter is refused naming the key and the character.
+    auto loose = parse_project(R"({"format": "foldline-project", "version": 3, "data": {"path": "d.csv"},
+                                   "question": {"outcome": "ok", "exposure": "group", "rows": "year>=2024  AND x is missing"}})",
+                               (t.path / "loose.foldline").string());
+    ASSERT_TRUE(loose.ok()) << loose.error().to_string();
+    EXPECT_EQ(loose->question.rows, "year >= 2024 and x is missing");
+    auto bad = parse_project(R"({"format": "foldline-project", "version": 3, "data": {"path": "d.csv"},
+                                 "question": {"outcome": "ok", "exposure": "group", "rows": "year >= "}})",
+                             (t.path / "bad.foldline").string());
+    ASSERT_FALSE(bad.ok());
+    EXPECT_NE(bad.error().message.find("question.rows: rows filter, character 9"), std::string::npos)
+        << bad.error().message;
 }

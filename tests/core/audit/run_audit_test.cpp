@@ -14,6 +14,7 @@
 #include "core/audit/memo_input.h"
 #include "core/audit/project_file.h"
 #include "core/io/csv_reader.h"
+#include "core/report/scan_json.h"
 #include "core/report/scan_summary.h"
 
 using namespace foldline;
@@ -256,4 +257,42 @@ TEST(RunAudit, SlopeQuestionDocumentAndSummary) {
     EXPECT_NE(text.find("Slope of weekly_sales on promo_spend"), std::string::npos) << text;
     EXPECT_NE(text.find("Hidden-group hint (not a finding)"), std::string::npos) << text;
     EXPECT_NE(text.find("not a legal, lending or clinical determination"), std::string::npos);
+}
+
+// A rows filter: run_audit keeps the rows the filter keeps (and says how many it read), and
+// scan_table gives the same findings whether it is handed all rows or the filtered ones.
+TEST(RunAudit, RowsFilterScansOnlyTheKeptRows) {
+    auto p = sample("clinic_audit.foldline");
+    p.question.rows = "severity <> 'mild' and site is not missing";
+    auto run = audit::run_audit(p);
+    ASSERT_TRUE(run.ok()) << run.error().to_string();
+    EXPECT_EQ(run->table.filter, "severity <> 'mild' and site is not missing");
+    EXPECT_EQ(run->result.rows_filter, run->table.filter);
+    EXPECT_EQ(run->info.rows, 8000);  // rows read
+    EXPECT_LT(run->result.rows_kept, 8000);
+    EXPECT_EQ(run->result.rows_kept, static_cast<double>(run->table.rows));
+
+    auto all = read_csv(p.data.path);
+    ASSERT_TRUE(all.ok());
+    std::size_t kept = 0;
+    const Column* sev = all->column("severity");
+    for (std::size_t r = 0; r < all->rows; ++r) kept += !sev->is_missing(r) && sev->levels[sev->code(r)] != "mild";
+    EXPECT_EQ(run->table.rows, kept);
+    auto direct = audit::scan_table(*all, p);
+    ASSERT_TRUE(direct.ok()) << direct.error().to_string();
+    const DataInfo info{"clinic", "", 8000};
+    EXPECT_EQ(scan_json_text(*direct, info), scan_json_text(run->result, info));
+    EXPECT_NE(scan_json_text(*direct, info).find("\"rows\":\"severity <> 'mild' and site is not missing\""),
+              std::string::npos);
+
+    // A filter that keeps nothing is an input error; one that names no column a usage error.
+    p.question.rows = "severity = 'none such'";
+    auto none = audit::run_audit(p);
+    ASSERT_FALSE(none.ok());
+    EXPECT_EQ(none.error().kind, ErrorKind::Input);
+    EXPECT_NE(none.error().message.find("keeps none of the 8000 rows"), std::string::npos) << none.error().message;
+    p.question.rows = "sevrity = 'mild'";
+    auto typo = audit::scan_table(*all, p);
+    ASSERT_FALSE(typo.ok());
+    EXPECT_EQ(typo.error().kind, ErrorKind::Usage);
 }

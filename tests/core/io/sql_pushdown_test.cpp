@@ -177,5 +177,12 @@ TEST(SqlText, RobustSlopeErrorUsesTheLeverageOfEachRow) {
     EXPECT_NE(h.find("WHERE \"spend\" IS NOT NULL AND \"sales\" IS NOT NULL) AS leverage"), std::string::npos);
 }
 
+TEST(SqlSourceClause, RowsFilterWrapsTheSourceWithItsCondition) {
+    SqlSource t{"loans", "", "\"year\" >= 2024"};
+    EXPECT_EQ(*from_clause(t), "(SELECT * FROM \"loans\" AS src0 WHERE \"year\" >= 2024) AS src");
+    SqlSource q{"", "SELECT * FROM loans", "\"region\" IS NULL"};
+    EXPECT_EQ(*from_clause(q), "(SELECT * FROM (SELECT * FROM loans) AS src0 WHERE \"region\" IS NULL) AS src");
+}
+
 }  // namespace
 }  // namespace foldline::sql
