@@ -209,6 +209,8 @@ int required_version(const Project& p) {
     // A rows filter: an older reader would scan every row. A sheet or a decimal mark: an older
     // reader would read another sheet, or the numbers as text.
     if (!p.question.rows.empty() || !p.data.sheet.empty() || p.data.decimal != DecimalMark::Auto) return 3;
+    // A memo detail other than the default: an older reader would print the other memo.
+    if (p.memo.detail != "families") return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -326,6 +328,7 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
     m["analyst"] = p.memo.analyst;
     m["page_size"] = to_string(p.memo.page_size);
     m["findings"] = p.memo.findings;
+    if (version >= 3 && p.memo.detail != "families") m["detail"] = p.memo.detail;
     doc["memo"] = m;
 
     // nlohmann's default object keeps keys sorted, so the text is deterministic.
@@ -508,6 +511,11 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
         r.str(*m, "memo", "findings", p.memo.findings);
         if (p.memo.findings != "flagged" && p.memo.findings != "chosen")
             r.fail("memo.findings: expected \"flagged\" or \"chosen\"");
+        if (m->contains("detail")) {
+            r.str(*m, "memo", "detail", p.memo.detail);
+            if (p.memo.detail != "families" && p.memo.detail != "full")
+                r.fail("memo.detail: expected \"families\" or \"full\"");
+        }
     }
     if (r.error) {
         Error e = *r.error;

@@ -74,6 +74,9 @@ struct MemoSettings {
     /// "flagged": every finding whose class is not stable, unless in_memo is false;
     /// "chosen": only findings with in_memo true.
     std::string findings = "flagged";
+    /// "families": one section per family lead, its related findings in a table inside it;
+    /// "full": one section per finding. Version 3 key, written only when "full".
+    std::string detail = "families";
 };
 
 /// The audit project: the audit's specification (core/audit/audit_spec.h: source, question,

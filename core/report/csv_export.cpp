@@ -60,7 +60,7 @@ std::string findings_csv(const ScanResult& r, const project::Project* project) {
               "mh_rd_ci_high", "mh_or", "mh_or_ci_low", "mh_or_ci_high", "mh_rr", "standardised_rd",
               "standardised_rd_ci_low", "standardised_rd_ci_high", "cmh_p", "breslow_day_p", "p_reversal", "q_value",
               "stability", "within_part", "composition_part", "e_value", "e_value_ci", "informative_strata",
-              "verdict", "decision", "note"});
+              "verdict", "decision", "note", "family_lead", "family_role", "family_reason"});
     std::size_t n = 0;
     for (const auto& f : r.rate_findings) {
         const auto& c = f.crude;
@@ -83,7 +83,8 @@ std::string findings_csv(const ScanResult& r, const project::Project* project) {
                   csv_number(f.p_reversal), csv_number(f.q_value), csv_number(f.stability.share),
                   csv_number(f.decomposition.within), csv_number(f.decomposition.composition),
                   csv_number(f.e_value.estimate), csv_number(f.e_value.ci_limit),
-                  std::to_string(f.informative_strata), csv_field(verdict_answer(f)), csv_field(decision), csv_field(note)});
+                  std::to_string(f.informative_strata), csv_field(verdict_answer(f)), csv_field(decision), csv_field(note),
+                  csv_field(f.family_lead()), std::string(to_string(f.family.role)), csv_field(f.family.reason)});
     }
     return out;
 }
@@ -119,7 +120,8 @@ std::string slope_findings_csv(const ScanResult& r, const project::Project* proj
               "adjusted_pooled_slope", "adjusted_pooled_ci_low", "adjusted_pooled_ci_high",
               "adjusted_within_slope", "adjusted_within_ci_low", "adjusted_within_ci_high", "equal_slopes_f",
               "equal_slopes_p", "p_reversal", "q_value", "stability", "stability_draws", "linear_probability",
-              "uninformative_strata", "verdict", "decision", "note"});
+              "uninformative_strata", "verdict", "decision", "note", "family_lead", "family_role",
+              "family_reason"});
     std::size_t n = 0;
     for (const auto& f : r.slope_findings) {
         std::string decision = "undecided", note;
@@ -146,7 +148,8 @@ std::string slope_findings_csv(const ScanResult& r, const project::Project* proj
                   csv_number(f.equal_slopes.p), csv_number(f.p_reversal), csv_number(f.q_value),
                   f.stability.draws > 0 ? csv_number(f.stability.share) : std::string(), std::to_string(f.stability.draws),
                   f.linear_probability ? "yes" : "no", std::to_string(f.uninformative.size()),
-                  csv_field(verdict_answer(f)), csv_field(decision), csv_field(note)});
+                  csv_field(verdict_answer(f)), csv_field(decision), csv_field(note), csv_field(f.family_lead()),
+                  std::string(to_string(f.family.role)), csv_field(f.family.reason)});
     }
     return out;
 }

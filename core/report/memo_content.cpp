@@ -2,6 +2,7 @@
 
 #include "core/report/mean_memo.h"
 #include "core/report/slope_chart.h"
+#include "core/stats/power.h"
 
 #include <algorithm>
 #include <cmath>
@@ -81,7 +82,26 @@ std::string answer_words(const causal::Verdict& v, const RateFinding& f) {
     return {};
 }
 
-std::string lead_sentence(const RateFinding& f, const Question& q) {
+// A stable finding's words. When the point estimates lie on opposite sides of zero but neither
+// view is significant, saying "nothing changed" would hide the flip: say it, and how many rows a
+// check of this size would need (core/stats/power.h).
+std::string stable_words(const RateFinding& f, double alpha) {
+    const double crude = f.crude.rd, within = f.adjusted.mh_rd.greenland_robins.estimate;
+    if (!(std::isfinite(crude) && std::isfinite(within) && crude * within < 0)) return "Stratifying changes little.";
+    std::string s = "The point estimates flip direction (pooled " + points(crude) + ", within strata " +
+                    points(within) + "), but neither view is significant at the " + fixed(alpha, 2) +
+                    " level, so the data cannot tell which direction holds.";
+    const double p0 = f.crude.rate_reference, p1 = p0 + within;
+    const double n = stats::rows_per_group_for_power(p1, p0, alpha, 0.8);
+    if (std::isfinite(n))
+        s += " To detect a gap of " + points(std::abs(within)).substr(1) + " at a reference rate of " + percent(p0) +
+             " with 80% power (two-sided, level " + fixed(alpha, 2) + "), a comparison needs about " +
+             count(std::ceil(n)) + " rows per group (Cohen's arcsine method, equal groups); this one has " +
+             count(f.crude.n_focal) + " and " + count(f.crude.n_reference) + ".";
+    return s;
+}
+
+std::string lead_sentence(const RateFinding& f, const Question& q, double alpha) {
     const auto& c = f.crude;
     const auto& a = f.adjusted;
     std::string s = "Pooled, the rate of " + outcome_words(q) + " is " + percent(c.rate_focal) + " for " + f.focal +
@@ -100,7 +120,7 @@ std::string lead_sentence(const RateFinding& f, const Question& q) {
         case FindingClass::Heterogeneous:
             s += " The strata disagree in direction, so no single adjusted figure should be quoted.";
             break;
-        case FindingClass::Stable: s += " Stratifying changes little."; break;
+        case FindingClass::Stable: s += " " + stable_words(f, alpha); break;
     }
     return s;
 }
@@ -405,6 +425,89 @@ std::string diagram_checks_paragraph(const causal::DiagramChecks& c) {
     return s;
 }
 
+namespace {
+
+// The rate family leads page 1 answers: those the reviewer upheld, else those marked for follow
+// up, else the flagged leads in rank order (at most `cap`).
+std::vector<const RateFinding*> answered_leads(const ScanResult& r, const project::Project* p, std::size_t cap) {
+    std::vector<const RateFinding*> out;
+    for (const Decision want : {Decision::Upheld, Decision::FollowUp}) {
+        for (const auto& f : r.rate_findings)
+            if (f.family.role == FamilyRole::Lead && f.cls != FindingClass::Stable)
+                if (const auto* rv = review_of(f, p); rv && rv->decision == want) out.push_back(&f);
+        if (!out.empty()) break;
+    }
+    if (out.empty())
+        for (const auto& f : r.rate_findings)
+            if (f.family.role == FamilyRole::Lead && f.cls != FindingClass::Stable) out.push_back(&f);
+    if (out.size() > cap) out.resize(cap);
+    return out;
+}
+
+std::vector<const RateFinding*> related_to(const ScanResult& r, const RateFinding& lead) {
+    std::vector<const RateFinding*> out;
+    for (const auto& f : r.rate_findings)
+        if (&f != &lead && f.comparison == lead.comparison && f.family.role != FamilyRole::Lead &&
+            f.family_lead() == lead.label())
+            out.push_back(&f);
+    return out;
+}
+
+std::vector<const SlopeFinding*> related_to(const ScanResult& r, const SlopeFinding& lead) {
+    std::vector<const SlopeFinding*> out;
+    for (const auto& f : r.slope_findings)
+        if (&f != &lead && f.family.role != FamilyRole::Lead && f.family_lead() == lead.label()) out.push_back(&f);
+    return out;
+}
+
+// Two or three plain sentences a reader who is not a statistician can act on.
+std::string answer_paragraph(const RateFinding& f, const Question& q, const project::Project* p,
+                             std::size_t related, double alpha) {
+    const auto& c = f.crude;
+    const double within = f.adjusted.mh_rd.greenland_robins.estimate;
+    std::string s = capitalised(strata_words(f)) + ": taken together, " + f.focal + "'s rate of " + outcome_words(q) +
+                    " is " + percent(c.rate_focal) + " against " + percent(c.rate_reference) + " for " + f.reference +
+                    " (" + points(c.rd) + "); compared within each level of " + strata_words(f) + ", the gap is " +
+                    points(within) + ".";
+    switch (f.cls) {
+        case FindingClass::Reversal:
+            s += " The direction reverses: the pooled gap comes mostly from how the two groups are spread over " +
+                 strata_words(f) + " (" + points(f.decomposition.composition) + " of " + points(c.rd) +
+                 "), not from differences inside its levels.";
+            break;
+        case FindingClass::Explained:
+            s += " Within the strata no clear gap remains: the pooled gap comes from the groups' different mix over " +
+                 strata_words(f) + ".";
+            break;
+        case FindingClass::Masked:
+            s += " A gap that the pooled figure hides appears within the strata.";
+            break;
+        case FindingClass::Heterogeneous:
+            s += " The strata disagree in direction, so no single figure should be quoted for all of them.";
+            break;
+        case FindingClass::Stable: s += " " + stable_words(f, alpha); break;
+    }
+    if (f.verdict) s += " Under the causal diagram, the view that answers the question is " + answer_words(f.verdict->verdict, f) + ".";
+    else if (!f.verdict_problem.empty()) s += " The diagram cannot say which view answers the question: " + f.verdict_problem + ".";
+    else s += " No causal diagram was given, so the memo does not say which view answers the question.";
+    const auto* rv = review_of(f, p);
+    s += " Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+    if (related > 0)
+        s += " " + std::to_string(related) + " related finding" + (related == 1 ? " repeats" : "s repeat") +
+             " this story (listed in its section).";
+    return s;
+}
+
+MemoTable related_table() {
+    MemoTable t;
+    t.header = {"Related finding", "Role", "Class", "Pooled", "Adjusted", "q", "Why it is in this family"};
+    t.widths = {1.7, 0.7, 1.0, 0.8, 0.8, 0.7, 3.6};
+    t.numeric = {false, false, false, true, true, true, false};
+    return t;
+}
+
+}  // namespace
+
 MemoContent build_memo(const MemoInput& in) {
     MemoContent m;
     if (!in.scan) return m;
@@ -456,6 +559,11 @@ MemoContent build_memo(const MemoInput& in) {
     else if (slopes) m.question += " Also: " + trend_question;
     m.facts.push_back({"Question", m.question});
 
+    const bool full = (in.detail.empty() ? (p ? p->memo.detail : std::string("families")) : in.detail) == "full";
+    const auto answered = answered_leads(r, p, 4);
+    for (const RateFinding* f : answered)
+        m.answer.push_back(answer_paragraph(*f, q, p, related_to(r, *f).size(), r.alpha));
+
     // Counts by class.
     int counts[5] = {0, 0, 0, 0, 0};
     for (const auto& f : r.rate_findings) ++counts[rank(f.cls)];
@@ -479,8 +587,11 @@ MemoContent build_memo(const MemoInput& in) {
         s += std::to_string(counts[0]) + " " + (counts[0] == 1 ? "is a reversal" : "are reversals") + ", " +
              std::to_string(counts[1]) + " explained, " + std::to_string(counts[2]) + " masked and " +
              std::to_string(counts[3]) + " heterogeneous (false discovery rate " + fixed(r.alpha, 2) + "). ";
-        const RateFinding& top = r.rate_findings.front();
-        s += "The strongest, by " + strata_words(top) + ": pooled, " + top.focal + " " +
+        // The finding page 1 speaks for: upheld, then follow up, then the top-ranked.
+        const RateFinding& top = answered.empty() ? r.rate_findings.front() : *answered.front();
+        s += (&top == &r.rate_findings.front() ? std::string("The strongest")
+                                               : std::string("The finding the reviewer's decisions point to")) +
+             ", by " + strata_words(top) + ": pooled, " + top.focal + " " +
              percent(top.crude.rate_focal) + " against " + top.reference + " " + percent(top.crude.rate_reference) +
              " (" + points(top.crude.rd) + "); within " + strata_words(top) + ", " +
              points(top.adjusted.mh_rd.greenland_robins.estimate) + " (Mantel-Haenszel).";
@@ -533,7 +644,7 @@ MemoContent build_memo(const MemoInput& in) {
                                    points(f.adjusted.mh_rd.greenland_robins.estimate), p_text(f.q_value),
                                    std::isfinite(f.stability.share) ? percent(f.stability.share) : "-",
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
-        if (included_in_memo(f, p)) section_of.push_back(i);
+        if (included_in_memo(f, p) && (full || f.family.role == FamilyRole::Lead)) section_of.push_back(i);
     }
     std::vector<std::size_t> slope_section_of;
     for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
@@ -547,7 +658,7 @@ MemoContent build_memo(const MemoInput& in) {
                                    slope(f.within.slope), p_text(f.q_value),
                                    f.stability.draws > 0 ? percent(f.stability.share) : "-",
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
-        if (included_in_memo(f, p)) slope_section_of.push_back(i);
+        if (included_in_memo(f, p) && (full || f.family.role == FamilyRole::Lead)) slope_section_of.push_back(i);
     }
     const std::size_t with_section = std::min(section_of.size(), in.max_sections);
     const std::size_t slope_with_section =
@@ -565,6 +676,8 @@ MemoContent build_memo(const MemoInput& in) {
                               : std::string()) +
                       " " + std::to_string(total_sections) + " finding" + (total_sections == 1 ? " has" : "s have") +
                       " a section below" +
+                      (full ? std::string() : std::string(" (one per family: a family's related findings are listed "
+                                                          "in its lead's section)")) +
                       (total_chosen > total_sections
                            ? "; " + std::to_string(total_chosen - total_sections) +
                                  " more chosen findings are in the table only (see the JSON or CSV export)."
@@ -595,7 +708,7 @@ MemoContent build_memo(const MemoInput& in) {
         sec.finding_class = std::string(to_string(f.cls));
         sec.heading = std::to_string(k + 1) + ". " + capitalised(to_string(f.cls)) + ": " + strata_words(f) + " (" +
                       comparison_words(f) + ")";
-        sec.lead = lead_sentence(f, q) + small_counts_sentence(f);
+        sec.lead = lead_sentence(f, q, r.alpha) + small_counts_sentence(f);
         sec.figures = figures_table(f, r.alpha);
         add_small_count_rows(f, sec.figures);
         sec.strata = strata_table(f);
@@ -619,6 +732,15 @@ MemoContent build_memo(const MemoInput& in) {
         const auto* rv = review_of(f, p);
         sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
         if (rv) sec.note = rv->note;
+        if (!full) {
+            for (const RateFinding* g : related_to(r, f)) {
+                if (sec.related.header.empty()) sec.related = related_table();
+                sec.related.rows.push_back({strata_words(*g), std::string(to_string(g->family.role)),
+                                            std::string(to_string(g->cls)), points(g->crude.rd),
+                                            points(g->adjusted.mh_rd.greenland_robins.estimate), p_text(g->q_value),
+                                            g->family.reason});
+            }
+        }
         m.sections.push_back(std::move(sec));
     }
 
@@ -659,8 +781,46 @@ MemoContent build_memo(const MemoInput& in) {
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
         sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
         if (rv) sec.note = rv->note;
+        if (!full) {
+            for (const SlopeFinding* g : related_to(r, f)) {
+                if (sec.related.header.empty()) sec.related = related_table();
+                sec.related.rows.push_back({slope_strata_words(*g), std::string(to_string(g->family.role)),
+                                            std::string(to_string(g->cls)), slope(g->pooled.slope),
+                                            slope(g->within.slope), p_text(g->q_value), g->family.reason});
+            }
+        }
         m.sections.push_back(std::move(sec));
     }
+
+    // Appendix: every check, so every figure of a per-finding memo stays findable.
+    m.appendix.header = {"#", "Class", "Strata", "Comparison", "Pooled [95% CI]", "Adjusted [95% CI]", "MH odds ratio",
+                         "q", "Family (role)"};
+    m.appendix.widths = {0.4, 1.1, 1.9, 1.0, 1.7, 1.7, 1.5, 0.8, 2.1};
+    m.appendix.numeric = {true, false, false, false, true, true, true, true, false};
+    for (std::size_t i = 0; i < r.rate_findings.size(); ++i) {
+        const auto& f = r.rate_findings[i];
+        const auto& gr = f.adjusted.mh_rd.greenland_robins;
+        m.appendix.rows.push_back(
+            {std::to_string(i + 1), std::string(to_string(f.cls)), strata_words(f), comparison_words(f),
+             points(f.crude.rd) + " " + interval(f.crude.rd_ci.lo, f.crude.rd_ci.hi, points),
+             points(gr.estimate) + " " + interval(gr.ci.lo, gr.ci.hi, points),
+             ratio(f.adjusted.mh_or.estimate) + " " + interval(f.adjusted.mh_or.ci.lo, f.adjusted.mh_or.ci.hi, ratio),
+             p_text(f.q_value), f.family_lead() + " (" + std::string(to_string(f.family.role)) + ")"});
+    }
+    for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
+        const auto& f = r.slope_findings[i];
+        m.appendix.rows.push_back({"s" + std::to_string(i + 1), std::string(to_string(f.cls)), slope_strata_words(f),
+                                   f.y + " on " + f.x,
+                                   slope(f.pooled.slope) + " " + slope_interval(f.pooled.ci_low, f.pooled.ci_high),
+                                   slope(f.within.slope) + " " + slope_interval(f.within.ci_low, f.within.ci_high), "-",
+                                   p_text(f.q_value), f.family_lead() + " (" + std::string(to_string(f.family.role)) + ")"});
+    }
+    m.appendix_note =
+        "Every check of the scan in rank order (families kept together). Pooled and adjusted: rate differences in "
+        "percentage points (Mantel-Haenszel) or slopes (pooled and within strata). A member adds nothing beyond its "
+        "lead (its adjusted estimate lies inside the lead's interval and a test of further stratifying does not "
+        "reject after Benjamini-Hochberg); a proxy carries nearly the same information as its lead (nested levels, "
+        "or Cramér's V of at least 0.7, a common-practice threshold).";
 
     // Method notes: enough to reproduce; the rate estimators only when rates were compared.
     std::vector<std::string> rate_notes = {

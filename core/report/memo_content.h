@@ -86,6 +86,7 @@ struct MemoSection {
     std::string e_value;       ///< one sentence
     std::string decision;      ///< "Reviewer's decision: upheld."
     std::string note;          ///< the reviewer's note as written; empty when none
+    MemoTable related;         ///< family detail: the family's other findings (proxies, members); may be empty
 };
 
 struct MemoContent {
@@ -96,10 +97,13 @@ struct MemoContent {
     std::vector<std::pair<std::string, std::string>> facts;  ///< label / value (source, rows, SHA-256, ...)
     std::string question;       ///< the question in words
     std::string data_warning;   ///< non-empty when the data changed since the project was saved
+    std::vector<std::string> answer;  ///< page 1: two or three plain sentences per family lead answered
     std::string summary;        ///< one paragraph
     MemoTable findings;         ///< every finding that is not stable (or all, when none is flagged)
     std::string findings_note;  ///< how many are listed / how many have sections
     std::vector<MemoSection> sections;
+    MemoTable appendix;         ///< every check of the scan with its class, q and family
+    std::string appendix_note;
     std::vector<std::string> method_notes;
     std::string caution;
 };
@@ -112,6 +116,8 @@ struct MemoInput {
     std::string date;                                 ///< "2026-12-02"; the caller's clock, for reproducibility
     std::string data_change;                          ///< DataChange::message when changed, else empty
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
+    std::string detail;                               ///< "families" or "full"; empty: the project's
+                                                      ///< memo.detail ("families" without a project)
     const Table* table = nullptr;                     ///< the rows, for the trend charts; null → none
                                                       ///< (verdicts and their estimates come with the
                                                       ///< findings: core/audit/verdicts.h)

@@ -74,6 +74,26 @@ json scan_to_json_summary(const ScanResult& r) {
     return s;
 }
 
+json family_to_json(const FindingHeader& f) {
+    return {{"lead", f.family_lead()}, {"role", std::string(to_string(f.family.role))}, {"reason", f.family.reason}};
+}
+
+json families_to_json(const ScanResult& r) {
+    json out = json::array();
+    for (const auto& fam : r.families) {
+        const bool rate = fam.kind == FindingKind::Rate;
+        out.push_back({{"kind", std::string(to_string(fam.kind))},
+                       {"focal", rate && fam.comparison < r.question.focal.size() ? json(r.question.focal[fam.comparison])
+                                                                                  : json(nullptr)},
+                       {"lead", fam.lead},
+                       {"class", std::string(to_string(fam.cls))},
+                       {"size", fam.size()},
+                       {"proxies", fam.proxies},
+                       {"members", fam.members}});
+    }
+    return out;
+}
+
 json scan_to_json(const ScanResult& r, const DataInfo& data) {
     json j;
     j["version"] = kScanJsonVersion;
@@ -119,6 +139,7 @@ json scan_to_json(const ScanResult& r, const DataInfo& data) {
     }
     j["summary"] = scan_to_json_summary(r);
     if (r.diagram_checks) j["diagram_checks"] = report::to_json(*r.diagram_checks);
+    j["families"] = families_to_json(r);
     j["findings"] = std::move(findings);
     return j;
 }
@@ -315,6 +336,9 @@ void write_rate_finding(Writer& w, const RateFinding& f) {
     w.field("informative_strata", static_cast<double>(f.informative_strata));
     w.key("verdict");
     w.raw(f.verdict ? report::verdict_to_json(*f.verdict).dump() : std::string("null"));
+    w.raw(",");
+    w.key("family");
+    w.raw(family_to_json(f).dump());
     w.raw("}");
 }
 
@@ -347,6 +371,7 @@ std::string scan_json_text(const ScanResult& r, const DataInfo& data) {
     json doc = scan_to_json(head, data);
     // The summary must describe the full result.
     doc["summary"] = scan_to_json_summary(r);
+    doc["families"] = families_to_json(r);
     json slopes = json::array();
     for (const auto& f : r.slope_findings) slopes.push_back(to_json(f));
     if (r.latent) slopes.push_back(to_json(*r.latent));

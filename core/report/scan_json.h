@@ -33,6 +33,13 @@ nlohmann::json scan_to_json(const ScanResult& result, const DataInfo& data);
 /// One finding as it appears in "findings".
 nlohmann::json rate_finding_to_json(const RateFinding& f);
 
+/// A finding's "family": {lead, role ("lead", "member" or "proxy"), reason}.
+nlohmann::json family_to_json(const FindingHeader& f);
+
+/// The top-level "families" list in rank order: [{kind, focal (rate families, else null), lead,
+/// class, size, proxies, members}]; flagged families only. None → [].
+nlohmann::json families_to_json(const ScanResult& result);
+
 /// The "candidates" list shared by the rate and slope documents: [{column, origin}], origin ""
 /// where `origins` is shorter than `names`. No names → [].
 nlohmann::json candidates_to_json(const std::vector<std::string>& names, const std::vector<std::string>& origins);

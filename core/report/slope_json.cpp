@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "core/report/json_number.h"
+#include "core/report/scan_json.h"
 
 namespace foldline {
 namespace {
@@ -36,6 +37,7 @@ json to_json(const SlopeFinding& f) {
     j["q_value"] = num(f.q_value);
     j["stability"] = num(f.stability.share);
     j["stability_draws"] = f.stability.draws;
+    j["family"] = family_to_json(f);
     j["linear_probability"] = f.linear_probability;
     if (f.linear_probability)
         j["note"] = "The outcome is 0/1: slopes are linear-probability slopes (change in the "

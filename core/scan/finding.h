@@ -59,6 +59,22 @@ struct FindingVerdict {
     std::string estimate_problem;              ///< why an estimate over another set could not be computed
 };
 
+/// How a finding relates to the other findings of its scan (core/scan/families.h).
+enum class FamilyRole { Lead, Member, Proxy };
+
+/// "lead", "member" or "proxy": the JSON and CSV "family_role".
+constexpr std::string_view to_string(FamilyRole r) {
+    return r == FamilyRole::Lead ? "lead" : r == FamilyRole::Member ? "member" : "proxy";
+}
+
+/// The family a finding belongs to: the label of the finding that leads it (for a rate finding,
+/// in the same comparison), the finding's role in it, and the reason in plain words.
+struct FindingFamily {
+    std::string lead;  ///< empty until assign_families: the finding leads its own family
+    FamilyRole role = FamilyRole::Lead;
+    std::string reason;
+};
+
 struct FindingHeader {
     FindingKind kind = FindingKind::Rate;
     std::vector<std::string> strata;  ///< stratifier column names (1, or 2 for a pair)
@@ -68,9 +84,12 @@ struct FindingHeader {
     Stability stability;
     std::optional<FindingVerdict> verdict;  ///< with a diagram only
     std::string verdict_problem;            ///< why the diagram could not judge this finding, else empty
+    FindingFamily family;                   ///< filled by assign_families (core/scan/families.h)
 
     /// "product" or "product × branch"; "" when no stratifier is named.
     std::string label() const;
+    /// The label of the family's lead: family.lead, or label() before families are assigned.
+    std::string family_lead() const { return family.lead.empty() ? label() : family.lead; }
 };
 
 }  // namespace foldline

@@ -9,6 +9,7 @@
 #include "core/causal/diagram_check.h"
 #include "core/scan/candidates.h"
 #include "core/scan/mean_finding.h"
+#include "core/scan/families.h"
 #include "core/scan/question.h"
 #include "core/scan/rate_finding.h"
 #include "core/scan/slope_scan.h"
@@ -29,6 +30,7 @@ struct ScanResult {
     std::vector<MeanFinding> mean_findings;  ///< mean-gap checks of a mean question, ranked
     bool mean_scan = false;                  ///< a mean-gap question: mean_findings answer it
     bool log_outcome = false;                ///< mean question: figures are of log(outcome)
+    std::vector<FindingFamilySummary> families;  ///< flagged families in rank order (rank_findings)
     std::optional<LatentFinding> latent;     ///< the hidden-group hint of a trend audit, when asked
     double alpha = 0.05;
     int bootstrap = 0;
@@ -43,10 +45,13 @@ struct ScanResult {
 /// result.
 void apply_fdr(ScanResult& result);
 
-/// The one ranking of every scan: orders each list (empty lists stay empty) by class (reversal
-/// first), then q-value, then size of the change (largest first: |crude RD - MH RD| for rates,
-/// |pooled - within slope| for slopes, |crude − fixed-effects difference| for mean gaps, adjusted slopes when there are covariates), then fewer
-/// stratifiers, then label.
+/// The one ranking of every scan: assigns families (core/scan/families.h), then orders each list
+/// (empty lists stay empty) by family — families in the order of their leads, the lead first,
+/// then its proxies, then its members — and, among leads and within a family, by class (reversal
+/// first), then q-value, then fewer stratifiers (a single before a pair with the same figures),
+/// then size of the change (largest first: |crude RD - MH RD| for rates, |pooled - within slope|
+/// for slopes, |crude − fixed-effects difference| for mean gaps, adjusted slopes when there are
+/// covariates), then label. Fills result.families.
 void rank_findings(ScanResult& result);
 
 }  // namespace foldline

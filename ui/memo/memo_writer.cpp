@@ -672,6 +672,12 @@ void render(Flow& flow, const MemoContent& m) {
     // Title block.
     flow.paragraph(q(m.title.empty() ? std::string("Audit memo") : m.title), flow.font(18, true), kInk, 0, 2);
     flow.paragraph(QStringLiteral("Audit memo: pooled and stratified comparisons"), flow.font(10), kMuted, 0, 8);
+    // Page 1 answers first, in plain sentences, before the facts and figures.
+    if (!m.answer.empty()) {
+        flow.heading(QStringLiteral("The answer in brief"), 13, 40);
+        for (const auto& a : m.answer) flow.paragraph(q(a), flow.font(10), kInk, 0, 5);
+        flow.space(4);
+    }
     MemoTable facts;
     facts.header = {"About this audit", ""};
     facts.widths = {1, 4};
@@ -703,6 +709,12 @@ void render(Flow& flow, const MemoContent& m) {
         if (!s.e_value.empty()) flow.labelled(QStringLiteral("Sensitivity to unmeasured confounding"), q(s.e_value));
         flow.labelled(QStringLiteral("Review"), q(s.decision));
         if (!s.note.empty()) flow.labelled(QStringLiteral("Reviewer's note"), q(s.note));
+        if (!s.related.rows.empty()) {
+            flow.space(2);
+            flow.paragraph(QStringLiteral("Related findings in this family (%1)").arg(s.related.rows.size()),
+                           flow.font(10, true), kInk, 0, 3);
+            flow.table(s.related, 7.5);
+        }
         flow.space(4);
         flow.paragraph(QStringLiteral("Side by side: pooled and each stratum"), flow.font(10, true), kInk, 0, 3);
         flow.table(s.strata, 7.5);
@@ -747,6 +759,12 @@ void render(Flow& flow, const MemoContent& m) {
         }
     }
 
+    if (!m.appendix.rows.empty()) {
+        flow.new_page();
+        flow.heading(QStringLiteral("Appendix: every check"), 13, 60);
+        flow.table(m.appendix, 7);
+        flow.paragraph(q(m.appendix_note), flow.font(8, false, true), kMuted, 0, 8);
+    }
     flow.heading(QStringLiteral("Method notes"), 13, 60);
     for (const auto& n : m.method_notes) {
         flow.paragraph(QString(QChar(0x2022)) + QStringLiteral("  ") + q(n), flow.font(9), kInk, 0, 4);
