@@ -23,7 +23,8 @@ private slots:
         QCOMPARE(t->total_weight(), 200.0);
         double focal_pos = 0;
         for (std::size_t i = 0; i < t->rows; ++i)
-            if (t->columns[1].levels[t->columns[1].code(i)] == "focal" && t->columns[2].levels[t->columns[2].code(i)] == "1")
+            if (t->columns[1].levels[t->columns[1].code(i)] == g.focal_name().toStdString() &&
+                t->columns[2].levels[t->columns[2].code(i)] == g.positive_label().toStdString())
                 focal_pos += t->weight(i);
         QCOMPARE(focal_pos, 30.0);
     }
