@@ -122,6 +122,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     list_->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
     list_->horizontalHeader()->setSectionResizeMode(FindingsModel::Strata, QHeaderView::Stretch);
     list_->horizontalHeader()->setStretchLastSection(false);
+    list_->setTextElideMode(Qt::ElideRight);  // a pair keeps its first column readable
     list_->setTextElideMode(Qt::ElideMiddle);
     list_->setAlternatingRowColors(true);
     list_->setWordWrap(false);
@@ -280,9 +281,10 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     split_->setObjectName(QStringLiteral("findings_splitter"));
     split_->addWidget(left);
     split_->addWidget(right);
-    split_->setStretchFactor(0, 2);  // the list keeps room for every column at 1440 px
-    split_->setStretchFactor(1, 3);
-    split_->setSizes({380, 1000});
+    // The list keeps room for every column, the strata included, at 1440 px.
+    split_->setStretchFactor(0, 1);
+    split_->setStretchFactor(1, 1);
+    split_->setSizes({860, 580});
     tables->setSizes({330, 600});
 
     auto* lay = new QVBoxLayout(this);
