@@ -17,6 +17,7 @@ double log_choose(double n, double k) {
 
 struct Varying {
     long lo, hi;
+    long m1, m0, n1;           // the stratum's margins
     std::vector<double> logh;  // log central hypergeometric density over lo..hi (unnormalised)
 };
 
@@ -40,6 +41,7 @@ ZelenTest zelen_exact(const Strata& strata, double max_tables, double max_count_
         z.status = HomogeneityStatus::NotWholeCounts;
         return z;
     }
+    // Margins first: the cost of counting is bounded before anything of a stratum's width is built.
     std::vector<Varying> v;
     std::vector<long> obs;
     long s = 0;  // observed sum over the varying strata
@@ -47,9 +49,7 @@ ZelenTest zelen_exact(const Strata& strata, double max_tables, double max_count_
         const long n1 = std::lround(st.a + st.b), m1 = std::lround(st.a + st.c), m0 = std::lround(st.b + st.d);
         const long lo = std::max(0L, n1 - m0), hi = std::min(n1, m1);
         if (hi <= lo) continue;
-        Varying x{lo, hi, {}};
-        for (long a = lo; a <= hi; ++a) x.logh.push_back(log_choose(double(m1), double(a)) + log_choose(double(m0), double(n1 - a)));
-        v.push_back(std::move(x));
+        v.push_back(Varying{lo, hi, m1, m0, n1, {}});
         obs.push_back(std::lround(st.a));
         s += std::lround(st.a);
     }
@@ -61,16 +61,21 @@ ZelenTest zelen_exact(const Strata& strata, double max_tables, double max_count_
     long t = s;
     for (const auto& x : v) t -= x.lo;
     // ways[k][r]: number of (y_k, ..., y_{K-1}) summing to r <= t (doubles: counts can be huge).
-    // Its cost is bounded before it starts.
+    // Its cost, and the densities' length, are bounded before either is built.
     double work = 0, len = 1;
     for (std::size_t k = K; k-- > 0;) {
         const double w = double(v[k].hi - v[k].lo);
-        work += len * (w + 1);
+        work += len * (w + 1) + (w + 1);
         len = std::min(len + w, double(t) + 1);
     }
     if (work > max_count_work) {
         z.status = HomogeneityStatus::TooLarge;
         return z;
+    }
+    for (auto& x : v) {
+        x.logh.reserve(static_cast<std::size_t>(x.hi - x.lo + 1));
+        for (long a = x.lo; a <= x.hi; ++a)
+            x.logh.push_back(log_choose(double(x.m1), double(a)) + log_choose(double(x.m0), double(x.n1 - a)));
     }
     const std::size_t cap = static_cast<std::size_t>(t) + 1;
     std::vector<std::vector<double>> ways(K + 1);

@@ -168,4 +168,11 @@ TEST(ExactStratified, LimitsAndWeightsFallBackWithAStatus) {
     EXPECT_EQ(zw.status, HomogeneityStatus::TooLarge);
     EXPECT_EQ(zw.tables, 0);
     EXPECT_EQ(exact_common_odds_ratio(wide).status, ExactStatus::TooLarge);
+    // Two strata of ~2^52 rows (a libFuzzer find): the bound is checked before any density of
+    // that width is built, so this returns at once instead of filling memory.
+    const double g = 35184372088832.0;  // 2^45
+    const auto zg = zelen_exact(Strata{{80 * g, 1 * g, 0, 200 * g}, {35 * g, 0, 200 * g, 35 * g}});
+    EXPECT_EQ(zg.status, HomogeneityStatus::TooLarge);
+    EXPECT_EQ(exact_common_odds_ratio(Strata{{80 * g, 1 * g, 0, 200 * g}, {35 * g, 0, 200 * g, 35 * g}}).status,
+              ExactStatus::TooLarge);
 }
