@@ -46,6 +46,9 @@ void DiagramChecksPanel::set_rows(std::shared_ptr<const Table> rows, int bins, s
     max_levels_ = max_levels;
     alpha_ = alpha;
     cache_.clear();
+    // The columns cut once for these rows, shared by every later run (a run holds its own
+    // reference, so a run still finishing on the old rows keeps them alive).
+    strata_ = rows_ ? std::make_shared<audit::ClaimStrata>(*rows_, bins_, max_levels_) : nullptr;
     start();
 }
 
@@ -84,7 +87,7 @@ void DiagramChecksPanel::start() {
     running_ = out;
     // The worker gets its own copies: the diagram, the cache as it is now, the rows (shared, const).
     const audit::EstimateSettings settings{bins_, max_levels_, alpha_};
-    job_->start([out, rows = rows_, settings, diagram = diagram_, cache = cache_](const Work& work) {
+    job_->start([out, rows = rows_, strata = strata_, settings, diagram = diagram_, cache = cache_](const Work& work) {
         auto graph = causal::CausalGraph::build(diagram);
         if (!graph) {
             out->problem = QString::fromStdString(graph.error().message);
@@ -105,7 +108,7 @@ void DiagramChecksPanel::start() {
                 c = *hit;
                 continue;
             }
-            audit::test_claim(c, *rows, settings);
+            audit::test_claim(c, *strata);
             ++out->tests_run;
         }
         audit::finish_checks(checks, settings.alpha);

@@ -3,7 +3,8 @@
 // diagram implies, each tested on the scanned rows (core/audit/diagram_checks.h), shown as plain
 // sentences. Every computation (listing the claims and testing them) runs on a worker (ui/job.h),
 // never on the GUI thread; a test already run for the same claim on the same rows is reused, so
-// an edit only tests the claims it creates. An edit during a run cancels it and runs again.
+// an edit only tests the claims it creates, and each numeric column is cut once per set of rows
+// (core/audit/claim_strata.h), not once per claim or per edit. An edit during a run cancels it and runs again.
 #include <QHash>
 #include <QWidget>
 #include <memory>
@@ -14,6 +15,10 @@
 #include "core/table/table.h"
 
 class QLabel;
+
+namespace foldline::audit {
+class ClaimStrata;
+}
 
 namespace foldline::ui {
 
@@ -50,6 +55,7 @@ private:
 
     Job* job_;
     std::shared_ptr<const Table> rows_;
+    std::shared_ptr<audit::ClaimStrata> strata_;  ///< rows_ cut once, shared by every run
     int bins_ = 4;
     std::size_t max_levels_ = 50;
     double alpha_ = 0.05;

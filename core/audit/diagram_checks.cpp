@@ -4,7 +4,6 @@
 #include <cstdio>
 #include <limits>
 
-#include "core/scan/joint_strata.h"
 #include "core/stats/fdr.h"
 
 namespace foldline::causal {
@@ -42,16 +41,21 @@ void not_assessable(DiagramCheck& c, std::string why) {
 
 bool continuous(const Column& c) { return c.is_numeric() && !c.is_binary(); }
 
-void g_squared(DiagramCheck& c, const Table& table, const EstimateSettings& s) {
-    auto x = joint_stratifier(table, {c.a}, s.bins, s.max_levels);
-    auto y = joint_stratifier(table, {c.b}, s.bins, s.max_levels);
-    auto z = joint_stratifier(table, c.given, s.bins, s.max_levels);
-    for (const auto* r : {&x, &y, &z})
-        if (!*r) return not_assessable(c, r->error().message);
+void g_squared(DiagramCheck& c, ClaimStrata& strata) {
+    const Table& table = strata.table();
+    auto x = strata.categorical(c.a);
+    if (!x) return not_assessable(c, x.error().message);
+    auto y = strata.categorical(c.b);
+    if (!y) return not_assessable(c, y.error().message);
+    auto z = strata.joint(c.given);
+    if (!z) return not_assessable(c, z.error().message);
+    const Column& xc = **x;
+    const Column& yc = **y;
+    const JointStrata& zs = **z;
     stats::StratifiedCounts counts;
-    counts.strata = z->levels.size();
-    counts.rows = x->levels.size();
-    counts.cols = y->levels.size();
+    counts.strata = zs.levels;
+    counts.rows = xc.levels.size();
+    counts.cols = yc.levels.size();
     const double cells = static_cast<double>(counts.strata) * static_cast<double>(counts.rows) *
                          static_cast<double>(counts.cols);
     if (cells > kMaxCells) {
@@ -61,18 +65,33 @@ void g_squared(DiagramCheck& c, const Table& table, const EstimateSettings& s) {
         return not_assessable(c, buf);
     }
     counts.cells.assign(static_cast<std::size_t>(cells), 0.0);
-    const auto xm = x->missing_code(), ym = y->missing_code(), zm = z->missing_code();
+    // Cell index per row, column by column (no per-row dispatch on the code width).
+    constexpr std::uint64_t kSkip = UINT64_MAX;
+    std::vector<std::uint64_t> cell(table.rows);
+    const auto zm = zs.missing_code();
     for (std::size_t i = 0; i < table.rows; ++i) {
-        const auto xi = x->code(i), yi = y->code(i), zi = z->code(i);
-        if (xi == xm || yi == ym || zi == zm) continue;
-        counts.at(zi, xi, yi) += table.weight(i);
+        const auto zi = zs.code(i);
+        cell[i] = zi == zm ? kSkip : zi;
     }
+    for (const Column* col : {&xc, &yc}) {
+        const std::uint64_t radix = col->levels.size();
+        const auto miss = col->missing_code();
+        visit_codes(*col, [&](const auto& codes) {
+            for (std::size_t i = 0; i < cell.size(); ++i) {
+                const std::uint32_t v = codes[i];
+                cell[i] = cell[i] == kSkip || v == miss ? kSkip : cell[i] * radix + v;
+            }
+        });
+    }
+    for (std::size_t i = 0; i < table.rows; ++i)
+        if (cell[i] != kSkip) counts.cells[static_cast<std::size_t>(cell[i])] += table.weight(i);
     c.method = CheckMethod::GSquared;
     c.test = stats::g_squared_test(counts);
     if (std::isnan(c.test.p)) c.note = "no stratum holds two values of both columns";
 }
 
-void partial_correlation(DiagramCheck& c, const Table& table, const EstimateSettings& s) {
+void partial_correlation(DiagramCheck& c, ClaimStrata& strata) {
+    const Table& table = strata.table();
     std::vector<std::string> cats;
     std::vector<const double*> vars;  // numeric members of the set, then X, then Y
     for (const auto& g : c.given) {
@@ -82,13 +101,14 @@ void partial_correlation(DiagramCheck& c, const Table& table, const EstimateSett
     }
     vars.push_back(table.column(c.a)->values.data());
     vars.push_back(table.column(c.b)->values.data());
-    auto z = joint_stratifier(table, cats, s.bins, s.max_levels);
-    if (!z) return not_assessable(c, z.error().message);
-    const std::size_t p = vars.size(), strata = z->levels.size();
+    auto zr = strata.joint(cats);
+    if (!zr) return not_assessable(c, zr.error().message);
+    const JointStrata* z = zr->get();
+    const std::size_t p = vars.size(), levels = z->levels;
     const auto zm = z->missing_code();
     // Two passes: stratum means, then sums of squares and cross-products about them (centring
     // first keeps the precision that raw sums lose at a million rows).
-    std::vector<double> w(strata, 0.0), mean(strata * p, 0.0);
+    std::vector<double> w(levels, 0.0), mean(levels * p, 0.0);
     auto complete = [&](std::size_t i) {
         if (z->code(i) == zm) return false;
         for (const double* v : vars)
@@ -104,7 +124,7 @@ void partial_correlation(DiagramCheck& c, const Table& table, const EstimateSett
     }
     stats::WithinMoments m;
     m.strata = 0;
-    for (std::size_t k = 0; k < strata; ++k) {
+    for (std::size_t k = 0; k < levels; ++k) {
         if (w[k] <= 0) continue;
         ++m.strata;
         m.n += w[k];
@@ -173,7 +193,13 @@ std::string claim_key(const DiagramCheck& c) {
 }
 
 void test_claim(DiagramCheck& c, const Table& table, const EstimateSettings& settings) {
+    ClaimStrata strata(table, settings.bins, settings.max_levels);
+    test_claim(c, strata);
+}
+
+void test_claim(DiagramCheck& c, ClaimStrata& strata) {
     if (c.form == ClaimForm::Untestable) return;
+    const Table& table = strata.table();
     c.note.clear();
     c.method = CheckMethod::None;
     std::vector<std::string> all = c.given;
@@ -181,8 +207,8 @@ void test_claim(DiagramCheck& c, const Table& table, const EstimateSettings& set
     all.push_back(c.b);
     for (const auto& n : all)
         if (!table.column(n)) return not_assessable(c, "column '" + n + "' is not in the data");
-    if (continuous(*table.column(c.a)) && continuous(*table.column(c.b))) partial_correlation(c, table, settings);
-    else g_squared(c, table, settings);
+    if (continuous(*table.column(c.a)) && continuous(*table.column(c.b))) partial_correlation(c, strata);
+    else g_squared(c, strata);
 }
 
 void finish_checks(DiagramChecks& checks, double alpha) {
@@ -223,6 +249,7 @@ Result<DiagramChecks> check_diagram(const causal::Diagram& diagram, const Table&
     if (auto st = causal::check_columns(*graph, columns); !st) return st.error();
     DiagramChecks out;
     out.checks = list_claims(*graph);
+    ClaimStrata strata(table, settings.bins, settings.max_levels);
     for (std::size_t i = 0; i < out.checks.size(); ++i) {
         if (work.cancelled()) {
             for (std::size_t j = i; j < out.checks.size(); ++j)
@@ -230,7 +257,7 @@ Result<DiagramChecks> check_diagram(const causal::Diagram& diagram, const Table&
             break;
         }
         work.report(static_cast<double>(i), static_cast<double>(out.checks.size()), "testing the diagram's claims");
-        test_claim(out.checks[i], table, settings);
+        test_claim(out.checks[i], strata);
     }
     finish_checks(out, settings.alpha);
     return out;

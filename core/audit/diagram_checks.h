@@ -3,12 +3,14 @@
 // Categorical pairs (and any pair with a categorical member) by G² over the strata of the
 // conditioning set; pairs of numeric columns by partial correlation (Fisher's z) with stratum
 // intercepts for the categorical members of the set. Numeric columns that enter a G² test or
-// a set of strata are cut as the scan cuts candidates (integer levels, else quantile bins).
+// a set of strata are cut as the scan cuts candidates (integer levels, else quantile bins), each
+// column once per data set (core/audit/claim_strata.h).
 // Rows missing any column of a claim are left out of that claim's test. q-values are
 // Benjamini-Hochberg within the diagram's tests.
 #include <string>
 #include <vector>
 
+#include "core/audit/claim_strata.h"
 #include "core/audit/verdicts.h"
 #include "core/causal/diagram.h"
 #include "core/causal/diagram_check.h"
@@ -27,6 +29,10 @@ std::string claim_key(const causal::DiagramCheck& check);
 /// Tests one claim on `table` (cut by `settings`). Untestable claims are left as they are; a
 /// claim that cannot be tested (a column missing, too many cells) gets a note and p NaN.
 void test_claim(causal::DiagramCheck& check, const Table& table, const EstimateSettings& settings);
+
+/// The same with the columns cut once for the whole data set: every claim of one diagram (and
+/// of later edits of it on the same rows) should share one ClaimStrata.
+void test_claim(causal::DiagramCheck& check, ClaimStrata& strata);
 
 /// BH q-values across the tested claims, the contradicted flags and counts at `alpha`, and the
 /// sentences. Call after every claim is tested.
