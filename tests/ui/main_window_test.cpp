@@ -862,7 +862,7 @@ private slots:
         QVERIFY(s.contains(QStringLiteral("Reviewer's decision: upheld.")));
         QVERIFY(s.contains(QStringLiteral("ask the trading desk for the weekly demand forecast")));
         QVERIFY(s.contains(QStringLiteral("Causal diagram")));
-        // A finding stratified by a mediator (footfall) points to the within-format slope, which
+        // A finding stratified by footfall (which follows sales) points to the within-format slope, which
         // the memo computes and quotes (statsmodels figures above).
         QVERIFY(all.contains(QStringLiteral("The estimate to quote, the within slope over store_format: -3.969 "
                                             "(95% CI -4.241 to -3.696)")));

@@ -151,8 +151,11 @@ TEST(Verdict, RetailSampleStoreFormatIsAConfounderSoTheStratifiedViewAnswers) {
     EXPECT_EQ(v.answer, Answer::Stratified);
     EXPECT_EQ(v.stratifier_roles[0].role, Role::Confounder);
     auto footfall = must_decide(cg, "promo_spend", "weekly_sales", {"footfall"});
-    EXPECT_EQ(footfall.answer, Answer::OtherSet);  // a mediator, and the pooled view is confounded
-    EXPECT_EQ(footfall.stratifier_roles[0].role, Role::Mediator);
+    // footfall follows sales (the sample's generator): stratifying by it biases the slope, and the
+    // pooled view is confounded by store format, so the answer is to standardise over store_format.
+    EXPECT_EQ(footfall.answer, Answer::OtherSet);
+    EXPECT_EQ(footfall.stratifier_roles[0].role, Role::OutcomeDescendant);
+    EXPECT_EQ(footfall.standardise_over, std::vector<std::string>{"store_format"});
 }
 
 TEST(Verdict, AdjustmentReportForTheSamples) {
