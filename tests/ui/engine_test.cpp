@@ -155,6 +155,22 @@ private slots:
             if (f["verdict"].is_object() && f["verdict"]["answer"] == "other_set")
                 other_set = other_set || f["verdict"]["adjusted_estimate"].is_object();
         QVERIFY(other_set);
+        // The Mantel-Fleiss criterion (Mantel & Fleiss 1980, Am J Epidemiol 112:129) is reported
+        // per finding: in the JSON of every rate finding and in the findings view's figures.
+        int rate_json = 0, rate_views = 0, views_with_mf = 0;
+        for (const auto& f : from_run["findings"])
+            if (f.contains("small_counts")) {
+                ++rate_json;
+                QVERIFY(f["small_counts"]["mantel_fleiss"].contains("distance"));
+            }
+        for (const FindingView& v : w.findings_model()->findings()) {
+            if (v.slope) continue;
+            ++rate_views;
+            for (const StatLine& l : v.more) views_with_mf += l.name == QStringLiteral("Mantel-Fleiss distance");
+        }
+        QVERIFY(rate_json > 0);
+        QCOMPARE(rate_views, rate_json);
+        QCOMPARE(views_with_mf, rate_views);
 
         // The memos: the same words, figures and verdicts.
         QVERIFY(w.export_memo_to(dir.filePath("workbench.pdf")).ok());
