@@ -36,7 +36,8 @@ std::string overwrites_input(const std::string& output, const std::vector<std::s
 }
 
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
-                         const std::string& memo_path, const std::string& csv_prefix, const Table* table) {
+                         const std::string& memo_path, const std::string& csv_prefix, const Table* table,
+                         const std::string& memo_detail) {
     std::vector<std::string> outputs = {memo_path};
     if (!csv_prefix.empty())
         for (const auto& f : report::csv_export_paths(result, csv_prefix)) outputs.push_back(f);
@@ -46,8 +47,14 @@ int write_shared_outputs(const std::string& command, const ScanResult& result, c
         if (auto st = report::write_csv_exports(result, nullptr, csv_prefix); !st)
             return fail(command, kInput, st.error().to_string());
     }
-    if (!memo_path.empty()) return write_memo(command, result, info, nullptr, {}, memo_path, table);
+    if (!memo_path.empty()) return write_memo(command, result, info, nullptr, {}, memo_path, table, memo_detail);
     return kOk;
+}
+
+std::string memo_detail_problem(const std::string& value) {
+    if (value == "families" || value == "full") return {};
+    return "--memo-detail: expected families (one section per family of findings) or full (one section per "
+           "finding), got '" + value + "'";
 }
 
 bool memo_available() {
@@ -59,13 +66,16 @@ bool memo_available() {
 }
 
 int write_memo(const std::string& command, const ScanResult& result, const DataInfo& info, const project::Project* p,
-               const std::string& data_change, const std::string& out_path, const Table* table) {
+               const std::string& data_change, const std::string& out_path, const Table* table,
+               const std::string& detail) {
 #ifdef FOLDLINE_HAVE_UI
-    const auto content = report::build_memo(audit::memo_input(result, info, p, table, audit::today(), data_change));
+    auto in = audit::memo_input(result, info, p, table, audit::today(), data_change);
+    in.detail = detail;
+    const auto content = report::build_memo(in);
     if (auto st = ui::write_memo_pdf(content, out_path); !st) return fail(command, kInput, st.error().to_string());
     return kOk;
 #else
-    (void)result, (void)info, (void)p, (void)data_change, (void)out_path, (void)table;
+    (void)result, (void)info, (void)p, (void)data_change, (void)out_path, (void)table, (void)detail;
     return fail(command, kUsage,
                 "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF); rebuild with the Qt "
                 "workbench to write memos");

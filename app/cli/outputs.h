@@ -25,16 +25,20 @@ int fail(const std::string& command, const Error& e);
 /// Writes the PDF memo of a finished audit; `table` (the rows scanned) gives the trend sections
 /// their charts, null leaves them without. Returns 0, or prints the reason and returns 2 when this
 /// build has no Qt (FOLDLINE_BUILD_UI=OFF) or 3 when the file cannot be written.
+/// `detail` is "families" or "full"; empty: the project's memo.detail ("families" without one).
 int write_memo(const std::string& command, const ScanResult& result, const DataInfo& info,
                const project::Project* p, const std::string& data_change, const std::string& out_path,
-               const Table* table = nullptr);
+               const Table* table = nullptr, const std::string& detail = {});
 
 /// The outputs `foldline scan` shares besides its JSON: the PDF memo (`memo_path`) and the CSV
 /// pair (`csv_prefix`); empty = not asked; `table` as for write_memo. Returns 0 or the exit code
 /// after printing the reason.
 int write_shared_outputs(const std::string& command, const ScanResult& result, const DataInfo& info,
                          const std::string& memo_path, const std::string& csv_prefix,
-                         const Table* table = nullptr);
+                         const Table* table = nullptr, const std::string& memo_detail = {});
+
+/// Checks `--memo-detail` (`families` or `full`); an error message naming the value, else empty.
+std::string memo_detail_problem(const std::string& value);
 
 /// An error message when `output` names the same file as one of `inputs` (outputs never
 /// overwrite the data or the project); empty when it is safe or `output` is empty or "-".

@@ -25,6 +25,7 @@ int run(int argc, char** argv) {
     const std::vector<OptionSpec> specs = {
         {"data", true, "FILE"}, {"json", true, "FILE|-"}, {"memo", true, "FILE.pdf"}, {"csv", true, "PREFIX"},
         {"threads", true, "N"}, {"update", false, ""}, {"where", true, "EXPR"},
+        {"memo-detail", true, "families|full"},
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
@@ -41,6 +42,13 @@ int run(int argc, char** argv) {
     }
     const std::string override_data = a.get_or("data", "");
     const std::string memo_path = a.get_or("memo", "");
+    if (a.has("memo-detail")) {
+        // Replaces the saved memo.detail for this run; --update saves it.
+        if (auto msg = memo_detail_problem(*a.get("memo-detail")); !msg.empty()) return fail(kName, kUsage, msg);
+        if (memo_path.empty() && !a.has("update"))
+            return fail(kName, kUsage, "--memo-detail chooses the memo's sections: give --memo FILE.pdf or --update");
+        p.memo.detail = *a.get("memo-detail");
+    }
     if (!memo_path.empty() && !memo_available())
         return fail(kName, kUsage, "this build has no PDF memo writer (built with FOLDLINE_BUILD_UI=OFF)");
     audit::RunOptions options;
@@ -141,12 +149,15 @@ int run(int argc, char** argv) {
 
 const CommandRegistration reg{Command{
     .name = "run",
-    .synopsis = "run PROJECT [--data NEWFILE] [--where EXPR] [--json FILE|-] [--memo FILE.pdf] [--csv PREFIX] [--update]",
+    .synopsis = "run PROJECT [--data NEWFILE] [--where EXPR] [--json FILE|-] [--memo FILE.pdf] [--memo-detail families|full] "
+                "[--csv PREFIX] [--update]",
     .summary = "re-run a saved audit (same question, settings, seed, diagram); exit 4 when a finding's class changed",
     .help = "Usage: foldline run PROJECT.foldline [--data NEWFILE] [--where EXPR] [--json FILE|-] [--memo FILE.pdf]\n"
-            "  [--csv PREFIX] [--threads N] [--update]\n"
+            "  [--memo-detail families|full] [--csv PREFIX] [--threads N] [--update]\n"
             "Re-runs the saved audit with its question, settings, seed and diagram (rate or trend audits).\n"
             "  --data    a new extract with the same columns (the quarterly re-audit)\n"
+            "  --memo-detail  the memo's sections: one per family of findings or one per finding\n"
+            "            (default: the project's memo.detail; --update saves it)\n"
             "  --where   rows to include for this run, replacing the saved filter ('' removes it; docs/filter.md)\n"
             "  --update  record the new classes and the data's size, digest, rows and columns in the project\n"
             "Exit codes: 0 done (no class changed), 4 a finding's class differs from the saved one,\n"

@@ -63,6 +63,7 @@ int run(int argc, char** argv) {
         {"timings", false, ""},
         {"trend", true, "X:Y"},              {"slope-bootstrap", true, "B"},
         {"memo", true, "FILE.pdf"},          {"csv", true, "PREFIX"},
+        {"memo-detail", true, "families|full"},
         {"diagram", true, "DIAGRAM.json"},
         {"source", true, "odbc:CONN"},       {"table", true, "T"},
         {"query", true, "SQL"},
@@ -74,6 +75,10 @@ int run(int argc, char** argv) {
     };
     Args a;
     if (auto err = Args::parse(argc, argv, 1, specs, a)) return fail(kName, kUsage, *err);
+    if (a.has("memo-detail")) {
+        if (auto msg = memo_detail_problem(*a.get("memo-detail")); !msg.empty()) return fail(kName, kUsage, msg);
+        if (!a.has("memo")) return fail(kName, kUsage, "--memo-detail chooses the memo's sections: give --memo FILE.pdf too");
+    }
     const bool from_db = a.has("source");
     if (from_db ? !a.positional().empty() : a.positional().size() != 1)
         return fail(kName, kUsage, from_db ? "give --source or a DATA file, not both"
@@ -291,7 +296,7 @@ int run(int argc, char** argv) {
         }
     }
     if (int rc = write_shared_outputs(kName, *result, info, a.get_or("memo", ""), a.get_or("csv", ""),
-                                      from_db ? nullptr : &*table);
+                                      from_db ? nullptr : &*table, a.get_or("memo-detail", ""));
         rc != kOk)
         return rc;
     const auto t3 = clock::now();
@@ -330,6 +335,8 @@ const CommandRegistration reg{Command{
             "  [--slope-bootstrap B]   resamples for the stability of flagged slope findings (default 0)\n"
             "  [--memo FILE.pdf] [--csv PREFIX]   (PDF memo; PREFIX-findings.csv and PREFIX-strata.csv, and\n"
             "      PREFIX-slope-findings.csv and PREFIX-slope-strata.csv when slopes are checked)\n"
+            "  [--memo-detail families|full]   the memo's sections: one per family of findings (default) or\n"
+            "      one per finding\n"
             "  [--diagram DIAGRAM.json]   add each finding's verdict: which view answers the question\n"
             "  [--find-groups]   trend questions: also fit the hidden-group hint (mixtures of x and y; a hint,\n"
             "      never a finding: JSON kind \"latent\")\n"

@@ -115,8 +115,18 @@ std::string lead_sentence(const RateFinding& f, const Question& q, double alpha)
          ").";
     switch (f.cls) {
         case FindingClass::Reversal: s += " The direction reverses once the strata are taken into account."; break;
-        case FindingClass::Explained: s += " The stratified view leaves no clear difference."; break;
-        case FindingClass::Masked: s += " A difference hidden in the pooled view appears within strata."; break;
+        case FindingClass::Explained:
+            s += " The stratified view leaves no clear difference.";
+            if (a.mh_rd.greenland_robins.estimate * c.rd < 0)
+                s += " Its point estimate even points the other way (" + points(a.mh_rd.greenland_robins.estimate) +
+                     "), though not significantly: the pooled gap does not carry over to the strata.";
+            break;
+        case FindingClass::Masked:
+            s += " A difference hidden in the pooled view appears within strata.";
+            if (a.mh_rd.greenland_robins.estimate * c.rd < 0)
+                s += " The pooled point estimate points the other way (" + points(c.rd) +
+                     "), though not significantly: the direction flips between the two views.";
+            break;
         case FindingClass::Heterogeneous:
             s += " The strata disagree in direction, so no single adjusted figure should be quoted.";
             break;
@@ -243,12 +253,24 @@ std::string slope_lead(const SlopeFinding& f) {
                     p_text(f.within.p) + ").";
     switch (f.cls) {
         case FindingClass::Reversal: s += " The trend reverses within the strata."; break;
-        case FindingClass::Explained: s += " Within the strata no clear trend is left."; break;
-        case FindingClass::Masked: s += " A trend hidden in the pooled data appears within the strata."; break;
+        case FindingClass::Explained:
+            s += " Within the strata no clear trend is left.";
+            if (f.pooled.slope * f.within.slope < 0) s += " The within slope even points the other way, though not significantly.";
+            break;
+        case FindingClass::Masked:
+            s += " A trend hidden in the pooled data appears within the strata.";
+            if (f.pooled.slope * f.within.slope < 0) s += " The pooled slope points the other way, though not significantly.";
+            break;
         case FindingClass::Heterogeneous:
             s += " The strata's trends point in opposite directions, so no single within slope should be quoted.";
             break;
-        case FindingClass::Stable: s += " Stratifying changes little."; break;
+        case FindingClass::Stable:
+            // Slopes of opposite signs are a flip even when neither is significant: never "little".
+            s += f.pooled.slope * f.within.slope < 0
+                     ? " The point estimates flip direction, but neither slope is significant, so the data cannot "
+                       "tell which direction holds."
+                     : " Stratifying changes little.";
+            break;
     }
     if (f.linear_probability) s += " The outcome is 0/1: slopes are differences in probability per unit.";
     if (f.adjusted) s += " Slopes are adjusted for " + joined(f.covariates, ", ") + ".";
@@ -478,9 +500,11 @@ std::string answer_paragraph(const RateFinding& f, const Question& q, const proj
         case FindingClass::Explained:
             s += " Within the strata no clear gap remains: the pooled gap comes from the groups' different mix over " +
                  strata_words(f) + ".";
+            if (within * c.rd < 0) s += " The within-strata gap even points the other way, though not clearly.";
             break;
         case FindingClass::Masked:
             s += " A gap that the pooled figure hides appears within the strata.";
+            if (within * c.rd < 0) s += " The pooled gap points the other way, though not clearly: the direction flips.";
             break;
         case FindingClass::Heterogeneous:
             s += " The strata disagree in direction, so no single figure should be quoted for all of them.";
@@ -501,7 +525,7 @@ std::string answer_paragraph(const RateFinding& f, const Question& q, const proj
 MemoTable related_table() {
     MemoTable t;
     t.header = {"Related finding", "Role", "Class", "Pooled", "Adjusted", "q", "Why it is in this family"};
-    t.widths = {1.7, 0.7, 1.0, 0.8, 0.8, 0.7, 3.6};
+    t.widths = {1.7, 0.7, 1.1, 0.8, 0.8, 0.9, 3.3};
     t.numeric = {false, false, false, true, true, true, false};
     return t;
 }
@@ -726,7 +750,9 @@ MemoContent build_memo(const MemoInput& in) {
             sec.verdict = "No causal diagram was given: whether the pooled or the stratified view answers the "
                           "question depends on how the columns cause each other, which the data alone cannot say.";
         }
-        if (r.diagram_checks) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
+        // The diagram's claims are the memo's, not the finding's: stated once, in the first section.
+        if (r.diagram_checks && k == 0) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
+        sec.compact = !full && std::find(answered.begin(), answered.end(), &f) == answered.end();
         sec.decomposition = decomposition_sentence(f);
         sec.e_value = e_value_sentence(f);
         const auto* rv = review_of(f, p);
@@ -743,6 +769,11 @@ MemoContent build_memo(const MemoInput& in) {
         }
         m.sections.push_back(std::move(sec));
     }
+
+    if (std::any_of(m.sections.begin(), m.sections.end(), [](const MemoSection& s) { return s.compact; }))
+        m.findings_note += " Sections of leads the answer above does not speak for give the figures and tables only; "
+                           "their charts and diagram are in the memo with one section per finding (memo detail "
+                           "\"full\").";
 
     for (std::size_t k = 0; k < slope_with_section; ++k) {
         const auto& f = r.slope_findings[slope_section_of[k]];
@@ -777,7 +808,7 @@ MemoContent build_memo(const MemoInput& in) {
             sec.verdict = "No causal diagram was given: whether the pooled or the within-strata trend answers the "
                           "question depends on how the columns cause each other, which the data alone cannot say.";
         }
-        if (r.diagram_checks) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
+        if (r.diagram_checks && with_section + k == 0) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
         sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
         if (rv) sec.note = rv->note;
@@ -792,32 +823,59 @@ MemoContent build_memo(const MemoInput& in) {
         m.sections.push_back(std::move(sec));
     }
 
-    // Appendix: every check, so every figure of a per-finding memo stays findable.
-    m.appendix.header = {"#", "Class", "Strata", "Comparison", "Pooled [95% CI]", "Adjusted [95% CI]", "MH odds ratio",
-                         "q", "Family (role)"};
-    m.appendix.widths = {0.4, 1.1, 1.9, 1.0, 1.7, 1.7, 1.5, 0.8, 2.1};
+    // Appendix: every check, so every figure of a per-finding memo stays findable. Compact: one
+    // line a check where it fits, units in the header, the comparison named once when it is one.
+    bool one_comparison = r.slope_findings.empty();
+    for (const auto& f : r.rate_findings)
+        if (comparison_words(f) != comparison_words(r.rate_findings.front())) one_comparison = false;
+    auto family_words = [](const auto& f) {
+        return f.family.role == FamilyRole::Lead ? std::string("lead")
+                                                 : std::string(to_string(f.family.role)) + " of " + f.family_lead();
+    };
+    auto bare_interval = [](double lo, double hi, std::string (*f)(double)) {
+        return "[" + f(lo) + ", " + f(hi) + "]";
+    };
+    const std::string level = fmt("%.0f%%", 100 * (1 - r.alpha));
+    const bool rate_units = rates && !slopes;
+    m.appendix.header = {"#", "Class", "Strata", "Comparison",
+                         std::string(rate_units ? "Pooled, pp" : "Pooled") + " [" + level + " CI]",
+                         std::string(rate_units ? "Adjusted, pp" : "Adjusted") + " [" + level + " CI]",
+                         "MH odds ratio [" + level + " CI]", "q", "Family"};
+    m.appendix.widths = {0.45, 1.45, 2.1, 1.0, 1.85, 1.85, 1.65, 0.95, 1.6};
     m.appendix.numeric = {true, false, false, false, true, true, true, true, false};
+    const auto rate_number = rate_units ? bare_points : points;
     for (std::size_t i = 0; i < r.rate_findings.size(); ++i) {
         const auto& f = r.rate_findings[i];
         const auto& gr = f.adjusted.mh_rd.greenland_robins;
         m.appendix.rows.push_back(
             {std::to_string(i + 1), std::string(to_string(f.cls)), strata_words(f), comparison_words(f),
-             points(f.crude.rd) + " " + interval(f.crude.rd_ci.lo, f.crude.rd_ci.hi, points),
-             points(gr.estimate) + " " + interval(gr.ci.lo, gr.ci.hi, points),
-             ratio(f.adjusted.mh_or.estimate) + " " + interval(f.adjusted.mh_or.ci.lo, f.adjusted.mh_or.ci.hi, ratio),
-             p_text(f.q_value), f.family_lead() + " (" + std::string(to_string(f.family.role)) + ")"});
+             rate_number(f.crude.rd) + " " + bare_interval(f.crude.rd_ci.lo, f.crude.rd_ci.hi, rate_number),
+             rate_number(gr.estimate) + " " + bare_interval(gr.ci.lo, gr.ci.hi, rate_number),
+             ratio(f.adjusted.mh_or.estimate) + " " +
+                 bare_interval(f.adjusted.mh_or.ci.lo, f.adjusted.mh_or.ci.hi, ratio),
+             p_text(f.q_value), family_words(f)});
     }
     for (std::size_t i = 0; i < r.slope_findings.size(); ++i) {
         const auto& f = r.slope_findings[i];
         m.appendix.rows.push_back({"s" + std::to_string(i + 1), std::string(to_string(f.cls)), slope_strata_words(f),
                                    f.y + " on " + f.x,
-                                   slope(f.pooled.slope) + " " + slope_interval(f.pooled.ci_low, f.pooled.ci_high),
-                                   slope(f.within.slope) + " " + slope_interval(f.within.ci_low, f.within.ci_high), "-",
-                                   p_text(f.q_value), f.family_lead() + " (" + std::string(to_string(f.family.role)) + ")"});
+                                   slope(f.pooled.slope) + " " + bare_interval(f.pooled.ci_low, f.pooled.ci_high, slope),
+                                   slope(f.within.slope) + " " + bare_interval(f.within.ci_low, f.within.ci_high, slope),
+                                   "-", p_text(f.q_value), family_words(f)});
+    }
+    if (one_comparison && !r.rate_findings.empty()) {
+        const std::size_t c = 3;
+        m.appendix.header.erase(m.appendix.header.begin() + c);
+        m.appendix.widths.erase(m.appendix.widths.begin() + c);
+        m.appendix.numeric.erase(m.appendix.numeric.begin() + c);
+        for (auto& row : m.appendix.rows) row.erase(row.begin() + c);
     }
     m.appendix_note =
-        "Every check of the scan in rank order (families kept together). Pooled and adjusted: rate differences in "
-        "percentage points (Mantel-Haenszel) or slopes (pooled and within strata). A member adds nothing beyond its "
+        "Every check of the scan in rank order (families kept together)" +
+        (one_comparison && !r.rate_findings.empty() ? ", each comparing " + comparison_words(r.rate_findings.front())
+                                                    : std::string()) +
+        ". Pooled and adjusted: rate differences in percentage points (adjusted: Mantel-Haenszel) or slopes (pooled "
+        "and within strata). Per-stratum counts of every check are in the JSON and CSV export. A member adds nothing beyond its "
         "lead (its adjusted estimate lies inside the lead's interval and a test of further stratifying does not "
         "reject after Benjamini-Hochberg); a proxy carries nearly the same information as its lead (nested levels, "
         "or Cramér's V of at least 0.7, a common-practice threshold).";

@@ -87,6 +87,9 @@ struct MemoSection {
     std::string decision;      ///< "Reviewer's decision: upheld."
     std::string note;          ///< the reviewer's note as written; empty when none
     MemoTable related;         ///< family detail: the family's other findings (proxies, members); may be empty
+    /// Figures and tables only, without the charts and the diagram (they draw the same numbers):
+    /// a family lead that page 1's answer does not speak for, in the default ("families") memo.
+    bool compact = false;
 };
 
 struct MemoContent {

@@ -171,14 +171,14 @@ public:
         paragraph(text, font(9.5), kInk, 0, after);
     }
 
-    void table(const MemoTable& t, double size = 8) {
+    void table(const MemoTable& t, double size = 8, double keep_above = 0, double pad_points = 3) {
         const std::size_t n = t.header.size();
         if (n == 0) return;
         double total = 0;
         for (std::size_t c = 0; c < n; ++c) total += c < t.widths.size() ? t.widths[c] : 1.0;
         std::vector<double> w(n);
         for (std::size_t c = 0; c < n; ++c) w[c] = width() * (c < t.widths.size() ? t.widths[c] : 1.0) / total;
-        const double pad = pt(3);
+        const double pad = pt(pad_points);
         const QFont body = font(size);
         // Headers break between words only: when a header's longest word is wider than its
         // column, the whole header row is set smaller (down to 6 pt) rather than split a word.
@@ -224,7 +224,8 @@ public:
         };
         std::vector<std::unique_ptr<QTextLayout>> hl, rl;
         const double hh = row_layouts(t.header, head, hl);
-        ensure(hh * 2.2);
+        // The header stays with the first row (and whatever the caller keeps above it).
+        ensure(keep_above + hh + (t.rows.empty() ? hh : row_layouts(t.rows.front(), body, rl)));
         draw_row(hl, hh, true, false);
         for (std::size_t r = 0; r < t.rows.size(); ++r) {
             const double h = row_layouts(t.rows[r], body, rl);
@@ -707,8 +708,12 @@ void render(Flow& flow, const MemoContent& m) {
 
     const int cw = 760, ch = 330, mh = 250;
     for (const auto& s : m.sections) {
-        flow.new_page();
-        flow.heading(q(s.heading), 13, 80);
+        // A full section starts a page; a compact one (figures and tables only) follows on.
+        if (s.compact) flow.heading(q(s.heading), 13, 50);
+        else {
+            flow.new_page();
+            flow.heading(q(s.heading), 13, 80);
+        }
         flow.paragraph(q(s.lead), flow.font(9.5), kInk, 0, 6);
         flow.paragraph(QStringLiteral("Pooled and adjusted figures"), flow.font(10, true), kInk, 0, 3);
         flow.table(s.figures, 8);
@@ -720,13 +725,19 @@ void render(Flow& flow, const MemoContent& m) {
         if (!s.note.empty()) flow.labelled(QStringLiteral("Reviewer's note"), q(s.note));
         if (!s.related.rows.empty()) {
             flow.space(2);
+            flow.ensure(pt(60));  // the title with the table's header and first row
             flow.paragraph(QStringLiteral("Related findings in this family (%1)").arg(s.related.rows.size()),
                            flow.font(10, true), kInk, 0, 3);
             flow.table(s.related, 7.5);
         }
         flow.space(4);
+        flow.ensure(pt(50));
         flow.paragraph(QStringLiteral("Side by side: pooled and each stratum"), flow.font(10, true), kInk, 0, 3);
         flow.table(s.strata, 7.5);
+        if (s.compact) {  // the findings note says where its charts and diagram are
+            flow.space(6);
+            continue;
+        }
         if (!s.chart.points.empty()) {
             const double w = flow.width();
             const QPicture rates = rate_chart(s.chart, cw, ch);
@@ -769,14 +780,14 @@ void render(Flow& flow, const MemoContent& m) {
     }
 
     if (!m.appendix.rows.empty()) {
-        flow.new_page();
+        flow.space(6);
         flow.heading(QStringLiteral("Appendix: every check"), 13, 60);
-        flow.table(m.appendix, 7);
+        flow.table(m.appendix, 6.5, 0, 2);  // compact: one line a check
         flow.paragraph(q(m.appendix_note), flow.font(8, false, true), kMuted, 0, 8);
     }
     flow.heading(QStringLiteral("Method notes"), 13, 60);
     for (const auto& n : m.method_notes) {
-        flow.paragraph(QString(QChar(0x2022)) + QStringLiteral("  ") + q(n), flow.font(9), kInk, 0, 4);
+        flow.paragraph(QString(QChar(0x2022)) + QStringLiteral("  ") + q(n), flow.font(8.5), kInk, 0, 3);
     }
     flow.heading(QStringLiteral("Caution"), 13, 30);
     flow.paragraph(q(m.caution), flow.font(10, true), kAlert, 0, 4);

@@ -333,3 +333,51 @@ TEST(MemoContent, DatabaseSourceRecordsDriverTableAndQueryTime) {
     in.data.database->query = "SELECT * FROM trials WHERE site = 'north'";
     EXPECT_EQ(build_memo(in).facts[0].second, "database audit, a query");
 }
+
+// A flip of the point estimates that is not significant is named, never "nothing changed": the
+// penicillin finding (class Explained) with its within-strata estimate set to the other side of
+// the pooled one, against the same finding with both on one side.
+TEST(MemoContent, ExplainedFindingNamesAFlipOfPointEstimates) {
+    ScanResult r = penicillin_scan();
+    RateFinding& f = r.rate_findings.front();
+    MemoInput in;
+    in.scan = &r;
+    in.data = DataInfo{"/data/rabbits.csv", "ab12", 54};
+    f.adjusted.mh_rd.greenland_robins.estimate = 0.5 * f.crude.rd;
+    MemoContent m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    EXPECT_EQ(m.sections[0].lead.find("points the other way"), std::string::npos) << m.sections[0].lead;
+    f.adjusted.mh_rd.greenland_robins.estimate = -0.5 * f.crude.rd;
+    m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    EXPECT_NE(m.sections[0].lead.find("points the other way"), std::string::npos) << m.sections[0].lead;
+    ASSERT_FALSE(m.answer.empty());
+    EXPECT_NE(m.answer[0].find("points the other way"), std::string::npos) << m.answer[0];
+}
+
+// Memo detail: "families" gives the lead a section and lists its member inside it; "full" gives
+// the member its own section too.
+TEST(MemoContent, MemoDetailFamiliesOrFull) {
+    ScanResult r = penicillin_scan();
+    RateFinding member = r.rate_findings.front();
+    member.strata = {"penicillin", "cage"};
+    member.family.role = FamilyRole::Member;
+    member.family.lead = r.rate_findings.front().label();
+    member.family.reason = "adds nothing beyond penicillin";
+    r.rate_findings.push_back(member);
+    MemoInput in;
+    in.scan = &r;
+    in.data = DataInfo{"/data/rabbits.csv", "ab12", 54};
+    MemoContent m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 1u);
+    EXPECT_FALSE(m.sections[0].compact);  // the lead page 1 answers keeps its charts
+    ASSERT_EQ(m.sections[0].related.rows.size(), 1u);
+    EXPECT_EQ(m.sections[0].related.rows[0][0], "penicillin × cage");
+    EXPECT_EQ(m.appendix.rows.size(), 2u);
+    EXPECT_EQ(m.appendix.rows[1].back(), "member of " + member.family.lead);
+    in.detail = "full";
+    m = build_memo(in);
+    ASSERT_EQ(m.sections.size(), 2u);
+    EXPECT_TRUE(m.sections[1].related.rows.empty());
+    EXPECT_FALSE(m.sections[1].compact);
+}
