@@ -23,6 +23,8 @@
 #include <QStackedWidget>
 #include <QStatusBar>
 #include <QTableView>
+#include <QTreeView>
+#include <QUndoGroup>
 #include <QUndoStack>
 #include <QVBoxLayout>
 
@@ -207,6 +209,8 @@ void MainWindow::go_to(int s) {
     if (s == Memo) refresh_memo();
     stack_->setCurrentIndex(s);
     steps_->set_current(s);
+    // Edit → Undo acts on the reviewer's decisions on the Findings step, on the diagram elsewhere.
+    if (undo_group_) undo_group_->setActiveStack(s == Findings ? findings_->undo_stack() : diagram_->undo_stack());
     for (int i = 0; i < StepCount; ++i)
         if (QAction* a = action(QStringLiteral("action_step_%1").arg(i))) a->setChecked(i == s);
 }
@@ -321,11 +325,15 @@ void MainWindow::build_menus() {
             &QAction::triggered, this, &QWidget::close);
 
     QMenu* edit = menuBar()->addMenu(tr("&Edit"));
-    QAction* undo = diagram_->undo_stack()->createUndoAction(this, tr("&Undo"));
+    undo_group_ = new QUndoGroup(this);
+    undo_group_->addStack(diagram_->undo_stack());
+    undo_group_->addStack(findings_->undo_stack());
+    undo_group_->setActiveStack(step() == Findings ? findings_->undo_stack() : diagram_->undo_stack());
+    QAction* undo = undo_group_->createUndoAction(this, tr("&Undo"));
     undo->setShortcut(QKeySequence::Undo);
     undo->setObjectName("action_undo");
     actions_.insert("action_undo", undo);
-    QAction* redo = diagram_->undo_stack()->createRedoAction(this, tr("&Redo"));
+    QAction* redo = undo_group_->createRedoAction(this, tr("&Redo"));
     redo->setShortcuts({QKeySequence(tr("Ctrl+Shift+Z")), QKeySequence(tr("Ctrl+Y"))});
     redo->setObjectName("action_redo");
     actions_.insert("action_redo", redo);
@@ -390,6 +398,12 @@ void MainWindow::build_menus() {
     for (const auto& [name, text, key, d] : decisions)
         connect(add(audit, make_action(name, text, key, tr("Record the decision on the selected finding"))),
                 &QAction::triggered, this, [this, d = d] { findings_->decide(d); });
+    {
+        QAction* a = findings_->apply_family_action();
+        actions_.insert(a->objectName(), a);
+        addAction(a);
+        audit->addAction(a);
+    }
     audit->addSeparator();
     connect(add(audit, make_action("action_save_chart", tr("Save &chart…"), QKeySequence(tr("Ctrl+Shift+S")),
                                          tr("Save the visible chart as PNG, SVG or PDF"))),
@@ -590,6 +604,7 @@ Result<project::Project> MainWindow::current_project() const {
         r.saved_class = f.cls;
         r.decision = f.decision;
         r.note = f.note.toStdString();
+        r.applied_from = f.applied_from.toStdString();
     }
     return p;
 }
@@ -776,7 +791,7 @@ void MainWindow::restore_pending() {
             f->slope ? project::slope_key(strata, f->focal.toStdString(), f->reference.toStdString())
                      : project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString());
         if (const project::FindingReview* r = p.review(key))
-            model_->set_decision(i, r->decision, QString::fromStdString(r->note));
+            model_->set_review(i, r->decision, QString::fromStdString(r->note), QString::fromStdString(r->applied_from));
     }
     // Re-select so the detail panel shows the restored decision.
     findings_->list()->selectionModel()->setCurrentIndex(QModelIndex(), QItemSelectionModel::Clear);
