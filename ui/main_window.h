@@ -148,6 +148,7 @@ private:
 
     StepBar* steps_;
     QStackedWidget* stack_;
+    QUndoGroup* undo_group_ = nullptr;  ///< Undo and Redo follow the step on screen
     FindingsModel* model_;
     SourcePage* source_;
     QuestionPage* question_;
@@ -159,7 +160,6 @@ private:
     QHash<QString, QAction*> actions_;
     QuestionSpec last_question_;
     project::AuditSpec last_spec_;  ///< the audit the last scan ran (core/audit), for verdicts
-    QUndoGroup* undo_group_ = nullptr;  ///< Edit → Undo: the diagram's edits, or the decisions on the Findings step
     int seeded_row_ = -1;  ///< the finding the Diagram step judges; -1 until the audit's diagram exists
     struct PendingProject;
     std::shared_ptr<PendingProject> pending_;  ///< a project being opened (load → scan → restore)
