@@ -6,7 +6,7 @@
 #include <QFileInfo>
 #include <QPixmap>
 #include <QTabWidget>
-#include <QTableView>
+#include <QTreeView>
 #include <QThread>
 
 #include "ui/counts_grid.h"
@@ -40,9 +40,11 @@ void select_top_single(MainWindow& w) {
     FindingsPage* page = w.findings_page();
     page->select_top();
     for (int r = 0; r < page->list()->model()->rowCount(); ++r) {
-        const int row = page->filter()->mapToSource(page->list()->model()->index(r, 0)).row();
+        const int row = page->source_row(page->list()->model()->index(r, 0));
         if (w.findings_model()->at(row)->strata.size() == 1) {
             page->select(row);
+            // Its family unfolded, so the findings that repeat its story are in view.
+            page->list()->expand(page->list()->model()->index(r, 0));
             return;
         }
     }

@@ -70,6 +70,12 @@ void add_small_counts(const SmallCounts& sc, FindingView& f) {
         f.small_counts = QString::fromStdString(sc.adjusted_reason + "\n" + sc.homogeneity_reason);
 }
 
+void set_family(const FindingHeader& h, FindingView& f) {
+    f.family_lead = qs(h.family_lead());
+    f.family_role = h.family.role;
+    f.family_reason = qs(h.family.reason);
+}
+
 FindingView to_view(const RateFinding& r) {
     FindingView f;
     f.cls = r.cls;
@@ -88,6 +94,7 @@ FindingView to_view(const RateFinding& r) {
     f.stability = r.stability.share;
     f.within = r.decomposition.within;
     f.composition = r.decomposition.composition;
+    set_family(r, f);
     GroupRow& p = f.pooled;
     p.level = QObject::tr("all");
     p.pos_focal = r.crude.pos_focal;
@@ -173,6 +180,7 @@ FindingView to_view(const SlopeFinding& sf, const Table& t, int bins, std::size_
     f.p_value = sf.p_reversal;
     f.q_value = sf.q_value;
     f.stability = sf.stability.share;
+    set_family(sf, f);
     f.more = {
         {QObject::tr("Pooled correlation r"),
          QStringLiteral("%1 [%2, %3]").arg(num(sf.pooled.r), num(sf.pooled.r_ci_low), num(sf.pooled.r_ci_high)),
@@ -520,6 +528,7 @@ report::MemoContent memo_content(const MemoRequest& request) {
                 proj.review_for(f.slope ? project::slope_key(strata, a, b) : project::rate_key(strata, a, b));
             r.decision = f.decision;
             r.note = f.note.toStdString();
+            r.applied_from = f.applied_from.toStdString();
         }
     }
     DataInfo data;

@@ -9,6 +9,7 @@
 #include <limits>
 #include <vector>
 
+#include "core/scan/finding.h"
 #include "core/scan/finding_class.h"
 
 namespace foldline::ui {
@@ -67,11 +68,20 @@ struct FindingView {
     std::vector<QPointF> points;   ///< pooled scatter, possibly sampled
     std::vector<int> point_stratum;///< index into slope_rows per point
     QString points_note;           ///< e.g. "5,000 of 1,000,000 points, sampled evenly"
+    // Family (core/scan/families.h): the label of the finding that leads it ("product"; the
+    // finding's own label when it leads), its role there and core's reason in words.
+    QString family_lead;
+    FamilyRole family_role = FamilyRole::Lead;
+    QString family_reason;
     // Reviewer.
     Decision decision = Decision::Undecided;
     QString note;
+    QString applied_from;          ///< the family lead whose decision was applied here; empty when
+                                   ///< the reviewer decided this finding itself
 
     QString strata_label() const { return strata.join(QStringLiteral(" × ")); }
+    /// True when the finding sits beneath another finding's family (a member or a proxy).
+    bool in_family() const { return family_role != FamilyRole::Lead && !family_lead.isEmpty(); }
 };
 
 }  // namespace foldline::ui

@@ -104,10 +104,17 @@ const FindingView* FindingsModel::at(int row) const {
 FindingView* FindingsModel::at(int row) { return row >= 0 && row < size() ? &findings_[std::size_t(row)] : nullptr; }
 
 void FindingsModel::set_decision(int row, Decision d, const QString& note) {
+    const FindingView* f = at(row);
+    if (!f) return;
+    set_review(row, d, note, d == f->decision ? f->applied_from : QString());
+}
+
+void FindingsModel::set_review(int row, Decision d, const QString& note, const QString& applied_from) {
     FindingView* f = at(row);
     if (!f) return;
     f->decision = d;
     f->note = note;
+    f->applied_from = d == Decision::Undecided ? QString() : applied_from;
     emit dataChanged(index(row, 0), index(row, FieldCount - 1));
 }
 
@@ -118,6 +125,7 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
     const FindingView* f = at(index.row());
     if (!f) return {};
     if (role == ClassRole) return int(f->cls);
+    if (role == LabelRole) return f->strata_label();
     if (role == SortRole) {
         switch (index.column()) {
             case Class: return rank(f->cls) * 10.0 + (std::isfinite(f->q_value) ? f->q_value : 1.0);
@@ -140,7 +148,10 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
             case QValue: return std::isfinite(f->q_value) ? QString::number(f->q_value, 'g', 3) : QStringLiteral("—");
             case Stability:
                 return std::isfinite(f->stability) ? QStringLiteral("%1%").arg(100 * f->stability, 0, 'f', 0) : QStringLiteral("—");
-            case Decided: return decision_title(f->decision);
+            case Decided:
+                // A decision copied from the family's lead says so where it is read.
+                return f->applied_from.isEmpty() ? decision_title(f->decision)
+                                                 : tr("%1 (from lead)").arg(decision_title(f->decision));
         }
     }
     if (role == Qt::ToolTipRole) {
@@ -153,7 +164,14 @@ QVariant FindingsModel::data(const QModelIndex& index, int role) const {
                     .arg(f->effect_name, f->focal, f->reference, format_gap(*f, f->crude));
             case Adjusted:
                 return tr("%1 after stratifying: %2 (95% confidence interval)").arg(f->adjusted_name, format_gap(*f, f->adjusted));
-            case Decided: return f->note;
+            case Decided: {
+                QString tip = f->note;
+                if (!f->applied_from.isEmpty())
+                    tip = tr("Applied from the family's lead, %1").arg(f->applied_from) +
+                          (tip.isEmpty() ? QString() : QStringLiteral("\n\n") + tip);
+                return tip;
+            }
+            case Strata: return f->strata_label();
         }
     }
     if (role == Qt::ForegroundRole && index.column() == Class && f->cls == FindingClass::Stable)
@@ -197,6 +215,8 @@ QVariant FindingsModel::headerData(int section, Qt::Orientation o, int role) con
 
 FindingsFilter::FindingsFilter(QObject* parent) : QSortFilterProxyModel(parent) {
     setSortRole(FindingsModel::SortRole);
+    // Over the family tree: a lead stays in view while a finding beneath it is shown.
+    setRecursiveFilteringEnabled(true);
 }
 
 void FindingsFilter::set_class_shown(FindingClass c, bool shown) {
@@ -214,7 +234,7 @@ bool FindingsFilter::filterAcceptsRow(int row, const QModelIndex& parent) const 
     const int cls = sourceModel()->data(i, FindingsModel::ClassRole).toInt();
     if (cls < 0 || cls > 4 || !shown_[cls]) return false;
     if (search_.isEmpty()) return true;
-    return sourceModel()->data(i, Qt::DisplayRole).toString().contains(search_, Qt::CaseInsensitive);
+    return sourceModel()->data(i, FindingsModel::LabelRole).toString().contains(search_, Qt::CaseInsensitive);
 }
 
 bool FindingsFilter::lessThan(const QModelIndex& a, const QModelIndex& b) const {

@@ -14,7 +14,7 @@ class FindingsModel : public QAbstractTableModel {
     Q_OBJECT
 public:
     enum Field { Class, Strata, Crude, Adjusted, QValue, Stability, Decided, FieldCount };
-    enum Roles { SortRole = Qt::UserRole + 1, ClassRole };
+    enum Roles { SortRole = Qt::UserRole + 1, ClassRole, LabelRole /* strata label, for search */ };
     explicit FindingsModel(QObject* parent = nullptr);
 
     void clear();
@@ -24,8 +24,12 @@ public:
     FindingView* at(int row);
     int size() const { return int(findings_.size()); }
     const std::vector<FindingView>& findings() const { return findings_; }
-    /// Records the reviewer's decision and note on row `row`.
+    /// Records the reviewer's decision and note on row `row`. A decision other than the one
+    /// recorded is the reviewer's own: it clears where an applied decision came from.
     void set_decision(int row, Decision d, const QString& note);
+    /// Records decision, note and the family lead the decision was applied from (empty: decided
+    /// on its own) on row `row`, as they are; out-of-range rows are ignored.
+    void set_review(int row, Decision d, const QString& note, const QString& applied_from);
 
     int rowCount(const QModelIndex& parent = {}) const override;
     int columnCount(const QModelIndex& parent = {}) const override;
@@ -36,7 +40,8 @@ private:
     std::vector<FindingView> findings_;
 };
 
-/// Filters findings by class (a set of allowed classes) and a search text over strata.
+/// Filters findings by class (a set of allowed classes) and a search text over strata; over a
+/// tree, a lead is kept while any finding beneath it is.
 class FindingsFilter : public QSortFilterProxyModel {
     Q_OBJECT
 public:

@@ -1,5 +1,6 @@
 #include "ui/findings_page.h"
 
+#include <QAction>
 #include <QApplication>
 #include <QButtonGroup>
 #include <QClipboard>
@@ -10,23 +11,28 @@
 #include <QDir>
 #include <QLabel>
 #include <QLineEdit>
+#include <QMenu>
 #include <QMessageBox>
 #include <QPlainTextEdit>
 #include <QPushButton>
 #include <QScrollArea>
 #include <QSettings>
 #include <QSplitter>
+#include <QStyledItemDelegate>
 #include <QTabWidget>
-#include <QTableView>
 #include <QTableWidget>
 #include <QToolButton>
+#include <QTreeView>
+#include <QUndoStack>
 #include <QVBoxLayout>
 #include <qcustomplot.h>
 
 #include "ui/caution_band.h"
 #include "ui/charts.h"
+#include "ui/family_tree_model.h"
 #include "ui/findings_model.h"
 #include "ui/palette.h"
+#include "ui/review_commands.h"
 #include "ui/tsv.h"
 
 namespace foldline::ui {
@@ -71,6 +77,29 @@ void put(QTableWidget* t, int r, int c, const QString& text, bool greyed = false
     t->setItem(r, c, item);
 }
 
+/// The findings list's rows: a little air around each, and the strata wrapped onto a second line
+/// when the column is too narrow for a pair, instead of cutting the names short.
+class FindingsRowDelegate : public QStyledItemDelegate {
+public:
+    explicit FindingsRowDelegate(QTreeView* view) : QStyledItemDelegate(view), view_(view) {}
+
+    QSize sizeHint(const QStyleOptionViewItem& option, const QModelIndex& index) const override {
+        QSize s = QStyledItemDelegate::sizeHint(option, index);
+        const QModelIndex strata = index.siblingAtColumn(FindingsModel::Strata);
+        int depth = 0;
+        for (QModelIndex p = strata.parent(); p.isValid(); p = p.parent()) ++depth;
+        // The text's room: the column less the fold mark's indent and the cell's margins.
+        const int room = view_->header()->sectionSize(FindingsModel::Strata) - view_->indentation() * (depth + 1) - 12;
+        const QRect r = option.fontMetrics.boundingRect(QRect(0, 0, std::max(room, 40), 100000), Qt::TextWordWrap,
+                                                        strata.data().toString());
+        s.setHeight(std::max(s.height(), r.height()) + 8);
+        return s;
+    }
+
+private:
+    QTreeView* view_;
+};
+
 const QString kTipRate = QObject::tr("Share of the group with the positive outcome, with its 95% Wilson score interval");
 const QString kTipRd = QObject::tr("Risk difference in percentage points: focal rate minus reference rate, with its 95% Newcombe interval");
 const QString kTipRatio = QObject::tr("Selection-rate ratio: focal rate divided by reference rate; below 0.8 is the common four-fifths flag");
@@ -79,8 +108,9 @@ const QString kTipCounts = QObject::tr("Positives out of the group's total");
 }  // namespace
 
 FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
-    : QWidget(parent), model_(model), filter_(new FindingsFilter(this)) {
-    filter_->setSourceModel(model_);
+    : QWidget(parent), model_(model), tree_(new FamilyTreeModel(model, this)), filter_(new FindingsFilter(this)),
+      reviews_(new QUndoStack(this)) {
+    filter_->setSourceModel(tree_);
 
     // Left: filter chips, search, ranked list.
     auto* chips = new QHBoxLayout;
@@ -107,30 +137,54 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     search_->setObjectName(QStringLiteral("search_findings"));
     connect(search_, &QLineEdit::textChanged, filter_, &FindingsFilter::set_search);
 
-    list_ = new QTableView;
+    list_ = new QTreeView;
     list_->setObjectName(QStringLiteral("findings_list"));
-    // Arrows move inside the list; Tab leaves it for the decision buttons and the note.
+    // Arrows move inside the list (Right or + unfolds a family, Left or - folds it); Tab leaves
+    // it for the decision buttons and the note.
     list_->setTabKeyNavigation(false);
     list_->setModel(filter_);
     list_->setSortingEnabled(true);
     list_->sortByColumn(FindingsModel::Class, Qt::AscendingOrder);
     list_->setSelectionBehavior(QAbstractItemView::SelectRows);
     list_->setSelectionMode(QAbstractItemView::SingleSelection);
-    list_->verticalHeader()->hide();
+    list_->setAllColumnsShowFocus(true);
+    list_->setRootIsDecorated(true);
+    // The fold mark and the indent sit with the strata, where a member's pair is read against its
+    // lead's column; the class stays in the first column.
+    list_->setTreePosition(FindingsModel::Strata);
+    list_->setIndentation(14);
+    list_->setUniformRowHeights(false);
+    list_->setItemDelegate(new FindingsRowDelegate(list_));
+    list_->setExpandsOnDoubleClick(true);
     // Every column fits its contents and the strata take what is left, so class, strata, gaps,
     // q-value and decision are all in view without scrolling sideways.
-    list_->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
-    list_->horizontalHeader()->setSectionResizeMode(FindingsModel::Strata, QHeaderView::Stretch);
-    list_->horizontalHeader()->setStretchLastSection(false);
-    list_->setTextElideMode(Qt::ElideRight);  // a pair keeps its first column readable
+    list_->header()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    list_->header()->setSectionResizeMode(FindingsModel::Strata, QHeaderView::Stretch);
+    list_->header()->setStretchLastSection(false);
+    list_->header()->setSectionsMovable(false);
     list_->setTextElideMode(Qt::ElideMiddle);
     list_->setAlternatingRowColors(true);
-    list_->setWordWrap(false);
+    list_->setWordWrap(true);
+    // Rows wrap to the strata column's width: a new width lays them out again.
+    connect(list_->header(), &QHeaderView::sectionResized, list_, [this](int section) {
+        if (section == FindingsModel::Strata) list_->doItemsLayout();
+    });
+    list_->setContextMenuPolicy(Qt::CustomContextMenu);
+    connect(list_, &QWidget::customContextMenuRequested, this, [this](const QPoint& at) {
+        const QModelIndex i = list_->indexAt(at);
+        if (!i.isValid()) return;
+        select(source_row(i));
+        QMenu* menu = context_menu_for(source_row(i));
+        menu->exec(list_->viewport()->mapToGlobal(at));
+        menu->deleteLater();
+    });
     connect(model_, &QAbstractItemModel::rowsInserted, this, &FindingsPage::update_chips);
     connect(model_, &QAbstractItemModel::modelReset, this, &FindingsPage::update_chips);
     update_chips();
-    connect(list_->selectionModel(), &QItemSelectionModel::currentRowChanged, this,
-            [this](const QModelIndex& cur) { show_finding(cur.isValid() ? filter_->mapToSource(cur).row() : -1); });
+    connect(list_->selectionModel(), &QItemSelectionModel::currentChanged, this, [this](const QModelIndex& cur) {
+        const int row = source_row(cur);
+        if (row != shown_) show_finding(row);
+    });
 
     // The hidden-group hint: a note beside the findings, not one of them (it has no class, no
     // q-value and no review), so it is a labelled line above the list, never a row in it.
@@ -185,6 +239,35 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
         decide_row->addWidget(b);
     }
     connect(decision_, &QButtonGroup::idClicked, this, [this](int id) { decide(Decision(id)); });
+    apply_ = new QAction(tr("Apply decision to the &family"), this);
+    apply_->setObjectName(QStringLiteral("action_apply_family"));
+    apply_->setShortcut(QKeySequence(tr("Ctrl+Shift+M")));
+    apply_->setToolTip(tr("Copy this lead's decision to every finding folded beneath it, in one undoable step "
+                          "(Ctrl+Shift+M). Each keeps its own note and records that its decision came from the lead; "
+                          "findings decided otherwise are overwritten only if you say so."));
+    apply_->setStatusTip(apply_->toolTip());
+    apply_->setEnabled(false);
+    addAction(apply_);
+    connect(apply_, &QAction::triggered, this, [this] { apply_to_family(); });
+    apply_button_ = new QPushButton(tr("Apply to family"));
+    apply_button_->setObjectName(QStringLiteral("apply_family"));
+    apply_button_->setToolTip(apply_->toolTip());
+    apply_button_->setEnabled(false);
+    apply_button_->hide();
+    connect(apply_button_, &QPushButton::clicked, apply_, &QAction::trigger);
+    decide_row->addSpacing(12);
+    decide_row->addWidget(apply_button_);
+    decide_row->addStretch();
+    family_ = new QLabel;
+    family_->setObjectName(QStringLiteral("family_line"));
+    family_->setWordWrap(true);
+    family_->setTextFormat(Qt::RichText);
+    family_->hide();
+    // A member's line links to its lead.
+    connect(family_, &QLabel::linkActivated, this, [this](const QString&) {
+        const int lead = tree_->lead_row(selected());
+        if (lead >= 0) select(lead);
+    });
     note_ = new QPlainTextEdit;
     note_->setPlaceholderText(tr("Reviewer's note on this finding…"));
     note_->setMaximumHeight(52);
@@ -264,6 +347,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     dl->setContentsMargins(0, 0, 0, 0);
     dl->addWidget(heading_);
     dl->addWidget(meaning_);
+    dl->addWidget(family_);
     dl->addLayout(decide_row);
     dl->addWidget(note_);
     dl->addWidget(detail_split_, 1);
@@ -291,17 +375,31 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     lay->addWidget(new CautionBand);
     lay->addWidget(split_, 1);
 
-    connect(model_, &QAbstractItemModel::modelReset, this, [this] { show_finding(-1); });
+    connect(model_, &QAbstractItemModel::modelReset, this, [this] {
+        // Another scan: the decisions' history belonged to the findings that are gone.
+        reviews_->clear();
+        show_finding(-1);
+    });
+    // A decision changed elsewhere (undo, the menu, a family applied) shows on the open finding.
+    connect(model_, &QAbstractItemModel::dataChanged, this, [this](const QModelIndex& tl, const QModelIndex& br) {
+        const int r = selected();
+        if (r >= tl.row() && r <= br.row())
+            if (const FindingView* f = model_->at(r)) show_review(*f);
+    });
+    connect(model_, &QAbstractItemModel::rowsInserted, this, &FindingsPage::update_apply);
 }
 
-int FindingsPage::selected() const {
-    const QModelIndex cur = list_->selectionModel()->currentIndex();
-    return cur.isValid() ? filter_->mapToSource(cur).row() : -1;
+int FindingsPage::source_row(const QModelIndex& view_index) const {
+    return view_index.isValid() ? tree_->source_row(filter_->mapToSource(view_index)) : -1;
 }
+
+int FindingsPage::selected() const { return source_row(list_->selectionModel()->currentIndex()); }
 
 bool FindingsPage::select(int row) {
-    const QModelIndex p = filter_->mapFromSource(model_->index(row, 0));
+    const QModelIndex p = filter_->mapFromSource(tree_->index_of(row, 0));
     if (!p.isValid()) return false;
+    // A finding folded beneath its lead is shown by unfolding the family.
+    if (p.parent().isValid()) list_->expand(p.parent());
     list_->selectionModel()->setCurrentIndex(p, QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
     list_->scrollTo(p);
     return true;
@@ -311,7 +409,7 @@ int FindingsPage::select_top() {
     if (filter_->rowCount() == 0) return -1;
     const QModelIndex p = filter_->index(0, 0);
     list_->selectionModel()->setCurrentIndex(p, QItemSelectionModel::ClearAndSelect | QItemSelectionModel::Rows);
-    return filter_->mapToSource(p).row();
+    return source_row(p);
 }
 
 void FindingsPage::set_search(const QString& text) { search_->setText(text); }
@@ -348,9 +446,11 @@ QString FindingsPage::hidden_group_hint() const { return hint_->isHidden() ? QSt
 
 void FindingsPage::show_finding(int row) {
     const FindingView* f = model_->at(row);
+    shown_ = f ? row : -1;
     detail_->setVisible(f != nullptr);
     empty_->setVisible(f == nullptr);
     if (!f) {
+        update_apply();
         emit finding_selected(-1);
         return;
     }
@@ -361,18 +461,53 @@ void FindingsPage::show_finding(int row) {
     if (std::isfinite(f->q_value)) detail += tr("  q-value %1").arg(f->q_value, 0, 'g', 3);
     if (std::isfinite(f->stability)) detail += tr("; kept its class in %1% of resamples").arg(100 * f->stability, 0, 'f', 0);
     meaning_->setText(detail);
-    if (auto* b = decision_->button(int(f->decision))) b->setChecked(true);
-    else {
-        decision_->setExclusive(false);
-        for (auto* b2 : decision_->buttons()) b2->setChecked(false);
-        decision_->setExclusive(true);
-    }
+    show_review(*f);
     note_->setPlainText(f->note);
     if (f->slope) fill_slope_tables(*f);
     else fill_rate_tables(*f);
     draw_charts(*f);
     showing_ = false;
     emit finding_selected(row);
+}
+
+void FindingsPage::show_review(const FindingView& f) {
+    if (auto* b = decision_->button(int(f.decision))) b->setChecked(true);
+    else {
+        decision_->setExclusive(false);
+        for (auto* b2 : decision_->buttons()) b2->setChecked(false);
+        decision_->setExclusive(true);
+    }
+    const int row = selected();
+    const std::vector<int> folded = tree_->folded_under(row);
+    QString line;
+    if (f.in_family() && tree_->lead_row(row) != row) {
+        line = tr("%1 of the family led by <a href=\"lead\">%2</a>: %3.")
+                   .arg(f.family_role == FamilyRole::Proxy ? tr("Proxy") : tr("Member"),
+                        f.family_lead.toHtmlEscaped(), f.family_reason.toHtmlEscaped());
+        if (!f.applied_from.isEmpty())
+            line += QStringLiteral(" <b>%1</b>").arg(tr("Decision applied from the lead %1.").arg(f.applied_from.toHtmlEscaped()));
+    } else if (!folded.empty()) {
+        line = tr("Leads a family of %1 findings: the %2 folded beneath it in the list repeat its story. "
+                  "Its decision can be applied to all of them (Apply to family).")
+                   .arg(folded.size() + 1)
+                   .arg(folded.size());
+    }
+    family_->setText(line);
+    family_->setVisible(!line.isEmpty());
+    update_apply();
+}
+
+void FindingsPage::update_apply() {
+    const int row = selected();
+    const FindingView* f = model_->at(row);
+    const std::size_t n = f ? tree_->folded_under(row).size() : 0;
+    const bool can = n > 0 && f->decision != Decision::Undecided;
+    apply_->setEnabled(can);
+    apply_button_->setVisible(n > 0);
+    apply_button_->setEnabled(can);
+    apply_button_->setText(n > 0 ? tr("Apply to family (%1)").arg(n) : tr("Apply to family"));
+    if (n > 0 && !can) apply_button_->setToolTip(tr("Decide this lead first; then its decision can be applied to the family."));
+    else apply_button_->setToolTip(apply_->toolTip());
 }
 
 void FindingsPage::fill_rate_tables(const FindingView& f) {
@@ -533,9 +668,92 @@ QString with_chart_suffix(const QString& path, const QString& filter) {
 
 void FindingsPage::decide(Decision d) {
     const int r = selected();
-    if (r < 0) return;
-    model_->set_decision(r, d, note_->toPlainText());
+    const FindingView* f = model_->at(r);
+    if (!f) return;
+    if (f->decision != d) {
+        // The reviewer's own decision: it no longer comes from the family's lead.
+        reviews_->push(new DecisionCommand(model_, {{r, f->decision, d, f->applied_from, QString()}},
+                                           tr("mark %1 %2").arg(f->strata_label(), decision_title(d).toLower())));
+    }
     if (auto* b = decision_->button(int(d))) b->setChecked(true);
+}
+
+int FindingsPage::apply_to_family() {
+    const int lead = selected();
+    const FindingView* f = model_->at(lead);
+    if (!f || f->decision == Decision::Undecided) return 0;
+    const std::vector<int> folded = tree_->folded_under(lead);
+    if (folded.empty()) return 0;
+    const QString label = f->strata_label();
+    QStringList differing;
+    for (int r : folded) {
+        const FindingView* m = model_->at(r);
+        if (m->decision != Decision::Undecided && m->decision != f->decision)
+            differing << tr("%1: %2%3").arg(m->strata_label(), decision_title(m->decision),
+                                            m->applied_from.isEmpty() ? QString() : tr(" (applied from the lead earlier)"));
+    }
+    OverwriteChoice choice = OverwriteChoice::Overwrite;
+    if (!differing.isEmpty()) {
+        choice = overwrite_prompt_ ? overwrite_prompt_(label, decision_title(f->decision), differing) : [&] {
+            QMessageBox box(QMessageBox::Question, tr("Apply to the family"),
+                            tr("%n finding(s) in the family of %1 already have another decision.", nullptr,
+                               int(differing.size())).arg(label),
+                            QMessageBox::NoButton, this);
+            QStringList shown = differing.mid(0, 12);
+            if (differing.size() > shown.size()) shown << tr("… and %1 more").arg(differing.size() - shown.size());
+            box.setInformativeText(tr("Replace their decisions with the lead's (%1), or apply it only to the findings "
+                                      "not decided yet?\n\n%2").arg(decision_title(f->decision), shown.join(QLatin1Char('\n'))));
+            QPushButton* all = box.addButton(tr("Replace them"), QMessageBox::AcceptRole);
+            QPushButton* keep = box.addButton(tr("Keep their decisions"), QMessageBox::ActionRole);
+            box.addButton(QMessageBox::Cancel);
+            box.setDefaultButton(keep);
+            box.exec();
+            return box.clickedButton() == all ? OverwriteChoice::Overwrite
+                   : box.clickedButton() == keep ? OverwriteChoice::KeepTheirs
+                                                 : OverwriteChoice::Cancel;
+        }();
+    }
+    if (choice == OverwriteChoice::Cancel) return -1;
+    std::vector<DecisionCommand::Change> changes;
+    for (int r : folded) {
+        const FindingView* m = model_->at(r);
+        // The same decision already made on its own stays the finding's own.
+        if (m->decision == f->decision) continue;
+        if (m->decision != Decision::Undecided && choice == OverwriteChoice::KeepTheirs) continue;
+        changes.push_back({r, m->decision, f->decision, m->applied_from, label});
+    }
+    if (changes.empty()) return 0;
+    const int n = int(changes.size());
+    reviews_->push(new DecisionCommand(model_, std::move(changes),
+                                       tr("apply %1 to the family of %2").arg(decision_title(f->decision).toLower(), label)));
+    return n;
+}
+
+QMenu* FindingsPage::context_menu_for(int row) {
+    auto* menu = new QMenu(this);
+    const FindingView* f = model_->at(row);
+    if (!f) return menu;
+    for (Decision d : {Decision::Upheld, Decision::SetAside, Decision::FollowUp, Decision::Undecided}) {
+        QAction* a = menu->addAction(d == Decision::Undecided ? tr("Undecided") : decision_title(d));
+        a->setCheckable(true);
+        a->setChecked(f->decision == d);
+        connect(a, &QAction::triggered, this, [this, row, d] {
+            if (select(row)) decide(d);
+        });
+    }
+    menu->addSeparator();
+    menu->addAction(apply_);
+    const QPersistentModelIndex at = filter_->mapFromSource(tree_->index_of(row, 0));
+    if (!tree_->folded_under(row).empty() && at.isValid()) {
+        const bool open = list_->isExpanded(at);
+        connect(menu->addAction(open ? tr("Fold the family\t-") : tr("Unfold the family\t+")), &QAction::triggered, this,
+                [this, at, open] { open ? list_->collapse(at) : list_->expand(at); });
+    }
+    const int lead = tree_->lead_row(row);
+    if (lead != row && lead >= 0)
+        connect(menu->addAction(tr("Go to the lead, %1").arg(model_->at(lead)->strata_label())), &QAction::triggered, this,
+                [this, lead] { select(lead); });
+    return menu;
 }
 
 }  // namespace foldline::ui

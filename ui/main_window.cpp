@@ -22,6 +22,7 @@
 #include <QStackedWidget>
 #include <QStatusBar>
 #include <QTableView>
+#include <QTreeView>
 #include <QUndoGroup>
 #include <QUndoStack>
 #include <QVBoxLayout>
@@ -205,7 +206,10 @@ void MainWindow::go_to(int s) {
         seed_diagram_for(findings_->selected());
     }
     if (s == Memo) refresh_memo();
-    if (undo_group_) undo_group_->setActiveStack(s == Question ? question_->undo_stack() : diagram_->undo_stack());
+    if (undo_group_)
+        undo_group_->setActiveStack(s == Question   ? question_->undo_stack()
+                                    : s == Findings ? findings_->undo_stack()
+                                                    : diagram_->undo_stack());
     stack_->setCurrentIndex(s);
     steps_->set_current(s);
     for (int i = 0; i < StepCount; ++i)
@@ -323,9 +327,11 @@ void MainWindow::build_menus() {
             &QAction::triggered, this, &QWidget::close);
 
     QMenu* edit = menuBar()->addMenu(tr("&Edit"));
-    // One Undo for the step on screen: the Question step's combined groups, else the diagram.
+    // One Undo for the step on screen: the Question step's combined groups, the Findings step's
+    // decisions, else the diagram.
     undo_group_ = new QUndoGroup(this);
     undo_group_->addStack(question_->undo_stack());
+    undo_group_->addStack(findings_->undo_stack());
     undo_group_->addStack(diagram_->undo_stack());
     undo_group_->setActiveStack(diagram_->undo_stack());
     QAction* undo = undo_group_->createUndoAction(this, tr("&Undo"));
@@ -397,6 +403,12 @@ void MainWindow::build_menus() {
     for (const auto& [name, text, key, d] : decisions)
         connect(add(audit, make_action(name, text, key, tr("Record the decision on the selected finding"))),
                 &QAction::triggered, this, [this, d = d] { findings_->decide(d); });
+    {
+        QAction* a = findings_->apply_family_action();
+        actions_.insert(a->objectName(), a);
+        addAction(a);
+        audit->addAction(a);
+    }
     audit->addSeparator();
     connect(add(audit, make_action("action_save_chart", tr("Save &chart…"), QKeySequence(tr("Ctrl+Shift+S")),
                                          tr("Save the visible chart as PNG, SVG or PDF"))),
@@ -597,6 +609,7 @@ Result<project::Project> MainWindow::current_project() const {
         r.saved_class = f.cls;
         r.decision = f.decision;
         r.note = f.note.toStdString();
+        r.applied_from = f.applied_from.toStdString();
     }
     return p;
 }
@@ -777,7 +790,7 @@ void MainWindow::restore_pending() {
             f->slope ? project::slope_key(strata, f->focal.toStdString(), f->reference.toStdString())
                      : project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString());
         if (const project::FindingReview* r = p.review(key))
-            model_->set_decision(i, r->decision, QString::fromStdString(r->note));
+            model_->set_review(i, r->decision, QString::fromStdString(r->note), QString::fromStdString(r->applied_from));
     }
     // Re-select so the detail panel shows the restored decision.
     findings_->list()->selectionModel()->setCurrentIndex(QModelIndex(), QItemSelectionModel::Clear);

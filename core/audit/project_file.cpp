@@ -211,6 +211,9 @@ int required_version(const Project& p) {
     if (!p.question.rows.empty() || !p.data.sheet.empty() || p.data.decimal != DecimalMark::Auto) return 3;
     // A memo detail other than the default: an older reader would print the other memo.
     if (p.memo.detail != "families") return 3;
+    // A decision applied from a family lead: an older reader would drop where it came from.
+    for (const auto& r : p.reviews)
+        if (!r.applied_from.empty()) return 3;
     // A database source has no file path: a version 1 reader would look for a file.
     return slopes || p.data.database ? 2 : 1;
 }
@@ -224,7 +227,7 @@ const FindingReview* Project::review(const FindingKey& key) const {
 FindingReview& Project::review_for(const FindingKey& key) {
     for (auto& r : reviews)
         if (r.key == key) return r;
-    reviews.push_back(FindingReview{key, std::nullopt, Decision::Undecided, {}, std::nullopt});
+    reviews.push_back(FindingReview{key, std::nullopt, Decision::Undecided, {}, std::nullopt, {}});
     return reviews.back();
 }
 
@@ -319,6 +322,7 @@ std::string project_to_json_text(const Project& p, const std::string& project_pa
         jr["decision"] = to_string(r->decision);
         jr["note"] = r->note;
         jr["in_memo"] = r->in_memo ? json(*r->in_memo) : json(nullptr);
+        if (!r->applied_from.empty()) jr["applied_from"] = r->applied_from;  // version 3
         reviews.push_back(jr);
     }
     doc["findings"] = reviews;
@@ -493,6 +497,7 @@ Result<Project> parse_project(std::string_view text, const std::string& project_
             if (auto d = decision_from(decision)) rv.decision = *d;
             else r.fail(where + ".decision: expected undecided, upheld, set aside or follow up");
             r.str(jr, where, "note", rv.note);
+            r.str(jr, where, "applied_from", rv.applied_from);
             if (const json* im = r.field(jr, where, "in_memo", false)) {
                 if (!im->is_boolean()) r.fail(where + ".in_memo: expected true, false or null");
                 else rv.in_memo = im->get<bool>();

@@ -61,6 +61,9 @@ struct FindingReview {
     Decision decision = Decision::Undecided;
     std::string note;                         ///< free text, any UTF-8
     std::optional<bool> in_memo;              ///< absent: the memo's default rule decides
+    /// The label of the family lead whose decision the reviewer applied to this finding
+    /// ("product"); empty when the finding was decided on its own. A version 3 key.
+    std::string applied_from;
 };
 
 enum class PageSize { A4, Letter };
@@ -92,7 +95,8 @@ struct Project : AuditSpec {
 
 /// 1 when the project is a plain rate audit of a file; 2 when it holds a slope question, trend
 /// checks, covariates, a slope bootstrap or a database source; 3 when it holds a mean-gap
-/// question. A default project → 1.
+/// question (or another version 3 key: a rows filter, a sheet, a decimal mark, a memo detail, a
+/// decision applied from a family lead). A default project → 1.
 int required_version(const Project& p);
 
 /// The JSON text of a project saved at `project_path` (data path made relative to its folder).

@@ -3,13 +3,21 @@
 #include <QApplication>
 #include <QClipboard>
 #include <QFileInfo>
-#include <QTableView>
+#include <QAction>
+#include <QLabel>
+#include <QMenu>
+#include <QMessageBox>
+#include <QPushButton>
 #include <QTableWidget>
 #include <QTemporaryDir>
+#include <QTimer>
+#include <QTreeView>
+#include <QUndoStack>
 #include <QtTest>
 #include <qcustomplot.h>
 
 #include "ui/charts.h"
+#include "ui/family_tree_model.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
 
@@ -37,6 +45,38 @@ FindingView sample(FindingClass c, const QString& strata, double q) {
     f.rows.push_back({"south", 50, 500, 300, 750, {0.1, 0.08, 0.13}, {0.4, 0.37, 0.44}, {-0.3, -0.34, -0.26}, 0.25, true, {}});
     f.rows.push_back({"east", 0, 0, 0, 0, {}, {}, {}, kNaN, false, "no focal rows"});
     return f;
+}
+// A family as core's assign_families leaves it (core/scan/families.h): "product" leads, two pairs
+// that add nothing beyond it are members, a banded copy is its proxy; "channel" stands alone.
+FindingView in_family(FindingView f, FamilyRole role, const QString& lead, const QString& reason) {
+    f.family_role = role;
+    f.family_lead = lead;
+    f.family_reason = reason;
+    return f;
+}
+FindingView pair(FindingClass c, const QString& a, const QString& b, double q) {
+    FindingView f = sample(c, a, q);
+    f.strata << b;
+    return f;
+}
+/// Rows in the order core ranks them: 0 product, 1 product_band, 2 product × branch,
+/// 3 product × term, 4 channel.
+void add_family(FindingsModel& model, bool lead_last = false) {
+    const QString why = "adds nothing beyond product: MH odds ratio inside product's interval";
+    std::vector<FindingView> fs = {
+        in_family(sample(FindingClass::Reversal, "product", 0.001), FamilyRole::Lead, "product", "single column"),
+        in_family(sample(FindingClass::Reversal, "product_band", 0.002), FamilyRole::Proxy, "product",
+                  "proxy of product: each level of product_band meets one level of product"),
+        in_family(pair(FindingClass::Reversal, "product", "branch", 0.003), FamilyRole::Member, "product", why),
+        in_family(pair(FindingClass::Reversal, "product", "term", 0.004), FamilyRole::Member, "product", why),
+        in_family(sample(FindingClass::Explained, "channel", 0.02), FamilyRole::Lead, "channel", "single column")};
+    if (lead_last) std::rotate(fs.begin(), fs.begin() + 1, fs.end());
+    for (FindingView& f : fs) model.add(std::move(f));
+}
+int row_of(const FindingsModel& m, const QString& label) {
+    for (int i = 0; i < m.size(); ++i)
+        if (m.at(i)->strata_label() == label) return i;
+    return -1;
 }
 }  // namespace
 
@@ -175,6 +215,206 @@ private slots:
         QCOMPARE(page.strata_table()->rowCount(), 2);
         QCOMPARE(page.chart_tabs()->currentIndex(), 3);
         QVERIFY(!page.chart_tabs()->isTabVisible(0));
+    }
+
+    // Families fold beneath their lead: the lead's row counts them, each row beneath names its
+    // role (the class glyph kept), core's reason is the tooltip, and picking one shows it.
+    void families_fold_beneath_their_lead() {
+        for (bool lead_last : {false, true}) {
+            FindingsModel model;
+            FindingsPage page(&model);
+            page.resize(1200, 800);
+            add_family(model, lead_last);  // a lead arriving after its family still gathers it
+            QAbstractItemModel* list = page.list()->model();
+            QCOMPARE(list->rowCount(), 2);  // product and channel
+            const int product = row_of(model, "product"), band = row_of(model, "product_band"),
+                      branch = row_of(model, "product × branch");
+            const QModelIndex lead = list->index(0, FindingsModel::Strata);
+            QCOMPARE(page.source_row(lead), product);
+            QCOMPARE(list->rowCount(lead.siblingAtColumn(0)), 3);
+            QCOMPARE(lead.data().toString(), QString("product (1\u00a0proxy, 2\u00a0members)"));
+            QVERIFY(lead.data(Qt::ToolTipRole).toString().contains("Leads a family of 4 findings"));
+            QCOMPARE(list->rowCount(list->index(1, 0)), 0);  // channel leads no one
+            QCOMPARE(list->index(1, FindingsModel::Strata).data().toString(), QString("channel"));
+            // Proxies before members, as core ranked them; the role in the class column.
+            const QModelIndex first = list->index(0, FindingsModel::Class, lead.siblingAtColumn(0));
+            QCOMPARE(page.source_row(first), band);
+            QVERIFY(first.data().toString().contains("proxy"));
+            QVERIFY(first.data().toString().startsWith(class_glyph(FindingClass::Reversal)));
+            const QModelIndex member = list->index(1, FindingsModel::Strata, lead.siblingAtColumn(0));
+            QCOMPARE(page.source_row(member), branch);
+            QCOMPARE(member.data().toString(), QString("product × branch"));
+            QVERIFY(member.siblingAtColumn(FindingsModel::Class).data().toString().contains("member"));
+            QVERIFY(member.data(Qt::ToolTipRole).toString().contains("adds nothing beyond product"));
+            QCOMPARE(page.family_tree()->folded_under(product), (std::vector<int>{band, branch, row_of(model, "product × term")}));
+            QCOMPARE(page.family_tree()->lead_row(branch), product);
+            // Folded at first; selecting a member unfolds its family and shows the member.
+            QVERIFY(!page.list()->isExpanded(lead.siblingAtColumn(0)));
+            QVERIFY(page.select(branch));
+            QVERIFY(page.list()->isExpanded(lead.siblingAtColumn(0)));
+            QCOMPARE(page.selected(), branch);
+            QVERIFY(page.findChild<QLabel*>("finding_heading")->text().contains("product × branch"));
+            auto* line = page.findChild<QLabel*>("family_line");
+            QVERIFY(line->text().contains("Member of the family led by"));
+            QVERIFY(line->text().contains("adds nothing beyond product"));
+            // A search for the pair's other column keeps its lead in view, with only that pair.
+            page.set_search("term");
+            QCOMPARE(list->rowCount(), 1);
+            QCOMPARE(list->rowCount(list->index(0, 0)), 1);
+            page.set_search({});
+            QCOMPARE(list->rowCount(), 2);
+        }
+    }
+
+    // Right or + unfolds a family from the keyboard, Left or - folds it; Down then walks into it.
+    void keyboard_unfolds_and_folds_a_family() {
+        FindingsModel model;
+        FindingsPage page(&model);
+        page.resize(1200, 800);
+        page.show();
+        QVERIFY(QTest::qWaitForWindowExposed(&page));
+        add_family(model);
+        QTreeView* list = page.list();
+        QCOMPARE(page.select_top(), row_of(model, "product"));
+        list->setFocus();
+        const QModelIndex lead = list->model()->index(0, 0);
+        QVERIFY(!list->isExpanded(lead));
+        QTest::keyClick(list, Qt::Key_Right);
+        QVERIFY(list->isExpanded(lead));
+        QTest::keyClick(list, Qt::Key_Left);
+        QVERIFY(!list->isExpanded(lead));
+        QTest::keyClick(list, Qt::Key_Plus);
+        QVERIFY(list->isExpanded(lead));
+        QTest::keyClick(list, Qt::Key_Down);
+        QCOMPARE(page.selected(), row_of(model, "product_band"));
+        QTest::keyClick(list, Qt::Key_Down);
+        QCOMPARE(page.selected(), row_of(model, "product × branch"));
+        QTest::keyClick(list, Qt::Key_Left);  // from a member: back to its lead
+        QCOMPARE(page.selected(), row_of(model, "product"));
+        QTest::keyClick(list, Qt::Key_Minus);
+        QVERIFY(!list->isExpanded(lead));
+        QTest::keyClick(list, Qt::Key_Down);  // folded: the next family
+        QCOMPARE(page.selected(), row_of(model, "channel"));
+    }
+
+    // The lead's decision goes to every finding beneath it in one undo step; each keeps its own
+    // note and records the lead it came from; undo puts every one back.
+    void apply_to_family_is_one_undo_step() {
+        FindingsModel model;
+        FindingsPage page(&model);
+        add_family(model);
+        const int product = row_of(model, "product"), branch = row_of(model, "product × branch"),
+                  term = row_of(model, "product × term"), band = row_of(model, "product_band");
+        model.set_decision(term, Decision::Undecided, "asked the branch managers");
+        QVERIFY(page.select(product));
+        QAction* apply = page.apply_family_action();
+        auto* button = page.findChild<QPushButton*>("apply_family");
+        QVERIFY(!apply->isEnabled());  // nothing decided yet
+        QVERIFY(!button->isHidden());  // shown on a lead with a family
+        QCOMPARE(button->text(), QString("Apply to family (3)"));
+        page.decide(Decision::Upheld);
+        QVERIFY(apply->isEnabled() && button->isEnabled());
+        QCOMPARE(page.undo_stack()->count(), 1);
+        apply->trigger();
+        QCOMPARE(page.undo_stack()->count(), 2);
+        for (int r : {band, branch, term}) {
+            QCOMPARE(model.at(r)->decision, Decision::Upheld);
+            QCOMPARE(model.at(r)->applied_from, QString("product"));
+        }
+        QCOMPARE(model.at(term)->note, QString("asked the branch managers"));  // its own note stays
+        QVERIFY(model.at(branch)->note.isEmpty());                           // an empty one stays empty
+        QVERIFY(model.at(product)->applied_from.isEmpty());
+        QCOMPARE(model.data(model.index(branch, FindingsModel::Decided)).toString(), QString("Upheld (from lead)"));
+        QVERIFY(model.data(model.index(branch, FindingsModel::Decided), Qt::ToolTipRole).toString().contains("product"));
+        // A note typed after the step survives undoing it.
+        model.set_decision(branch, Decision::Upheld, "typed later");
+        page.undo_stack()->undo();
+        for (int r : {band, branch, term}) {
+            QCOMPARE(model.at(r)->decision, Decision::Undecided);
+            QVERIFY(model.at(r)->applied_from.isEmpty());
+        }
+        QCOMPARE(model.at(branch)->note, QString("typed later"));
+        QCOMPARE(model.at(product)->decision, Decision::Upheld);  // the lead's own step is separate
+        page.undo_stack()->redo();
+        QCOMPARE(model.at(branch)->decision, Decision::Upheld);
+        // Deciding a member by hand makes the decision its own again.
+        QVERIFY(page.select(branch));
+        auto* line = page.findChild<QLabel*>("family_line");
+        QVERIFY(line->text().contains("Decision applied from the lead product"));
+        QVERIFY(!apply->isEnabled());  // a member leads no one
+        page.decide(Decision::FollowUp);
+        QVERIFY(model.at(branch)->applied_from.isEmpty());
+        page.undo_stack()->undo();
+        QCOMPARE(model.at(branch)->decision, Decision::Upheld);
+        QCOMPARE(model.at(branch)->applied_from, QString("product"));
+        // The context menu of a lead offers the step and the fold; a member's its lead.
+        std::unique_ptr<QMenu> lead_menu(page.context_menu_for(product));
+        QVERIFY(lead_menu->actions().contains(apply));
+        QStringList texts;
+        for (QAction* a : lead_menu->actions()) texts << a->text();
+        QVERIFY2(texts.join('|').contains("family"), qPrintable(texts.join('|')));
+        std::unique_ptr<QMenu> member_menu(page.context_menu_for(branch));
+        texts.clear();
+        for (QAction* a : member_menu->actions()) texts << a->text();
+        QVERIFY2(texts.join('|').contains("Go to the lead, product"), qPrintable(texts.join('|')));
+    }
+
+    // A finding beneath the lead decided otherwise is never overwritten without asking: Cancel
+    // changes nothing, "keep theirs" fills only the undecided, "replace" overwrites.
+    void apply_to_family_asks_before_overwriting() {
+        FindingsModel model;
+        FindingsPage page(&model);
+        add_family(model);
+        const int product = row_of(model, "product"), branch = row_of(model, "product × branch"),
+                  term = row_of(model, "product × term"), band = row_of(model, "product_band");
+        model.set_decision(branch, Decision::SetAside, "the branch effect is real");
+        model.set_decision(band, Decision::Upheld, {});  // the same decision: its own, not asked about
+        QVERIFY(page.select(product));
+        page.decide(Decision::Upheld);
+        QStringList asked;
+        OverwriteChoice answer = OverwriteChoice::Cancel;
+        page.set_overwrite_prompt([&](const QString& lead, const QString& decision, const QStringList& differing) {
+            asked = differing;
+            asked.prepend(lead + ": " + decision);
+            return answer;
+        });
+        const int steps = page.undo_stack()->count();
+        QCOMPARE(page.apply_to_family(), -1);
+        QCOMPARE(asked, (QStringList{"product: Upheld", "product × branch: Set aside"}));
+        QCOMPARE(page.undo_stack()->count(), steps);
+        QCOMPARE(model.at(term)->decision, Decision::Undecided);
+        answer = OverwriteChoice::KeepTheirs;
+        QCOMPARE(page.apply_to_family(), 1);
+        QCOMPARE(model.at(branch)->decision, Decision::SetAside);
+        QCOMPARE(model.at(term)->decision, Decision::Upheld);
+        QVERIFY(model.at(band)->applied_from.isEmpty());  // decided so on its own
+        answer = OverwriteChoice::Overwrite;
+        QCOMPARE(page.apply_to_family(), 1);
+        QCOMPARE(model.at(branch)->decision, Decision::Upheld);
+        QCOMPARE(model.at(branch)->note, QString("the branch effect is real"));
+        page.undo_stack()->undo();
+        QCOMPARE(model.at(branch)->decision, Decision::SetAside);
+        QVERIFY(model.at(branch)->applied_from.isEmpty());
+
+        // Without a replacement the workbench's own box asks, listing the finding decided otherwise.
+        FindingsModel model2;
+        FindingsPage page2(&model2);
+        add_family(model2);
+        model2.set_decision(row_of(model2, "product × term"), Decision::FollowUp, {});
+        QVERIFY(page2.select(row_of(model2, "product")));
+        page2.decide(Decision::SetAside);
+        QString shown;
+        QTimer::singleShot(0, [&shown] {
+            QTRY_VERIFY_WITH_TIMEOUT(qobject_cast<QMessageBox*>(QApplication::activeModalWidget()), 10000);
+            auto* box = qobject_cast<QMessageBox*>(QApplication::activeModalWidget());
+            shown = box->text() + "\n" + box->informativeText();
+            for (QAbstractButton* b : box->buttons())
+                if (b->text() == "Keep their decisions") QTest::mouseClick(b, Qt::LeftButton);
+        });
+        QCOMPARE(page2.apply_to_family(), 2);
+        QVERIFY2(shown.contains("product × term: Follow up"), qPrintable(shown));
+        QCOMPARE(model2.at(row_of(model2, "product × term"))->decision, Decision::FollowUp);
+        QCOMPARE(model2.at(row_of(model2, "product × branch"))->decision, Decision::SetAside);
     }
 };
 

@@ -26,6 +26,7 @@
 #include "ui/demo.h"
 #include "ui/diagram_commands.h"
 #include "ui/diagram_page.h"
+#include "ui/family_tree_model.h"
 #include "ui/findings_model.h"
 #include "ui/findings_page.h"
 #include "ui/main_window.h"
@@ -613,6 +614,61 @@ private slots:
             QVERIFY(d->verdict().answer == before);
         }
         QVERIFY(d->verdict().answer == before);
+    }
+
+    // The lender sample's one family (product and its pairs): the lead's decision applied to the
+    // family is one step of Edit > Undo on the Findings step, and the members' decisions, with
+    // the lead they came from, survive saving and reopening the audit.
+    void family_decision_survives_save_and_reopen() {
+        if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
+        if (find_sample("lender_approvals.csv").isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
+        QTemporaryDir dir;
+        const QString audit = dir.filePath("family.foldline");
+        int members = 0;
+        {
+            MainWindow w;
+            const QString err = prepare_demo(w, 120000);
+            QVERIFY2(err.isEmpty(), qPrintable(err));
+            w.go_to(MainWindow::Findings);
+            int lead = -1;
+            for (int i = 0; i < w.findings_model()->size(); ++i)
+                if (w.findings_model()->at(i)->strata == QStringList{"product"}) lead = i;
+            QVERIFY(lead >= 0);
+            members = int(w.findings_page()->family_tree()->folded_under(lead).size());
+            QCOMPARE(members, 7);  // sample_data/README.md: one family led by product
+            QVERIFY(w.findings_page()->select(lead));
+            w.action("action_upheld")->trigger();
+            QVERIFY(w.action("action_apply_family")->isEnabled());
+            w.action("action_apply_family")->trigger();
+            auto count = [&](Decision d, bool applied) {
+                int n = 0;
+                for (const FindingView& f : w.findings_model()->findings())
+                    n += f.decision == d && f.applied_from == (applied ? QString("product") : QString()) ? 1 : 0;
+                return n;
+            };
+            QCOMPARE(count(Decision::Upheld, true), members);
+            w.action("action_undo")->trigger();  // one step takes back the whole family
+            QCOMPARE(count(Decision::Upheld, true), 0);
+            QCOMPARE(w.findings_model()->at(lead)->decision, Decision::Upheld);
+            w.action("action_redo")->trigger();
+            QCOMPARE(count(Decision::Upheld, true), members);
+            QVERIFY(w.unsaved());
+            QVERIFY(w.save_project_to(audit).ok());
+        }
+        auto saved = project::load_project(audit.toStdString());
+        QVERIFY(saved.ok());
+        int recorded = 0;
+        for (const auto& r : saved->reviews) recorded += r.applied_from == "product" && r.decision == Decision::Upheld;
+        QCOMPARE(recorded, members);
+        MainWindow again;
+        QVERIFY(again.open_project(audit).ok());
+        auto restored = [&] {
+            int n = 0;
+            for (const FindingView& f : again.findings_model()->findings())
+                n += f.decision == Decision::Upheld && f.applied_from == "product" ? 1 : 0;
+            return n;
+        };
+        QTRY_VERIFY_WITH_TIMEOUT(restored() == members, 120000);
     }
 
     void trend_path_on_the_retail_sample() {

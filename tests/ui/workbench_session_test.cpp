@@ -15,6 +15,7 @@
 #include <QSpinBox>
 #include <QScrollBar>
 #include <QTableView>
+#include <QTreeView>
 #include <QToolButton>
 #include <QTimer>
 #include <QUndoStack>
@@ -100,7 +101,7 @@ private slots:
             {
                 // At 1440 x 900 the list shows class, strata, gaps, q-value and decision without
                 // scrolling sideways, and rate gaps in percentage points as the memo writes them.
-                QTableView* list = w.findings_page()->list();
+                QTreeView* list = w.findings_page()->list();
                 QApplication::processEvents();
                 QVERIFY(!list->horizontalScrollBar()->isVisible());
                 for (int c = 0; c < list->model()->columnCount(); ++c)
@@ -126,7 +127,7 @@ private slots:
             // 4. Findings: switch with the keyboard, decide two findings, each with a note.
             w.go_to(MainWindow::Findings);
             FindingsPage* fp = w.findings_page();
-            QTableView* list = fp->list();
+            QTreeView* list = fp->list();
             list->setFocus();
             const Decision choices[2] = {Decision::Upheld, Decision::FollowUp};
             for (int k = 0; k < 2; ++k) {

@@ -552,3 +552,38 @@ TEST(ProjectFile, RowsFilterIsVersionThreeAndRoundTrips) {
     EXPECT_NE(bad.error().message.find("question.rows: rows filter, character 9"), std::string::npos)
         << bad.error().message;
 }
+
+TEST(ProjectFile, DecisionAppliedFromAFamilyLeadIsVersionThreeAndRoundTrips) {
+    // Where a member's decision came from is the reviewer's record: an older build, which would
+    // drop it on its next save, refuses the file instead.
+    TempDir t("applied");
+    const auto file = (t.path / "applied.foldline").string();
+    Project p = full_project(t.path / "d.csv");
+    EXPECT_LT(required_version(p), 3);
+    auto& member = p.review_for({"rate", {"product", "branch"}, "B vs A"});
+    member.decision = Decision::Upheld;
+    member.applied_from = "product";
+    EXPECT_EQ(required_version(p), 3);
+    ASSERT_TRUE(save_project(p, file).ok());
+    const std::string text = slurp(file);
+    EXPECT_NE(text.find("\"applied_from\": \"product\""), std::string::npos);
+    // Written only where set: the lead's own review has no such key.
+    EXPECT_EQ(text.find("\"applied_from\": \"\""), std::string::npos);
+    auto back = load_project(file);
+    ASSERT_TRUE(back.ok()) << back.error().to_string();
+    const auto* r = back->review({"rate", {"product", "branch"}, "B vs A"});
+    ASSERT_NE(r, nullptr);
+    EXPECT_EQ(r->applied_from, "product");
+    EXPECT_EQ(r->decision, Decision::Upheld);
+    EXPECT_TRUE(back->review({"rate", {"product"}, "B vs A"})->applied_from.empty());
+    ASSERT_TRUE(save_project(*back, file).ok());
+    EXPECT_EQ(slurp(file), text);
+    auto bad = parse_project(R"({"format": "foldline-project", "version": 3, "data": {"path": "d.csv"},
+                                 "question": {"outcome": "ok", "exposure": "group"},
+                                 "findings": [{"kind": "rate", "strata": ["a"], "comparison": "B vs A",
+                                               "decision": "upheld", "note": "", "applied_from": 7}]})",
+                             (t.path / "bad.foldline").string());
+    ASSERT_FALSE(bad.ok());
+    EXPECT_NE(bad.error().message.find("findings[0].applied_from: expected a string"), std::string::npos)
+        << bad.error().message;
+}
