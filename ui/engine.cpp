@@ -15,6 +15,7 @@
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
 #include "ui/findings_model.h"
+#include "ui/mean_view.h"
 #include "ui/memo/memo_writer.h"
 
 #include "ui/engine.h"
@@ -235,7 +236,7 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     if (!q.exposure.isEmpty()) skip.push_back(q.exposure.toStdString());
     if (q.slope)
         for (const QString& c : q.covariates) skip.push_back(c.toStdString());
-    CandidateOptions opts;
+    CandidateOptions opts;  // a mean question, like rates, compares the groups of `exposure`
     opts.bins = q.bins;
     opts.max_levels = static_cast<std::size_t>(q.max_levels);
     auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
@@ -276,6 +277,11 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
         for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
         return problems;
     }
+    if (q.mean) {
+        const Column* y = t.column(q.outcome.toStdString());
+        if (y && !y->is_numeric())
+            problems << QObject::tr("The outcome \"%1\" is not numeric; a mean gap needs numbers.").arg(q.outcome);
+    }
     if (!problems.isEmpty()) return problems;
     if (!q.rows.trimmed().isEmpty()) {
         auto f = filter::parse(q.rows.toStdString());
@@ -287,7 +293,7 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
     if (!problems.isEmpty()) return problems;
     if (q.outcome == q.exposure) return {QObject::tr("The outcome and the groups must be different columns.")};
     if (!q.focal.isEmpty() && q.focal == q.reference) return {QObject::tr("The focal and reference groups must differ.")};
-    auto resolved = resolve_question(t, core_spec(q));
+    auto resolved = q.mean ? resolve_groups(t, core_spec(q)) : resolve_question(t, core_spec(q));
     if (!resolved) problems << qs(resolved.error().message);
     if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
     for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
@@ -300,14 +306,18 @@ project::AuditSpec audit_spec(const QuestionSpec& q, const project::AuditSpec& b
     project::AuditSpec spec = base;
     auto& qs = spec.question;
     qs = project::QuestionSettings{};
-    qs.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
+    qs.kind = q.slope  ? project::QuestionKind::Slope
+              : q.mean ? project::QuestionKind::Mean
+                       : project::QuestionKind::Rate;
     qs.outcome = q.outcome.toStdString();
     qs.exposure = q.exposure.toStdString();
     // The filter in its normal form (the text as typed when it does not read: check_question says why).
     if (auto f = filter::parse(q.rows.toStdString())) qs.rows = filter::canonical_text(*f);
     else qs.rows = q.rows.trimmed().toStdString();
     if (!q.slope) {
-        if (!q.positive.isEmpty()) qs.positive = q.positive.toStdString();
+        if (!q.positive.isEmpty() && !q.mean) qs.positive = q.positive.toStdString();
+        qs.log_outcome = q.mean && q.log_outcome;
+        qs.pay_gap = q.mean && q.pay_gap;
         if (!q.focal.isEmpty()) qs.focal = {q.focal.toStdString()};
         if (!q.reference.isEmpty()) qs.reference = q.reference.toStdString();
     } else {
@@ -334,6 +344,9 @@ QuestionSpec question_spec(const project::AuditSpec& spec) {
     QuestionSpec q;
     const auto& p = spec.question;
     q.slope = p.kind == project::QuestionKind::Slope;
+    q.mean = p.kind == project::QuestionKind::Mean;
+    q.log_outcome = p.log_outcome;
+    q.pay_gap = p.pay_gap;
     q.outcome = qs(p.outcome);
     q.positive = p.positive ? qs(*p.positive) : QString();
     q.exposure = qs(p.exposure);
@@ -385,6 +398,11 @@ Result<ScanOutcome> run_scan(std::shared_ptr<const Table> source, const project:
         if (on_provisional && result->rate_findings.empty()) on_provisional(v);
         out.findings.push_back(std::move(v));
     }
+    for (const MeanFinding& f : result->mean_findings) {
+        FindingView v = mean_view(f);
+        if (on_provisional && result->rate_findings.empty()) on_provisional(v);
+        out.findings.push_back(std::move(v));
+    }
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
     out.result = std::make_shared<const ScanResult>(std::move(*result));
     return out;
@@ -427,10 +445,14 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
     }
     if (cv.direct_effect.applies) v.direct_effect = qs(cv.direct_effect.reason);
     if (const auto& e = r->estimate) {
-        const bool slope = e->measure == "slope";
+        // Slopes and mean gaps are in the outcome's own units; rate gaps in percentage points.
+        const bool slope = e->measure == "slope" || e->measure == "mean_difference";
+        const bool mean = e->measure == "mean_difference";
         const QString what = e->view == AdjustedEstimate::View::Pooled
-                                 ? (slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
-                                 : (slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised gap"));
+                                 ? (mean    ? QObject::tr("pooled difference (Welch)")
+                                    : slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
+                                 : (mean    ? QObject::tr("fixed-effects difference (HC1 interval)")
+                                    : slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised gap"));
         QStringList over;
         for (const auto& n : e->over) over << qs(n);
         const Estimate value{e->estimate, e->ci_low, e->ci_high};
