@@ -68,7 +68,8 @@ void draw_group_means(QCustomPlot* plot, const FindingView& f) {
     plot->xAxis->setRange(lo - pad, hi + pad);
     plot->xAxis->setLabel(QObject::tr("mean %1 with 95% interval").arg(f.outcome));
     plot->legend->setVisible(true);
-    plot->axisRect()->insetLayout()->setInsetAlignment(0, Qt::AlignRight | Qt::AlignBottom);
+    // Bottom left: beside the pooled row, clear of the strata's markers in most data.
+    plot->axisRect()->insetLayout()->setInsetAlignment(0, Qt::AlignLeft | Qt::AlignBottom);
     plot->plotLayout()->insertRow(0);
     auto* t = new QCPTextElement(plot, QObject::tr("Group means within each stratum of %1, pooled below").arg(f.strata_label()),
                                  QFont(QApplication::font().family(), QApplication::font().pointSize() + 1, QFont::Bold));
