@@ -83,6 +83,8 @@ QCPErrorBars* error_bars(QCustomPlot* plot, QCPGraph* g, const QColor& c) {
 
 }  // namespace
 
+void reset_plot(QCustomPlot* plot) { reset(plot); }
+
 void apply_theme(QCustomPlot* plot) {
     const QPalette p = QApplication::palette();
     plot->setBackground(p.color(QPalette::Base));
@@ -105,7 +107,7 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     // Rows from top: strata in order, a gap, then adjusted and pooled.
     const int n = int(f.rows.size());
     // Rate gaps are drawn in percentage points, as every table and the memo write them.
-    const double u = f.slope ? 1.0 : 100.0;
+    const double u = f.slope || f.mean ? 1.0 : 100.0;
     const QColor stratum_colour = colors::accent(pal);  // the blue that reads on light and dark
     auto strata = marker_series(plot, plot->xAxis, plot->yAxis, QCPScatterStyle::ssCircle, stratum_colour, 7,
                                 QObject::tr("stratum (95% CI)"));
@@ -144,7 +146,8 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
         lo = std::min(lo, e.value);
         hi = std::max(hi, e.value);
     };
-    add_summary(1, f.adjusted, QCPScatterStyle::ssSquare, colors::okabe_ito(2), f.slope ? f.adjusted_name : QObject::tr("adjusted (Mantel-Haenszel)"));
+    add_summary(1, f.adjusted, QCPScatterStyle::ssSquare, colors::okabe_ito(2),
+                f.slope || f.mean ? f.adjusted_name : QObject::tr("adjusted (Mantel-Haenszel)"));
     add_summary(0, f.crude, QCPScatterStyle::ssDiamond, colors::focal(), QObject::tr("pooled (crude)"));
 
     auto* zero = new QCPItemStraightLine(plot);
@@ -156,7 +159,7 @@ void draw_forest(QCustomPlot* plot, const FindingView& f) {
     plot->yAxis->grid()->setVisible(false);
     const double pad = std::max(0.02 * u, (hi - lo) * 0.08);
     plot->xAxis->setRange(lo - pad, hi + pad);
-    plot->xAxis->setLabel(f.slope ? QObject::tr("%1, %2 minus %3").arg(f.effect_name, f.focal, f.reference)
+    plot->xAxis->setLabel(f.slope || f.mean ? QObject::tr("%1, %2 minus %3").arg(f.effect_name, f.focal, f.reference)
                                   : QObject::tr("%1 in percentage points, %2 minus %3").arg(f.effect_name, f.focal, f.reference));
     title(plot, QObject::tr("Gap within each stratum of %1").arg(f.strata_label()),
           QObject::tr("circle = stratum, diamond = pooled, square = adjusted; bars = 95% CI"));
@@ -216,7 +219,7 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
     ticker->addTick(1, QObject::tr("pooled gap"));
     ticker->addTick(2, QObject::tr("within strata"));
     ticker->addTick(3, QObject::tr("composition"));
-    const double u = f.slope ? 1.0 : 100.0;  // rate gaps in percentage points
+    const double u = f.slope || f.mean ? 1.0 : 100.0;  // rate gaps in percentage points
     const double vals[3] = {u * f.crude.value, u * f.within, u * f.composition};
     const QColor cols[3] = {colors::focal(), colors::okabe_ito(2), colors::okabe_ito(0)};
     const Qt::BrushStyle styles[3] = {Qt::SolidPattern, Qt::Dense3Pattern, Qt::BDiagPattern};
@@ -231,7 +234,7 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
         auto* t = new QCPItemText(plot);
         t->position->setCoords(i + 1, vals[i]);
         t->setPositionAlignment(vals[i] >= 0 ? (Qt::AlignHCenter | Qt::AlignBottom) : (Qt::AlignHCenter | Qt::AlignTop));
-        t->setText(f.slope ? QString::number(vals[i], 'f', 3) : QObject::tr("%1 pp").arg(vals[i], 0, 'f', 1));
+        t->setText(f.slope || f.mean ? QString::number(vals[i], 'g', 5) : QObject::tr("%1 pp").arg(vals[i], 0, 'f', 1));
         t->setColor(fg);
         lo = std::min(lo, vals[i]);
         hi = std::max(hi, vals[i]);
@@ -244,7 +247,7 @@ void draw_decomposition(QCustomPlot* plot, const FindingView& f) {
     plot->xAxis->setRange(0.4, 3.6);
     const double pad = std::max(0.01 * u, (hi - lo) * 0.25);
     plot->yAxis->setRange(lo - pad, hi + pad);
-    plot->yAxis->setLabel(f.slope ? f.effect_name : QObject::tr("%1 (percentage points)").arg(f.effect_name));
+    plot->yAxis->setLabel(f.slope || f.mean ? f.effect_name : QObject::tr("%1 (percentage points)").arg(f.effect_name));
     title(plot, QObject::tr("Where the pooled gap comes from"),
           QObject::tr("pooled gap = gap within strata + difference in stratum mix"));
 }

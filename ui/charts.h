@@ -10,6 +10,8 @@ class QCustomPlot;
 
 namespace foldline::ui::charts {
 
+/// Clears the plot to one themed axis rect with a hidden legend (what every draw_ starts from).
+void reset_plot(QCustomPlot* plot);
 /// Colours the plot's axes, grid and background from the application palette.
 void apply_theme(QCustomPlot* plot);
 /// Per-stratum risk differences with CIs (circles), plus the pooled (diamond) and adjusted

@@ -17,6 +17,7 @@
 #include "core/causal/combined_exposure.h"
 #include "core/table/combined_column.h"
 #include "ui/findings_model.h"
+#include "ui/mean_view.h"
 #include "ui/memo/memo_writer.h"
 
 #include "ui/engine.h"
@@ -266,7 +267,7 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
         if (auto c = combined_groups_column(t, q)) own = std::move(*c), combined = &*own;
     if (q.slope)
         for (const QString& c : q.covariates) skip.push_back(c.toStdString());
-    CandidateOptions opts;
+    CandidateOptions opts;  // a mean question, like rates, compares the groups of `exposure`
     opts.bins = q.bins;
     opts.max_levels = static_cast<std::size_t>(q.max_levels);
     const Column* groups = q.slope ? nullptr : parts.isEmpty() ? t.column(q.exposure.toStdString()) : combined;
@@ -309,6 +310,11 @@ QStringList check_question(const Table& t, const QuestionSpec& q, const Column* 
         for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
         return problems;
     }
+    if (q.mean) {
+        const Column* y = t.column(q.outcome.toStdString());
+        if (y && !y->is_numeric())
+            problems << QObject::tr("The outcome \"%1\" is not numeric; a mean gap needs numbers.").arg(q.outcome);
+    }
     if (!problems.isEmpty()) return problems;
     if (!q.rows.trimmed().isEmpty()) {
         auto f = filter::parse(q.rows.toStdString());
@@ -336,10 +342,10 @@ QStringList check_question(const Table& t, const QuestionSpec& q, const Column* 
         if (const Column* oc = t.column(q.outcome.toStdString())) groups.columns.push_back(*oc);
         groups.columns.push_back(*combined);
         groups.columns.back().name = q.exposure.toStdString();
-        auto resolved = resolve_question(groups, core_spec(q));
+        auto resolved = q.mean ? resolve_groups(groups, core_spec(q)) : resolve_question(groups, core_spec(q));
         if (!resolved) problems << qs(resolved.error().message);
     } else {
-        auto resolved = resolve_question(t, core_spec(q));
+        auto resolved = q.mean ? resolve_groups(t, core_spec(q)) : resolve_question(t, core_spec(q));
         if (!resolved) problems << qs(resolved.error().message);
     }
     if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
@@ -353,14 +359,18 @@ project::AuditSpec audit_spec(const QuestionSpec& q, const project::AuditSpec& b
     project::AuditSpec spec = base;
     auto& qs = spec.question;
     qs = project::QuestionSettings{};
-    qs.kind = q.slope ? project::QuestionKind::Slope : project::QuestionKind::Rate;
+    qs.kind = q.slope  ? project::QuestionKind::Slope
+              : q.mean ? project::QuestionKind::Mean
+                       : project::QuestionKind::Rate;
     qs.outcome = q.outcome.toStdString();
     qs.exposure = q.exposure.toStdString();
     // The filter in its normal form (the text as typed when it does not read: check_question says why).
     if (auto f = filter::parse(q.rows.toStdString())) qs.rows = filter::canonical_text(*f);
     else qs.rows = q.rows.trimmed().toStdString();
     if (!q.slope) {
-        if (!q.positive.isEmpty()) qs.positive = q.positive.toStdString();
+        if (!q.positive.isEmpty() && !q.mean) qs.positive = q.positive.toStdString();
+        qs.log_outcome = q.mean && q.log_outcome;
+        qs.pay_gap = q.mean && q.pay_gap;
         if (!q.focal.isEmpty()) qs.focal = {q.focal.toStdString()};
         if (!q.reference.isEmpty()) qs.reference = q.reference.toStdString();
     } else {
@@ -387,6 +397,9 @@ QuestionSpec question_spec(const project::AuditSpec& spec) {
     QuestionSpec q;
     const auto& p = spec.question;
     q.slope = p.kind == project::QuestionKind::Slope;
+    q.mean = p.kind == project::QuestionKind::Mean;
+    q.log_outcome = p.log_outcome;
+    q.pay_gap = p.pay_gap;
     q.outcome = qs(p.outcome);
     q.positive = p.positive ? qs(*p.positive) : QString();
     q.exposure = qs(p.exposure);
@@ -445,6 +458,11 @@ Result<ScanOutcome> run_scan(std::shared_ptr<const Table> source, const project:
         if (on_provisional && result->rate_findings.empty()) on_provisional(v);
         out.findings.push_back(std::move(v));
     }
+    for (const MeanFinding& f : result->mean_findings) {
+        FindingView v = mean_view(f);
+        if (on_provisional && result->rate_findings.empty()) on_provisional(v);
+        out.findings.push_back(std::move(v));
+    }
     for (const Exclusion& e : result->excluded) out.excluded << qs(e.column) + QStringLiteral(": ") + qs(e.reason);
     out.result = std::make_shared<const ScanResult>(std::move(*result));
     return out;
@@ -492,10 +510,14 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
     }
     if (cv.direct_effect.applies) v.direct_effect = qs(cv.direct_effect.reason);
     if (const auto& e = r->estimate) {
-        const bool slope = e->measure == "slope";
+        // Slopes and mean gaps are in the outcome's own units; rate gaps in percentage points.
+        const bool slope = e->measure == "slope" || e->measure == "mean_difference";
+        const bool mean = e->measure == "mean_difference";
         const QString what = e->view == AdjustedEstimate::View::Pooled
-                                 ? (slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
-                                 : (slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised gap"));
+                                 ? (mean    ? QObject::tr("pooled difference (Welch)")
+                                    : slope ? QObject::tr("pooled slope") : QObject::tr("pooled difference"))
+                                 : (mean    ? QObject::tr("fixed-effects difference (HC1 interval)")
+                                    : slope ? QObject::tr("within-stratum slope") : QObject::tr("standardised gap"));
         QStringList over;
         for (const auto& n : e->over) over << qs(n);
         const Estimate value{e->estimate, e->ci_low, e->ci_high};

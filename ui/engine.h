@@ -94,6 +94,9 @@ struct QuestionSpec {
     int bootstrap = 200;            ///< resamples: the rate bootstrap, or a trend's slope bootstrap
     std::uint64_t seed = 1;
     bool find_groups = false;       ///< trend only: the hidden-group hint
+    bool mean = false;              ///< means of numeric `outcome` between two groups (slope false)
+    bool log_outcome = false;       ///< means only: analyse log(outcome), gaps also as percentages
+    bool pay_gap = false;           ///< means only: pay-gap conventions (% of reference, medians, 5% flags)
     QString rows;                   ///< rows to include (docs/filter.md); empty = every row
 };
 

@@ -30,6 +30,9 @@ struct GroupRow {
     double selection_ratio = kNaN;
     bool informative = true;
     QString reason;  ///< why an uninformative stratum is left out of the adjusted figures
+    // Mean gaps: n_focal / n_reference are the groups' observations, rd the Welch difference.
+    Estimate mean_focal, mean_reference;  ///< group means with their t intervals
+    double sd_focal = kNaN, sd_reference = kNaN;
 };
 
 /// One stratum of a slope finding.
@@ -48,6 +51,8 @@ struct StatLine {
 struct FindingView {
     int id = 0;                    ///< position in arrival order
     bool slope = false;            ///< false: rate finding; true: slope finding
+    bool mean = false;             ///< a mean-gap finding (focal / reference are the groups)
+    QString outcome;               ///< mean gaps: the numeric outcome
     FindingClass cls = FindingClass::Stable;
     QStringList strata;            ///< stratifying column(s)
     QString focal, reference;      ///< group labels (rates) or x / y names (slopes)

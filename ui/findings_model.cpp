@@ -78,7 +78,7 @@ QString format_points(const Estimate& e, bool with_ci) {
 }
 
 QString format_gap(const FindingView& f, const Estimate& e, bool with_ci) {
-    if (f.slope) return format_estimate(with_ci ? e : Estimate{e.value, kNaN, kNaN});
+    if (f.slope || f.mean) return format_estimate(with_ci ? e : Estimate{e.value, kNaN, kNaN});
     return format_points(e, with_ci);
 }
 

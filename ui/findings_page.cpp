@@ -31,6 +31,8 @@
 #include "ui/charts.h"
 #include "ui/family_tree_model.h"
 #include "ui/findings_model.h"
+#include "ui/mean_charts.h"
+#include "ui/mean_view.h"
 #include "ui/palette.h"
 #include "ui/review_commands.h"
 #include "ui/tsv.h"
@@ -314,6 +316,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     decomp_ = make_plot(QStringLiteral("chart_decomposition"), tr("The pooled gap split into a within-stratum part and a part due to different stratum mixes"));
     scatter_ = make_plot(QStringLiteral("chart_scatter"), tr("Points with the pooled line (dashed) and one line per stratum"));
     multiples_ = make_plot(QStringLiteral("chart_multiples"), tr("One small panel per stratum"));
+    means_ = make_plot(QStringLiteral("chart_means"), tr("Each group's mean with its 95% interval, within each stratum and pooled"));
     forest_scroll_ = new QScrollArea;
     forest_scroll_->setWidget(forest_);
     forest_scroll_->setWidgetResizable(true);
@@ -323,6 +326,7 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     charts_->addTab(decomp_, tr("Decomposition"));
     charts_->addTab(scatter_, tr("Scatter"));
     charts_->addTab(multiples_, tr("Per stratum"));
+    charts_->addTab(means_, tr("Group means"));
 
     auto* copy = new QPushButton(tr("Copy table (TSV)"));
     copy->setToolTip(tr("Copy the per-stratum table, or the table you clicked last, as tab-separated text (Ctrl+Shift+C)"));
@@ -345,7 +349,16 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     detail_ = new QWidget;
     auto* dl = new QVBoxLayout(detail_);
     dl->setContentsMargins(0, 0, 0, 0);
+    pay_caution_ = new QLabel;
+    pay_caution_->setObjectName(QStringLiteral("pay_caution"));
+    pay_caution_->setWordWrap(true);
+    pay_caution_->setTextFormat(Qt::RichText);
+    pay_caution_->setText(QStringLiteral("<b>%1</b> %2").arg(tr("Caution:"), pay_review_caution().toHtmlEscaped()));
+    pay_caution_->setFrameShape(QFrame::StyledPanel);
+    pay_caution_->setMargin(6);
+    pay_caution_->hide();
     dl->addWidget(heading_);
+    dl->addWidget(pay_caution_);
     dl->addWidget(meaning_);
     dl->addWidget(family_);
     dl->addLayout(decide_row);
@@ -463,7 +476,9 @@ void FindingsPage::show_finding(int row) {
     meaning_->setText(detail);
     show_review(*f);
     note_->setPlainText(f->note);
+    pay_caution_->setVisible(f->mean);
     if (f->slope) fill_slope_tables(*f);
+    else if (f->mean) fill_mean_tables(*f);
     else fill_rate_tables(*f);
     draw_charts(*f);
     showing_ = false;
@@ -587,9 +602,70 @@ void FindingsPage::fill_slope_tables(const FindingView& f) {
     strata_->resizeColumnsToContents();
 }
 
+void FindingsPage::fill_mean_tables(const FindingView& f) {
+    const QString tip_mean = tr("Mean of the group with its 95% t interval");
+    const QString tip_gap = tr("Focal mean minus reference mean with its 95% Welch interval");
+    auto mean_text = [](const Estimate& e, double sd) {
+        QString s = format_estimate(e, 1);
+        if (std::isfinite(sd)) s += tr("  sd %1").arg(sd, 0, 'f', 1);
+        return s;
+    };
+    pooled_->clear();
+    set_headers(pooled_, {tr("Row"), tr("n"), tr("Value [95% CI]")}, {QString(), tr("Observations (weighted)"), tip_mean});
+    const GroupRow& p = f.pooled;
+    pooled_->setRowCount(4 + int(f.more.size()));
+    put(pooled_, 0, 0, f.focal + tr(" (focal)"));
+    put(pooled_, 0, 1, QString::number(p.n_focal, 'f', 0));
+    put(pooled_, 0, 2, mean_text(p.mean_focal, p.sd_focal), false, tip_mean);
+    put(pooled_, 1, 0, f.reference + tr(" (reference)"));
+    put(pooled_, 1, 1, QString::number(p.n_reference, 'f', 0));
+    put(pooled_, 1, 2, mean_text(p.mean_reference, p.sd_reference), false, tip_mean);
+    put(pooled_, 2, 0, tr("Pooled gap (Welch)"));
+    put(pooled_, 2, 2, format_estimate(f.crude, 1), false, tip_gap);
+    put(pooled_, 3, 0, tr("Within-strata gap (fixed effects, HC1)"));
+    put(pooled_, 3, 2, format_estimate(f.adjusted, 1), false,
+        tr("The gap after comparing like with like: the group coefficient of a regression on the group and one "
+           "indicator per stratum, with a heteroskedasticity-robust (HC1) interval"));
+    for (int i = 0; i < int(f.more.size()); ++i) {
+        put(pooled_, 4 + i, 0, f.more[std::size_t(i)].name, false, f.more[std::size_t(i)].tip);
+        put(pooled_, 4 + i, 2, f.more[std::size_t(i)].value, false, f.more[std::size_t(i)].tip);
+    }
+    pooled_->resizeColumnsToContents();
+    fit_pooled();
+
+    strata_->clear();
+    set_headers(strata_,
+                {tr("Stratum"), tr("n %1").arg(f.focal), tr("Mean %1 [95% CI]").arg(f.focal), tr("n %1").arg(f.reference),
+                 tr("Mean %1 [95% CI]").arg(f.reference), tr("Difference [95% CI]"), tr("Share %1 / %2").arg(f.focal, f.reference),
+                 tr("Note")},
+                {tr("Level of %1").arg(f.strata_label()), QString(), tip_mean, QString(), tip_mean, tip_gap,
+                 tr("The stratum's share of each group's observations"),
+                 tr("Why a stratum is left out of the adjusted figures")});
+    double nf = 0, nr = 0;
+    for (const GroupRow& r : f.rows) nf += r.n_focal, nr += r.n_reference;
+    strata_->setRowCount(int(f.rows.size()));
+    for (int i = 0; i < int(f.rows.size()); ++i) {
+        const GroupRow& r = f.rows[std::size_t(i)];
+        const bool g = !r.informative;
+        const QString why = g ? (r.reason.isEmpty() ? tr("left out: a group has no rows here") : tr("left out: %1").arg(r.reason)) : QString();
+        put(strata_, i, 0, r.level, g, why);
+        put(strata_, i, 1, QString::number(r.n_focal, 'f', 0), g);
+        put(strata_, i, 2, format_estimate(r.mean_focal, 1), g, tip_mean);
+        put(strata_, i, 3, QString::number(r.n_reference, 'f', 0), g);
+        put(strata_, i, 4, format_estimate(r.mean_reference, 1), g, tip_mean);
+        put(strata_, i, 5, format_estimate(r.rd, 1), g, tip_gap);
+        put(strata_, i, 6, QStringLiteral("%1% / %2%").arg(nf > 0 ? 100 * r.n_focal / nf : 0, 0, 'f', 0)
+                                .arg(nr > 0 ? 100 * r.n_reference / nr : 0, 0, 'f', 0), g);
+        put(strata_, i, 7, why, g, why);
+        strata_->item(i, 7)->setTextAlignment(Qt::AlignLeft | Qt::AlignVCenter);
+    }
+    strata_->resizeColumnsToContents();
+}
+
 void FindingsPage::draw_charts(const FindingView& f) {
     for (int i = 0; i < 3; ++i) charts_->setTabVisible(i, !f.slope);
     for (int i = 3; i < 5; ++i) charts_->setTabVisible(i, f.slope);
+    charts_->setTabVisible(5, f.mean);
     if (f.slope) {
         charts::draw_scatter(scatter_, f);
         charts::draw_small_multiples(multiples_, f);
@@ -605,7 +681,11 @@ void FindingsPage::draw_charts(const FindingView& f) {
         forest_->replot();
         mix_->replot();
         decomp_->replot();
-        if (charts_->currentIndex() >= 3) charts_->setCurrentIndex(0);
+        if (f.mean) {
+            charts::draw_group_means(means_, f);
+            means_->replot();
+        }
+        if (charts_->currentIndex() >= 3 && !(f.mean && charts_->currentIndex() == 5)) charts_->setCurrentIndex(0);
     }
 }
 

@@ -72,6 +72,8 @@ public:
     QTableWidget* strata_table() const { return strata_; }
     QTabWidget* chart_tabs() const { return charts_; }
     QCustomPlot* current_chart() const;
+    /// The pay-review caution shown above a mean-gap finding (hidden for other kinds).
+    QLabel* pay_caution() const { return pay_caution_; }
     QSplitter* main_splitter() const { return split_; }
     QSplitter* detail_splitter() const { return detail_split_; }
     FindingsFilter* filter() const { return filter_; }
@@ -112,6 +114,7 @@ private:
     void update_apply();
     void fill_rate_tables(const FindingView& f);
     void fill_slope_tables(const FindingView& f);
+    void fill_mean_tables(const FindingView& f);
     void draw_charts(const FindingView& f);
     void fit_pooled();
     void update_chips();
@@ -132,7 +135,8 @@ private:
     QLabel *heading_, *meaning_, *empty_, *hint_, *partial_ = nullptr;
     QTableWidget *pooled_, *strata_;
     QTabWidget* charts_;
-    QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_;
+    QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_, *means_;
+    QLabel* pay_caution_;  ///< mean-gap findings: the pay-review caution
     QScrollArea* forest_scroll_;
     QButtonGroup* decision_;
     QPlainTextEdit* note_;

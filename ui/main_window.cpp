@@ -216,6 +216,13 @@ void MainWindow::go_to(int s) {
         if (QAction* a = action(QStringLiteral("action_step_%1").arg(i))) a->setChecked(i == s);
 }
 
+/// The key a finding's review is saved under in the project file.
+static project::FindingKey finding_key(const FindingView& f, const std::vector<std::string>& strata) {
+    const std::string a = f.focal.toStdString(), b = f.reference.toStdString();
+    if (f.mean) return project::mean_key(strata, f.outcome.toStdString(), a, b);
+    return f.slope ? project::slope_key(strata, a, b) : project::rate_key(strata, a, b);
+}
+
 /// The finding as the Diagram step names it: "Reversal: product (B vs A)".
 static QString finding_words(const FindingView& f) {
     QString cls = QString::fromUtf8(to_string(f.cls).data());
@@ -270,8 +277,9 @@ bool MainWindow::start_scan() {
         const QuestionSpec& q = last_question_;
         const QString data = source_->kind() == SourceKind::File ? QFileInfo(source_->source()).fileName() : source_->source();
         findings_->set_export_context(
-            audit_name(), q.slope ? tr("%1 — trend of %2 on %3").arg(data, q.outcome, q.exposure)
-                                  : tr("%1 — %2 = %3, %4 against %5 (%6)")
+            audit_name(), q.slope  ? tr("%1 — trend of %2 on %3").arg(data, q.outcome, q.exposure)
+                          : q.mean ? tr("%1 — mean %2, %3 against %4 (%5)").arg(data, q.outcome, q.focal, q.reference, q.exposure)
+                                   : tr("%1 — %2 = %3, %4 against %5 (%6)")
                                         .arg(data, q.outcome, q.positive, q.focal, q.reference, q.exposure));
     }
     action("action_stop")->setEnabled(true);
@@ -603,8 +611,7 @@ Result<project::Project> MainWindow::current_project() const {
     for (const FindingView& f : model_->findings()) {
         std::vector<std::string> strata;
         for (const QString& s : f.strata) strata.push_back(s.toStdString());
-        const project::FindingKey key = f.slope ? project::slope_key(strata, f.focal.toStdString(), f.reference.toStdString())
-                                                : project::rate_key(strata, f.focal.toStdString(), f.reference.toStdString());
+        const project::FindingKey key = finding_key(f, strata);
         project::FindingReview& r = p.review_for(key);
         r.saved_class = f.cls;
         r.decision = f.decision;
@@ -715,13 +722,6 @@ Status MainWindow::save_project_to(const QString& path) {
 Status MainWindow::open_project(const QString& path) {
     auto p = project::load_project(path.toStdString());
     if (!p) return p.error();
-    // The workbench shows rate and trend audits only: opening a mean-gap audit here would show
-    // it as a rate audit and lose its question on save, so it is refused, with where to run it.
-    if (p->question.kind == project::QuestionKind::Mean)
-        return make_error("this audit asks a mean-gap question (the mean of " + p->question.outcome +
-                              " between groups), which the workbench cannot show yet; run it with `foldline run " +
-                              path.toStdString() + "` (the file was not changed)",
-                          path.toStdString());
     open_project_document(*p, path);
     add_recent_audit(path);
     return Ok{};
@@ -786,9 +786,7 @@ void MainWindow::restore_pending() {
         const FindingView* f = model_->at(i);
         std::vector<std::string> strata;
         for (const QString& s : f->strata) strata.push_back(s.toStdString());
-        const project::FindingKey key =
-            f->slope ? project::slope_key(strata, f->focal.toStdString(), f->reference.toStdString())
-                     : project::rate_key(strata, f->focal.toStdString(), f->reference.toStdString());
+        const project::FindingKey key = finding_key(*f, strata);
         if (const project::FindingReview* r = p.review(key))
             model_->set_review(i, r->decision, QString::fromStdString(r->note), QString::fromStdString(r->applied_from));
     }

@@ -12,6 +12,7 @@
 #include "ui/caution_band.h"
 #include "ui/engine.h"
 #include "ui/findings_model.h"
+#include "ui/mean_view.h"
 
 namespace foldline::ui {
 
@@ -68,6 +69,11 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     if (q && q->slope)
         h += tr("<p><b>Question:</b> does <i>%1</i> rise or fall with <i>%2</i>, and does the answer change within "
                 "strata of %3?</p>").arg(esc(q->outcome), esc(q->exposure), esc(q->candidates.join(QStringLiteral(", "))));
+    else if (q && q->mean && !q->outcome.isEmpty())
+        h += tr("<p><b>Question:</b> is the mean of <i>%1</i> different for <i>%2</i> than for <i>%3</i> "
+                "(column <i>%4</i>), and does the answer change within strata of %5?</p>")
+                 .arg(esc(q->outcome), esc(q->focal), esc(q->reference), esc(q->exposure),
+                      esc(q->candidates.join(QStringLiteral(", "))));
     else if (q && !q->outcome.isEmpty())
         h += tr("<p><b>Question:</b> is the rate of <i>%1 = %2</i> different for <i>%3</i> than for <i>%4</i> "
                 "(column <i>%5</i>), and does the answer change within strata of %6?</p>")
@@ -80,7 +86,8 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
     const bool trend = q && q->slope;
     h += tr("<table border='1' cellspacing='0' cellpadding='4'><tr><th>Class</th><th>Stratified by</th><th>%1</th>"
             "<th>%2</th><th>q-value</th><th>Decision</th><th>Note</th></tr>")
-             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"), trend ? tr("Within slope") : tr("Adjusted gap (Mantel-Haenszel)"));
+             .arg(trend ? tr("Pooled slope") : tr("Pooled gap"),
+                  trend ? tr("Within slope") : q && q->mean ? tr("Within-strata gap (fixed effects)") : tr("Adjusted gap (Mantel-Haenszel)"));
     std::vector<const FindingView*> order;
     for (const FindingView& f : model_->findings()) order.push_back(&f);
     std::stable_sort(order.begin(), order.end(), [](const FindingView* a, const FindingView* b) {
@@ -95,6 +102,7 @@ void MemoPage::refresh(const QString& source, const QuestionSpec* q) {
                       esc(decision_title(f->decision)), esc(f->note));
     h += QStringLiteral("</table>");
     h += QStringLiteral("<p><i>%1</i></p>").arg(esc(caution_text()));
+    if (q && q->mean) h += QStringLiteral("<p><i>%1</i></p>").arg(esc(pay_review_caution()));
     text_->setHtml(h);
 }
 

@@ -96,11 +96,32 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     slopes_ = new QRadioButton(tr("Trend: a numeric outcome against a numeric exposure"));
     slopes_->setObjectName(QStringLiteral("kind_slopes"));
     slopes_->setToolTip(tr("Is the slope of the outcome on the exposure different within strata than pooled?"));
-    connect(slopes_, &QRadioButton::toggled, this, [this](bool on) { set_kind(on); });
+    means_ = new QRadioButton(tr("Means: a numeric outcome between two groups"));
+    means_->setObjectName(QStringLiteral("kind_means"));
+    means_->setToolTip(tr("Is the difference in the mean of a numeric outcome (pay, a lab value) between two groups "
+                          "different within strata than pooled?"));
+    // One toggle per change of kind: the button switched on refills the choices.
+    for (QRadioButton* b : {rates_, slopes_, means_})
+        connect(b, &QRadioButton::toggled, this, [this](bool on) { if (on) set_kind(); });
+    log_outcome_ = new QCheckBox(tr("Analyse the logarithm of the outcome (gaps also as percentages)"));
+    log_outcome_->setObjectName(QStringLiteral("log_outcome"));
+    log_outcome_->setToolTip(tr("For pay and other positive amounts: differences of log values, read as percentages "
+                                "exp(d) − 1; every value must be above 0"));
+    pay_gap_ = new QCheckBox(tr("Pay-gap conventions (gap as % of the reference mean, medians, strata at 5%)"));
+    pay_gap_->setObjectName(QStringLiteral("pay_gap"));
+    pay_gap_->setToolTip(tr("Adds the mean and median gaps as a percentage of the reference group's figures and "
+                            "flags each stratum whose gap reaches 5%"));
+    for (QCheckBox* b : {log_outcome_, pay_gap_})
+        connect(b, &QCheckBox::toggled, this, [this] { if (!filling_) validate(); });
     auto* who = new QGroupBox(tr("What is compared"));
     auto* f = who_form_ = new QFormLayout(who);
     f->addRow(rates_);
     f->addRow(slopes_);
+    f->addRow(means_);
+    f->addRow(log_outcome_);
+    f->addRow(pay_gap_);
+    f->setRowVisible(log_outcome_, false);  // rates first: set_kind shows them for means
+    f->setRowVisible(pay_gap_, false);
     f->addRow(tr("Outcome"), outcome_);
     f->addRow(tr("Counts as positive"), positive_);
     f->addRow(tr("Groups column"), exposure_);
@@ -357,6 +378,8 @@ void QuestionPage::reset_settings() {
     bootstrap_->setValue(200);
     seed_->setText(QStringLiteral("1"));
     find_groups_->setChecked(false);
+    log_outcome_->setChecked(false);
+    pay_gap_->setChecked(false);
     all_candidates_ = false;
     filling_ = was;
 }
@@ -378,7 +401,7 @@ void QuestionPage::set_table(std::shared_ptr<const Table> table, bool new_data) 
     if (new_data) {
         reset_settings();
         // A new data set starts from the rates question; the kind follows its columns below.
-        if (slopes_->isChecked()) rates_->setChecked(true);  // set_kind refills from the new table
+        if (!rates_->isChecked()) rates_->setChecked(true);  // set_kind refills from the new table
     }
     filling_ = true;
     rows_->clear();       // a filter of the previous data set does not carry over
@@ -403,13 +426,19 @@ void QuestionPage::set_table(std::shared_ptr<const Table> table, bool new_data) 
     validate();
 }
 
-void QuestionPage::set_kind(bool slope) {
-    who_form_->setRowVisible(positive_, !slope);
+void QuestionPage::set_kind() {
+    const bool slope = slopes_->isChecked(), mean = means_->isChecked();
+    who_form_->setRowVisible(positive_, !slope && !mean);
     who_form_->setRowVisible(focal_, !slope);
     who_form_->setRowVisible(reference_, !slope);
+    who_form_->setRowVisible(log_outcome_, mean);
+    who_form_->setRowVisible(pay_gap_, mean);
     who_form_->setRowVisible(combine_, !slope);
     if (find_groups_) find_groups_->setVisible(slope);
-    who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : tr("Outcome"));
+    outcome_->setToolTip(slope  ? tr("The numeric outcome (y)")
+                         : mean ? tr("The numeric outcome whose mean is compared between the groups")
+                                : tr("The yes/no result whose rate is compared between the groups"));
+    who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : mean ? tr("Numeric outcome") : tr("Outcome"));
     who_form_->labelForField(exposure_)->setProperty("text", slope ? tr("Exposure (x)") : tr("Groups column"));
     fill_columns();
 }
@@ -425,7 +454,7 @@ void QuestionPage::fill_columns() {
         filling_ = false;
         return;
     }
-    const bool slope = slopes_->isChecked();
+    const bool slope = slopes_->isChecked(), mean = means_->isChecked();
     QString outcome_guess, group_guess;
     for (const Column& c : table_->columns) {
         const QString name = QString::fromStdString(c.name);
@@ -433,7 +462,7 @@ void QuestionPage::fill_columns() {
             if (c.is_numeric()) outcome_->addItem(name), exposure_->addItem(name);
             continue;
         }
-        if (c.is_binary()) outcome_->addItem(name);
+        if (mean ? c.is_numeric() : c.is_binary()) outcome_->addItem(name);
         if (c.is_categorical() && c.levels.size() >= 2) exposure_->addItem(name);
     }
     if (slope) {
@@ -442,8 +471,9 @@ void QuestionPage::fill_columns() {
         for (int i = 0; i < exposure_->count() && group_guess.isEmpty(); ++i)
             if (exposure_->itemText(i) != outcome_guess) group_guess = exposure_->itemText(i);
     } else {
-        // Default outcome: a binary column with a positive-looking level, else the last one.
-        for (int i = 0; i < outcome_->count(); ++i) {
+        // Default outcome: a binary column with a positive-looking level (means: none), else the
+        // last one.
+        for (int i = 0; i < outcome_->count() && !mean; ++i) {
             const Column* c = table_->column(outcome_->itemText(i).toStdString());
             bool pos = c->is_numeric();
             for (const auto& l : c->levels) pos = pos || looks_positive(QString::fromStdString(l));
@@ -481,6 +511,7 @@ void QuestionPage::refresh_candidates() {
     if (table_) {
         QuestionSpec q;
         q.slope = slopes_->isChecked();
+        q.mean = means_->isChecked();
         q.outcome = outcome_->currentText();
         q.exposure = groups_name();
         q.bins = bins_->value();
@@ -509,8 +540,11 @@ void QuestionPage::refresh_candidates() {
 QuestionSpec QuestionPage::spec() const {
     QuestionSpec q;
     q.slope = slopes_->isChecked();
+    q.mean = means_->isChecked();
+    q.log_outcome = q.mean && log_outcome_->isChecked();
+    q.pay_gap = q.mean && pay_gap_->isChecked();
     q.outcome = outcome_->currentText();
-    q.positive = q.slope ? QString() : positive_->currentText();
+    q.positive = q.slope || q.mean ? QString() : positive_->currentText();
     q.exposure = groups_name();
     q.focal = q.slope ? QString() : focal_->currentText();
     q.reference = q.slope ? QString() : reference_->currentText();
@@ -538,7 +572,10 @@ QuestionSpec QuestionPage::spec() const {
 }
 
 void QuestionPage::set_spec(const QuestionSpec& q) {
-    if (q.slope != slopes_->isChecked()) (q.slope ? slopes_ : rates_)->setChecked(true);
+    QRadioButton* kind = q.slope ? slopes_ : q.mean ? means_ : rates_;
+    if (!kind->isChecked()) kind->setChecked(true);
+    log_outcome_->setChecked(q.mean && q.log_outcome);
+    pay_gap_->setChecked(q.mean && q.pay_gap);
     covariates_ = q.covariates;
     refresh_candidates();  // covariates are not offered as strata
     outcome_->setCurrentText(q.outcome);

@@ -61,7 +61,7 @@ private:
     void refresh_candidates();
     void validate();
     void fill_columns();
-    void set_kind(bool slope);
+    void set_kind();
     void reset_settings();
     QString groups_name() const;  ///< the groups column, joined with the combined columns by "+"
     void refill_combine();        ///< the "Combined with" list for the current groups column
@@ -72,7 +72,8 @@ private:
 
     std::shared_ptr<const Table> table_;
     QComboBox *outcome_, *positive_, *exposure_, *focal_, *reference_;
-    QRadioButton *rates_, *slopes_;
+    QRadioButton *rates_, *slopes_, *means_;
+    QCheckBox *log_outcome_ = nullptr, *pay_gap_ = nullptr;  ///< means only
     QFormLayout* who_form_;
     QListWidget* candidates_;
     QCheckBox* pairs_;

@@ -139,6 +139,12 @@ bool ScanPage::start(std::shared_ptr<const Table> table, const QuestionSpec& q, 
                                .arg(q.outcome.toHtmlEscaped(), q.exposure.toHtmlEscaped())
                                .arg(q.candidates.size())
                                .arg(q.pairs ? tr(" and their pairs") : QString()));
+    else if (q.mean)
+        question_->setText(tr("Mean%1 of <b>%2</b> for <b>%3</b> against <b>%4</b> (column %5), pooled and within strata of %6 candidate(s)%7.")
+                               .arg(q.log_outcome ? tr(" log") : QString(), q.outcome.toHtmlEscaped(), q.focal.toHtmlEscaped(),
+                                    q.reference.toHtmlEscaped(), q.exposure.toHtmlEscaped())
+                               .arg(q.candidates.size())
+                               .arg(q.pairs ? tr(" and their pairs") : QString()));
     else
     question_->setText(tr("Rate of <b>%1 = %2</b> for <b>%3</b> against <b>%4</b> (column %5), stratified by %6 candidate(s)%7.")
                            .arg(q.outcome.toHtmlEscaped(), q.positive.toHtmlEscaped(), q.focal.toHtmlEscaped(),

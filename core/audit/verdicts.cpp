@@ -109,6 +109,33 @@ Result<FindingVerdict> slope_verdict(const causal::CausalGraph& graph, const Sca
     return out;
 }
 
+Result<FindingVerdict> mean_verdict(const causal::CausalGraph& graph, const ScanResult& result, const MeanFinding& f,
+                                    const Table* table, const EstimateSettings& settings) {
+    auto v = causal::decide(graph, result.question.exposure, f.outcome, f.strata);
+    if (!v) return v.error();
+    FindingVerdict out;
+    const auto view = view_of(*v, f.strata);
+    using View = AdjustedEstimate::View;
+    constexpr const char* measure = "mean_difference";
+    if (view == View::Pooled) {
+        const auto& d = f.crude.difference;
+        out.estimate = estimate(View::Pooled, {}, measure, d.estimate, d.ci_low, d.ci_high);
+    } else if (view == View::Stratified) {
+        // The fixed-effects difference with its HC1 interval: the figure the class is decided on.
+        const auto& fe = f.fixed_effects;
+        out.estimate = estimate(View::Stratified, f.strata, measure, fe.estimate, fe.robust.ci_low, fe.robust.ci_high);
+    } else if (view == View::Standardised) {
+        auto e = estimate_over_set(result, FindingKind::Mean, table, *v->standardise_over, settings, f.comparison);
+        if (e)
+            out.estimate = estimate(View::Standardised, *v->standardise_over, measure, e->estimate, e->ci_low,
+                                    e->ci_high);
+        else
+            out.estimate_problem = e.error().message;
+    }
+    out.verdict = std::move(*v);
+    return out;
+}
+
 Result<FindingVerdict> judge(const causal::Diagram& diagram, const std::string& exposure, const std::string& outcome,
                              const std::vector<std::string>& strata, const ScanResult* result, const Table* table,
                              const EstimateSettings& settings) {
@@ -119,6 +146,9 @@ Result<FindingVerdict> judge(const causal::Diagram& diagram, const std::string& 
         if (result->question.exposure == exposure && result->question.outcome == outcome)
             for (const auto& f : result->rate_findings)
                 if (f.strata == strata) return rate_verdict(*graph, *result, f, table, settings);
+        if (result->question.exposure == exposure)
+            for (const auto& f : result->mean_findings)
+                if (f.outcome == outcome && f.strata == strata) return mean_verdict(*graph, *result, f, table, settings);
         for (const auto& f : result->slope_findings)
             if (f.x == exposure && f.y == outcome && f.strata == strata)
                 return slope_verdict(*graph, *result, f, table, settings);
@@ -139,11 +169,13 @@ std::string attach_verdicts(ScanResult& result, const Table* table, const causal
     };
     for (auto& f : result.rate_findings) clear(f);
     for (auto& f : result.slope_findings) clear(f);
+    for (auto& f : result.mean_findings) clear(f);
     if (diagram.nodes.empty()) return problem;
     auto graph = causal::CausalGraph::build(diagram);
     if (!graph) {
         for (auto& f : result.rate_findings) f.verdict_problem = graph.error().message;
         for (auto& f : result.slope_findings) f.verdict_problem = graph.error().message;
+        for (auto& f : result.mean_findings) f.verdict_problem = graph.error().message;
         return graph.error().message;
     }
     auto keep = [&](FindingHeader& f, Result<FindingVerdict> v) {
@@ -165,6 +197,10 @@ std::string attach_verdicts(ScanResult& result, const Table* table, const causal
         if (auto st = all_columns_in(diagram, f.x, f.y, f.strata); !st) keep(f, st.error());
         else keep(f, slope_verdict(*graph, result, f, table, settings));
     }
+    for (auto& f : result.mean_findings) {
+        if (auto st = all_columns_in(diagram, result.question.exposure, f.outcome, f.strata); !st) keep(f, st.error());
+        else keep(f, mean_verdict(*graph, result, f, table, settings));
+    }
     return problem;
 }
 
@@ -184,9 +220,9 @@ Result<EstimateOver> estimate_over_set(const ScanResult& result, FindingKind kin
                                      settings.bins, settings.max_levels);
             break;
         case FindingKind::Mean:
-            // Mean-gap findings are not yet part of a scan (core/scan/mean_analysis.h is their
-            // statistics only), so no estimate over another set exists for them.
-            return make_error("an estimate over another set is not available for mean-gap findings yet");
+            e = fixed_effects_gap_over(*table, result.question, result.log_outcome, set, comparison, settings.alpha,
+                                       settings.bins, settings.max_levels);
+            break;
     }
     if (!e) return e;
     if (!std::isfinite(e->estimate))

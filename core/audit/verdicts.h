@@ -37,10 +37,18 @@ Result<FindingVerdict> rate_verdict(const causal::CausalGraph& graph, const Scan
 Result<FindingVerdict> slope_verdict(const causal::CausalGraph& graph, const ScanResult& result,
                                      const SlopeFinding& finding, const Table* table, const EstimateSettings& settings);
 
+/// The same for a mean-gap finding: the pooled (Welch) difference, the fixed-effects difference
+/// within the finding's strata with its HC1 interval (the figure its class is decided on), or the fixed-effects
+/// difference over the joint strata of another set (fixed_effects_gap_over), measure
+/// "mean_difference" (of log y on the log scale).
+Result<FindingVerdict> mean_verdict(const causal::CausalGraph& graph, const ScanResult& result,
+                                    const MeanFinding& finding, const Table* table, const EstimateSettings& settings);
+
 /// The verdict of `diagram` on the finding of `result` that compares `exposure` and `outcome`
 /// stratified by `strata` (a rate finding of the result's question, first comparison with those
-/// strata, or a slope finding of x = exposure, y = outcome), with its estimate as rate_verdict and
-/// slope_verdict give it. With no such finding (or no result: a diagram judged before any scan)
+/// strata, a mean-gap finding of the result's groups and outcome, or a slope finding of
+/// x = exposure, y = outcome), with its estimate as rate_verdict, mean_verdict and slope_verdict
+/// give it. With no such finding (or no result: a diagram judged before any scan)
 /// the verdict alone, without an estimate. Errors: an invalid diagram, or one that cannot judge.
 Result<FindingVerdict> judge(const causal::Diagram& diagram, const std::string& exposure, const std::string& outcome,
                              const std::vector<std::string>& strata, const ScanResult* result, const Table* table,
@@ -53,10 +61,10 @@ std::string attach_verdicts(ScanResult& result, const Table* table, const causal
                             const EstimateSettings& settings);
 
 /// The adjusted estimate over the joint strata of `set` for the result's question of `kind`: the
-/// rate difference of comparison `comparison` standardised to the set's pooled mix, or the
-/// trend's (result.slope_question) within slope with one intercept per joint stratum. Errors: an
-/// empty set, an unknown column, no rows (null table), no joint stratum informing it, or a
-/// mean-gap kind (not yet wired into scans).
+/// rate difference of comparison `comparison` standardised to the set's pooled mix, the mean
+/// gap's fixed-effects difference of that comparison over the set's joint strata, or the trend's
+/// (result.slope_question) within slope with one intercept per joint stratum. Errors: an empty
+/// set, an unknown column, no rows (null table), no joint stratum informing it.
 Result<EstimateOver> estimate_over_set(const ScanResult& result, FindingKind kind, const Table* table,
                                        const std::vector<std::string>& set, const EstimateSettings& settings,
                                        std::size_t comparison = 0);

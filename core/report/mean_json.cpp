@@ -1,6 +1,7 @@
 #include "core/report/mean_json.h"
 
 #include "core/report/json_number.h"
+#include "core/report/verdict_json.h"
 
 namespace foldline {
 namespace {
@@ -115,6 +116,7 @@ json to_json(const MeanFinding& f) {
                         {"reason", r.reason.empty() ? json(nullptr) : json(r.reason)}});
     j["strata_table"] = std::move(rows);
     j["uninformative"] = f.uninformative;
+    j["verdict"] = f.verdict ? report::verdict_to_json(*f.verdict) : json(nullptr);
     return j;
 }
 

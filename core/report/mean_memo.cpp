@@ -56,6 +56,28 @@ std::string lead(const MeanFinding& f) {
     return s;
 }
 
+/// The diagram's verdict on the finding with the estimate it points to (core/audit/verdicts.h);
+/// without a diagram, which question each view answers.
+std::string verdict_words(const MeanFinding& f) {
+    if (f.verdict) {
+        const FindingVerdict& v = *f.verdict;
+        std::string s = "Under the causal diagram: " + v.verdict.reason;
+        if (const auto& e = v.estimate) {
+            const std::string what = e->view == AdjustedEstimate::View::Pooled ? "the pooled difference (Welch)"
+                                     : "the fixed-effects difference within " + joined(e->over, " × ") + " (HC1)";
+            s += " The figure to quote is " + what + ": " + diff(e->estimate) + " " + ci(e->ci_low, e->ci_high) + ".";
+        } else if (!v.estimate_problem.empty()) {
+            s += " No estimate over that set: " + v.estimate_problem + ".";
+        }
+        return s;
+    }
+    if (!f.verdict_problem.empty()) return "The diagram cannot judge this finding: " + f.verdict_problem + ".";
+    return "Which view answers the question depends on how the columns cause each other: the pooled gap "
+           "is the total difference between the groups; the within-strata gap holds the stratifier "
+           "fixed, which is the right comparison for a confounder and the wrong one for a mediator "
+           "(a step on the path from group to outcome, as a grade can be in a pay review).";
+}
+
 MemoTable figures(const MeanFinding& f) {
     MemoTable t;
     t.header = {"Figure", "Estimate", "Interval", "p"};
@@ -197,10 +219,7 @@ void fill_mean_memo(MemoContent& m, const MemoInput& in) {
         sec.lead = lead(f);
         sec.figures = figures(f);
         sec.strata = strata(f);
-        sec.verdict = "Which view answers the question depends on how the columns cause each other: the pooled gap "
-                      "is the total difference between the groups; the within-strata gap holds the stratifier "
-                      "fixed, which is the right comparison for a confounder and the wrong one for a mediator "
-                      "(a step on the path from group to outcome, as a grade can be in a pay review).";
+        sec.verdict = verdict_words(f);
         sec.decomposition = "Of the pooled difference " + diff(f.decomposition.crude_gap) + ", " +
                             diff(f.decomposition.within) + " is the within-strata part and " +
                             diff(f.decomposition.composition) +

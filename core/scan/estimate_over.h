@@ -40,4 +40,17 @@ Result<EstimateOver> within_slope_over(const Table& table, const SlopeQuestion& 
                                        const std::vector<std::string>& set, int bins = 4,
                                        std::size_t max_levels = 50);
 
+/// The mean-gap difference of comparison `comparison` (0-based, as in MeanFinding::comparison) of
+/// the groups in `groups` (resolve_groups; outcome_column names the numeric outcome) with one
+/// level per joint stratum of `set`: the fixed-effects (within-strata) difference, i.e. the group
+/// coefficient of OLS of y (log y when `log_outcome`) on the group indicator plus joint-stratum
+/// indicators, with its HC1 t interval at level 1 - alpha as the scan's class uses it
+/// (core/stats/mean_gap.h). Rows
+/// missing the outcome, the group or any column of the set, with a weight <= 0 or (log scale)
+/// with y <= 0 are left out. NaN estimate when no joint stratum holds both groups. Errors: those
+/// of joint_stratifier, an outcome that is not numeric.
+Result<EstimateOver> fixed_effects_gap_over(const Table& table, const Question& groups, bool log_outcome,
+                                            const std::vector<std::string>& set, std::size_t comparison,
+                                            double alpha = 0.05, int bins = 4, std::size_t max_levels = 50);
+
 }  // namespace foldline

@@ -40,7 +40,7 @@ struct AdjustedEstimate {
     enum class View { Pooled, Stratified, Standardised };
     View view = View::Pooled;
     std::vector<std::string> over;  ///< the set adjusted for (empty for the pooled view)
-    std::string measure;            ///< "risk_difference" or "slope"
+    std::string measure;            ///< "risk_difference", "slope" or "mean_difference"
     double estimate = 0, ci_low = 0, ci_high = 0;  ///< ci NaN when undefined
 };
 

@@ -87,6 +87,24 @@ private slots:
         q.all_candidates = true;
         QVERIFY(audit_spec(q, base).scan.strata.empty());
         QVERIFY(question_spec(audit_spec(q, base)).all_candidates);
+        // A mean question keeps its kind, groups and both switches; no positive level is saved.
+        ui::QuestionSpec m;
+        m.mean = true;
+        m.outcome = "base_pay";
+        m.positive = "ignored";
+        m.exposure = "gender";
+        m.focal = "woman";
+        m.reference = "man";
+        m.log_outcome = true;
+        m.pay_gap = true;
+        const project::AuditSpec ms = audit_spec(m, {});
+        QCOMPARE(ms.question.kind, project::QuestionKind::Mean);
+        QVERIFY(ms.question.log_outcome && ms.question.pay_gap);
+        QVERIFY(!ms.question.positive.has_value());
+        const ui::QuestionSpec mb = question_spec(ms);
+        QVERIFY(mb.mean && !mb.slope && mb.log_outcome && mb.pay_gap);
+        QCOMPARE(mb.focal, QStringLiteral("woman"));
+        QCOMPARE(mb.reference, QStringLiteral("man"));
     }
 
     void workbench_and_run_agree_on_json_and_memo() {
@@ -257,6 +275,77 @@ private slots:
         QFile f(path);
         QVERIFY(f.open(QIODevice::ReadOnly));
         QCOMPARE(f.readAll(), saved);
+    }
+
+    // The saved pay review (sample_data/pay_audit.foldline, an invented employer) with settings
+    // off the defaults (log outcome, 6 bins, alpha 0.5, a rows filter): the workbench and
+    // `foldline run` give the same JSON, verdicts included, and the same memo with the pay caution.
+    void workbench_and_run_agree_on_a_mean_audit() {
+        const QString sample = find_sample("pay_audit.foldline");
+        if (sample.isEmpty()) QSKIP("sample_data/pay_audit.foldline not found");
+        const QString pdftotext = QStandardPaths::findExecutable("pdftotext");
+        if (pdftotext.isEmpty()) QSKIP("poppler-utils (pdftotext) not installed");
+        auto loaded = project::load_project(sample.toStdString());
+        QVERIFY(loaded.ok());
+        project::Project p = std::move(*loaded);
+        QCOMPARE(p.question.kind, project::QuestionKind::Mean);
+        p.question.log_outcome = true;
+        p.scan.seed = kSeed;
+        p.scan.bins = 6;
+        p.scan.alpha = 0.5;
+        p.question.rows = "site <> 'Fenmoor'";
+        auto table = read_csv(p.data.path, project::reading_options(p.data));
+        QVERIFY(table.ok());
+        QVERIFY(project::record_data(p.data, *table).ok());
+        QTemporaryDir dir;
+        const QString path = dir.filePath(QStringLiteral("pay settings.foldline"));
+        QVERIFY(project::save_project(p, path.toStdString()).ok());
+
+        QProcess run;
+        run.start(QStringLiteral(FOLDLINE_CLI),
+                  {QStringLiteral("run"), path, QStringLiteral("--json"), dir.filePath("run.json"), QStringLiteral("--memo"),
+                   dir.filePath("run.pdf")});
+        QVERIFY(run.waitForFinished(300000));
+        QVERIFY2(run.exitCode() == 0 || run.exitCode() == 4, run.readAllStandardError().constData());
+        QFile json_file(dir.filePath("run.json"));
+        QVERIFY(json_file.open(QIODevice::ReadOnly));
+        const auto from_run = nlohmann::json::parse(json_file.readAll().toStdString());
+
+        MainWindow w;
+        QVERIFY(w.open_project(path).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(w.scan_page()->scan_result() && !w.scan_page()->running() &&
+                                     w.findings_model()->size() > 0,
+                                 300000);
+        QTest::qWait(200);
+        const ui::QuestionSpec q = w.question_page()->spec();
+        QVERIFY(q.mean && q.log_outcome && q.pay_gap);
+        const auto result = w.scan_page()->scan_result();
+        QVERIFY(result->mean_scan);
+        const DataInfo info{p.data.path, from_run["data"]["sha256"].get<std::string>(),
+                            from_run["data"]["rows"].get<double>()};
+        const auto from_workbench = nlohmann::json::parse(scan_json_text(*result, info));
+        QCOMPARE(from_workbench["findings"].size(), from_run["findings"].size());
+        for (std::size_t i = 0; i < from_run["findings"].size(); ++i)
+            QVERIFY2(from_workbench["findings"][i] == from_run["findings"][i],
+                     qPrintable(QString::fromStdString(from_run["findings"][i]["strata"].dump())));
+        QVERIFY(from_workbench == from_run);
+        bool quoted = false;  // the diagram's verdicts carry a mean-gap estimate
+        for (const auto& f : from_run["findings"])
+            if (f["kind"] == "mean" && f["verdict"].is_object() && f["verdict"]["adjusted_estimate"].is_object())
+                quoted = quoted || f["verdict"]["adjusted_estimate"]["measure"] == "mean_difference";
+        QVERIFY(quoted);
+
+        QVERIFY(w.export_memo_to(dir.filePath("workbench.pdf")).ok());
+        const QString a = pdf_text(pdftotext, dir.filePath("run.pdf"));
+        const QString b = pdf_text(pdftotext, dir.filePath("workbench.pdf"));
+        QVERIFY(!a.isEmpty());
+        QVERIFY(a.simplified().contains(QStringLiteral("not a legal determination under equal-pay law")));
+        if (a != b) {
+            const QStringList la = a.split(QLatin1Char('\n')), lb = b.split(QLatin1Char('\n'));
+            for (int i = 0; i < std::min(la.size(), lb.size()); ++i)
+                if (la[i] != lb[i]) QFAIL(qPrintable(QStringLiteral("line %1:\n run: %2\n workbench: %3").arg(i + 1).arg(la[i], lb[i])));
+            QFAIL("the memos differ in length");
+        }
     }
 };
 

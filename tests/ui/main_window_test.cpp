@@ -8,6 +8,7 @@
 #include <QListWidget>
 #include <QMenu>
 #include <QPushButton>
+#include <QRadioButton>
 #include <QSpinBox>
 #include <QTableView>
 #include <QTimer>
@@ -19,6 +20,7 @@
 #include <QTableWidget>
 #include <QUndoStack>
 #include <QtTest>
+#include <qcustomplot.h>
 
 #include "ui/caution_band.h"
 #include "ui/counts_grid.h"
@@ -444,28 +446,91 @@ private slots:
         QVERIFY(!w.source_page()->table());
     }
 
-    // A mean-gap audit is refused with a message that points at `foldline run`, and the file
-    // is left as it was: the workbench never shows it as a rate audit (nor saves it as one).
-    void mean_project_is_refused_not_opened_as_rates() {
+    // A pay review through the workbench (sample_data/pay_review.csv, an invented employer):
+    // open the rows, choose "Means", scan, open the grade finding: group means per stratum beside
+    // the pooled ones, the gap, mix, decomposition and group-means charts, the pay-review caution
+    // in view. Saved and opened again, the audit keeps its kind, settings and the reviewer's note.
+    // With FOLDLINE_SHOT_DIR set the window is also grabbed to a PNG there, for a person to look at.
+    void mean_audit_opens_scans_shows_and_reopens() {
+        if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
+        const QString csv = find_sample("pay_review.csv");
+        if (csv.isEmpty()) QSKIP("sample_data/pay_review.csv not found");
         QTemporaryDir dir;
-        const QString path = dir.filePath("pay.foldline");
-        project::Project p;
-        p.data.path = dir.filePath("pay.csv").toStdString();
-        p.question.kind = project::QuestionKind::Mean;
-        p.question.outcome = "salary";
-        p.question.exposure = "group";
-        QVERIFY(project::save_project(p, path.toStdString()).ok());
-        QFile f(path);
-        QVERIFY(f.open(QIODevice::ReadOnly));
-        const QByteArray before = f.readAll();
-        f.close();
         MainWindow w;
-        const Status st = w.open_project(path);
-        QVERIFY(!st.ok());
-        const QString msg = QString::fromStdString(st.error().to_string());
-        QVERIFY2(msg.contains("foldline run") && msg.contains("mean-gap"), qPrintable(msg));
-        QVERIFY(f.open(QIODevice::ReadOnly));
-        QCOMPARE(f.readAll(), before);
+        w.resize(1500, 950);
+        w.show();
+        w.source_page()->open_path(csv);
+        QTRY_VERIFY_WITH_TIMEOUT(!w.source_page()->loading(), 60000);
+        QVERIFY(w.source_page()->table());
+        auto* means = w.question_page()->findChild<QRadioButton*>("kind_means");
+        QVERIFY(means);
+        means->click();
+        QuestionSpec q = w.question_page()->spec();
+        QVERIFY(q.mean && !q.slope);
+        q.outcome = QStringLiteral("base_pay");
+        q.exposure = QStringLiteral("gender");
+        q.focal = QStringLiteral("woman");
+        q.reference = QStringLiteral("man");
+        q.pay_gap = true;
+        q.candidates = {QStringLiteral("grade"), QStringLiteral("site")};
+        w.question_page()->set_spec(q);
+        QVERIFY2(w.question_page()->problems().isEmpty(), qPrintable(w.question_page()->problems().join("; ")));
+        QVERIFY(w.start_scan());
+        QTRY_VERIFY_WITH_TIMEOUT(!w.scan_page()->running(), 120000);
+        QTRY_VERIFY_WITH_TIMEOUT(w.findings_model()->size() == 3, 10000);  // grade, site, grade × site
+        w.go_to(MainWindow::Findings);
+        int grade = -1;
+        for (int i = 0; i < w.findings_model()->size(); ++i)
+            if (w.findings_model()->at(i)->strata == QStringList{"grade"}) grade = i;
+        QVERIFY(grade >= 0);
+        QVERIFY(w.findings_page()->select(grade));
+        const FindingView* f = w.findings_model()->at(grade);
+        QVERIFY(f->mean);
+        QCOMPARE(f->cls, FindingClass::Reversal);  // as `foldline run sample_data/pay_audit.foldline` says
+        FindingsPage* page = w.findings_page();
+        QVERIFY(page->pay_caution()->isVisible());
+        QVERIFY(page->pay_caution()->text().contains("equal-pay law"));
+        QVERIFY(page->pay_caution()->text().contains("counsel"));
+        QCOMPARE(page->strata_table()->rowCount(), int(f->rows.size()));
+        QVERIFY(page->strata_table()->horizontalHeaderItem(2)->text().contains("Mean woman"));
+        QTabWidget* tabs = page->chart_tabs();
+        QVERIFY(tabs->isTabVisible(0) && tabs->isTabVisible(1) && tabs->isTabVisible(2) && tabs->isTabVisible(5));
+        QVERIFY(!tabs->isTabVisible(3) && !tabs->isTabVisible(4));
+        tabs->setCurrentIndex(5);
+        QCOMPARE(page->current_chart()->objectName(), QStringLiteral("chart_means"));
+        QVERIFY(page->current_chart()->graphCount() == 2);  // focal and reference
+        if (const QByteArray shots = qgetenv("FOLDLINE_SHOT_DIR"); !shots.isEmpty()) {
+            QVERIFY(w.grab().save(QDir(QString::fromLocal8Bit(shots)).filePath("mean-findings-means.png")));
+            tabs->setCurrentIndex(0);
+            QVERIFY(w.grab().save(QDir(QString::fromLocal8Bit(shots)).filePath("mean-findings-gaps.png")));
+        }
+        w.findings_model()->set_decision(grade, Decision::FollowUp, QStringLiteral("ask about G4"));
+
+        const QString path = dir.filePath("pay.foldline");
+        QVERIFY(w.save_project_to(path).ok());
+        auto saved = project::load_project(path.toStdString());
+        QVERIFY(saved.ok());
+        QCOMPARE(saved->question.kind, project::QuestionKind::Mean);
+        QVERIFY(saved->question.pay_gap && !saved->question.log_outcome);
+        QCOMPARE(saved->question.outcome, std::string("base_pay"));
+        const auto* r = saved->review(project::mean_key({"grade"}, "base_pay", "woman", "man"));
+        QVERIFY(r);
+        QCOMPARE(r->note, std::string("ask about G4"));
+
+        MainWindow again;
+        QVERIFY(again.open_project(path).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(again.findings_model()->size() == 3, 120000);
+        const QuestionSpec back = again.question_page()->spec();
+        QVERIFY(back.mean && back.pay_gap && !back.log_outcome);
+        QCOMPARE(back.outcome, QStringLiteral("base_pay"));
+        QCOMPARE(back.focal, QStringLiteral("woman"));
+        QTRY_VERIFY_WITH_TIMEOUT([&] {
+            for (const FindingView& g : again.findings_model()->findings())
+                if (g.strata == QStringList{"grade"} && g.note == QStringLiteral("ask about G4") &&
+                    g.decision == Decision::FollowUp)
+                    return true;
+            return false;
+        }(), 60000);
     }
 
     // The audit has one diagram: selecting another finding (a click, or the keyboard moving

@@ -7,6 +7,8 @@
 
 #include <algorithm>
 
+#include "core/audit/project_file.h"
+#include "core/audit/run_audit.h"
 #include "core/io/csv_reader.h"
 #include "core/scan/question.h"
 
@@ -75,10 +77,71 @@ TEST(EstimateOverSet, RateDifferenceOverThreeColumns) {
     auto none = audit::estimate_over_set(r, FindingKind::Rate, &t, {"group", "a", "b"}, s);
     ASSERT_FALSE(none.ok());
     EXPECT_NE(none.error().message.find("both groups"), std::string::npos);
-    // Mean-gap findings are not wired into scans yet: an error that says so, not a rate estimate.
-    auto mean = audit::estimate_over_set(r, FindingKind::Mean, &t, {"a", "b", "c"}, s);
-    ASSERT_FALSE(mean.ok());
-    EXPECT_NE(mean.error().message.find("mean-gap"), std::string::npos);
+}
+
+// sample_data/pay_review.csv (invented employer); statsmodels 0.13.5 OLS
+// base_pay ~ woman + C(grade:site), cov_type="HC1" [calc]: coefficient 538.9567791791526, HC1 SE
+// 120.35535440941304, df_resid 2381, t interval (scipy.stats.t.ppf(0.975, 2381))
+// 302.9446451156914 to 774.9689132426138.
+TEST(EstimateOverSet, MeanGapFixedEffectsOverTwoColumns) {
+    auto t = read_csv(std::string(FOLDLINE_SOURCE_DIR) + "/sample_data/pay_review.csv");
+    ASSERT_TRUE(t.ok());
+    QuestionSpec spec;
+    spec.outcome = "base_pay";
+    spec.exposure = "gender";
+    spec.focal = {"woman"};
+    spec.reference = "man";
+    auto groups = resolve_groups(*t, spec);
+    ASSERT_TRUE(groups.ok()) << groups.error().message;
+    ScanResult r;
+    r.question = *groups;
+    auto f = audit::estimate_over_set(r, FindingKind::Mean, &*t, {"grade", "site"}, audit::EstimateSettings{});
+    ASSERT_TRUE(f.ok()) << f.error().message;
+    EXPECT_NEAR(f->estimate, 538.9567791791526, 1e-7);
+    EXPECT_NEAR(f->ci_low, 302.9446451156914, 1e-6);
+    EXPECT_NEAR(f->ci_high, 774.9689132426138, 1e-6);
+    EXPECT_EQ(f->strata, 18u);  // 6 grades × 3 sites (pandas nunique), every one holding both groups
+    // Errors say what is wrong: an unknown column, no rows.
+    EXPECT_FALSE(audit::estimate_over_set(r, FindingKind::Mean, &*t, {"grade", "nope"}, {}).ok());
+    EXPECT_FALSE(audit::estimate_over_set(r, FindingKind::Mean, nullptr, {"grade"}, {}).ok());
+}
+
+// The saved pay review (sample_data/pay_audit.foldline) through the audit service: its diagram
+// has gender -> grade -> base_pay and no arrow into gender, so for the total difference the
+// pooled view answers (back-door criterion, no confounder to adjust for) and the verdict quotes
+// the Welch pooled difference; a diagram with grade as a confounder (grade -> gender) points to
+// the within-grade fixed-effects difference with its HC1 interval, as the class uses it.
+TEST(MeanVerdict, PooledForAMediatorWithinForAConfounder) {
+    auto p = project::load_project(std::string(FOLDLINE_SOURCE_DIR) + "/sample_data/pay_audit.foldline");
+    ASSERT_TRUE(p.ok()) << p.error().message;
+    auto run = audit::run_audit(*p);
+    ASSERT_TRUE(run.ok()) << run.error().message;
+    const MeanFinding* grade = nullptr;
+    for (const auto& f : run->result.mean_findings)
+        if (f.strata == std::vector<std::string>{"grade"}) grade = &f;
+    ASSERT_NE(grade, nullptr);
+    ASSERT_TRUE(grade->verdict.has_value()) << grade->verdict_problem;
+    ASSERT_TRUE(grade->verdict->estimate.has_value());
+    const AdjustedEstimate& e = *grade->verdict->estimate;
+    EXPECT_EQ(e.view, AdjustedEstimate::View::Pooled);
+    EXPECT_EQ(e.measure, "mean_difference");
+    EXPECT_DOUBLE_EQ(e.estimate, grade->crude.difference.estimate);
+    EXPECT_LT(e.estimate, 0);  // pooled, women earn less in the invented sample
+
+    causal::Diagram d = p->diagram() ? *p->diagram() : causal::Diagram{};
+    for (auto& edge : d.edges)
+        if (edge.from == "gender" && edge.to == "grade") std::swap(edge.from, edge.to);
+    auto v = audit::judge(d, "gender", "base_pay", {"grade"}, &run->result, &run->table, audit::EstimateSettings{});
+    ASSERT_TRUE(v.ok()) << v.error().message;
+    ASSERT_TRUE(v->estimate.has_value());
+    EXPECT_EQ(v->estimate->view, AdjustedEstimate::View::Stratified);
+    EXPECT_DOUBLE_EQ(v->estimate->estimate, grade->fixed_effects.estimate);
+    EXPECT_DOUBLE_EQ(v->estimate->ci_low, grade->fixed_effects.robust.ci_low);
+    // statsmodels 0.13.5 OLS base_pay ~ woman + C(grade), HC1 [calc]: 524.5695513506938, t
+    // interval 278.52261299182544 to 770.6164897095622.
+    EXPECT_NEAR(v->estimate->estimate, 524.5695513506938, 1e-7);
+    EXPECT_NEAR(v->estimate->ci_low, 278.52261299182544, 1e-6);
+    EXPECT_NEAR(v->estimate->ci_high, 770.6164897095622, 1e-6);
 }
 
 // sample_data/retail_weeks.csv; statsmodels 0.13.5 OLS weekly_sales ~ promo_spend +
