@@ -1,16 +1,19 @@
 #!/bin/sh
 # Reader benchmark per file format (not a test): writes one invented table of ROWS rows
 # (default 60,000: an .xls sheet holds at most 65,536 rows) as CSV, then as SAS transport v5,
-# SAS data set, SPSS .sav, Stata .dta (R's haven), .xlsx (openpyxl) and .xls (xlwt), and times
-# `foldline inspect FILE` on each REPEAT times (default 5). Prints per format the file size, the
-# median wall and cpu time, MB/s of the file's own bytes, rows/s, and the wall-time ratio to the
-# CSV path on the same data. Needs r-cran-haven, python3-openpyxl and python3-xlwt.
-# Usage: bench/formats.sh     (environment: ROWS=60000 REPEAT=5 BUILD=dir DATA=dir)
+# SAS data set, SPSS .sav, Stata .dta (R's haven), .xlsx (openpyxl) and .xls (xlwt), and reads
+# each REPEAT times (default 5) in one process with `foldline_load_bench FILE --reader any`
+# (read_table, the entry point of every front end; THREADS reader threads, default 1, so every
+# format gets the same single core). Prints per format the file size, the median wall and cpu
+# time per read, MB/s of the file's own bytes, rows/s, and the wall-time ratio to the CSV path
+# on the same data. Needs r-cran-haven, python3-openpyxl and python3-xlwt.
+# Usage: bench/formats.sh     (environment: ROWS=60000 REPEAT=5 THREADS=1 BUILD=dir DATA=dir)
 set -eu
 here=$(cd "$(dirname "$0")" && pwd)
 repo=$(cd "$here/.." && pwd)
 rows=${ROWS:-60000}
 repeat=${REPEAT:-5}
+threads=${THREADS:-1}
 build=${BUILD:-$repo/build}
 data=${DATA:-$(mktemp -d)}
 py=/usr/bin/python3
@@ -58,20 +61,18 @@ for i, r in enumerate(rows[1:], start=1):
 wb.save(f"{out}/bench.xls")
 PY
 
-"$py" - "$build/app/foldline" "$data" "$rows" "$repeat" <<'PY'
-import os, resource, statistics, subprocess, sys, time
-exe, data, rows, repeat = sys.argv[1], sys.argv[2], int(sys.argv[3]), int(sys.argv[4])
+"$py" - "$build/bench/foldline_load_bench" "$data" "$rows" "$repeat" "$threads" <<'PY'
+import os, subprocess, sys
+exe, data, rows, repeat, threads = sys.argv[1], sys.argv[2], int(sys.argv[3]), sys.argv[4], sys.argv[5]
 def run(path):
-    walls, cpus = [], []
-    for _ in range(repeat):
-        before = resource.getrusage(resource.RUSAGE_CHILDREN)
-        t = time.perf_counter()
-        subprocess.run([exe, "inspect", path], check=True, stdout=subprocess.DEVNULL)
-        walls.append(time.perf_counter() - t)
-        after = resource.getrusage(resource.RUSAGE_CHILDREN)
-        cpus.append(after.ru_utime - before.ru_utime + after.ru_stime - before.ru_stime)
-    return statistics.median(walls), statistics.median(cpus)
-print(f"{rows} rows, 7 columns, medians of {repeat}; load average {os.getloadavg()[0]:.2f}")
+    out = subprocess.run([exe, path, "--repeat", repeat, "--threads", threads, "--reader", "any"], check=True,
+                         capture_output=True, text=True).stdout
+    kv = dict(line.split(" ", 1) for line in out.splitlines())
+    if int(kv["rows"]) != rows:
+        sys.exit(f"{path}: read {kv['rows']} rows, expected {rows}")
+    return float(kv["median_s"]), float(kv["cpu_s_per_run"])
+print(f"{rows} rows, 7 columns, medians of {repeat} reads in one process, {threads} reader thread(s); "
+      f"load average {os.getloadavg()[0]:.2f}")
 print(f"{'format':10} {'MB':>7} {'wall s':>8} {'cpu s':>7} {'MB/s':>7} {'rows/s':>10} {'wall / CSV':>10}")
 base = None
 for ext in ["csv", "xpt", "sas7bdat", "sav", "dta", "xlsx", "xls"]:
@@ -80,4 +81,5 @@ for ext in ["csv", "xpt", "sas7bdat", "sav", "dta", "xlsx", "xls"]:
     wall, cpu = run(path)
     base = base or wall
     print(f"{ext:10} {mb:7.2f} {wall:8.3f} {cpu:7.3f} {mb / wall:7.1f} {rows / wall:10.0f} {wall / base:9.2f}x")
+print(f"load average after: {os.getloadavg()[0]:.2f}")
 PY

@@ -3,7 +3,7 @@
 #   bench/fuzz.sh [SECONDS_PER_TARGET] [TARGET...]           explore: grow a local corpus
 #   bench/fuzz.sh --smoke [SECONDS_PER_TARGET] [TARGET...]   CI check: fixed seed, scratch corpus
 # SECONDS_PER_TARGET defaults to 600 (30 with --smoke). Targets: csv_reader project_file
-# diagram_file rate_analysis slope_scan xlsx_reader (default: all). Each target starts from its committed
+# diagram_file rate_analysis slope_scan xlsx_reader row_filter (default: all). Each target starts from its committed
 # seeds in tests/fuzz/corpus/<target>/, which are never rewritten: an exploring run keeps what
 # it finds in build-fuzz/corpus/<target>/; a smoke run builds in build-fuzz-smoke (-O1, line
 # tables only, to keep the build short), starts every target from an empty scratch corpus with
@@ -20,7 +20,7 @@ fi
 if [ "$SMOKE" -eq 1 ]; then SECONDS_PER_TARGET=${1:-30}; else SECONDS_PER_TARGET=${1:-600}; fi
 shift || true
 TARGETS=("$@")
-[ ${#TARGETS[@]} -eq 0 ] && TARGETS=(csv_reader project_file diagram_file rate_analysis slope_scan xlsx_reader)
+[ ${#TARGETS[@]} -eq 0 ] && TARGETS=(csv_reader project_file diagram_file rate_analysis slope_scan xlsx_reader row_filter)
 JOBS=${FOLDLINE_JOBS:-2}
 CXX_FUZZ=${CXX_FUZZ:-clang++-14}
 if [ "$SMOKE" -eq 1 ]; then

@@ -1,7 +1,9 @@
 // Load benchmark: parses one CSV file N times with the Foldline reader and prints the median
 // throughput and the process's peak resident memory. Not a test; bench/load.sh drives it.
+// With --reader any the file goes through read_table (core/io/table_reader.h), which reads
+// every format (bench/formats.sh compares them on the same data).
 //
-// Usage: foldline_load_bench FILE [--repeat N] [--threads T]
+// Usage: foldline_load_bench FILE [--repeat N] [--threads T] [--reader csv|any]
 // Output (one "key value" per line, for scripts): runs_s, median_s, mb_per_s, rows_per_s,
 // cpu_s_per_run (user + system time of all threads, a figure less sensitive to a busy
 // machine than wall time), rows, columns, file_bytes, peak_rss_bytes.
@@ -18,17 +20,20 @@
 #include <sys/stat.h>
 
 #include "core/io/csv_reader.h"
+#include "core/io/table_reader.h"
 
 int main(int argc, char** argv) {
     if (argc < 2) {
-        std::fprintf(stderr, "usage: %s FILE [--repeat N] [--threads T]\n", argv[0]);
+        std::fprintf(stderr, "usage: %s FILE [--repeat N] [--threads T] [--reader csv|any]\n", argv[0]);
         return 2;
     }
     const std::string path = argv[1];
     int repeat = 5;
-    foldline::CsvOptions opts;
+    foldline::ReadOptions opts;
+    bool any_format = false;  // --reader any: core/io/table_reader.h's entry point, every format
     for (int i = 2; i + 1 < argc; i += 2) {
         if (!std::strcmp(argv[i], "--repeat")) repeat = std::max(1, std::atoi(argv[i + 1]));
+        else if (!std::strcmp(argv[i], "--reader")) any_format = !std::strcmp(argv[i + 1], "any");
         else if (!std::strcmp(argv[i], "--threads")) opts.threads = static_cast<unsigned>(std::atoi(argv[i + 1]));
         else {
             std::fprintf(stderr, "unknown option %s\n", argv[i]);
@@ -52,7 +57,7 @@ int main(int argc, char** argv) {
     const double cpu0 = cpu_seconds();
     for (int r = 0; r < repeat; ++r) {
         const auto t0 = std::chrono::steady_clock::now();
-        auto table = foldline::read_csv(path, opts);
+        auto table = any_format ? foldline::read_table(path, opts) : foldline::read_csv(path, opts);
         const auto t1 = std::chrono::steady_clock::now();
         if (!table) {
             std::fprintf(stderr, "%s\n", table.error().to_string().c_str());

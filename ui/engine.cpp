@@ -14,6 +14,8 @@
 #include "core/report/slope_chart.h"
 #include "core/scan/candidates.h"
 #include "core/scan/question.h"
+#include "core/causal/combined_exposure.h"
+#include "core/table/combined_column.h"
 #include "ui/findings_model.h"
 #include "ui/memo/memo_writer.h"
 
@@ -228,17 +230,39 @@ Result<Table> load_table(const QString& path, const LoadOptions& opts, const Wor
     return table;
 }
 
-std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q) {
+QStringList combined_group_parts(const Table& t, const QuestionSpec& q) {
+    QStringList out;
+    if (q.slope || q.exposure.isEmpty()) return out;
+    for (const auto& p : combined_parts(t, q.exposure.toStdString())) out << qs(p);
+    return out;
+}
+
+Result<Column> combined_groups_column(const Table& t, const QuestionSpec& q) {
+    const QStringList parts = combined_group_parts(t, q);
+    if (parts.isEmpty()) return make_error("\"" + q.exposure.toStdString() + "\" does not combine columns of the data");
+    std::vector<std::string> names;
+    for (const QString& p : parts) names.push_back(p.toStdString());
+    return combine_columns(t, names, q.exposure.toStdString());
+}
+
+std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q, const Column* combined) {
     std::vector<CandidateView> out;
     std::vector<std::string> skip;
     if (!q.outcome.isEmpty()) skip.push_back(q.outcome.toStdString());
     if (!q.exposure.isEmpty()) skip.push_back(q.exposure.toStdString());
+    // Groups formed by several columns: the parts never stratify (as core/audit's scan rules).
+    const QStringList parts = combined_group_parts(t, q);
+    for (const QString& p : parts) skip.push_back(p.toStdString());
+    std::optional<Column> own;
+    if (!parts.isEmpty() && !combined)
+        if (auto c = combined_groups_column(t, q)) own = std::move(*c), combined = &*own;
     if (q.slope)
         for (const QString& c : q.covariates) skip.push_back(c.toStdString());
     CandidateOptions opts;
     opts.bins = q.bins;
     opts.max_levels = static_cast<std::size_t>(q.max_levels);
-    auto set = select_candidates(t, skip, opts, q.slope ? nullptr : t.column(q.exposure.toStdString()));
+    const Column* groups = q.slope ? nullptr : parts.isEmpty() ? t.column(q.exposure.toStdString()) : combined;
+    auto set = select_candidates(t, skip, opts, groups);
     if (!set) return out;
     for (const Column& c : t.columns) {
         const std::string& name = c.name;
@@ -246,6 +270,7 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
         if (std::find(skip.begin(), skip.end(), name) != skip.end()) {
             v.reason = qs(name) == q.outcome    ? QObject::tr("the outcome")
                        : qs(name) == q.exposure ? QObject::tr("the compared groups")
+                       : parts.contains(qs(name)) ? QObject::tr("part of the compared groups %1").arg(q.exposure)
                                                 : QObject::tr("a covariate: the slopes are adjusted for it");
         } else if (auto it = std::find_if(set->candidates.begin(), set->candidates.end(),
                                           [&](const Candidate& k) { return k.name == name; });
@@ -262,7 +287,7 @@ std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec
     return out;
 }
 
-QStringList check_question(const Table& t, const QuestionSpec& q) {
+QStringList check_question(const Table& t, const QuestionSpec& q, const Column* combined) {
     QStringList problems;
     if (q.slope) {
         const Column* x = t.column(q.exposure.toStdString());
@@ -287,8 +312,28 @@ QStringList check_question(const Table& t, const QuestionSpec& q) {
     if (!problems.isEmpty()) return problems;
     if (q.outcome == q.exposure) return {QObject::tr("The outcome and the groups must be different columns.")};
     if (!q.focal.isEmpty() && q.focal == q.reference) return {QObject::tr("The focal and reference groups must differ.")};
-    auto resolved = resolve_question(t, core_spec(q));
-    if (!resolved) problems << qs(resolved.error().message);
+    if (const QStringList parts = combined_group_parts(t, q); !parts.isEmpty()) {
+        // The groups are the combinations: resolve the question on the outcome beside them.
+        if (parts.contains(q.outcome)) return {QObject::tr("The outcome cannot also be part of the compared groups.")};
+        std::optional<Column> own;
+        if (!combined) {
+            auto c = combined_groups_column(t, q);
+            if (!c) return {qs(c.error().message)};
+            own = std::move(*c);
+            combined = &*own;
+        }
+        Table groups;
+        groups.rows = t.rows;
+        groups.weights = t.weights;
+        if (const Column* oc = t.column(q.outcome.toStdString())) groups.columns.push_back(*oc);
+        groups.columns.push_back(*combined);
+        groups.columns.back().name = q.exposure.toStdString();
+        auto resolved = resolve_question(groups, core_spec(q));
+        if (!resolved) problems << qs(resolved.error().message);
+    } else {
+        auto resolved = resolve_question(t, core_spec(q));
+        if (!resolved) problems << qs(resolved.error().message);
+    }
     if (q.candidates.isEmpty()) problems << QObject::tr("Tick at least one candidate stratifier.");
     for (const auto& p : project::settings_problems(audit_spec(q, {}).scan)) problems << qs(p);
     return problems;
@@ -364,6 +409,13 @@ Result<ScanOutcome> run_scan(std::shared_ptr<const Table> source, const project:
         if (!kept) return kept.error();
         scanned = std::make_shared<const Table>(std::move(*kept));
     }
+    // Groups formed by several columns: the combined column is added here, so the views of the
+    // scan (verdicts, the diagram's checks, the memo) read the column the scan compared.
+    if (!scanned->column(spec.question.exposure) && !audit::combined_groups(*scanned, spec).empty()) {
+        Table with = *scanned;
+        if (auto st = audit::add_combined_groups(with, spec); !st) return usage_error(st.error());
+        scanned = std::make_shared<const Table>(std::move(with));
+    }
     const Table& t = *scanned;
     audit::RunOptions options;
     options.threads = 0;
@@ -396,7 +448,12 @@ DiagramVerdict judge(const causal::Diagram& diagram, const QString& exposure, co
     DiagramVerdict v;
     std::vector<std::string> names;
     for (const QString& s : strata) names.push_back(s.toStdString());
-    auto r = audit::judge(diagram, exposure.toStdString(), outcome.toStdString(), names, scan, table,
+    // A diagram drawn with the parts of combined groups is read with them as one node, as
+    // `foldline run` reads it (core/causal/combined_exposure.h).
+    std::vector<std::string> parts;
+    if (table && table->combined == exposure.toStdString()) parts = audit::combined_groups(*table, spec);
+    const causal::Diagram judged = parts.empty() ? diagram : causal::combine_exposure(diagram, parts, exposure.toStdString());
+    auto r = audit::judge(judged, exposure.toStdString(), outcome.toStdString(), names, scan, table,
                           audit::estimate_settings(spec));
     if (!r) {
         v.problem = qs(r.error().message);

@@ -111,11 +111,21 @@ struct CandidateView {
     QString origin;  ///< how a usable column is cut into strata ("quantile bins (4)", ...)
 };
 
+/// The parts of a rate question's groups formed by several columns (`sex+ethnicity` →
+/// sex, ethnicity; core/table/combined_column.h); empty for an ordinary groups column or a trend.
+QStringList combined_group_parts(const Table& t, const QuestionSpec& q);
+/// The combined groups column of such a question (one level per combination that occurs).
+/// Error when the exposure combines no columns of `t`, or the combinations are too many.
+Result<Column> combined_groups_column(const Table& t, const QuestionSpec& q);
+
 /// Columns that could stratify the question, each with the reason any is left out (the outcome,
-/// the groups and, for a trend, its covariates never stratify). Empty table → empty list.
-std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q);
-/// Problems with the question in plain sentences; empty when the scan can run.
-QStringList check_question(const Table& t, const QuestionSpec& q);
+/// the groups, the parts of combined groups and, for a trend, its covariates never stratify).
+/// `combined`: the combined groups column when the caller holds it (computed here otherwise).
+/// Empty table → empty list.
+std::vector<CandidateView> propose_candidates(const Table& t, const QuestionSpec& q, const Column* combined = nullptr);
+/// Problems with the question in plain sentences; empty when the scan can run. `combined` as for
+/// propose_candidates.
+QStringList check_question(const Table& t, const QuestionSpec& q, const Column* combined = nullptr);
 
 /// True when this build has the rate scan.
 bool scan_available();

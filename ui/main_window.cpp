@@ -2,7 +2,6 @@
 
 #include "core/common/sha256.h"
 #include "core/audit/project_file.h"
-#include "core/table/combined_column.h"
 
 #include <QAction>
 #include <QActionGroup>
@@ -23,6 +22,7 @@
 #include <QStackedWidget>
 #include <QStatusBar>
 #include <QTableView>
+#include <QUndoGroup>
 #include <QUndoStack>
 #include <QVBoxLayout>
 
@@ -205,6 +205,7 @@ void MainWindow::go_to(int s) {
         seed_diagram_for(findings_->selected());
     }
     if (s == Memo) refresh_memo();
+    if (undo_group_) undo_group_->setActiveStack(s == Question ? question_->undo_stack() : diagram_->undo_stack());
     stack_->setCurrentIndex(s);
     steps_->set_current(s);
     for (int i = 0; i < StepCount; ++i)
@@ -233,7 +234,8 @@ void MainWindow::seed_diagram_for(int row) {
         return;
     }
     QStringList columns;
-    if (const Table* t = source_->table().get())
+    // The rows the scan read: they hold the combined groups column when the groups combine columns.
+    if (const Table* t = scan_->scanned_table() ? scan_->scanned_table().get() : source_->table().get())
         for (const Column& c : t->columns) columns << QString::fromStdString(c.name);
     diagram_->seed(last_question_.exposure, last_question_.outcome, f->strata, columns);
     // The diagram's claims are tested on the rows the scan read, as the verdicts are.
@@ -321,11 +323,16 @@ void MainWindow::build_menus() {
             &QAction::triggered, this, &QWidget::close);
 
     QMenu* edit = menuBar()->addMenu(tr("&Edit"));
-    QAction* undo = diagram_->undo_stack()->createUndoAction(this, tr("&Undo"));
+    // One Undo for the step on screen: the Question step's combined groups, else the diagram.
+    undo_group_ = new QUndoGroup(this);
+    undo_group_->addStack(question_->undo_stack());
+    undo_group_->addStack(diagram_->undo_stack());
+    undo_group_->setActiveStack(diagram_->undo_stack());
+    QAction* undo = undo_group_->createUndoAction(this, tr("&Undo"));
     undo->setShortcut(QKeySequence::Undo);
     undo->setObjectName("action_undo");
     actions_.insert("action_undo", undo);
-    QAction* redo = diagram_->undo_stack()->createRedoAction(this, tr("&Redo"));
+    QAction* redo = undo_group_->createRedoAction(this, tr("&Redo"));
     redo->setShortcuts({QKeySequence(tr("Ctrl+Shift+Z")), QKeySequence(tr("Ctrl+Y"))});
     redo->setObjectName("action_redo");
     actions_.insert("action_redo", redo);
@@ -695,12 +702,6 @@ Status MainWindow::save_project_to(const QString& path) {
 Status MainWindow::open_project(const QString& path) {
     auto p = project::load_project(path.toStdString());
     if (!p) return p.error();
-    // Groups formed by several columns have no control on the Question step yet: opening such an
-    // audit would lose its question on the next save, so it is refused with the way to run it.
-    if (!combined_parts(p->data.columns, p->question.exposure).empty())
-        return make_error("this audit compares groups formed by several columns (" + p->question.exposure +
-                              "), which the workbench cannot edit yet; run it with: foldline run " + path.toStdString(),
-                          path.toStdString());
     // The workbench shows rate and trend audits only: opening a mean-gap audit here would show
     // it as a rate audit and lose its question on save, so it is refused, with where to run it.
     if (p->question.kind == project::QuestionKind::Mean)

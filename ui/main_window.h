@@ -17,6 +17,7 @@
 class QAction;
 class QMenu;
 class QStackedWidget;
+class QUndoGroup;
 
 namespace foldline::ui {
 
@@ -147,6 +148,7 @@ private:
 
     StepBar* steps_;
     QStackedWidget* stack_;
+    QUndoGroup* undo_group_ = nullptr;  ///< Undo and Redo follow the step on screen
     FindingsModel* model_;
     SourcePage* source_;
     QuestionPage* question_;

@@ -13,8 +13,11 @@
 #include <QPushButton>
 #include <QRadioButton>
 #include <QSpinBox>
+#include <QUndoCommand>
+#include <QUndoStack>
 #include <QVBoxLayout>
 
+#include "core/table/combined_column.h"
 #include "ui/palette.h"
 
 namespace foldline::ui {
@@ -34,6 +37,34 @@ bool looks_positive(const QString& s) {
 }
 }  // namespace
 
+/// One change of the combined groups: the columns combined and the two groups chosen, before and
+/// after. The change is already applied when the command is pushed.
+class CombineCommand : public QUndoCommand {
+public:
+    struct State {
+        QStringList order;
+        QString focal, reference;
+    };
+    CombineCommand(QuestionPage* page, State before, State after)
+        : page_(page), before_(std::move(before)), after_(std::move(after)) {
+        setText(after_.order.size() > before_.order.size() ? QObject::tr("combine the groups with another column")
+                                                           : QObject::tr("change the combined groups"));
+    }
+    void undo() override { page_->apply_combination(before_.order, before_.focal, before_.reference); }
+    void redo() override {
+        if (first_) {
+            first_ = false;
+            return;
+        }
+        page_->apply_combination(after_.order, after_.focal, after_.reference);
+    }
+
+private:
+    QuestionPage* page_;
+    State before_, after_;
+    bool first_ = true;
+};
+
 QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     outcome_ = new QComboBox;
     outcome_->setObjectName(QStringLiteral("outcome"));
@@ -50,6 +81,14 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     reference_ = new QComboBox;
     reference_->setObjectName(QStringLiteral("reference"));
     reference_->setToolTip(tr("The group the focal group is compared with (by default the largest)"));
+    combine_ = new QListWidget;
+    combine_->setObjectName(QStringLiteral("combine_groups"));
+    combine_->setToolTip(tr("Tick one or more columns to form the groups from the groups column and these together: "
+                            "each combination that occurs is a group (sex with ethnicity gives female+a, male+b, …), "
+                            "and the focal and reference groups name combinations. The combined columns never "
+                            "stratify; the diagram shows the groups as one node."));
+    combine_->setMaximumHeight(combine_->fontMetrics().height() * 6);
+    undo_ = new QUndoStack(this);
 
     rates_ = new QRadioButton(tr("Rates: a yes/no outcome between two groups"));
     rates_->setObjectName(QStringLiteral("kind_rates"));
@@ -65,6 +104,7 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     f->addRow(tr("Outcome"), outcome_);
     f->addRow(tr("Counts as positive"), positive_);
     f->addRow(tr("Groups column"), exposure_);
+    f->addRow(tr("Combined with"), combine_);
     f->addRow(tr("Focal group"), focal_);
     f->addRow(tr("Reference group"), reference_);
     rows_ = new QLineEdit;
@@ -170,25 +210,27 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
         fill_levels(positive_, c);
         for (int i = 0; i < positive_->count(); ++i)
             if (looks_positive(positive_->itemText(i))) positive_->setCurrentIndex(i);
+        const QStringList before = combine_order_;
+        refill_combine();  // the outcome is never part of the groups
+        if (before != combine_order_) fill_groups();
         refresh_candidates();
         validate();
     });
     connect(exposure_, &QComboBox::currentTextChanged, this, [this](const QString& c) {
         if (filling_) return;
-        fill_levels(focal_, c);
-        fill_levels(reference_, c);
-        if (table_)
-            if (const Column* col = table_->column(c.toStdString())) {
-                const QString ref = most_frequent_level(*table_, *col);
-                reference_->setCurrentText(ref);
-                for (int i = 0; i < focal_->count(); ++i)
-                    if (focal_->itemText(i) != ref) {
-                        focal_->setCurrentIndex(i);
-                        break;
-                    }
-            }
+        combine_order_.removeAll(c);
+        refill_combine();
+        fill_groups();
         refresh_candidates();
         validate();
+    });
+    connect(combine_, &QListWidget::itemChanged, this, [this](QListWidgetItem* item) {
+        if (filling_) return;
+        const QString name = item->data(Qt::UserRole).toString();
+        QStringList order = combine_order_;
+        order.removeAll(name);
+        if (item->checkState() == Qt::Checked) order << name;  // joins the name last
+        combine_with(order);
     });
     for (QComboBox* b : {positive_, focal_, reference_})
         connect(b, &QComboBox::currentTextChanged, this, [this] { if (!filling_) validate(); });
@@ -210,12 +252,88 @@ QuestionPage::QuestionPage(QWidget* parent) : QWidget(parent) {
     set_table(nullptr);
 }
 
+QString QuestionPage::groups_name() const {
+    QString name = exposure_->currentText();
+    if (name.isEmpty() || slopes_->isChecked()) return name;
+    for (const QString& c : combine_order_) name += QLatin1Char(kCombineSeparator) + c;
+    return name;
+}
+
+void QuestionPage::refill_combine() {
+    const bool was = filling_;
+    filling_ = true;
+    combine_->clear();
+    combined_.reset();
+    const QString main = exposure_->currentText();
+    const QString outcome = outcome_->currentText();
+    // A column whose name holds the separator cannot be told apart in a combined name.
+    auto combinable = [&](const Column& c) {
+        const QString n = QString::fromStdString(c.name);
+        return c.is_categorical() && c.levels.size() >= 2 && n != main && n != outcome &&
+               !n.contains(QLatin1Char(kCombineSeparator));
+    };
+    QStringList kept;
+    if (table_ && !main.contains(QLatin1Char(kCombineSeparator)))
+        for (const QString& c : combine_order_)
+            if (const Column* col = table_->column(c.toStdString()); col && combinable(*col)) kept << c;
+    combine_order_ = kept;
+    if (table_ && !main.isEmpty() && !main.contains(QLatin1Char(kCombineSeparator)))
+        for (const Column& c : table_->columns) {
+            if (!combinable(c)) continue;
+            const QString n = QString::fromStdString(c.name);
+            auto* item = new QListWidgetItem(n);
+            item->setData(Qt::UserRole, n);
+            item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsUserCheckable | Qt::ItemIsSelectable);
+            item->setCheckState(combine_order_.contains(n) ? Qt::Checked : Qt::Unchecked);
+            combine_->addItem(item);
+        }
+    if (table_ && !combine_order_.isEmpty()) {
+        QuestionSpec q;
+        q.exposure = groups_name();
+        if (auto col = combined_groups_column(*table_, q)) combined_ = std::move(*col);
+    }
+    filling_ = was;
+}
+
+void QuestionPage::fill_groups() {
+    const QString name = groups_name();
+    fill_levels(focal_, name);
+    fill_levels(reference_, name);
+    const Column* col = combined_ ? &*combined_ : table_ ? table_->column(name.toStdString()) : nullptr;
+    if (!table_ || !col) return;
+    const QString ref = most_frequent_level(*table_, *col);
+    reference_->setCurrentText(ref);
+    for (int i = 0; i < focal_->count(); ++i)
+        if (focal_->itemText(i) != ref) {
+            focal_->setCurrentIndex(i);
+            break;
+        }
+}
+
+void QuestionPage::apply_combination(const QStringList& order, const QString& focal, const QString& reference) {
+    combine_order_ = order;
+    refill_combine();
+    fill_groups();
+    if (!focal.isEmpty() && focal_->findText(focal) >= 0) focal_->setCurrentText(focal);
+    if (!reference.isEmpty() && reference_->findText(reference) >= 0) reference_->setCurrentText(reference);
+    refresh_candidates();
+    validate();
+}
+
+void QuestionPage::combine_with(const QStringList& columns, const QString& focal, const QString& reference) {
+    CombineCommand::State before{combine_order_, focal_->currentText(), reference_->currentText()};
+    apply_combination(columns, focal, reference);
+    CombineCommand::State after{combine_order_, focal_->currentText(), reference_->currentText()};
+    if (before.order != after.order || before.focal != after.focal || before.reference != after.reference)
+        undo_->push(new CombineCommand(this, std::move(before), std::move(after)));
+}
+
 void QuestionPage::fill_levels(QComboBox* box, const QString& column) {
     const bool was = filling_;
     filling_ = true;
     box->clear();
     if (table_)
-        if (const Column* c = table_->column(column.toStdString())) {
+        if (const Column* c = combined_ && column == groups_name() ? &*combined_ : table_->column(column.toStdString())) {
             if (c->is_categorical()) {
                 for (const auto& l : c->levels) box->addItem(QString::fromStdString(l));
             } else if (c->is_binary()) {
@@ -264,6 +382,10 @@ void QuestionPage::set_table(std::shared_ptr<const Table> table, bool new_data) 
     }
     filling_ = true;
     rows_->clear();       // a filter of the previous data set does not carry over
+    combine_order_.clear();  // nor do combined groups, nor their history
+    combined_.reset();
+    combine_->clear();
+    undo_->clear();
     outcome_->clear();
     exposure_->clear();
     positive_->clear();
@@ -285,6 +407,7 @@ void QuestionPage::set_kind(bool slope) {
     who_form_->setRowVisible(positive_, !slope);
     who_form_->setRowVisible(focal_, !slope);
     who_form_->setRowVisible(reference_, !slope);
+    who_form_->setRowVisible(combine_, !slope);
     if (find_groups_) find_groups_->setVisible(slope);
     who_form_->labelForField(outcome_)->setProperty("text", slope ? tr("Outcome (y)") : tr("Outcome"));
     who_form_->labelForField(exposure_)->setProperty("text", slope ? tr("Exposure (x)") : tr("Groups column"));
@@ -359,11 +482,11 @@ void QuestionPage::refresh_candidates() {
         QuestionSpec q;
         q.slope = slopes_->isChecked();
         q.outcome = outcome_->currentText();
-        q.exposure = exposure_->currentText();
+        q.exposure = groups_name();
         q.bins = bins_->value();
         q.max_levels = std::uint64_t(max_levels_->value());
         q.covariates = covariates_;
-        std::vector<CandidateView> all = propose_candidates(*table_, q);
+        std::vector<CandidateView> all = propose_candidates(*table_, q, combined_ ? &*combined_ : nullptr);
         std::stable_partition(all.begin(), all.end(), [](const CandidateView& c) { return c.usable; });
         for (const CandidateView& c : all) {
             const QString shown = c.origin.isEmpty() || c.origin == QLatin1String("categorical")
@@ -388,7 +511,7 @@ QuestionSpec QuestionPage::spec() const {
     q.slope = slopes_->isChecked();
     q.outcome = outcome_->currentText();
     q.positive = q.slope ? QString() : positive_->currentText();
-    q.exposure = exposure_->currentText();
+    q.exposure = groups_name();
     q.focal = q.slope ? QString() : focal_->currentText();
     q.reference = q.slope ? QString() : reference_->currentText();
     for (int i = 0; i < candidates_->count(); ++i)
@@ -420,9 +543,24 @@ void QuestionPage::set_spec(const QuestionSpec& q) {
     refresh_candidates();  // covariates are not offered as strata
     outcome_->setCurrentText(q.outcome);
     positive_->setCurrentText(q.positive);
-    exposure_->setCurrentText(q.exposure);
-    focal_->setCurrentText(q.focal);
-    reference_->setCurrentText(q.reference);
+    // Groups formed by several columns (`sex+ethnicity`): the first is the groups column, the
+    // others are ticked under "Combined with" in the order of the name.
+    QStringList parts;
+    if (table_ && !q.slope)
+        for (const auto& p : combined_parts(*table_, q.exposure.toStdString())) parts << QString::fromStdString(p);
+    if (parts.size() >= 2) {
+        exposure_->setCurrentText(parts.front());
+        apply_combination(parts.mid(1), q.focal, q.reference);
+    } else {
+        if (!combine_order_.isEmpty()) {
+            combine_order_.clear();
+            refill_combine();
+            fill_groups();
+        }
+        exposure_->setCurrentText(q.exposure);
+        focal_->setCurrentText(q.focal);
+        reference_->setCurrentText(q.reference);
+    }
     // No list = every usable column (a saved audit's "auto"), as `foldline run` reads it.
     for (int i = 0; i < candidates_->count(); ++i)
         if (candidates_->item(i)->flags() & Qt::ItemIsEnabled)
@@ -443,7 +581,7 @@ void QuestionPage::set_spec(const QuestionSpec& q) {
 
 QStringList QuestionPage::problems() const {
     if (!table_) return {tr("Open data first (step 1).")};
-    QStringList p = check_question(*table_, spec());
+    QStringList p = check_question(*table_, spec(), combined_ ? &*combined_ : nullptr);
     if (!scan_available()) p << tr("This build has no scan engine.");
     return p;
 }

@@ -2,8 +2,10 @@
 // Step 2, Question: the outcome and its positive level, the compared groups, the candidate
 // stratifiers (with the reason any column is left out) and the scan settings. Problems are
 // explained inline while the reviewer chooses; the scan button stays off until there are none.
+#include <QStringList>
 #include <QWidget>
 #include <memory>
+#include <optional>
 
 #include "core/table/table.h"
 #include "ui/engine.h"
@@ -18,6 +20,7 @@ class QLineEdit;
 class QListWidget;
 class QPushButton;
 class QSpinBox;
+class QUndoStack;
 
 namespace foldline::ui {
 
@@ -40,6 +43,14 @@ public:
     void set_spec(const QuestionSpec& q);
     /// Problems with the current choice (empty when the scan can run).
     QStringList problems() const;
+    /// The columns combined with the groups column, in the order they join the groups' name
+    /// (`sex+ethnicity`: {"ethnicity"}); empty for one groups column.
+    QStringList combined_with() const { return combine_order_; }
+    /// Combines the groups column with `columns` (each combination a group), choosing the focal
+    /// and reference combinations given, else the defaults; one undoable step.
+    void combine_with(const QStringList& columns, const QString& focal = {}, const QString& reference = {});
+    /// Undo history of the combined groups (a tick or untick of "Combined with" is one step).
+    QUndoStack* undo_stack() const { return undo_; }
 
 signals:
     void scan_requested(const foldline::ui::QuestionSpec& spec);
@@ -52,6 +63,12 @@ private:
     void fill_columns();
     void set_kind(bool slope);
     void reset_settings();
+    QString groups_name() const;  ///< the groups column, joined with the combined columns by "+"
+    void refill_combine();        ///< the "Combined with" list for the current groups column
+    void fill_groups();           ///< focal and reference from the groups (combined or not), defaults chosen
+    friend class CombineCommand;
+    /// Sets the combination and the two groups without touching the undo history.
+    void apply_combination(const QStringList& order, const QString& focal, const QString& reference);
 
     std::shared_ptr<const Table> table_;
     QComboBox *outcome_, *positive_, *exposure_, *focal_, *reference_;
@@ -69,6 +86,10 @@ private:
     QPushButton* scan_;
     bool filling_ = false;
     QStringList covariates_;  ///< a trend's covariates from an opened audit (no editor of their own)
+    QListWidget* combine_;    ///< "Combined with": other columns that, ticked, split the groups further
+    QStringList combine_order_;          ///< the ticked columns, in the order they join the name
+    std::optional<Column> combined_;     ///< the combined groups column of the current choice
+    QUndoStack* undo_;
 };
 
 }  // namespace foldline::ui

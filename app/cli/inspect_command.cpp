@@ -117,6 +117,7 @@ nlohmann::json describe_json(const Table& t, const ReadReport& read) {
                            {"reading", n.kind == NumberReading::DecimalComma     ? "decimal_comma"
                                        : n.kind == NumberReading::ThousandsComma ? "thousands_comma"
                                        : n.kind == NumberReading::PointKept      ? "decimal_point_kept"
+                                       : n.kind == NumberReading::NotRead        ? "left_as_text"
                                                                                  : "ambiguous"},
                            {"example", n.example}});
     j["number_readings"] = std::move(numbers);

@@ -58,6 +58,10 @@ int run(int argc, char** argv) {
     }
     auto run = audit::run_audit(p, override_data, options);
     if (!run) return fail(kName, run.error());
+    // How the file was read, as `scan` says it: warnings, and which columns' numbers were read
+    // with which decimal mark (an ambiguous column is named, never guessed).
+    for (const auto& w : run->read_warnings) std::cerr << "foldline run: warning: " << w << "\n";
+    for (const auto& n : run->numbers) std::cerr << "foldline run: column '" << n.column << "' " << n.describe() << "\n";
     const ScanResult& r = run->result;
     std::ostream& out = a.get_or("json", "") == "-" ? std::cerr : std::cout;
 

@@ -335,6 +335,8 @@ Result<AuditRun> run_audit(const AuditSpec& spec, const std::string& data_overri
     hasher.join();
     if (!table) return table.error();
     if (!digest) return digest.error();
+    run.read_warnings = read.warnings;
+    run.numbers = read.numbers;
     const double rows_read = static_cast<double>(table->rows);
     if (spec.question.rows.empty()) {
         run.table = std::move(*table);

@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "core/audit/audit_spec.h"
+#include "core/io/decimal_mark.h"
 #include "core/audit/verdicts.h"
 #include "core/common/error.h"
 #include "core/common/progress.h"
@@ -78,6 +79,8 @@ struct AuditRun {
     DataInfo info;                ///< path, digest, rows
     std::string data_change;      ///< how the data changed since the project was saved, else empty
     std::string diagram_problem;  ///< why the diagram could not judge some finding, else empty
+    std::vector<std::string> read_warnings;  ///< the reader's warnings about the file
+    std::vector<NumberReading> numbers;      ///< how numbers written as text were read (decimal marks)
 };
 
 /// Reads the spec's data file (or `data_override`, a new extract with the same columns) with the

@@ -33,6 +33,10 @@ std::string NumberReading::describe() const {
             return "read with a decimal point (e.g. '" + example +
                    "'); other columns have decimal commas, so if '.' groups thousands here, read the file with "
                    "a decimal comma";
+        case NotRead:
+            return "left as text: '" + example +
+                   "' is written as a number, but not with the decimal mark asked for; change the decimal-mark "
+                   "setting to read the column as numbers";
         case Ambiguous:
             return "left as text: '" + example +
                    "' reads as a number with a decimal comma or with comma thousands; say which with the "
@@ -122,10 +126,28 @@ bool parse_grouped_number(std::string_view text, char decimal, double& out) { re
 std::vector<NumberReading> decide_decimal_marks(Table& table, DecimalMark mark,
                                                 const std::vector<std::string>& keep_categorical) {
     std::vector<NumberReading> out;
-    if (mark == DecimalMark::Point) return out;
+    // Every level a number written with one of the two marks: a column the mark asked for leaves
+    // as text is reported, not passed over in silence.
+    auto written_as_number = [](const Column& c, char decimal) {
+        double v = 0;
+        return std::all_of(c.levels.begin(), c.levels.end(),
+                           [&](const std::string& t) { return shape_of(t, decimal, v).ok; });
+    };
     for (auto& c : table.columns) {
         if (!c.is_categorical() || c.levels.empty()) continue;
         if (std::find(keep_categorical.begin(), keep_categorical.end(), c.name) != keep_categorical.end()) continue;
+        if (mark == DecimalMark::Point) {
+            if (written_as_number(c, ',') || written_as_number(c, '.')) {
+                std::string example = c.levels.front();
+                for (const auto& t : c.levels)
+                    if (t.find(',') != std::string::npos) {
+                        example = t;
+                        break;
+                    }
+                out.push_back({c.name, NumberReading::NotRead, example});
+            }
+            continue;
+        }
         std::vector<double> as_comma(c.levels.size()), as_point(c.levels.size());
         bool comma_ok = true, point_ok = true;
         std::string comma_proof, point_proof, example;
@@ -142,7 +164,19 @@ std::vector<NumberReading> decide_decimal_marks(Table& table, DecimalMark mark,
             if (example.empty() && t.find(',') != std::string::npos) example = t;
         }
         if (mark == DecimalMark::Comma) {
-            if (!comma_ok) continue;
+            if (!comma_ok) {
+                if (written_as_number(c, '.')) {
+                    std::string shown = c.levels.front();
+                    double v = 0;
+                    for (const auto& t : c.levels)
+                        if (!shape_of(t, ',', v).ok) {
+                            shown = t;
+                            break;
+                        }
+                    out.push_back({c.name, NumberReading::NotRead, shown});
+                }
+                continue;
+            }
             NumberReading r{c.name, NumberReading::DecimalComma, example.empty() ? c.levels.front() : example};
             make_numeric(c, as_comma);
             out.push_back(std::move(r));

@@ -15,8 +15,11 @@
 //    all have at most three decimals ("1.234") is reported as kept with a decimal point, since
 //    the same text could group thousands.
 //  - Comma: every column whose levels all read with a decimal comma becomes numeric (the
-//    caller has read the file with every column categorical, so "1.234" means 1234 here).
-//  - Point: nothing changes.
+//    caller has read the file with every column categorical, so "1.234" means 1234 here); a
+//    column whose levels are all numbers that do not read so ("1.5") stays text and is
+//    reported as not read.
+//  - Point: nothing changes; a text column whose levels are all numbers written with a comma
+//    ("1.234,50", "1,250") is reported as not read.
 // Each decision is returned, so front ends can say which columns were read how.
 #include <optional>
 #include <string>
@@ -37,7 +40,7 @@ std::optional<DecimalMark> parse_decimal_mark(std::string_view text);
 /// How one column's numbers were read.
 struct NumberReading {
     std::string column;
-    enum Kind { DecimalComma, ThousandsComma, Ambiguous, PointKept } kind = DecimalComma;
+    enum Kind { DecimalComma, ThousandsComma, Ambiguous, PointKept, NotRead } kind = DecimalComma;
     std::string example;  ///< a level that shows it ("1.234,50")
     /// "read with a decimal comma (e.g. '1.234,50')", "… ambiguous …".
     std::string describe() const;

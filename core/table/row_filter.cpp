@@ -209,9 +209,14 @@ private:
     }
 
     Result<int> parse_unary(RowFilter& f) {
+        if ((word("not") || peek().kind == Tok::LParen) && depth_ == kMaxNesting)
+            return at_error(peek().at, "expected a test, found " + describe(peek()) + " nested more than " +
+                                           std::to_string(kMaxNesting) + " deep ('not' and '(' together)");
         if (word("not")) {
             take();
+            ++depth_;
             auto inner = parse_unary(f);
+            --depth_;
             if (!inner) return inner;
             Node n;
             n.kind = Node::Kind::Not;
@@ -220,7 +225,9 @@ private:
         }
         if (peek().kind == Tok::LParen) {
             const Token open = take();
+            ++depth_;
             auto inner = parse_or(f);
+            --depth_;
             if (!inner) return inner;
             if (peek().kind != Tok::RParen)
                 return at_error(peek().at, "expected ')' to close the '(' at character " + std::to_string(open.at) +
@@ -254,6 +261,8 @@ private:
         const Token name = peek();
         if (name.kind != Tok::Name)
             return at_error(name.at, "expected a column name, 'not' or '(', found " + describe(name));
+        if (++tests_ > kMaxTests)
+            return at_error(name.at, "a filter holds at most " + std::to_string(kMaxTests) + " tests");
         take();
         Node n;
         n.column = name.text;
@@ -309,8 +318,15 @@ private:
                                    "the column '" + name.text + "', found " + describe(peek()));
     }
 
+    // Bounds that keep every recursive walk of the tree (writing, evaluating) shallow: a filter
+    // a person writes stays far below them, a generated one is refused with a message.
+    static constexpr int kMaxNesting = 100;
+    static constexpr int kMaxTests = 1000;
+
     std::vector<Token> toks_;
     std::size_t pos_ = 0;
+    int depth_ = 0;
+    int tests_ = 0;
 };
 
 // ---------------------------------------------------------------------------------------------
@@ -426,11 +442,14 @@ bool compare(double a, Op op, double b) {
 std::vector<std::uint8_t> eval(const RowFilter& f, int i, const Table& t) {
     const Node& n = f.nodes[static_cast<std::size_t>(i)];
     const std::size_t rows = t.rows;
-    std::vector<std::uint8_t> out(rows, F);
+    // Only a test allocates its own bytes: an 'and' / 'or' reuses its left side's, so a long
+    // chain holds two masks at a time, not one per link.
+    std::vector<std::uint8_t> out;
     switch (n.kind) {
         case Node::Kind::Compare:
         case Node::Kind::In:
         case Node::Kind::Missing: {
+            out.assign(rows, F);
             const Column& c = *t.column(n.column);
             if (n.kind == Node::Kind::Missing) {
                 for (std::size_t r = 0; r < rows; ++r) out[r] = (c.is_missing(r) != n.negated) ? T : F;
@@ -572,11 +591,13 @@ Result<Table> apply(const RowFilter& f, const Table& table) {
             v.reserve(kept);
             for (std::size_t r = 0; r < table.rows; ++r)
                 if ((*mask)[r]) v.push_back(c.values[r]);
-            Column col = Column::numeric(c.name, std::move(v));
-            out.columns.push_back(std::move(col));
+            out.columns.push_back(Column::numeric(c.name, std::move(v)));
         } else {
             out.columns.push_back(visit_codes(c, [&](const auto& codes) { return keep_categorical(c, codes, *mask, kept); }));
         }
+        // The variable label and the codes behind value labels describe the column, not its rows.
+        out.columns.back().label = c.label;
+        out.columns.back().description = c.description;
     }
     if (table.weighted()) {
         out.weights.reserve(kept);

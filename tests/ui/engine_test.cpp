@@ -169,6 +169,79 @@ private slots:
             QFAIL("the memos differ in length");
         }
     }
+
+    // Groups formed by two columns (treatment+sex): the workbench opens the audit, shows the
+    // combination on the Question step, scans it and judges it with the diagram drawn with both
+    // parts read as one node, and the JSON equals `foldline run`'s on the same file.
+    void workbench_and_run_agree_on_combined_groups() {
+        const QString sample = find_sample("clinic_audit.foldline");
+        if (sample.isEmpty()) QSKIP("sample_data/clinic_audit.foldline not found");
+        auto loaded = project::load_project(sample.toStdString());
+        QVERIFY(loaded.ok());
+        project::Project p = std::move(*loaded);
+        p.question.exposure = "treatment+sex";
+        p.question.focal = {"new_protocol+female"};
+        p.question.reference = "standard+female";
+        p.question.rows = "age_band <> '75+'";
+        p.scan.seed = kSeed;
+        p.scan.bootstrap = 40;
+        p.reviews.clear();
+        auto table = read_csv(p.data.path, project::reading_options(p.data));
+        QVERIFY(table.ok());
+        QVERIFY(project::record_data(p.data, *table).ok());
+        QTemporaryDir dir;
+        const QString path = dir.filePath(QStringLiteral("clinic combined.foldline"));
+        QVERIFY(project::save_project(p, path.toStdString()).ok());
+        const QByteArray saved = [&] {
+            QFile f(path);
+            return f.open(QIODevice::ReadOnly) ? f.readAll() : QByteArray();
+        }();
+
+        QProcess run;
+        run.start(QStringLiteral(FOLDLINE_CLI), {QStringLiteral("run"), path, QStringLiteral("--json"), dir.filePath("run.json")});
+        QVERIFY(run.waitForFinished(300000));
+        QVERIFY2(run.exitCode() == 0 || run.exitCode() == 4, run.readAllStandardError().constData());
+        QFile json_file(dir.filePath("run.json"));
+        QVERIFY(json_file.open(QIODevice::ReadOnly));
+        const auto from_run = nlohmann::json::parse(json_file.readAll().toStdString());
+        QCOMPARE(from_run["question"]["exposure"].get<std::string>(), std::string("treatment+sex"));
+
+        MainWindow w;
+        QVERIFY(w.open_project(path).ok());
+        QTRY_VERIFY_WITH_TIMEOUT(w.scan_page()->scan_result() && !w.scan_page()->running() &&
+                                     w.findings_model()->size() > 0,
+                                 300000);
+        QTest::qWait(200);
+        const ui::QuestionSpec q = w.question_page()->spec();
+        QCOMPARE(q.exposure, QStringLiteral("treatment+sex"));
+        QCOMPARE(q.focal, QStringLiteral("new_protocol+female"));
+        QCOMPARE(q.reference, QStringLiteral("standard+female"));
+        QCOMPARE(w.question_page()->combined_with(), QStringList{QStringLiteral("sex")});
+        const auto result = w.scan_page()->scan_result();
+        // The scanned rows carry the combined column the verdicts and the memo read.
+        QVERIFY(w.scan_page()->scanned_table()->column("treatment+sex"));
+        const DataInfo info{p.data.path, from_run["data"]["sha256"].get<std::string>(),
+                            from_run["data"]["rows"].get<double>()};
+        const auto from_workbench = nlohmann::json::parse(scan_json_text(*result, info));
+        QCOMPARE(from_workbench["question"].dump(), from_run["question"].dump());
+        QCOMPARE(from_workbench["summary"].dump(), from_run["summary"].dump());
+        QCOMPARE(from_workbench["findings"].size(), from_run["findings"].size());
+        for (std::size_t i = 0; i < from_run["findings"].size(); ++i)
+            QVERIFY2(from_workbench["findings"][i] == from_run["findings"][i],
+                     qPrintable(QString::fromStdString(from_run["findings"][i]["strata"].dump())));
+        QVERIFY(from_workbench == from_run);
+        // The diagram drawn with treatment and sex judged the combined groups as one node: every
+        // finding has a verdict, and neither part is offered as a stratifier.
+        QVERIFY(!from_run["findings"].empty());
+        for (const auto& f : from_run["findings"]) {
+            QVERIFY2(f["verdict"].is_object(), f.dump().c_str());
+            for (const auto& s : f["strata"]) QVERIFY(s != "treatment" && s != "sex");
+        }
+        // Opening and scanning changed nothing in the file.
+        QFile f(path);
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QCOMPARE(f.readAll(), saved);
+    }
 };
 
 QTEST_MAIN(EngineTest)

@@ -359,6 +359,20 @@ void start_chart(QCustomPlot& plot, const std::string& title_text, int w, int h)
     style_axis(plot.yAxis);
 }
 
+// The legend in its own row between the title and the chart, entries side by side, so it never
+// hides a point or a bar (inside the axis rect it covered the last strata on wide charts).
+void legend_above(QCustomPlot& plot, int font_size) {
+    plot.legend->setVisible(true);
+    plot.legend->setFont(chart_font(font_size));
+    plot.legend->setBorderPen(Qt::NoPen);
+    plot.legend->setFillOrder(QCPLegend::foColumnsFirst);
+    plot.axisRect()->insetLayout()->take(plot.legend);
+    plot.plotLayout()->insertRow(1);
+    plot.plotLayout()->addElement(1, 0, plot.legend);
+    plot.plotLayout()->setRowStretchFactor(1, 0.001);
+    plot.legend->setMargins(QMargins(2, 0, 2, 0));
+}
+
 QPicture rate_chart(const MemoChart& c, int w, int h) {
     QCustomPlot plot;
     start_chart(plot, c.title, w, h);
@@ -415,10 +429,7 @@ QPicture rate_chart(const MemoChart& c, int w, int h) {
         sep->point2->setCoords(0.5, 1);
         sep->setPen(QPen(kRule, 1, Qt::DashLine));
     }
-    plot.legend->setVisible(true);
-    plot.legend->setFont(chart_font(11));
-    plot.legend->setBorderPen(QPen(kRule, 1));
-    plot.axisRect()->insetLayout()->setInsetAlignment(0, Qt::AlignTop | Qt::AlignRight);
+    legend_above(plot, 11);
     return render_plot(plot, w, h);
 }
 
@@ -514,9 +525,7 @@ QPicture mix_chart(const MemoChart& c, int w, int h) {
     }
     plot.yAxis->setRange(0, top * 1.15);
     plot.xAxis->setRange(0.4, static_cast<double>(c.points.size()) - 0.4);
-    plot.legend->setVisible(true);
-    plot.legend->setFont(chart_font(11));
-    plot.legend->setBorderPen(QPen(kRule, 1));
+    legend_above(plot, 11);
     return render_plot(plot, w, h);
 }
 

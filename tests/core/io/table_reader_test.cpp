@@ -272,7 +272,39 @@ TEST(DecimalMark, CommaAskedForReadsEveryColumn) {
     ReadReport rep;
     const Table p = must_read("decimal_comma.csv", o, &rep);
     EXPECT_TRUE(p.column("revenue")->is_categorical());
-    EXPECT_TRUE(rep.numbers.empty());
+    // Nothing read silently as text: the columns written as numbers with a comma are named.
+    ASSERT_EQ(rep.numbers.size(), 3u);
+    EXPECT_EQ(rep.numbers[0].column, "revenue");
+    EXPECT_EQ(rep.numbers[0].kind, NumberReading::NotRead);
+    EXPECT_EQ(rep.numbers[0].example, "1.234,50");
+    EXPECT_EQ(rep.numbers[1].column, "margin");
+    EXPECT_EQ(rep.numbers[2].column, "returned");
+    EXPECT_EQ(rep.numbers[2].kind, NumberReading::NotRead);
+    EXPECT_NE(rep.numbers[0].describe().find("not with the decimal mark asked for"), std::string::npos);
+}
+
+TEST(DecimalMark, CommaAskedForNamesColumnsItCannotRead) {
+    // "1.5" and "2.25" are numbers with a decimal point: with a decimal comma asked for they stay
+    // text, and the reading says so instead of passing them over.
+    ReadOptions o;
+    o.decimal = DecimalMark::Comma;
+    ReadReport rep;
+    const std::string path = (std::filesystem::temp_directory_path() / "foldline_decimal_scores.csv").string();
+    {
+        std::ofstream f(path, std::ios::binary);
+        f << "site;score;amount\nA;1.5;1,5\nB;2.25;2,25\n";
+    }
+    auto t = read_table(path, o, &rep);
+    std::filesystem::remove(path);
+    ASSERT_TRUE(t.ok()) << t.error().to_string();
+    EXPECT_TRUE(t->column("score")->is_categorical());
+    EXPECT_TRUE(t->column("amount")->is_numeric());
+    ASSERT_EQ(rep.numbers.size(), 2u);
+    EXPECT_EQ(rep.numbers[0].column, "score");
+    EXPECT_EQ(rep.numbers[0].kind, NumberReading::NotRead);
+    EXPECT_EQ(rep.numbers[0].example, "1.5");
+    EXPECT_EQ(rep.numbers[1].column, "amount");
+    EXPECT_EQ(rep.numbers[1].kind, NumberReading::DecimalComma);
 }
 
 TEST(DecimalMark, GroupedNumbers) {

@@ -182,3 +182,47 @@ TEST(RowFilter, ApplyEqualsReadingOnlyTheKeptRows) {
     EXPECT_EQ(kept->weights, direct->weights);
     EXPECT_EQ(kept->weight_column, "n");
 }
+
+TEST(RowFilter, KeepsTheColumnsLabelsAndDescriptions) {
+    // A statistical file's variable label and the codes behind its value labels describe the
+    // column; keeping fewer rows must not drop them.
+    Table t = sample();
+    t.columns[0].label = "Region of the branch";
+    t.columns[3].description = "1 = yes; 2 = no";
+    auto f = filter::parse("year = 2024");
+    ASSERT_TRUE(f.ok());
+    auto kept = filter::apply(*f, t);
+    ASSERT_TRUE(kept.ok()) << kept.error().to_string();
+    EXPECT_EQ(kept->rows, 4u);
+    EXPECT_EQ(kept->columns[0].label, "Region of the branch");
+    EXPECT_EQ(kept->columns[3].description, "1 = yes; 2 = no");
+}
+
+TEST(RowFilter, DeepOrLongFiltersAreRefusedWithAMessage) {
+    // Bounds on nesting and on the number of tests keep every walk of the tree shallow.
+    std::string nested;
+    for (int i = 0; i < 100; ++i) nested += "(";
+    nested += "year = 2024";
+    for (int i = 0; i < 100; ++i) nested += ")";
+    auto ok = filter::parse(nested);
+    ASSERT_TRUE(ok.ok()) << ok.error().to_string();
+    EXPECT_EQ(filter::canonical_text(*ok), "year = 2024");
+    EXPECT_EQ(parse_error("(" + nested + ")"),
+              "rows filter, character 101: expected a test, found '(' nested more than 100 deep ('not' and '(' "
+              "together)");
+    std::string nots;
+    for (int i = 0; i < 101; ++i) nots += "not ";
+    EXPECT_EQ(parse_error(nots + "year = 1").substr(0, 48), "rows filter, character 401: expected a test, fou");
+
+    std::string chain = "year = 0";
+    for (int i = 1; i < 1000; ++i) chain += " or year = " + std::to_string(i);
+    auto long_ok = filter::parse(chain);
+    ASSERT_TRUE(long_ok.ok()) << long_ok.error().to_string();
+    const Table t = sample();
+    auto m = filter::keep_mask(*long_ok, t);
+    ASSERT_TRUE(m.ok());
+    EXPECT_EQ(*m, (Mask{0, 0, 0, 0, 0, 0})) << "years 0..999 hold none of 2022..2024";
+    const std::string more = chain + " or year = 2024";
+    EXPECT_EQ(parse_error(more), "rows filter, character " + std::to_string(chain.size() + 5) +
+                                     ": a filter holds at most 1000 tests");
+}
