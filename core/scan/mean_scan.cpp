@@ -8,6 +8,7 @@
 
 #include "core/common/run_tasks.h"
 #include "core/scan/mean_analysis.h"
+#include "core/scan/mean_cells.h"
 #include "core/stats/median.h"
 
 namespace foldline {
@@ -85,6 +86,35 @@ Result<MeanRows> encode(const Table& t, const Question& g, const MeanQuestion& q
         std::sort(r.sorted.begin(), r.sorted.end(), [&](std::uint32_t a, std::uint32_t b) { return r.raw[a] < r.raw[b]; });
     }
     return r;
+}
+
+// The rows as the fast path reads them (row-level data without weights): every table row with
+// its group slot (slots for a row that takes no part) and its analysed value.
+MeanCellRows cell_rows(const Table& t, const Question& g, const MeanQuestion& q) {
+    MeanCellRows r;
+    r.slots = g.slots();
+    const RowCells cells = encode_rows(t, g);
+    const Column& oc = t.columns[g.outcome_column];
+    r.slot.resize(t.rows);
+    r.y.resize(t.rows);
+    const auto unused = static_cast<std::uint8_t>(r.slots);
+    for (std::size_t i = 0; i < t.rows; ++i) {
+        const double v = oc.values[i];
+        const bool use = cells.cell[i] != cells.unused() && std::isfinite(v);
+        r.slot[i] = use ? static_cast<std::uint8_t>(cells.cell[i] / 2) : unused;
+        r.y[i] = !use ? 0.0 : q.log_outcome ? std::log(v) : v;
+    }
+    return r;
+}
+
+// Origins for the cells of a summed check: each cell's mean, 0 where it has none.
+std::vector<double> cell_origins(const std::vector<stats::MeanMoments>& cells) {
+    std::vector<double> o(cells.size(), 0.0);
+    for (std::size_t c = 0; c < cells.size(); ++c) {
+        const double m = cells[c].mean();
+        if (std::isfinite(m)) o[c] = m;
+    }
+    return o;
 }
 
 // One cell's sums about its origin (the first value folded in): the shifted-data form of the
@@ -228,13 +258,23 @@ Result<MeanScan> scan_means(const Table& t, const MeanQuestion& q, const Candida
     for (const auto& c : cands.candidates)
         if (!c.column || c.column->size() != t.rows || !c.column->is_categorical() || c.column->levels.size() >= kMissing)
             return make_error("stratifier '" + c.name + "' does not belong to this table");
-    auto rows_r = encode(t, *g, q, &cands);
-    if (!rows_r) return rows_r.error();
-    const MeanRows& rows = *rows_r;
+    // Row-level data without weights and without medians take the fast path (core/scan/
+    // mean_cells.h): codes read in place, sums about fixed origins. Weighted rows and pay-gap
+    // medians keep the compacted rows, summed about each cell's first value.
+    const bool fast = !t.weighted() && !q.pay_gap;
+    MeanRows rows;
+    MeanCellRows fast_rows;
+    if (fast) {
+        fast_rows = cell_rows(t, *g, q);
+    } else {
+        auto rows_r = encode(t, *g, q, &cands);
+        if (!rows_r) return rows_r.error();
+        rows = std::move(*rows_r);
+    }
 
     MeanScan out;
     out.groups = *g;
-    const std::size_t slots = rows.slots, ncomp = g->comparisons();
+    const std::size_t slots = g->slots(), ncomp = g->comparisons();
 
     // Checks in result order: every single candidate, then every pair (i, j), i < j. A task sums
     // one single, or the pairs of i with up to kPairBatch later candidates in one pass.
@@ -266,15 +306,14 @@ Result<MeanScan> scan_means(const Table& t, const MeanQuestion& q, const Candida
     const double total = static_cast<double>(checks.size());
     work.report(0, total, "summing cells");
 
-    auto analyse = [&](std::size_t ti, const std::vector<Cell>& sums) {
+    auto analyse = [&](std::size_t ti, std::vector<stats::MeanMoments> cells) {
         const Check& c = checks[ti];
         const Column& a = *cands.candidates[c.i].column;
         const bool pair = c.j != kSingle;
         const Column* b = pair ? cands.candidates[c.j].column : nullptr;
         const std::size_t lb = pair ? b->levels.size() : 1;
         const std::size_t strata = a.levels.size() * lb;
-        std::vector<stats::MeanMoments> cells(sums.size()), raw;
-        for (std::size_t k = 0; k < sums.size(); ++k) cells[k] = sums[k].moments();
+        std::vector<stats::MeanMoments> raw;
         std::vector<double> medians, pooled_median;
         if (q.pay_gap) {
             const auto& ca = rows.codes[c.i];
@@ -337,20 +376,61 @@ Result<MeanScan> scan_means(const Table& t, const MeanQuestion& q, const Candida
         work.report(static_cast<double>(finished.fetch_add(1) + 1), total, "summing cells");
     };
 
-    run_tasks(tasks.size(), resolve_threads(q.threads), [&](std::size_t t) {
-        if (work.cancelled()) return;
-        const Task& task = tasks[t];
-        const Check& head = checks[task.first];
-        const std::size_t la = cands.candidates[head.i].column->levels.size();
-        std::vector<std::size_t> bs, lbs;
-        if (head.j != kSingle)
+    const unsigned threads = resolve_threads(q.threads);
+    if (!fast) {
+        run_tasks(tasks.size(), threads, [&](std::size_t t) {
+            if (work.cancelled()) return;
+            const Task& task = tasks[t];
+            const Check& head = checks[task.first];
+            const std::size_t la = cands.candidates[head.i].column->levels.size();
+            std::vector<std::size_t> bs, lbs;
+            if (head.j != kSingle)
+                for (std::size_t k = 0; k < task.count; ++k) {
+                    bs.push_back(checks[task.first + k].j);
+                    lbs.push_back(cands.candidates[bs.back()].column->levels.size());
+                }
+            const auto sums = accumulate(rows, head.i, la, bs, lbs);
             for (std::size_t k = 0; k < task.count; ++k) {
-                bs.push_back(checks[task.first + k].j);
-                lbs.push_back(cands.candidates[bs.back()].column->levels.size());
+                std::vector<stats::MeanMoments> cells(sums[k].size());
+                for (std::size_t c = 0; c < cells.size(); ++c) cells[c] = sums[k][c].moments();
+                analyse(task.first + k, std::move(cells));
             }
-        const auto sums = accumulate(rows, head.i, la, bs, lbs);
-        for (std::size_t k = 0; k < task.count; ++k) analyse(task.first + k, sums[k]);
-    });
+        });
+    } else {
+        // Singles first: their cell means are the origins of the pairs' cells.
+        const std::size_t stride = slots + 1;
+        std::vector<double> slot_origin = cell_origins(pooled_slot_moments(fast_rows));
+        std::vector<std::vector<double>> origins(nc);
+        run_tasks(nc, threads, [&](std::size_t i) {
+            if (work.cancelled()) return;
+            const Column& a = *cands.candidates[i].column;
+            const auto sums = single_cells(fast_rows, a, slot_origin);
+            origins[i] = cell_origins(sums);
+            std::vector<stats::MeanMoments> cells(a.levels.size() * slots);
+            for (std::size_t k = 0; k < a.levels.size(); ++k)
+                for (std::size_t s = 0; s < slots; ++s) cells[k * slots + s] = sums[k * stride + s];
+            analyse(i, std::move(cells));
+        });
+        run_tasks(tasks.size() - nc, threads, [&](std::size_t t) {
+            if (work.cancelled()) return;
+            const Task& task = tasks[nc + t];
+            const Check& head = checks[task.first];
+            const Column& a = *cands.candidates[head.i].column;
+            const std::size_t la = a.levels.size();
+            std::vector<const Column*> bs;
+            for (std::size_t k = 0; k < task.count; ++k) bs.push_back(cands.candidates[checks[task.first + k].j].column);
+            const auto sums = pair_cells(fast_rows, a, bs, origins[head.i]);
+            for (std::size_t k = 0; k < task.count; ++k) {
+                const std::size_t lb = bs[k]->levels.size();
+                std::vector<stats::MeanMoments> cells(la * lb * slots);
+                for (std::size_t ka = 0; ka < la; ++ka)
+                    for (std::size_t kb = 0; kb < lb; ++kb)
+                        for (std::size_t s = 0; s < slots; ++s)
+                            cells[(ka * lb + kb) * slots + s] = sums[k][(kb * (la + 1) + ka) * stride + s];
+                analyse(task.first + k, std::move(cells));
+            }
+        });
+    }
     out.cancelled = work.cancelled();
     for (std::size_t ti = 0; ti < checks.size(); ++ti) {
         if (!done[ti]) continue;

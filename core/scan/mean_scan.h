@@ -3,9 +3,10 @@
 // explained, masked or split within the strata of a stratifier (or a pair of them)?
 //
 // One pass over the rows builds each check's per-cell sufficient statistics (stratum × group:
-// Σw and the sums of y about the cell's first value, the shifted-data form of the centred sums,
-// turned into core/stats/mean_gap.h's MeanMoments); a candidate's pairs are summed in batches
-// of one pass each. Every figure and the class of a finding come from those cells
+// Σw and the sums of y about an origin near the cell's mean, the shifted-data form of the
+// centred sums, turned into core/stats/mean_gap.h's MeanMoments); a candidate's pairs are summed
+// in batches of one pass each. Row-level data without weights go through core/scan/mean_cells.h
+// (codes read in place, fixed origins, an exact second pass for a check that would lose digits). Every figure and the class of a finding come from those cells
 // (core/scan/mean_analysis.h).
 // Rows are used when the outcome is present (and, with log_outcome, positive), the row is in
 // one of the compared groups and its weight is positive; a missing stratifier value leaves the

@@ -254,3 +254,73 @@ TEST(MeanScan, OneFalseDiscoveryFamilyWithTheOtherKinds) {
     EXPECT_NEAR(r.mean_findings[1].q_value, 0.04, 1e-12);
     EXPECT_NEAR(r.slope_findings[0].q_value, 0.04, 1e-12);
 }
+
+namespace {
+
+// Means and SDs of every stratum × group cell by the two-pass textbook formula (mean first, then
+// Σ (y − mean)² / (n − 1)) in long double: the reference for the scan's one-pass cell sums.
+struct TwoPass {
+    std::map<std::string, std::vector<long double>> cells;
+    void add(const std::string& key, double y) { cells[key].push_back(y); }
+    std::pair<long double, long double> mean_sd(const std::string& key) const {
+        const auto& v = cells.at(key);
+        long double m = 0;
+        for (auto y : v) m += y;
+        m /= v.size();
+        long double ss = 0;
+        for (auto y : v) ss += (y - m) * (y - m);
+        return {m, v.size() > 1 ? std::sqrt(ss / (v.size() - 1)) : NAN};
+    }
+};
+
+// Rows with values near `level` (strata `spread` apart) and a unit spread within cells, two
+// stratifiers; with `constant`, the first level of s2 constant within each cell (an SD of 0).
+void check_against_two_pass(double level, double spread, bool constant) {
+    std::string text = "g,s1,s2,y\n";
+    TwoPass ref;
+    for (int i = 0; i < 6000; ++i) {
+        const std::string g = i % 2 ? "B" : "A", s1 = std::string(1, 'a') + char('0' + i % 3), s2 = std::string(1, 'b') + char('0' + i % 5);
+        const double y = constant && s2 == "b0" ? level + 7 * (i % 3) : level + spread * (i % 3) + ((i * 7919) % 1000) / 500.0 - 1;
+        char buf[64];
+        std::snprintf(buf, sizeof buf, "%.17g", y);
+        text += g + "," + s1 + "," + s2 + "," + buf + "\n";
+        const double back = std::strtod(buf, nullptr);
+        ref.add(g + "|" + s1, back);
+        ref.add(g + "|" + s2, back);
+        ref.add(g + "|" + s1 + " | " + s2, back);
+    }
+    const Table t = read(text);
+    MeanQuestion q;
+    q.outcome = "y";
+    q.groups.exposure = "g";
+    q.groups.focal = {"B"};
+    q.groups.reference = "A";
+    auto c = select_candidates(t, {"y", "g"}, CandidateOptions{});
+    ASSERT_TRUE(c);
+    auto s = scan_means(t, q, *c);
+    ASSERT_TRUE(s) << s.error().message;
+    ASSERT_EQ(s->findings.size(), 3u);
+    std::size_t compared = 0;
+    for (const auto& f : s->findings)
+        for (const auto& r : f.strata_table) {
+            for (const auto& [g, gm] : {std::pair{std::string("B"), r.focal}, std::pair{std::string("A"), r.reference}}) {
+                const auto [m, sd] = ref.mean_sd(g + "|" + r.level);
+                EXPECT_NEAR(gm.mean, static_cast<double>(m), 1e-9 * std::fabs(static_cast<double>(m))) << r.level;
+                if (sd == 0) EXPECT_EQ(gm.sd, 0.0) << r.level;
+                else EXPECT_NEAR(gm.sd, static_cast<double>(sd), 1e-9 * static_cast<double>(sd)) << g << " " << r.level;
+                ++compared;
+            }
+        }
+    EXPECT_EQ(compared, 2u * (3 + 5 + 15));
+}
+
+}  // namespace
+
+// Cells whose values are all equal are summed again about their first value: SD exactly 0.
+TEST(MeanScan, CellSumsMatchTwoPassNearAMillion) { check_against_two_pass(1e6, 3, true); }
+
+TEST(MeanScan, CellSumsMatchTwoPassWhenStrataLieFarApart) {
+    // Strata 1e8 apart at 1e9 with a unit spread within cells: a cell's origin (its parent's
+    // mean) lies far from its own mean.
+    check_against_two_pass(1e9, 1e8, false);
+}
