@@ -174,10 +174,16 @@ MainWindow::MainWindow(QWidget* parent) : QMainWindow(parent) {
     connect(question_, &QuestionPage::changed, this, edited);
     connect(diagram_->doc(), &DiagramDoc::structure_changed, this, edited);
     connect(diagram_->undo_stack(), &QUndoStack::indexChanged, this, edited);
+    connect(memo_, &MemoPage::detail_changed, this, [this] {
+        set_unsaved(true);
+        autosave_->mark_changed();
+        if (step() == Memo) refresh_memo();
+    });
     connect(source_, &SourcePage::table_loaded, this, [this](std::shared_ptr<const Table> t, const QString&) {
         if (t && !pending_) {
             // New data outside a project: a new audit, unsaved.
             base_.reset();
+            memo_->set_detail({});
             project_path_.clear();
             autosave_->set_project_file({});
         }
@@ -592,6 +598,7 @@ Result<project::Project> MainWindow::current_project() const {
     p.data.decimal = o.decimal;
     const QuestionSpec q = last_question_.outcome.isEmpty() ? question_->spec() : last_question_;
     static_cast<project::AuditSpec&>(p) = audit_spec(q, p);
+    p.memo.detail = memo_->detail().toStdString();
     // The diagram is the audit's once the reviewer confirmed it or changed anything in it (an
     // untouched starting diagram is not saved: it holds nothing the reviewer drew).
     if (seeded_row_ >= 0 && (diagram_->doc()->confirmed() || diagram_->undo_stack()->count() > 0)) {
@@ -732,6 +739,7 @@ void MainWindow::open_project_document(const project::Project& project, const QS
     pending_->project = project;
     pending_->path = path;
     base_ = project;
+    memo_->set_detail(QString::fromStdString(project.memo.detail));
     project_path_ = path;
     data_change_.clear();
     saved_data_ = project.data;

@@ -1,5 +1,6 @@
 #include "ui/memo_page.h"
 
+#include <QComboBox>
 #include <QDateTime>
 #include <QHBoxLayout>
 #include <QLabel>
@@ -24,7 +25,18 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
     pdf->setObjectName(QStringLiteral("export_memo"));
     pdf->setToolTip(tr("Write the memo with the findings, tables, charts, diagram, decisions and the caution"));
     connect(pdf, &QPushButton::clicked, this, &MemoPage::export_requested);
+    detail_ = new QComboBox;
+    detail_->setObjectName(QStringLiteral("memo_detail"));
+    detail_->addItem(tr("One section per family (related findings in a table)"), QStringLiteral("families"));
+    detail_->addItem(tr("One section per finding"), QStringLiteral("full"));
+    detail_->setToolTip(tr("How much the PDF memo repeats: by default one section per family lead, its "
+                           "related findings listed in a table; or a full section for every finding"));
+    connect(detail_, &QComboBox::currentIndexChanged, this, [this] { emit detail_changed(); });
+    auto* detail_label = new QLabel(tr("Memo &detail:"));
+    detail_label->setBuddy(detail_);
     auto* row = new QHBoxLayout;
+    row->addWidget(detail_label);
+    row->addWidget(detail_);
     row->addStretch();
     row->addWidget(pdf);
     preview_ = new QLabel;
@@ -50,6 +62,14 @@ MemoPage::MemoPage(FindingsModel* model, QWidget* parent) : QWidget(parent), mod
 }
 
 QString MemoPage::html() const { return text_->toHtml(); }
+
+QString MemoPage::detail() const { return detail_->currentData().toString(); }
+
+void MemoPage::set_detail(const QString& detail) {
+    const QSignalBlocker block(detail_);
+    const int i = detail_->findData(detail);
+    detail_->setCurrentIndex(i < 0 ? 0 : i);
+}
 
 void MemoPage::set_page_preview(const QImage& page) {
     page_ = page;

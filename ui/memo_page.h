@@ -4,6 +4,7 @@
 #include <QImage>
 #include <QWidget>
 
+class QComboBox;
 class QLabel;
 class QTextBrowser;
 
@@ -23,14 +24,22 @@ public:
     void set_page_preview(const QImage& page);
     /// The preview shown (null when none).
     QImage page_preview() const { return page_; }
+    /// The memo's detail: "families" (one section per family lead, the default) or "full" (one
+    /// section per finding), as the project file's `memo.detail` spells it.
+    QString detail() const;
+    /// Shows a project's choice without signalling a change; anything else reads as "families".
+    void set_detail(const QString& detail);
 
 signals:
     void export_requested();
+    /// The reviewer chose another detail (not emitted by set_detail).
+    void detail_changed();
 
 private:
     FindingsModel* model_;
     QTextBrowser* text_;
     QLabel* preview_;
+    QComboBox* detail_;
     QImage page_;
 };
 

@@ -2,6 +2,7 @@
 #include "core/audit/project_file.h"  // core before Qt (see DEVELOPERS.md)
 #include "core/common/sha256.h"
 
+#include <QComboBox>
 #include <QAction>
 #include <QLabel>
 #include <QLineEdit>
@@ -734,6 +735,37 @@ private slots:
             return n;
         };
         QTRY_VERIFY_WITH_TIMEOUT(restored() == members, 120000);
+    }
+
+    // The memo's detail is chosen on the Memo step: the choice makes the audit unsaved, is saved
+    // as memo.detail (docs/project-file.md) and comes back when the audit is reopened.
+    void memo_detail_choice_is_saved_and_restored() {
+        if (!reader_available() || !scan_available()) QSKIP("this build lacks the CSV reader or the scan engine");
+        if (find_sample("lender_approvals.csv").isEmpty()) QSKIP("sample_data/lender_approvals.csv not found");
+        QTemporaryDir dir;
+        const QString audit = dir.filePath("detail.foldline");
+        {
+            MainWindow w;
+            const QString err = prepare_demo(w, 120000);
+            QVERIFY2(err.isEmpty(), qPrintable(err));
+            QVERIFY(w.save_project_to(audit).ok());
+            QVERIFY(!w.unsaved());
+            auto* combo = w.findChild<QComboBox*>(QStringLiteral("memo_detail"));
+            QVERIFY(combo);
+            QCOMPARE(combo->currentData().toString(), QString("families"));
+            w.go_to(MainWindow::Memo);
+            combo->setCurrentIndex(combo->findData(QStringLiteral("full")));
+            QVERIFY(w.unsaved());
+            QVERIFY(w.save_project_to(audit).ok());
+        }
+        auto saved = project::load_project(audit.toStdString());
+        QVERIFY(saved.ok());
+        QCOMPARE(QString::fromStdString(saved->memo.detail), QString("full"));
+        MainWindow again;
+        QVERIFY(again.open_project(audit).ok());
+        auto* combo = again.findChild<QComboBox*>(QStringLiteral("memo_detail"));
+        QVERIFY(combo);
+        QCOMPARE(combo->currentData().toString(), QString("full"));
     }
 
     void trend_path_on_the_retail_sample() {
