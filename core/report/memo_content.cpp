@@ -63,6 +63,15 @@ std::string strata_words(const RateFinding& f) { return joined(f.strata, " × ")
 
 std::string comparison_words(const RateFinding& f) { return f.focal + " vs " + f.reference; }
 
+// A finding's decision as the memo prints it; a decision applied from the family's lead says so
+// (the member keeps its own record, docs/project-file.md `applied_from`).
+std::string decision_words(const project::FindingReview* rv) {
+    if (!rv) return "undecided";
+    std::string s(to_string(rv->decision));
+    if (!rv->applied_from.empty()) s += " (from the lead " + rv->applied_from + ")";
+    return s;
+}
+
 const project::FindingReview* review_of(const RateFinding& f, const project::Project* p) {
     return p ? p->review(project::rate_key(f.strata, f.focal, f.reference)) : nullptr;
 }
@@ -515,7 +524,7 @@ std::string answer_paragraph(const RateFinding& f, const Question& q, const proj
     else if (!f.verdict_problem.empty()) s += " The diagram cannot say which view answers the question: " + f.verdict_problem + ".";
     else s += " No causal diagram was given, so the memo does not say which view answers the question.";
     const auto* rv = review_of(f, p);
-    s += " Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+    s += " Reviewer's decision: " + decision_words(rv) + ".";
     if (related > 0)
         s += " " + std::to_string(related) + " related finding" + (related == 1 ? " repeats" : "s repeat") +
              " this story (listed in its section).";
@@ -667,7 +676,7 @@ MemoContent build_memo(const MemoInput& in) {
                                    comparison_words(f), points(f.crude.rd),
                                    points(f.adjusted.mh_rd.greenland_robins.estimate), p_text(f.q_value),
                                    std::isfinite(f.stability.share) ? percent(f.stability.share) : "-",
-                                   rv ? std::string(to_string(rv->decision)) : "undecided"});
+                                   decision_words(rv)});
         if (included_in_memo(f, p) && (full || f.family.role == FamilyRole::Lead)) section_of.push_back(i);
     }
     std::vector<std::size_t> slope_section_of;
@@ -681,7 +690,7 @@ MemoContent build_memo(const MemoInput& in) {
                                    slope_strata_words(f), f.y + " on " + f.x, slope(f.pooled.slope),
                                    slope(f.within.slope), p_text(f.q_value),
                                    f.stability.draws > 0 ? percent(f.stability.share) : "-",
-                                   rv ? std::string(to_string(rv->decision)) : "undecided"});
+                                   decision_words(rv)});
         if (included_in_memo(f, p) && (full || f.family.role == FamilyRole::Lead)) slope_section_of.push_back(i);
     }
     const std::size_t with_section = std::min(section_of.size(), in.max_sections);
@@ -756,7 +765,7 @@ MemoContent build_memo(const MemoInput& in) {
         sec.decomposition = decomposition_sentence(f);
         sec.e_value = e_value_sentence(f);
         const auto* rv = review_of(f, p);
-        sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+        sec.decision = "Reviewer's decision: " + decision_words(rv) + ".";
         if (rv) sec.note = rv->note;
         if (!full) {
             for (const RateFinding* g : related_to(r, f)) {
@@ -810,7 +819,7 @@ MemoContent build_memo(const MemoInput& in) {
         }
         if (r.diagram_checks && with_section + k == 0) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;
-        sec.decision = "Reviewer's decision: " + std::string(rv ? to_string(rv->decision) : "undecided") + ".";
+        sec.decision = "Reviewer's decision: " + decision_words(rv) + ".";
         if (rv) sec.note = rv->note;
         if (!full) {
             for (const SlopeFinding* g : related_to(r, f)) {

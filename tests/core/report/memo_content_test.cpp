@@ -149,6 +149,14 @@ TEST(MemoContent, ReviewDecisionsNotesAndChoices) {
     EXPECT_EQ(m.sections[0].decision, "Reviewer's decision: follow up.");
     EXPECT_EQ(m.sections[0].note, rv.note);  // kept verbatim: the renderer prints it literally
     EXPECT_EQ(m.findings.rows[0][8], "follow up");
+    // A decision applied from the family's lead says where it came from, in the section and in
+    // the findings table (project file `applied_from`).
+    rv.applied_from = "product";
+    m = build_memo(in);
+    EXPECT_EQ(m.sections[0].decision, "Reviewer's decision: follow up (from the lead product).");
+    EXPECT_EQ(m.findings.rows[0][8], "follow up (from the lead product)");
+    rv.applied_from.clear();
+    m = build_memo(in);
     const auto analyst = std::find_if(m.facts.begin(), m.facts.end(), [](auto& f) { return f.first == "Analyst"; });
     ASSERT_NE(analyst, m.facts.end());
     EXPECT_EQ(analyst->second, "Analyst <i>name</i>");
