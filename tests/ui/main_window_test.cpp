@@ -1044,7 +1044,9 @@ private slots:
         QVERIFY(s.contains(QStringLiteral("All (pooled) 5,000 +21.57")));
         QVERIFY(s.contains(QStringLiteral("high_street 1,460 -4.322")));
         QVERIFY(s.contains(QStringLiteral("kiosk 1,526 -3.887")));
-        QVERIFY(s.contains(QStringLiteral("mall 1,270 -3.719")));
+        // mall: a page break may fall between the label and its figures (the header repeats).
+        QVERIFY(s.contains(QStringLiteral("mall 1,270 -3.719")) ||
+                (s.contains(QStringLiteral("Stratum mall")) && s.contains(QStringLiteral("1,270 -3.719"))));
         QVERIFY(s.contains(QStringLiteral("744 -4.083")));  // superstore (its label may be read after the row)
         // The chart, drawn as vectors: its title and legend are selectable text.
         QVERIFY(s.contains(QStringLiteral("weekly_sales on promo_spend by store_format")));
