@@ -7,6 +7,7 @@
 #include <mutex>
 #include <functional>
 
+#include "core/common/fnv1a.h"
 #include "core/common/run_tasks.h"
 #include "core/stats/bootstrap.h"
 #include "core/stats/distributions.h"
@@ -52,14 +53,6 @@ ClassInputs quick_inputs(const stats::Strata& strata, bool need_homogeneity) {
     use_small_counts(sc, in.p_homogeneity, in);
     if (!homogeneity) in.p_homogeneity = kNaN;
     return in;
-}
-
-std::uint64_t fnv1a(const std::string& s, std::uint64_t h = 1469598103934665603ull) {
-    for (unsigned char ch : s) {
-        h ^= ch;
-        h *= 1099511628211ull;
-    }
-    return h;
 }
 
 std::string join_levels(const std::vector<std::string>& v) {

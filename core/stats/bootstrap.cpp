@@ -57,76 +57,6 @@ void conditional_binomials(std::int64_t n, const double* share, const std::size_
     }
 }
 
-// Multinomial(n, share) over k cells, with everything that depends only on the observed shares
-// prepared once. Cells with n p (1 - p) >= kNormalFrom ("large") are drawn jointly from the
-// normal approximation with the multinomial's covariance n (diag q - q q') and an exact total:
-// x_i = n_L q_i + sqrt(n_L) (sqrt(q_i) Z_i - q_i sum_j sqrt(q_j) Z_j), rounded, the rounding
-// remainder given to the largest cell. How many rows go to the large cells, and the small cells
-// themselves, are drawn exactly (conditional binomials). No serial chain runs through the large
-// cells, which is where the time went.
-class MultinomialSampler {
-public:
-    MultinomialSampler(std::int64_t n, std::vector<double> share) : n_(n), share_(std::move(share)) {
-        const double dn = static_cast<double>(n);
-        for (std::size_t i = 0; i < share_.size(); ++i) {
-            if (share_[i] <= 0) continue;
-            if (dn * share_[i] * (1.0 - share_[i]) >= kNormalFrom) {
-                large_.push_back(i);
-                p_large_ += share_[i];
-            } else {
-                small_.push_back(i);
-                p_small_ += share_[i];
-            }
-        }
-        for (auto i : large_) {
-            const double q = share_[i] / p_large_;
-            q_.push_back(q);
-            root_q_.push_back(std::sqrt(q));
-        }
-        z_.resize(large_.size());
-        if (!large_.empty() && !small_.empty()) {
-            pl_ = p_large_ / (p_large_ + p_small_);
-            npq_ = dn * pl_ * (1 - pl_);
-        }
-    }
-
-    void draw(double* out, Xoshiro256& rng) {
-        std::fill(out, out + share_.size(), 0.0);
-        const double dn = static_cast<double>(n_);
-        std::int64_t n_large = 0;
-        if (large_.empty()) n_large = 0;
-        else if (small_.empty()) n_large = n_;
-        else if (npq_ >= kNormalFrom)
-            n_large = static_cast<std::int64_t>(std::clamp(round_half_away(dn * pl_ + std::sqrt(npq_) * rng.normal()), 0.0, dn));
-        else
-            n_large = std::binomial_distribution<std::int64_t>(n_, std::min(1.0, pl_))(rng);
-        conditional_binomials(n_ - n_large, share_.data(), small_.data(), small_.size(), p_small_, out, rng);
-        if (large_.empty()) return;
-        const double nl = static_cast<double>(n_large), root = std::sqrt(nl);
-        double s = 0;
-        for (std::size_t j = 0; j < large_.size(); ++j) {
-            z_[j] = rng.normal();
-            s += root_q_[j] * z_[j];
-        }
-        double sum = 0;
-        std::size_t biggest = large_[0];
-        for (std::size_t j = 0; j < large_.size(); ++j) {
-            const double x = std::max(0.0, round_half_away(nl * q_[j] + root * (root_q_[j] * z_[j] - q_[j] * s)));
-            out[large_[j]] = x;
-            sum += x;
-            if (x > out[biggest]) biggest = large_[j];
-        }
-        out[biggest] = std::max(0.0, out[biggest] + (nl - sum));
-    }
-
-private:
-    std::int64_t n_;
-    std::vector<double> share_;
-    std::vector<std::size_t> large_, small_;
-    std::vector<double> q_, root_q_, z_;
-    double p_large_ = 0, p_small_ = 0, pl_ = 0, npq_ = 0;
-};
-
 // Both groups of a cube: group 0 is (a, b) per stratum, group 1 is (c, d).
 class CubeSampler {
 public:
@@ -169,6 +99,59 @@ private:
 };
 
 }  // namespace
+
+MultinomialSampler::MultinomialSampler(std::int64_t n, std::vector<double> share) : n_(n), share_(std::move(share)) {
+    const double dn = static_cast<double>(n);
+    for (std::size_t i = 0; i < share_.size(); ++i) {
+        if (share_[i] <= 0) continue;
+        if (dn * share_[i] * (1.0 - share_[i]) >= kNormalFrom) {
+            large_.push_back(i);
+            p_large_ += share_[i];
+        } else {
+            small_.push_back(i);
+            p_small_ += share_[i];
+        }
+    }
+    for (auto i : large_) {
+        const double q = share_[i] / p_large_;
+        q_.push_back(q);
+        root_q_.push_back(std::sqrt(q));
+    }
+    z_.resize(large_.size());
+    if (!large_.empty() && !small_.empty()) {
+        pl_ = p_large_ / (p_large_ + p_small_);
+        npq_ = dn * pl_ * (1 - pl_);
+    }
+}
+
+void MultinomialSampler::draw(double* out, Xoshiro256& rng) {
+    std::fill(out, out + share_.size(), 0.0);
+    const double dn = static_cast<double>(n_);
+    std::int64_t n_large = 0;
+    if (large_.empty()) n_large = 0;
+    else if (small_.empty()) n_large = n_;
+    else if (npq_ >= kNormalFrom)
+        n_large = static_cast<std::int64_t>(std::clamp(round_half_away(dn * pl_ + std::sqrt(npq_) * rng.normal()), 0.0, dn));
+    else
+        n_large = std::binomial_distribution<std::int64_t>(n_, std::min(1.0, pl_))(rng);
+    conditional_binomials(n_ - n_large, share_.data(), small_.data(), small_.size(), p_small_, out, rng);
+    if (large_.empty()) return;
+    const double nl = static_cast<double>(n_large), root = std::sqrt(nl);
+    double s = 0;
+    for (std::size_t j = 0; j < large_.size(); ++j) {
+        z_[j] = rng.normal();
+        s += root_q_[j] * z_[j];
+    }
+    double sum = 0;
+    std::size_t biggest = large_[0];
+    for (std::size_t j = 0; j < large_.size(); ++j) {
+        const double x = std::max(0.0, round_half_away(nl * q_[j] + root * (root_q_[j] * z_[j] - q_[j] * s)));
+        out[large_[j]] = x;
+        sum += x;
+        if (x > out[biggest]) biggest = large_[j];
+    }
+    out[biggest] = std::max(0.0, out[biggest] + (nl - sum));
+}
 
 Xoshiro256::Xoshiro256(std::uint64_t seed) {
     for (auto& s : s_) s = splitmix64(seed);

@@ -7,9 +7,11 @@
 // the large cells, are drawn exactly by conditional binomials. Random numbers come
 // from xoshiro256** (Blackman & Vigna 2018) seeded through splitmix64, normal deviates from the
 // ziggurat method, so a seed gives the same draws on every run and thread.
+#include <cstddef>
 #include <cstdint>
 #include <functional>
 #include <limits>
+#include <vector>
 
 #include "core/stats/stratified.h"
 
@@ -31,6 +33,29 @@ public:
 
 private:
     std::uint64_t s_[4];
+};
+
+/// Multinomial(n, share) over k cells, with everything that depends only on the observed shares
+/// prepared once (used for each group of a count cube, and for the cell counts of a mean-gap
+/// resample). Cells with n p (1 - p) >= 50 ("large") are drawn jointly from the normal
+/// approximation with the multinomial's covariance n (diag q - q q') and an exact total:
+/// x_i = n_L q_i + sqrt(n_L) (sqrt(q_i) Z_i - q_i sum_j sqrt(q_j) Z_j), rounded, the rounding
+/// remainder given to the largest cell. How many rows go to the large cells, and the small cells
+/// themselves, are drawn exactly (conditional binomials). No serial chain runs through the large
+/// cells, which is where the time went.
+class MultinomialSampler {
+public:
+    /// `share` sums to 1 (cells with share <= 0 always get 0).
+    MultinomialSampler(std::int64_t n, std::vector<double> share);
+    /// Writes one draw (share.size() counts summing to n) into out.
+    void draw(double* out, Xoshiro256& rng);
+
+private:
+    std::int64_t n_;
+    std::vector<double> share_;
+    std::vector<std::size_t> large_, small_;
+    std::vector<double> q_, root_q_, z_;
+    double p_large_ = 0, p_small_ = 0, pl_ = 0, npq_ = 0;
 };
 
 /// One multinomial redraw of both groups. Weighted (non-integer) totals are rounded to the
