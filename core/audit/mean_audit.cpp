@@ -1,6 +1,7 @@
 #include "core/audit/mean_audit.h"
 
 #include "core/scan/candidates.h"
+#include "core/scan/mean_stability.h"
 
 namespace foldline::audit {
 
@@ -42,13 +43,16 @@ Result<ScanResult> scan_mean_question(const Table& table, const AuditSpec& spec,
     }
     r.rows = table.total_weight();
     r.alpha = spec.scan.alpha;
-    r.bootstrap = 0;  // no resampled stability for mean gaps yet
+    r.bootstrap = spec.scan.bootstrap;
     r.seed = spec.scan.seed;
     r.mean_scan = true;
     r.log_outcome = mq.log_outcome;
     r.cancelled = scan->cancelled;
     r.mean_findings = std::move(scan->findings);
     apply_fdr(r);
+    // Stability of the flagged findings after the FDR step has settled their classes, as for rates.
+    if (!r.cancelled && !resample_mean_findings(r.mean_findings, r.alpha, spec.scan.bootstrap, r.seed, threads, work))
+        r.cancelled = true;
     rank_findings(r);
     return r;
 }

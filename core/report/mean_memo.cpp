@@ -186,9 +186,9 @@ void fill_mean_memo(MemoContent& m, const MemoInput& in) {
                  "difference and the within-strata gap the part not carried by that path.";
 
     m.findings = {};
-    m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled", "Within", "q", "Decision"};
-    m.findings.widths = {0.45, 1.55, 2.0, 1.3, 1.1, 1.1, 1.0, 1.0};
-    m.findings.numeric = {true, false, false, false, true, true, true, false};
+    m.findings.header = {"#", "Class", "Strata", "Comparison", "Pooled", "Within", "q", "Stability", "Decision"};
+    m.findings.widths = {0.45, 1.4, 1.8, 1.45, 1.0, 1.0, 0.8, 0.85, 0.95};
+    m.findings.numeric = {true, false, false, false, true, true, true, true, false};
     std::vector<std::size_t> chosen;
     std::size_t listed = 0;
     for (std::size_t i = 0; i < r.mean_findings.size(); ++i) {
@@ -200,6 +200,7 @@ void fill_mean_memo(MemoContent& m, const MemoInput& in) {
         m.findings.rows.push_back({std::to_string(i + 1), std::string(to_string(f.cls)), joined(f.strata, " × "),
                                    f.focal + " vs " + f.reference, diff(f.crude.difference.estimate),
                                    diff(f.fixed_effects.estimate), fmt("%.2g", f.q_value),
+                                   f.stability.computed() ? fmt("%.0f%%", 100 * f.stability.share) : "-",
                                    rv ? std::string(to_string(rv->decision)) : "undecided"});
     }
     const std::size_t with_section = std::min(chosen.size(), in.max_sections);
@@ -248,8 +249,14 @@ void fill_mean_memo(MemoContent& m, const MemoInput& in) {
         "A reversal needs the Welch pooled difference and the HC1 within-strata difference significant on opposite "
         "sides (intersection-union test); its p-values are corrected with Benjamini-Hochberg over all " +
             std::to_string(r.mean_findings.size()) + " comparisons at a false discovery rate of " + fmt("%.2f", r.alpha) +
-            ". Stability under resampling is not computed for mean gaps in this version; covariate adjustment and "
-            "the Oaxaca-Blinder decomposition are not available yet.",
+            ". " +
+            (r.bootstrap > 0
+                 ? "Stability: the share of " + std::to_string(r.bootstrap) + " resamples (seed " + std::to_string(r.seed) +
+                       ") in which a flagged finding keeps its class; each resample redraws both groups' observations "
+                       "over the strata (multinomial) and each cell's mean and sum of squares from their normal-theory "
+                       "distributions, so with skewed values it approximates the row bootstrap."
+                 : std::string("Stability under resampling was not computed (no resamples were asked for).")) +
+            " Covariate adjustment and the Oaxaca-Blinder decomposition are not available yet.",
         std::string(r.log_outcome ? "The outcome was analysed as its natural logarithm; percentages are exp(d) - 1. "
                                   : "") +
             "Decomposition: Kitagawa (1955) in the symmetric form of Das Gupta (1993). E-value: VanderWeele & Ding "

@@ -18,6 +18,30 @@ double share(double part, double whole) { return whole > 0 ? part / whole : kNaN
 
 }  // namespace
 
+ClassInputs mean_class_inputs(const stats::CrudeMeans& crude, const stats::FixedEffectsGap& fixed_effects,
+                              const stats::InteractionTest& interaction, bool strata_disagree) {
+    ClassInputs in{};
+    in.crude_effect = crude.difference.estimate;
+    in.crude_z = stats::t_to_z(crude.difference.stat, crude.difference.df);
+    in.adjusted_effect = fixed_effects.estimate;
+    in.adjusted_z = stats::t_to_z(fixed_effects.robust.stat, fixed_effects.df);
+    in.strata_disagree = strata_disagree;
+    in.p_homogeneity = interaction.p;
+    return in;
+}
+
+ClassInputs mean_class_inputs(const stats::MeanCells& cells, double alpha) {
+    bool pos = false, neg = false;
+    for (const auto& c : cells) {
+        if (!c.informative()) continue;
+        const double d = c.focal.mean() - c.reference.mean();
+        pos |= d > 0;
+        neg |= d < 0;
+    }
+    return mean_class_inputs(stats::crude_means(cells, alpha), stats::fixed_effects_difference(cells, alpha),
+                             stats::interaction_f_test(cells), pos && neg);
+}
+
 MeanFinding analyse_mean_strata(const stats::MeanCells& cells, const std::vector<std::vector<std::string>>& labels,
                                 const std::vector<std::string>& strata_names, const MeanNames& names,
                                 double alpha) {
@@ -70,13 +94,8 @@ MeanFinding analyse_mean_strata(const stats::MeanCells& cells, const std::vector
     // (stats::t_to_z), so the reversal p and the two-sided p-values it forms are the t tests'.
     // The adjusted test uses the HC1 SE, as the crude one uses Welch's: neither assumes equal
     // variances across groups or strata.
-    auto& in = f.class_inputs;
-    in.crude_effect = f.crude.difference.estimate;
-    in.crude_z = stats::t_to_z(f.crude.difference.stat, f.crude.difference.df);
-    in.adjusted_effect = f.fixed_effects.estimate;
-    in.adjusted_z = stats::t_to_z(f.fixed_effects.robust.stat, f.fixed_effects.df);
-    in.strata_disagree = f.strata_disagree;
-    in.p_homogeneity = f.interaction.p;
+    f.class_inputs = mean_class_inputs(f.crude, f.fixed_effects, f.interaction, f.strata_disagree);
+    const auto& in = f.class_inputs;
     f.p_reversal = reversal_p(in);
     f.q_value = f.p_reversal;
     f.direction_flip = direction_flips(in);

@@ -18,6 +18,14 @@
 
 namespace foldline {
 
+/// The class inputs of one comparison from its figures: crude Welch t and fixed-effects t (HC1
+/// SE, N − K − 1 df) as z with the same one-sided tail, signs of the strata, interaction F p.
+ClassInputs mean_class_inputs(const stats::CrudeMeans& crude, const stats::FixedEffectsGap& fixed_effects,
+                              const stats::InteractionTest& interaction, bool strata_disagree);
+
+/// The same from cells alone (what a resample needs: no per-stratum tables).
+ClassInputs mean_class_inputs(const stats::MeanCells& cells, double alpha = 0.05);
+
 /// The names a mean-gap finding carries.
 struct MeanNames {
     std::string outcome;
