@@ -571,8 +571,9 @@ report::MemoContent memo_content(const MemoRequest& request) {
     if (request.diagram_checks) judged.diagram_checks = request.diagram_checks;
     const std::string date =
         (request.date.isEmpty() ? QString::fromStdString(audit::today()) : request.date).toStdString();
-    return report::build_memo(audit::memo_input(judged, data, &proj, request.table, date,
-                                                request.data_change.toStdString()));
+    report::MemoInput in = audit::memo_input(judged, data, &proj, request.table, date, request.data_change.toStdString());
+    in.draft_diagram = request.draft_diagram && !proj.diagram();
+    return report::build_memo(in);
 }
 
 }  // namespace

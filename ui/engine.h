@@ -158,6 +158,7 @@ struct MemoRequest {
     const Table* table = nullptr;            ///< the rows, for the trend charts; null → no trend charts
     std::vector<FindingView> reviewed;       ///< findings with the reviewer's decisions and notes
     const causal::Diagram* diagram = nullptr;///< the diagram as drawn (verdicts), or null
+    bool draft_diagram = false;              ///< a diagram was drawn but not confirmed (no verdicts; the memo says so)
     /// The diagram's checks as the Diagram step computed them on a worker; when set they replace
     /// the scan's (the memo never tests claims itself).
     std::optional<causal::DiagramChecks> diagram_checks;

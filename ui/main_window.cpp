@@ -515,6 +515,7 @@ Status MainWindow::with_memo_request(const std::function<void(const MemoRequest&
     if (project) r.project = &*project;
     r.reviewed = model_->findings();
     if (diagram_claims) r.diagram = &diagram_->doc()->diagram();
+    r.draft_diagram = seeded_row_ >= 0 && !diagram_claims && !diagram_->doc()->diagram().nodes.empty();
     // The drawn diagram's checks come from the Diagram step's worker (empty while it runs).
     if (diagram_claims) r.diagram_checks = diagram_->checks_panel()->checks().value_or(causal::DiagramChecks{});
     r.title = tr("Audit of %1").arg(QFileInfo(source_->source()).fileName());

@@ -492,8 +492,22 @@ std::vector<const SlopeFinding*> related_to(const ScanResult& r, const SlopeFind
 }
 
 // Two or three plain sentences a reader who is not a statistician can act on.
+// Why no view is named: no diagram at all, or a draft the reviewer never confirmed (it claims
+// nothing, but the reader should know it exists).
+std::string no_diagram_sentence(bool draft) {
+    return draft ? "The causal diagram drawn for this audit is an unconfirmed draft, so the memo does not say which "
+                   "view answers the question."
+                 : "No causal diagram was given, so the memo does not say which view answers the question.";
+}
+
+std::string no_diagram_verdict(bool draft, const char* views) {
+    return std::string(draft ? "The causal diagram is an unconfirmed draft" : "No causal diagram was given") +
+           ": whether " + views +
+           " answers the question depends on how the columns cause each other, which the data alone cannot say.";
+}
+
 std::string answer_paragraph(const RateFinding& f, const Question& q, const project::Project* p,
-                             std::size_t related, double alpha) {
+                             std::size_t related, double alpha, bool draft_diagram) {
     const auto& c = f.crude;
     const double within = f.adjusted.mh_rd.greenland_robins.estimate;
     std::string s = capitalised(strata_words(f)) + ": taken together, " + f.focal + "'s rate of " + outcome_words(q) +
@@ -522,7 +536,7 @@ std::string answer_paragraph(const RateFinding& f, const Question& q, const proj
     }
     if (f.verdict) s += " Under the causal diagram, the view that answers the question is " + answer_words(f.verdict->verdict, f) + ".";
     else if (!f.verdict_problem.empty()) s += " The diagram cannot say which view answers the question: " + f.verdict_problem + ".";
-    else s += " No causal diagram was given, so the memo does not say which view answers the question.";
+    else s += " " + no_diagram_sentence(draft_diagram);
     const auto* rv = review_of(f, p);
     s += " Reviewer's decision: " + decision_words(rv) + ".";
     if (related > 0)
@@ -595,7 +609,7 @@ MemoContent build_memo(const MemoInput& in) {
     const bool full = (in.detail.empty() ? (p ? p->memo.detail : std::string("families")) : in.detail) == "full";
     const auto answered = answered_leads(r, p, 4);
     for (const RateFinding* f : answered)
-        m.answer.push_back(answer_paragraph(*f, q, p, related_to(r, *f).size(), r.alpha));
+        m.answer.push_back(answer_paragraph(*f, q, p, related_to(r, *f).size(), r.alpha, in.draft_diagram));
 
     // Counts by class.
     int counts[5] = {0, 0, 0, 0, 0};
@@ -638,7 +652,7 @@ MemoContent build_memo(const MemoInput& in) {
             s += " The causal diagram cannot judge the strongest finding: " +
                  (top.verdict_problem.empty() ? std::string("no verdict was computed") : top.verdict_problem) + ".";
         } else {
-            s += " No causal diagram was given, so the memo does not say which view answers the question.";
+            s += " " + no_diagram_sentence(in.draft_diagram);
         }
     }
     }
@@ -756,8 +770,7 @@ MemoContent build_memo(const MemoInput& in) {
             const std::string why = f.verdict_problem.empty() ? "no verdict was computed" : f.verdict_problem;
             sec.verdict = "The diagram cannot judge this finding: " + why + ".";
         } else {
-            sec.verdict = "No causal diagram was given: whether the pooled or the stratified view answers the "
-                          "question depends on how the columns cause each other, which the data alone cannot say.";
+            sec.verdict = no_diagram_verdict(in.draft_diagram, "the pooled or the stratified view");
         }
         // The diagram's claims are the memo's, not the finding's: stated once, in the first section.
         if (r.diagram_checks && k == 0) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
@@ -814,8 +827,7 @@ MemoContent build_memo(const MemoInput& in) {
         } else if (diagram) {
             sec.verdict = "The diagram cannot judge this finding: " + (why.empty() ? "the diagram is not valid" : why) + ".";
         } else {
-            sec.verdict = "No causal diagram was given: whether the pooled or the within-strata trend answers the "
-                          "question depends on how the columns cause each other, which the data alone cannot say.";
+            sec.verdict = no_diagram_verdict(in.draft_diagram, "the pooled or the within-strata trend");
         }
         if (r.diagram_checks && with_section + k == 0) sec.diagram_checks = diagram_checks_paragraph(*r.diagram_checks);
         const auto* rv = p ? p->review(project::slope_key(f.strata, f.x, f.y)) : nullptr;

@@ -121,6 +121,8 @@ struct MemoInput {
     std::size_t max_sections = 12;                    ///< flagged findings beyond this are listed only
     std::string detail;                               ///< "families" or "full"; empty: the project's
                                                       ///< memo.detail ("families" without a project)
+    bool draft_diagram = false;                       ///< a diagram was drawn but never confirmed: it
+                                                      ///< gives no verdict, and the memo says it exists
     const Table* table = nullptr;                     ///< the rows, for the trend charts; null → none
                                                       ///< (verdicts and their estimates come with the
                                                       ///< findings: core/audit/verdicts.h)

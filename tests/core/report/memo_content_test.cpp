@@ -123,6 +123,15 @@ TEST(MemoContent, FrontMatterMethodNotesAndCaution) {
     ASSERT_EQ(m.findings.rows.size(), 1u);
     EXPECT_EQ(m.findings.rows[0][1], "explained");
     EXPECT_EQ(m.findings.rows[0][8], "undecided");
+
+    // A diagram drawn but never confirmed gives no verdict; the memo says it exists instead of
+    // claiming that none was given.
+    in.draft_diagram = true;
+    const MemoContent draft = build_memo(in);
+    EXPECT_EQ(draft.summary.find("No causal diagram"), std::string::npos) << draft.summary;
+    EXPECT_NE(draft.summary.find("unconfirmed draft"), std::string::npos) << draft.summary;
+    for (const auto& s : draft.sections)
+        EXPECT_NE(s.verdict.find("unconfirmed draft"), std::string::npos) << s.verdict;
 }
 
 TEST(MemoContent, ReviewDecisionsNotesAndChoices) {
