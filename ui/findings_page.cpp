@@ -288,7 +288,9 @@ FindingsPage::FindingsPage(FindingsModel* model, QWidget* parent)
     auto* pooled_box = new QWidget;
     auto* pl = new QVBoxLayout(pooled_box);
     pl->setContentsMargins(0, 0, 0, 0);
-    pl->addWidget(new QLabel(tr("<b>Pooled and adjusted</b> (rates pooled over all strata, gaps adjusted within them, tests)")));
+    pooled_title_ = new QLabel;
+    pooled_title_->setObjectName(QStringLiteral("pooled_title"));
+    pl->addWidget(pooled_title_);
     pl->addWidget(pooled_);
     auto* strata_box = new QWidget;
     auto* sl = new QVBoxLayout(strata_box);
@@ -471,12 +473,19 @@ void FindingsPage::show_finding(int row) {
     heading_->setText(QStringLiteral("<span style='font-size:large'><b>%1 %2</b> — stratified by <b>%3</b></span>")
                           .arg(class_glyph(f->cls), class_title(f->cls), f->strata_label().toHtmlEscaped()));
     QString detail = class_meaning(f->cls);
-    if (std::isfinite(f->q_value)) detail += tr("  q-value %1").arg(f->q_value, 0, 'g', 3);
+    // The q-value is the reversal test's (FDR over every check), whatever the class: say so, so a
+    // heterogeneous or explained finding's q near 1 is not read as "nothing here".
+    if (std::isfinite(f->q_value)) detail += tr("  Reversal q-value %1").arg(f->q_value, 0, 'g', 3);
     if (std::isfinite(f->stability)) detail += tr("; kept its class in %1% of resamples").arg(100 * f->stability, 0, 'f', 0);
     meaning_->setText(detail);
     show_review(*f);
     note_->setPlainText(f->note);
     pay_caution_->setVisible(f->mean);
+    pooled_title_->setText(f->slope  ? tr("<b>Pooled and adjusted</b> (slopes pooled over all strata and within them, tests)")
+                           : f->mean ? tr("<b>Pooled and adjusted</b> (group means pooled over all strata, the gap adjusted "
+                                          "within them, tests)")
+                                     : tr("<b>Pooled and adjusted</b> (rates pooled over all strata, gaps adjusted within "
+                                          "them, tests)"));
     if (f->slope) fill_slope_tables(*f);
     else if (f->mean) fill_mean_tables(*f);
     else fill_rate_tables(*f);

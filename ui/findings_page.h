@@ -134,6 +134,7 @@ private:
     QLineEdit* search_;
     QLabel *heading_, *meaning_, *empty_, *hint_, *partial_ = nullptr;
     QTableWidget *pooled_, *strata_;
+    QLabel* pooled_title_;  ///< what the pooled table holds, by the shown finding's kind
     QTabWidget* charts_;
     QCustomPlot *forest_, *mix_, *decomp_, *scatter_, *multiples_, *means_;
     QLabel* pay_caution_;  ///< mean-gap findings: the pay-review caution
