@@ -56,6 +56,10 @@ int run_workbench(int argc, char** argv) {
         p.setColor(QPalette::ToolTipBase, QColor(QRgb(0x34363c)));
         p.setColor(QPalette::ToolTipText, QColor(QRgb(0xe6e6e6)));
         p.setColor(QPalette::PlaceholderText, QColor(QRgb(0x9a9ca3)));
+        // Disabled controls must look disabled: dimmed text, a flatter button.
+        for (auto role : {QPalette::WindowText, QPalette::Text, QPalette::ButtonText})
+            p.setColor(QPalette::Disabled, role, QColor(QRgb(0x6f727a)));
+        p.setColor(QPalette::Disabled, QPalette::Button, QColor(QRgb(0x2e3035)));
         QApplication::setPalette(p);
     }
 
