@@ -126,7 +126,7 @@ with tempfile.TemporaryDirectory() as tmp:
                                "n3": noise[2], "y": y})
             path = os.path.join(tmp, f"{kind}.csv")
             df.to_csv(path, index=False)
-            d = scan(path, "--mean", "y", "--exposure", "grp=B,A", "--alpha", str(ALPHA))
+            d = scan(path, "--mean", "y", "--exposure", "grp=B,A", "--alpha", str(ALPHA), "--bootstrap", "0")
             if not d:
                 continue
             rev = [x["strata"] for x in d["findings"] if x["kind"] == "mean" and x["class"] == "reversal"]
