@@ -206,7 +206,8 @@ void fill_mean_memo(MemoContent& m, const MemoInput& in) {
     const std::size_t with_section = std::min(chosen.size(), in.max_sections);
     m.findings_note = "Listed: " + std::to_string(listed) + " of " + std::to_string(r.mean_findings.size()) +
                       " comparisons (" + (flagged > 0 ? "those not stable" : "none is flagged, so all") +
-                      "); differences of mean " + q.outcome + ", focal minus reference; within = fixed effects. " +
+                      "); differences of mean " + q.outcome + ", focal minus reference; within = fixed effects; q is the "
+                      "reversal test's false-discovery q-value, whatever the class. " +
                       std::to_string(with_section) + " finding" + (with_section == 1 ? " has" : "s have") +
                       " a section below.";
 

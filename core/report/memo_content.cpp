@@ -715,7 +715,8 @@ MemoContent build_memo(const MemoInput& in) {
     const std::size_t total_sections = with_section + slope_with_section;
     m.findings_note = "Listed: " + std::to_string(listed) + " of " + std::to_string(total_findings) +
                       " checks (" + (flagged + slope_flagged > 0 ? "those not stable" : "none is flagged, so all") +
-                      "); # is the rank in the scan (s: a slope check)." +
+                      "); # is the rank in the scan (s: a slope check); q is the reversal test's false-discovery "
+                      "q-value, whatever the class." +
                       (rates ? " Rate differences in percentage points, " + q.focal.front() +
                                    (q.focal.size() > 1 ? " etc." : "") + " minus " + q.reference + "."
                              : std::string()) +
