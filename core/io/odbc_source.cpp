@@ -585,7 +585,9 @@ Result<GroupedMoments> read_moments(Session& s, const std::string& from, const O
         if (work.cancelled()) return make_error("cancelled while reading the moment sums");
         return Ok{};
     };
-    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y),
+    // Per joint cell of the strata first (in parallel) where the engine expects few cells.
+    const bool cells_first = !strata.empty() && s.dbms() == "PostgreSQL" && postgres_few_cells(s, from, strata);
+    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y, cells_first),
                         "summing the trend per stratum", on_row);
         !st)
         return st.error();

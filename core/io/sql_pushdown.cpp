@@ -286,7 +286,8 @@ std::string slope_means_sql(const std::string& from, const std::string& x, const
 }
 
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
-                              const std::vector<std::string>& strata, double mean_x, double mean_y) {
+                              const std::vector<std::string>& strata, double mean_x, double mean_y,
+                              bool cells_first) {
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
     std::string inner = "SELECT ";
     for (const auto& c : strata) inner += quote_identifier(c) + ", ";
@@ -297,9 +298,18 @@ std::string slope_moments_sql(const std::string& from, const std::string& x, con
     for (const auto& c : strata) s += quote_identifier(c) + ", ";
     for (std::size_t i = 0; i < strata.size(); ++i)
         s += "GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i) + ", ";
-    s += "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
-         "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
-         inner + ") AS centred GROUP BY GROUPING SETS (()";
+    const std::string sums =
+        "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
+        "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
+        inner + ") AS centred";
+    if (cells_first && !strata.empty()) {
+        const std::string cols = join_quoted(strata);
+        s += "SUM(n) AS n, SUM(sx) AS sx, SUM(sy) AS sy, SUM(sxx) AS sxx, SUM(sxy) AS sxy, SUM(syy) AS syy, "
+             "MIN(x_min) AS x_min, MAX(x_max) AS x_max, MIN(y_min) AS y_min, MAX(y_max) AS y_max FROM (SELECT " +
+             cols + ", " + sums + " GROUP BY " + cols + ") AS cells GROUP BY GROUPING SETS (()";
+    } else {
+        s += sums + " GROUP BY GROUPING SETS (()";
+    }
     for (const auto& c : strata) s += ", (" + quote_identifier(c) + ")";
     return s + ")";
 }

@@ -138,9 +138,13 @@ std::string slope_means_sql(const std::string& from, const std::string& x, const
 /// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision, then MIN and
 /// MAX of x and of y (a constant x or y in a stratum is then known exactly, whatever the
 /// rounding of the sums). The means are written with 17 significant digits (exact round
-/// trip); a non-finite mean is written as 0.
+/// trip); a non-finite mean is written as 0. With `cells_first` the sums are first taken per
+/// joint cell of the strata (a parallel aggregate) and the sets then add the cells' sums (and
+/// take MIN/MAX of their MIN/MAX): the same columns, worth it when the cells are far fewer than
+/// the rows (as profile_sql's cells_first).
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
-                              const std::vector<std::string>& strata, double mean_x, double mean_y);
+                              const std::vector<std::string>& strata, double mean_x, double mean_y,
+                              bool cells_first = false);
 
 /// One row for the HC3 robust SE of the pooled slope (as core/stats/regression.h's hc3_slope_se):
 /// SUM(u * u) with u = xt e / (1 - h), xt = x - mean_x, e = (y - mean_y) - slope xt,

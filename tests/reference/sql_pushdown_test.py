@@ -361,6 +361,13 @@ if 'MIN("foldline_row_id")' not in log or "ROW_NUMBER() OVER ()" not in log:
     failures.append("first appearance: expected MIN(row id) for tables and ROW_NUMBER() for queries")
 else:
     print("ok   first appearance: tables by MIN(row id), queries by ROW_NUMBER()")
+# Where the planner expects few joint cells, the profile and the trend's sums group the rows into
+# them first (parallel workers), otherwise they group the rows: the tables above give both cases
+# (the two trends' figures equal the file scan's either way).
+if "SUM(n) AS n FROM (SELECT" not in log or "SUM(sxy) AS sxy" not in log or ") AS centred GROUP BY GROUPING SETS" not in log:
+    failures.append("cells first: expected both shapes of the profile and of the trend's sums in the log")
+else:
+    print("ok   cells first: the profile and the trend's sums grouped into few cells first, as planned")
 
 
 def expect_error(name, args, words, code=3, env=env):

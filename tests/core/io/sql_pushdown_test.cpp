@@ -172,6 +172,18 @@ TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_NE(m.find("SUM(dx * dy) AS sxy"), std::string::npos);
     EXPECT_NE(m.find("GROUP BY GROUPING SETS ((), (\"region\"))"), std::string::npos);
     EXPECT_NE(m.find("MIN(x) AS x_min, MAX(x) AS x_max"), std::string::npos);
+    // Cells first: the same columns, the sets adding the sums of each joint cell of the strata.
+    const std::string c = slope_moments_sql("x", "spend", "sales", {"region", "tier"}, 0.1, 2, true);
+    EXPECT_NE(c.find("SELECT \"region\", \"tier\", GROUPING(\"region\") AS g0, GROUPING(\"tier\") AS g1, SUM(n) AS n, "
+                     "SUM(sx) AS sx, SUM(sy) AS sy, SUM(sxx) AS sxx, SUM(sxy) AS sxy, SUM(syy) AS syy, "
+                     "MIN(x_min) AS x_min, MAX(x_max) AS x_max, MIN(y_min) AS y_min, MAX(y_max) AS y_max FROM (SELECT "
+                     "\"region\", \"tier\", COUNT(*) AS n, SUM(dx) AS sx"),
+              std::string::npos);
+    EXPECT_NE(c.find(") AS centred GROUP BY \"region\", \"tier\") AS cells GROUP BY GROUPING SETS ((), (\"region\"), "
+                     "(\"tier\"))"),
+              std::string::npos);
+    // No strata: nothing to group first.
+    EXPECT_EQ(slope_moments_sql("x", "a", "b", {}, 1, 2, true), slope_moments_sql("x", "a", "b", {}, 1, 2));
     const std::string nan = slope_moments_sql("x", "a", "b", {}, std::nan(""), 2);
     EXPECT_NE(nan.find("AS DOUBLE PRECISION) - 0 AS dx"), std::string::npos);
 }
