@@ -279,8 +279,6 @@ struct Plan {
     std::vector<double> distinct;    ///< distinct values of each kept column; NaN when not profiled
 };
 
-/// Describes the source (its columns), checks the required columns, and profiles the others
-/// (rows, present and distinct values) to leave out what a scan would leave out anyway.
 /// True when the table's rows can be ordered by PostgreSQL's physical row id: a plain table or
 /// materialized view without child tables (a view has no ctid; the partitions of a partitioned
 /// table, or an inherited table's children, each number their rows from the start, so their
@@ -307,8 +305,8 @@ bool postgres_row_ids(Session& s, const std::string& table) {
 
 /// True when PostgreSQL's planner expects the joint cells of `columns` to be at most a tenth of
 /// the rows it scans (read from the estimates of `EXPLAIN`, which runs nothing): then the
-/// profile groups the rows into cells first, in parallel (sql::profile_sql's cells_first).
-/// Any failure of the check means no.
+/// profile and the trend's sums group the rows into cells first, in parallel (the cells_first
+/// of sql::profile_sql and sql::slope_moments_sql). Any failure of the check means no.
 bool postgres_few_cells(Session& s, const std::string& from, const std::vector<std::string>& columns) {
     double cells = -1, scanned = 0;
     const auto st = s.run("EXPLAIN " + sql::cells_sql(from, columns, false), "estimating the joint cells",
@@ -326,6 +324,8 @@ bool postgres_few_cells(Session& s, const std::string& from, const std::vector<s
     return st && cells >= 0 && cells * 10 <= scanned;
 }
 
+/// Describes the source (its columns), checks the required columns, and profiles the others
+/// (rows, present and distinct values) to leave out what a scan would leave out anyway.
 Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, const Work& work) {
     Plan plan;
     out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
