@@ -5,7 +5,8 @@
 # Prints the median seconds of each path over REPEATS runs, and the bytes each path moves over
 # the wire in each direction (counted by a relay between client and server, in a separate run so
 # the relay does not slow the timed ones):
-#   push-down          the scan's statements (describe, profile, one GROUPING SETS query)
+#   push-down          the scan's statements (describe, the row-id check and EXPLAIN estimate
+#                      on PostgreSQL, profile, one GROUPING SETS query)
 #   push-down, tuned   the same with work_mem = 256MB and two parallel workers per query,
 #                      set for the role (every session of the scan gets them)
 #   export + local     psql \copy of the table to CSV, then foldline scan of the file

@@ -172,8 +172,10 @@ public:
         SQLSMALLINT len = 0;
         if (good(SQLGetInfo(h_.dbc, SQL_DRIVER_NAME, buf, sizeof buf, &len))) out_.driver = buf;
         if (good(SQLGetInfo(h_.dbc, SQL_DRIVER_VER, buf, sizeof buf, &len))) out_.driver += std::string(" ") + buf;
-        if (good(SQLGetInfo(h_.dbc, SQL_DBMS_NAME, buf, sizeof buf, &len)))
+        if (good(SQLGetInfo(h_.dbc, SQL_DBMS_NAME, buf, sizeof buf, &len))) {
+            dbms_ = buf;
             out_.driver += std::string(" (") + buf + ")";
+        }
         if (good(SQLGetInfo(h_.dbc, SQL_DATABASE_NAME, buf, sizeof buf, &len))) out_.database = buf;
         return Ok{};
     }
@@ -254,11 +256,15 @@ public:
         return s;
     }
 
+    /// The engine's name as the driver reports it (SQL_DBMS_NAME), e.g. "PostgreSQL".
+    const std::string& dbms() const { return dbms_; }
+
 private:
     const OdbcOptions& o_;
     const Work& work_;
     OdbcSourceInfo& out_;
     Handles h_;
+    std::string dbms_;
 };
 
 }  // namespace
@@ -268,23 +274,77 @@ namespace {
 /// The source's FROM item and the columns worth fetching.
 struct Plan {
     std::string from;
+    bool row_ids = false;            ///< `from` exposes sql::kRowIdColumn (first appearance without numbering)
     std::vector<SourceColumn> keep;  ///< in source order
     std::vector<double> distinct;    ///< distinct values of each kept column; NaN when not profiled
 };
+
+/// True when the table's rows can be ordered by PostgreSQL's physical row id: a plain table or
+/// materialized view without child tables (a view has no ctid; the partitions of a partitioned
+/// table, or an inherited table's children, each number their rows from the start, so their
+/// ids do not follow the order of a scan of the whole), on a server with MIN(tid) (version 14
+/// on). Any failure of the check means no.
+bool postgres_row_ids(Session& s, const std::string& table) {
+    auto quoted = sql::quote_table_name(table);
+    if (!quoted) return false;
+    std::string literal = "'";
+    for (char c : *quoted) literal += c == '\'' ? std::string("''") : std::string(1, c);
+    literal += "'";
+    double yes = 0;
+    const auto st = s.run("SELECT COUNT(*) FROM pg_catalog.pg_class WHERE oid = to_regclass(" + literal +
+                              ") AND relkind IN ('r', 'm') AND NOT relhassubclass"
+                              " AND CAST(current_setting('server_version_num') AS INTEGER) >= 140000",
+                          "checking the table's row ids", [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+                              auto v = s.get_double(h, 1);
+                              if (!v) return v.error();
+                              yes = *v;
+                              return Ok{};
+                          });
+    return st && yes == 1;
+}
+
+/// True when PostgreSQL's planner expects the joint cells of `columns` to be at most a tenth of
+/// the rows it scans (read from the estimates of `EXPLAIN`, which runs nothing): then the
+/// profile and the trend's sums group the rows into cells first, in parallel (the cells_first
+/// of sql::profile_sql and sql::slope_moments_sql). Any failure of the check means no.
+bool postgres_few_cells(Session& s, const std::string& from, const std::vector<std::string>& columns) {
+    double cells = -1, scanned = 0;
+    const auto st = s.run("EXPLAIN " + sql::cells_sql(from, columns, false), "estimating the joint cells",
+                          [&](SQLHSTMT h, SQLSMALLINT) -> Status {
+                              bool null = false;
+                              auto line = s.get_text(h, 1, null);
+                              if (!line) return line.error();
+                              const std::size_t at = line->find("rows=");
+                              if (at == std::string::npos) return Ok{};
+                              const double rows = std::strtod(line->c_str() + at + 5, nullptr);
+                              if (cells < 0) cells = rows;  // the plan's top node: the cells
+                              scanned = std::max(scanned, rows);
+                              return Ok{};
+                          });
+    return st && cells >= 0 && cells * 10 <= scanned;
+}
 
 /// Describes the source (its columns), checks the required columns, and profiles the others
 /// (rows, present and distinct values) to leave out what a scan would leave out anyway.
 Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, const Work& work) {
     Plan plan;
-    auto from = sql::from_clause(o.source);
-    if (!from) return from.error();
-    plan.from = *from;
+    out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
     sql::SqlSource every_row = o.source;
     every_row.where.clear();
     auto unfiltered = sql::from_clause(every_row);
     if (!unfiltered) return unfiltered.error();
-    out.source_text = o.source.table.empty() ? o.source.query : o.source.table;
     if (auto st = s.connect(); !st) return st.error();
+    // First appearance by the smallest row id of each cell (a parallel aggregate) where the
+    // engine has one that follows a scan's order; otherwise the rows are numbered.
+    sql::SqlSource source = o.source;
+    if (o.first_appearance && !o.source.table.empty() && s.dbms() == "PostgreSQL" &&
+        postgres_row_ids(s, o.source.table)) {
+        source.row_id = "ctid";
+        plan.row_ids = true;
+    }
+    auto from = sql::from_clause(source);
+    if (!from) return from.error();
+    plan.from = *from;
 
     // 1. The source's columns (described without the rows filter, so a filter naming a column
     // the source lacks gets Foldline's message rather than the engine's).
@@ -323,7 +383,11 @@ Result<Plan> plan_source(Session& s, const OdbcOptions& o, OdbcSourceInfo& out, 
     const std::size_t np = profiled.size();
     std::vector<double> present(np, 0), distincts(np, 0);
     double rows = 0;
-    if (auto st = s.run(sql::profile_sql(plan.from, profiled), "counting rows and distinct values",
+    // A profile of one column is its own cells; of several, cells first where the engine expects
+    // few of them (GROUPING SETS over the rows would run in one process).
+    const bool cells_first =
+        np == 1 || (np > 1 && s.dbms() == "PostgreSQL" && postgres_few_cells(s, plan.from, profiled));
+    if (auto st = s.run(sql::profile_sql(plan.from, profiled, cells_first), "counting rows and distinct values",
                         [&](SQLHSTMT h, SQLSMALLINT n) -> Status {
                             std::vector<double> v;
                             for (SQLSMALLINT i = 1; i <= n; ++i) {
@@ -521,7 +585,9 @@ Result<GroupedMoments> read_moments(Session& s, const std::string& from, const O
         if (work.cancelled()) return make_error("cancelled while reading the moment sums");
         return Ok{};
     };
-    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y),
+    // Per joint cell of the strata first (in parallel) where the engine expects few cells.
+    const bool cells_first = !strata.empty() && s.dbms() == "PostgreSQL" && postgres_few_cells(s, from, strata);
+    if (auto st = s.run(sql::slope_moments_sql(from, slope.x, slope.y, strata, m.shift_x, m.shift_y, cells_first),
                         "summing the trend per stratum", on_row);
         !st)
         return st.error();
@@ -629,7 +695,7 @@ Result<OdbcTable> read_odbc_cells(const OdbcOptions& o, const Work& work) {
     std::vector<const Cell*> ptrs(keep.size());
     for (std::size_t i = 0; i < keep.size(); ++i) ptrs[i] = &row[i];
     const SQLUSMALLINT count_col = static_cast<SQLUSMALLINT>(keep.size() + 1);
-    if (auto st = s.run(sql::cells_sql(plan->from, names, o.first_appearance, o.count_column), "counting the cells",
+    if (auto st = s.run(sql::cells_sql(plan->from, names, o.first_appearance, o.count_column, plan->row_ids), "counting the cells",
                         [&](SQLHSTMT h, SQLSMALLINT) -> Status {
                             for (std::size_t i = 0; i < keep.size(); ++i) {
                                 auto c = read_cell(s, h, static_cast<SQLUSMALLINT>(i + 1), keep[i].numeric);
@@ -688,6 +754,7 @@ Result<OdbcGroups> read_odbc_groups(const OdbcOptions& o, const std::string& out
     q.pairs = pairs && !second;
     q.pooled = true;
     q.first_appearance = o.first_appearance;
+    q.row_ids = plan->row_ids;
     q.count_column = o.count_column;
     const std::size_t n = q.strata.size();
 

@@ -38,7 +38,7 @@ struct OdbcOptions {
     bool all_columns = true;        ///< also every other groupable column (automatic stratifiers)
     std::size_t max_levels = 50;    ///< text columns above this many distinct values are left out (all_columns)
     double max_missing_share = 0.5; ///< columns missing in more of the rows are left out (all_columns)
-    bool first_appearance = true;   ///< number levels in order of first appearance (ROW_NUMBER() OVER ())
+    bool first_appearance = true;   ///< levels in order of first appearance (MIN(ctid) of a PostgreSQL table, else ROW_NUMBER() OVER ())
     long timeout_seconds = 0;       ///< per-statement timeout; 0 = none
     std::string count_column;       ///< pre-counted source: rows per source row (summed, never fetched as a column)
     std::vector<std::string> where_columns;  ///< columns source.where reads (checked to exist in the source)
@@ -93,6 +93,9 @@ struct OdbcGroups : OdbcSourceInfo {
 
 /// Connects, discovers the columns (a `WHERE 1 = 0` describe), profiles them (rows, present and
 /// distinct values, sql::profile_sql), fetches the joint cells of the columns kept and builds the pre-counted Table.
+/// On PostgreSQL two small statements come first: a pg_class query (may a table's row ids order
+/// its rows, for first appearance without numbering them) and an EXPLAIN (does the planner
+/// expect few joint cells, for the profile's and the trend sums' cells_first).
 /// Errors (as values, with the driver's SQLSTATE and message): no connection, a lost
 /// connection, a permission error, a missing table or column, a column type the engine cannot
 /// group by, a refused query, a required column absent from the source. A stop request

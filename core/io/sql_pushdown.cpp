@@ -145,6 +145,11 @@ Result<std::string> from_clause(const SqlSource& s) {
         auto t = quote_table_name(s.table);
         if (!t) return t.error();
         item = *t;
+        // The row id is a pseudo-column that SELECT * leaves out: name it in a derived table,
+        // which engines pull up into the outer query (a parallel scan stays possible).
+        if (!s.row_id.empty())
+            return "(SELECT src0.*, src0." + quote_identifier(s.row_id) + " AS " + quote_identifier(kRowIdColumn) +
+                   " FROM " + item + " AS src0" + (s.where.empty() ? "" : " WHERE " + s.where) + ") AS src";
     } else {
         auto q = checked_query(s.query);
         if (!q) return q.error();
@@ -156,7 +161,7 @@ Result<std::string> from_clause(const SqlSource& s) {
 
 std::string describe_sql(const std::string& from) { return "SELECT * FROM " + from + " WHERE 1 = 0"; }
 
-std::string profile_sql(const std::string& from, const std::vector<std::string>& columns) {
+std::string profile_sql(const std::string& from, const std::vector<std::string>& columns, bool cells_first) {
     if (columns.empty()) return "SELECT COUNT(*) FROM " + from;
     // One pass: the distinct values of every column by hashing (GROUPING SETS, one set per
     // column), then one row per set. Engines count DISTINCT by sorting each column instead.
@@ -164,7 +169,13 @@ std::string profile_sql(const std::string& from, const std::vector<std::string>&
     for (const auto& c : columns) inner += quote_identifier(c) + ", ";
     for (std::size_t i = 0; i < columns.size(); ++i)
         inner += "GROUPING(" + quote_identifier(columns[i]) + ") AS g" + std::to_string(i) + ", ";
-    inner += "COUNT(*) AS n FROM " + from + " GROUP BY GROUPING SETS (";
+    if (cells_first) {
+        const std::string cols = join_quoted(columns);
+        inner += "SUM(n) AS n FROM (SELECT " + cols + ", COUNT(*) AS n FROM " + from + " GROUP BY " + cols +
+                 ") AS cells GROUP BY GROUPING SETS (";
+    } else {
+        inner += "COUNT(*) AS n FROM " + from + " GROUP BY GROUPING SETS (";
+    }
     for (std::size_t i = 0; i < columns.size(); ++i) inner += (i ? ", (" : "(") + quote_identifier(columns[i]) + ")";
     inner += ")";
     std::string flags, s = "SELECT ";
@@ -178,7 +189,7 @@ std::string profile_sql(const std::string& from, const std::vector<std::string>&
 }
 
 std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
-                      const std::string& count_column) {
+                      const std::string& count_column, bool row_ids) {
     if (columns.empty()) return {};
     const std::string cols = join_quoted(columns);
     const std::string w = count_column.empty() ? std::string() : quote_identifier(count_column);
@@ -186,6 +197,9 @@ std::string cells_sql(const std::string& from, const std::vector<std::string>& c
         (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") + " AS " + quote_identifier(kCountColumn);
     if (!first_appearance) return "SELECT " + cols + ", " + count + " FROM " + from + " GROUP BY " + cols;
     const std::string pos = quote_identifier(kFirstRowColumn);
+    if (row_ids)
+        return "SELECT " + cols + ", " + count + ", MIN(" + quote_identifier(kRowIdColumn) + ") AS " + pos + " FROM " +
+               from + " GROUP BY " + cols + " ORDER BY " + pos;
     return "SELECT " + cols + ", " + count + ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + cols +
            (w.empty() ? "" : ", " + w) + ", ROW_NUMBER() OVER () AS " + pos + " FROM " + from +
            ") AS numbered GROUP BY " + cols + " ORDER BY " + pos;
@@ -227,6 +241,7 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
             sel += ", " + expr + " ELSE " + std::to_string(q.cuts[i].size()) + " END AS " + c;
         }
         if (!w.empty()) sel += ", " + w;
+        if (q.first_appearance && q.row_ids) sel += ", " + quote_identifier(kRowIdColumn);
         source = "(" + sel + " FROM " + from + ") AS binned";
     }
     // The rows are grouped once into their joint cells (one hash per row), and the grouping
@@ -234,7 +249,11 @@ std::string cubes_sql(const std::string& from, const CubesQuery& q) {
     // once per grouping set costs several times more in the engine.
     std::string cells = "SELECT " + list + ", " + (w.empty() ? std::string("COUNT(*)") : "SUM(" + as_double(w) + ")") +
                         " AS " + rows;
-    if (q.first_appearance)
+    // First appearance: the smallest row id of each cell is a plain aggregate that engines
+    // compute in parallel; numbering the rows is a window over all of them, in one process.
+    if (q.first_appearance && q.row_ids)
+        cells += ", MIN(" + quote_identifier(kRowIdColumn) + ") AS " + pos + " FROM " + source;
+    else if (q.first_appearance)
         cells += ", MIN(" + pos + ") AS " + pos + " FROM (SELECT " + list + (w.empty() ? "" : ", " + w) +
                  ", ROW_NUMBER() OVER () AS " + pos + " FROM " + source + ") AS numbered";
     else
@@ -267,7 +286,8 @@ std::string slope_means_sql(const std::string& from, const std::string& x, const
 }
 
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
-                              const std::vector<std::string>& strata, double mean_x, double mean_y) {
+                              const std::vector<std::string>& strata, double mean_x, double mean_y,
+                              bool cells_first) {
     const std::string qx = quote_identifier(x), qy = quote_identifier(y);
     std::string inner = "SELECT ";
     for (const auto& c : strata) inner += quote_identifier(c) + ", ";
@@ -278,9 +298,18 @@ std::string slope_moments_sql(const std::string& from, const std::string& x, con
     for (const auto& c : strata) s += quote_identifier(c) + ", ";
     for (std::size_t i = 0; i < strata.size(); ++i)
         s += "GROUPING(" + quote_identifier(strata[i]) + ") AS g" + std::to_string(i) + ", ";
-    s += "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
-         "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
-         inner + ") AS centred GROUP BY GROUPING SETS (()";
+    const std::string sums =
+        "COUNT(*) AS n, SUM(dx) AS sx, SUM(dy) AS sy, SUM(dx * dx) AS sxx, SUM(dx * dy) AS sxy, "
+        "SUM(dy * dy) AS syy, MIN(x) AS x_min, MAX(x) AS x_max, MIN(y) AS y_min, MAX(y) AS y_max FROM (" +
+        inner + ") AS centred";
+    if (cells_first && !strata.empty()) {
+        const std::string cols = join_quoted(strata);
+        s += "SUM(n) AS n, SUM(sx) AS sx, SUM(sy) AS sy, SUM(sxx) AS sxx, SUM(sxy) AS sxy, SUM(syy) AS syy, "
+             "MIN(x_min) AS x_min, MAX(x_max) AS x_max, MIN(y_min) AS y_min, MAX(y_max) AS y_max FROM (SELECT " +
+             cols + ", " + sums + " GROUP BY " + cols + ") AS cells GROUP BY GROUPING SETS (()";
+    } else {
+        s += sums + " GROUP BY GROUPING SETS (()";
+    }
     for (const auto& c : strata) s += ", (" + quote_identifier(c) + ")";
     return s + ")";
 }

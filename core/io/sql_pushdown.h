@@ -11,7 +11,9 @@
 //
 // SQL features relied on: derived tables, COUNT / COUNT(DISTINCT), SUM in double precision
 // (CAST ... AS DOUBLE PRECISION), GROUP BY GROUPING SETS and GROUPING() (SQL:1999), and, for
-// level order by first appearance only, ROW_NUMBER() OVER ().
+// level order by first appearance only, either ROW_NUMBER() OVER () (any engine, but one process
+// numbers every row) or MIN of the engine's physical row id (PostgreSQL's ctid, a table only),
+// which engines compute in a parallel partial aggregate.
 #include <cstddef>
 #include <string>
 #include <string_view>
@@ -45,10 +47,18 @@ struct SqlSource {
     /// Rows to include: an SQL condition written by core/table/row_filter.h's to_sql (quoted
     /// identifiers, escaped literals), never text a user typed. Empty = every row.
     std::string where = {};
+    /// A table's physical row id pseudo-column ("ctid" on PostgreSQL), exposed by from_clause as
+    /// kRowIdColumn so that first appearance is MIN(row id); ignored for a query. Empty = none.
+    std::string row_id = {};
 };
 
+/// Name under which from_clause exposes the source's row id (SqlSource::row_id).
+inline constexpr const char* kRowIdColumn = "foldline_row_id";
+
 /// The FROM item for the source: `"schema"."table" AS src` or `(<checked query>) AS src`; with
-/// a `where` condition, `(SELECT * FROM <that item, as src0> WHERE <where>) AS src`.
+/// a `where` condition, `(SELECT * FROM <that item, as src0> WHERE <where>) AS src`; a table with
+/// a `row_id`: `(SELECT src0.*, src0."<row_id>" AS foldline_row_id FROM <table> AS src0 [WHERE
+/// <where>]) AS src`.
 /// Error when both or neither are set, or when the name or the query is refused (see above).
 Result<std::string> from_clause(const SqlSource& source);
 
@@ -60,7 +70,11 @@ std::string describe_sql(const std::string& from);
 /// column k COUNT(c_k) and SUM of the rows where c_k is present (on the row of column k: its
 /// distinct non-missing values and its non-missing rows), then SUM(n) (every row of the source).
 /// An empty source gives no rows. No columns: one row holding COUNT(*).
-std::string profile_sql(const std::string& from, const std::vector<std::string>& columns);
+/// With `cells_first` the rows are first grouped into the joint cells of the columns (one hash
+/// per row, which engines run as a parallel partial aggregate; GROUPING SETS over rows runs in
+/// one process) and the sets then sum the cells' counts: same result, faster when the cells are
+/// far fewer than the rows, about twice the work when nearly every row is its own cell.
+std::string profile_sql(const std::string& from, const std::vector<std::string>& columns, bool cells_first = false);
 
 /// Name of the extra column holding each cell's first row position (first_appearance only).
 inline constexpr const char* kFirstRowColumn = "foldline_first_row";
@@ -70,11 +84,12 @@ inline constexpr const char* kCountColumn = "foldline_rows";
 /// The joint cells of `columns`: one row per distinct combination (NULL kept as a value) with
 /// the columns, COUNT(*) AS foldline_rows, and — when `first_appearance` — the smallest
 /// ROW_NUMBER() OVER () of the cell AS foldline_first_row, ordered by it (so levels can be
-/// numbered in order of first appearance). With a `count_column` (a pre-counted source) the
+/// numbered in order of first appearance); with `row_ids` (a `from` exposing foldline_row_id)
+/// the smallest row id instead, without numbering the rows. With a `count_column` (a pre-counted source) the
 /// cell's rows are SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*) (NULL counts add
 /// nothing). `columns` must not be empty (returns "" if it is).
 std::string cells_sql(const std::string& from, const std::vector<std::string>& columns, bool first_appearance,
-                      const std::string& count_column = {});
+                      const std::string& count_column = {}, bool row_ids = false);
 
 /// Every count cube of a rate scan in one pass (the rows grouped once into their joint cells,
 /// the sets then summed over the cells): GROUP BY GROUPING SETS with one set
@@ -94,6 +109,7 @@ struct CubesQuery {
     bool pairs = true;             ///< one set per pair s < t
     bool pooled = false;           ///< also the set (outcome, exposure), first
     bool first_appearance = false; ///< MIN(ROW_NUMBER() OVER ()) AS foldline_first_row, rows ordered by it
+    bool row_ids = false;          ///< with first_appearance: MIN(foldline_row_id) of `from` instead (no numbering)
     std::string count_column;      ///< pre-counted source: SUM(CAST(count AS DOUBLE PRECISION)) instead of COUNT(*)
     bool singles = true;           ///< one set per stratifier (false: pairs only, with `pooled` unset)
     /// Per stratifier (empty, or one entry per stratifier): ascending cut points of a numeric
@@ -106,7 +122,8 @@ struct CubesQuery {
 /// The same query with the options above: columns outcome, exposure, each stratifier, the
 /// GROUPING flags g0, g1, ..., foldline_rows, and foldline_first_row when first_appearance
 /// (computed over `(SELECT the columns, ROW_NUMBER() OVER () ... FROM <from>) AS numbered`,
-/// one numbering shared by every set, and the result ordered by it).
+/// one numbering shared by every set, or with row_ids as MIN(foldline_row_id) per joint cell;
+/// the result ordered by it).
 std::string cubes_sql(const std::string& from, const CubesQuery& query);
 
 /// One row: COUNT of rows where x and y are both present, AVG(x) and AVG(y) over those rows
@@ -121,9 +138,13 @@ std::string slope_means_sql(const std::string& from, const std::string& x, const
 /// SUM(dy*dy) AS syy with dx = x - mean_x, dy = y - mean_y in double precision, then MIN and
 /// MAX of x and of y (a constant x or y in a stratum is then known exactly, whatever the
 /// rounding of the sums). The means are written with 17 significant digits (exact round
-/// trip); a non-finite mean is written as 0.
+/// trip); a non-finite mean is written as 0. With `cells_first` the sums are first taken per
+/// joint cell of the strata (a parallel aggregate) and the sets then add the cells' sums (and
+/// take MIN/MAX of their MIN/MAX): the same columns, worth it when the cells are far fewer than
+/// the rows (as profile_sql's cells_first).
 std::string slope_moments_sql(const std::string& from, const std::string& x, const std::string& y,
-                              const std::vector<std::string>& strata, double mean_x, double mean_y);
+                              const std::vector<std::string>& strata, double mean_x, double mean_y,
+                              bool cells_first = false);
 
 /// One row for the HC3 robust SE of the pooled slope (as core/stats/regression.h's hc3_slope_se):
 /// SUM(u * u) with u = xt e / (1 - h), xt = x - mean_x, e = (y - mean_y) - slope xt,

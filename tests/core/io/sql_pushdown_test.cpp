@@ -77,6 +77,13 @@ TEST(SqlText, DescribeAndProfile) {
               "GROUPING(\"a b\") AS g0, GROUPING(\"c\") AS g1, COUNT(*) AS n FROM \"t\" AS src GROUP BY GROUPING SETS "
               "((\"a b\"), (\"c\"))) AS distinct_values GROUP BY g0, g1");
     EXPECT_EQ(profile_sql("\"t\" AS src", {}), "SELECT COUNT(*) FROM \"t\" AS src");
+    // Cells first: the same sets over the joint cells, whose counts are summed.
+    EXPECT_EQ(profile_sql("\"t\" AS src", {"a b", "c"}, true),
+              "SELECT g0, g1, COUNT(\"a b\"), SUM(CASE WHEN \"a b\" IS NOT NULL THEN n ELSE 0 END), COUNT(\"c\"), "
+              "SUM(CASE WHEN \"c\" IS NOT NULL THEN n ELSE 0 END), SUM(n) FROM (SELECT \"a b\", \"c\", "
+              "GROUPING(\"a b\") AS g0, GROUPING(\"c\") AS g1, SUM(n) AS n FROM (SELECT \"a b\", \"c\", COUNT(*) AS n "
+              "FROM \"t\" AS src GROUP BY \"a b\", \"c\") AS cells GROUP BY GROUPING SETS ((\"a b\"), (\"c\"))) AS "
+              "distinct_values GROUP BY g0, g1");
 }
 
 TEST(SqlText, CellsGroupEveryColumnAndKeepFirstAppearance) {
@@ -165,6 +172,18 @@ TEST(SqlText, SlopeMomentsAreCentredByTheOverallMeans) {
     EXPECT_NE(m.find("SUM(dx * dy) AS sxy"), std::string::npos);
     EXPECT_NE(m.find("GROUP BY GROUPING SETS ((), (\"region\"))"), std::string::npos);
     EXPECT_NE(m.find("MIN(x) AS x_min, MAX(x) AS x_max"), std::string::npos);
+    // Cells first: the same columns, the sets adding the sums of each joint cell of the strata.
+    const std::string c = slope_moments_sql("x", "spend", "sales", {"region", "tier"}, 0.1, 2, true);
+    EXPECT_NE(c.find("SELECT \"region\", \"tier\", GROUPING(\"region\") AS g0, GROUPING(\"tier\") AS g1, SUM(n) AS n, "
+                     "SUM(sx) AS sx, SUM(sy) AS sy, SUM(sxx) AS sxx, SUM(sxy) AS sxy, SUM(syy) AS syy, "
+                     "MIN(x_min) AS x_min, MAX(x_max) AS x_max, MIN(y_min) AS y_min, MAX(y_max) AS y_max FROM (SELECT "
+                     "\"region\", \"tier\", COUNT(*) AS n, SUM(dx) AS sx"),
+              std::string::npos);
+    EXPECT_NE(c.find(") AS centred GROUP BY \"region\", \"tier\") AS cells GROUP BY GROUPING SETS ((), (\"region\"), "
+                     "(\"tier\"))"),
+              std::string::npos);
+    // No strata: nothing to group first.
+    EXPECT_EQ(slope_moments_sql("x", "a", "b", {}, 1, 2, true), slope_moments_sql("x", "a", "b", {}, 1, 2));
     const std::string nan = slope_moments_sql("x", "a", "b", {}, std::nan(""), 2);
     EXPECT_NE(nan.find("AS DOUBLE PRECISION) - 0 AS dx"), std::string::npos);
 }
@@ -182,6 +201,43 @@ TEST(SqlSourceClause, RowsFilterWrapsTheSourceWithItsCondition) {
     EXPECT_EQ(*from_clause(t), "(SELECT * FROM \"loans\" AS src0 WHERE \"year\" >= 2024) AS src");
     SqlSource q{"", "SELECT * FROM loans", "\"region\" IS NULL"};
     EXPECT_EQ(*from_clause(q), "(SELECT * FROM (SELECT * FROM loans) AS src0 WHERE \"region\" IS NULL) AS src");
+}
+
+TEST(SqlSourceClause, RowIdOfATableIsNamedInADerivedTable) {
+    SqlSource t{"sales.loans", "", "", "ctid"};
+    EXPECT_EQ(*from_clause(t),
+              "(SELECT src0.*, src0.\"ctid\" AS \"foldline_row_id\" FROM \"sales\".\"loans\" AS src0) AS src");
+    t.where = "\"year\" >= 2024";
+    EXPECT_EQ(*from_clause(t), "(SELECT src0.*, src0.\"ctid\" AS \"foldline_row_id\" FROM \"sales\".\"loans\" AS src0 "
+                               "WHERE \"year\" >= 2024) AS src");
+    // A query has no row id: the option is ignored.
+    SqlSource q{"", "SELECT * FROM loans", "", "ctid"};
+    EXPECT_EQ(*from_clause(q), "(SELECT * FROM loans) AS src");
+}
+
+TEST(SqlText, FirstAppearanceByRowIdNeedsNoNumbering) {
+    EXPECT_EQ(cells_sql("r", {"o", "e"}, true, "", true),
+              "SELECT \"o\", \"e\", COUNT(*) AS \"foldline_rows\", MIN(\"foldline_row_id\") AS \"foldline_first_row\" "
+              "FROM r GROUP BY \"o\", \"e\" ORDER BY \"foldline_first_row\"");
+    // Without first appearance the row id is not read.
+    EXPECT_EQ(cells_sql("r", {"o"}, false, "", true), cells_sql("r", {"o"}, false));
+    CubesQuery q;
+    q.outcome = "o";
+    q.exposure = "e";
+    q.strata = {"c"};
+    q.pooled = true;
+    q.first_appearance = true;
+    q.row_ids = true;
+    EXPECT_EQ(cubes_sql("r", q),
+              "SELECT \"o\", \"e\", \"c\", GROUPING(\"c\") AS g0, SUM(\"foldline_rows\") AS \"foldline_rows\", "
+              "MIN(\"foldline_first_row\") AS \"foldline_first_row\" FROM (SELECT \"o\", \"e\", \"c\", COUNT(*) AS "
+              "\"foldline_rows\", MIN(\"foldline_row_id\") AS \"foldline_first_row\" FROM r GROUP BY \"o\", \"e\", "
+              "\"c\") AS cells GROUP BY GROUPING SETS ((\"o\", \"e\"), (\"o\", \"e\", \"c\")) ORDER BY "
+              "\"foldline_first_row\"");
+    EXPECT_EQ(cubes_sql("r", q).find("ROW_NUMBER"), std::string::npos);
+    // A binned column's derived table carries the row id through.
+    q.cuts = {{10}};
+    EXPECT_NE(cubes_sql("r", q).find("ELSE 1 END AS \"c\", \"foldline_row_id\" FROM r) AS binned"), std::string::npos);
 }
 
 }  // namespace
